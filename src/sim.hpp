@@ -1,0 +1,64 @@
+// Simulation in embedded ngspice (libngspice 39), isolated in child processes.
+//
+// Each job runs in its own forked child that loads libngspice with dlopen, loads the cards,
+// runs every analysis they contain, and streams the resulting vectors back over a pipe.
+// A simulator error, crash, ControlledExit or hang therefore never reaches the calling
+// process and never leaks state into the next job. This module is the only one that
+// includes <ngspice/sharedspice.h>.
+#pragma once
+
+#include <chrono>
+#include <complex>
+#include <string>
+#include <vector>
+
+namespace deckscale {
+
+struct SimJob {
+    std::string label;               // names the job in messages (usually the deck path)
+    std::vector<std::string> cards;  // [0] = title, one card per entry (no '\n'), last = ".end"
+    std::string work_dir;            // the child chdir()s here: .include paths resolve as in the deck
+    std::chrono::milliseconds timeout{60000};
+};
+
+enum class VectorKind { voltage, current, frequency, time, other };
+
+struct SimVector {
+    std::string name;  // as ngspice names it: "out", "v(2)", "v1#branch", "frequency", "time"
+    VectorKind kind = VectorKind::other;
+    std::vector<std::complex<double>> values;  // real data is stored with imaginary part 0
+};
+
+struct SimPlot {
+    std::string name;      // ngspice plot type name: "ac1", "op1", "tran1", ...
+    std::string analysis;  // ngspice's plot name: "AC Analysis", "Operating Point", ...
+    std::vector<SimVector> vectors;
+    const SimVector* find(const std::string& name) const;  // case-insensitive; nullptr if absent
+};
+
+enum class SimStatus {
+    ok,
+    load_failed,      // ngspice rejected the deck (its error lines are in message)
+    run_failed,       // the deck loaded but an analysis failed or produced no plot
+    controlled_exit,  // ngspice asked to exit (fatal error or 'quit')
+    crashed,          // the child died from a signal or exited unexpectedly
+    timed_out,        // killed after job.timeout
+};
+
+struct SimOutcome {
+    SimStatus status = SimStatus::ok;
+    std::string message;            // why it failed, quoting ngspice's own words; empty when ok
+    std::vector<std::string> log;   // every line ngspice printed, in order
+    std::vector<SimPlot> plots;     // the plots the run created, in creation order
+};
+
+const char* to_string(SimStatus s);
+
+// Runs one job in a child process and waits for it.
+SimOutcome simulate(const SimJob& job);
+
+// Runs several jobs, at most `parallel` children at a time (0 = number of cores); the
+// outcomes are in the order of the jobs.
+std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel = 0);
+
+}  // namespace deckscale
