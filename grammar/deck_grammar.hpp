@@ -1,0 +1,144 @@
+// PEGTL grammar of an ngspice 39 deck, lexical level. Rules only: no actions live here.
+//
+// The grammar covers every byte of a file: each byte is matched by exactly one token rule
+// (the ones listed in deck_tokens below), so concatenating the tokens gives back the file.
+// Lexical rules follow the ngspice 39 manual, sections 2.1 and 2.3 (titles, comments,
+// continuation lines, field separators); see also shared notes "deck-syntax.md" §1.
+#pragma once
+
+#include <tao/pegtl.hpp>
+
+namespace deckscale::grammar {
+
+namespace pg = tao::pegtl;
+
+// ---- characters and line ends --------------------------------------------------------
+struct eol : pg::seq<pg::opt<pg::one<'\r'>>, pg::one<'\n'>> {};  // LF or CRLF
+struct eolf : pg::sor<eol, pg::eof> {};
+// A carriage return that does not end a line counts as a blank.
+struct blank_char
+    : pg::sor<pg::one<' ', '\t', '\f', '\v'>, pg::seq<pg::one<'\r'>, pg::not_at<pg::one<'\n'>>>> {};
+struct ws : pg::plus<blank_char> {};
+struct rest_of_line : pg::star<pg::not_at<eol>, pg::any> {};
+
+// Field separators (manual 2.1.4.1: blanks, ',', '=', '(', ')').
+struct separator_char : pg::one<' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')'> {};
+
+// ---- comments --------------------------------------------------------------------------
+// A full-line comment starts with '*' (manual 2.3.3); ngspice also ignores lines starting
+// with "//", '$' or ';' (the last two with a warning).
+struct comment_text
+    : pg::seq<pg::sor<pg::one<'*'>, pg::two<'/'>, pg::one<'$'>, pg::one<';'>>, rest_of_line> {};
+struct comment_line : pg::seq<pg::opt<ws>, comment_text, eolf> {};
+struct blank_line : pg::seq<pg::opt<ws>, eol> {};
+struct blank_last_line : pg::seq<ws, pg::eof> {};  // trailing blanks without a final newline
+
+// End-of-line comment: ';' or "//" anywhere, '$' at the start of a field (i.e. after a
+// blank, tab or comma) (manual 2.3.4).
+struct eol_comment_start : pg::sor<pg::one<';'>, pg::two<'/'>, pg::one<'$'>> {};
+struct eol_comment : pg::seq<eol_comment_start, rest_of_line> {};
+
+// ---- continuation ----------------------------------------------------------------------
+// A following line that starts with '+' continues the card; comment and blank lines may
+// stand between (manual 2.3.5). A line ending in two backslashes continues too.
+struct plus_marker : pg::one<'+'> {};
+struct continuation_gap
+    : pg::seq<pg::opt<ws>, pg::opt<eol_comment>, eol, pg::star<pg::sor<blank_line, comment_line>>,
+              pg::opt<ws>, plus_marker> {};
+struct backslash_marker : pg::two<'\\'> {};
+struct backslash_gap : pg::seq<backslash_marker, pg::opt<ws>, eol> {};
+// Checked first without actions, so that tokens are recorded only for a real continuation.
+struct continuation : pg::sor<pg::seq<pg::at<continuation_gap>, continuation_gap>,
+                              pg::seq<pg::at<backslash_gap>, backslash_gap>> {};
+
+// ---- fields ------------------------------------------------------------------------------
+// Inside {...} and '...' a value may run over continuation lines.
+struct brace_close : pg::one<'}'> {};
+struct brace_body;
+struct brace_nested : pg::seq<pg::one<'{'>, brace_body, brace_close> {};
+struct brace_body
+    : pg::star<pg::sor<continuation, brace_nested, pg::seq<pg::not_at<pg::sor<eol, pg::one<'}'>>>,
+                                                           pg::not_one<'{'>>>> {};
+// The inner rules carry no tokens of their own: the whole {...} is one token.
+struct brace_expr : pg::seq<pg::one<'{'>, pg::disable<pg::must<brace_body, brace_close>>> {};
+
+struct squote_close : pg::one<'\''> {};
+struct squote_expr
+    : pg::seq<pg::one<'\''>,
+              pg::disable<pg::must<
+                  pg::star<pg::sor<continuation, pg::seq<pg::not_at<eol>, pg::not_one<'\''>>>>,
+                  squote_close>>> {};
+
+struct dquote_close : pg::one<'"'> {};
+struct dquote_string
+    : pg::seq<pg::one<'"'>, pg::must<pg::star<pg::not_at<eol>, pg::not_one<'"'>>, dquote_close>> {};
+
+struct equals : pg::one<'='> {};
+struct lparen : pg::one<'('> {};
+struct rparen : pg::one<')'> {};
+struct comma : pg::one<','> {};
+
+// A word: any run of characters that are not separators, quotes, braces or comment starts.
+struct word_char
+    : pg::seq<pg::not_at<pg::two<'/'>>,
+              pg::not_one<' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'>> {};
+struct word : pg::plus<word_char> {};
+
+struct field : pg::sor<brace_expr, squote_expr, dquote_string, equals, lparen, rparen, comma, word> {};
+
+// A field that is none of the above: a stray '}' is taken by word; only an opening quote
+// or brace without its partner fails, and those raise their own messages.
+struct card_item : pg::sor<ws, continuation, pg::seq<pg::not_at<eol_comment_start>, field>> {};
+
+// ---- cards -----------------------------------------------------------------------------
+template <char... Cs>
+struct keyword : pg::seq<pg::istring<Cs...>, pg::not_at<word_char>> {};
+
+struct end_keyword : keyword<'.', 'e', 'n', 'd'> {};
+struct control_keyword : keyword<'.', 'c', 'o', 'n', 't', 'r', 'o', 'l'> {};
+struct endc_keyword : keyword<'.', 'e', 'n', 'd', 'c'> {};
+
+struct card_first : pg::seq<pg::not_at<eol_comment_start>, pg::not_at<plus_marker>, field> {};
+struct card : pg::seq<pg::opt<ws>, card_first, pg::star<card_item>, pg::opt<eol_comment>, eolf> {};
+
+// .control ... .endc is kept as one opaque token (its commands are never interpreted).
+struct endc_line : pg::seq<pg::opt<ws>, endc_keyword, rest_of_line> {};
+struct control_text
+    : pg::seq<pg::opt<ws>, control_keyword, rest_of_line, eol,
+              pg::star<pg::not_at<endc_line>, rest_of_line, eol>, endc_line> {};
+struct control_body : pg::disable<pg::must<control_text>> {};  // one token
+struct control_block : pg::seq<pg::at<pg::opt<ws>, control_keyword>, control_body, eolf> {};
+
+// A '+' line with no card before it.
+struct orphan_plus : pg::seq<pg::opt<ws>, plus_marker> {};
+struct orphan_plus_error : orphan_plus {};  // only ever raised, see deck_errors.hpp
+struct orphan_continuation : pg::seq<pg::at<orphan_plus>, pg::raise<orphan_plus_error>> {};
+
+// Top-level lines. Each alternative is tried without actions first, so that a partial
+// match never leaves tokens behind; a card cannot fail once its first field matched.
+template <typename Rule>
+struct guarded : pg::seq<pg::at<Rule>, Rule> {};
+struct blank_card : guarded<pg::sor<blank_line, blank_last_line>> {};
+struct comment_card : guarded<comment_line> {};
+struct control_card : control_block {};
+struct line_item
+    : pg::sor<blank_card, comment_card, control_card, orphan_continuation, card> {};
+
+// Everything after the .end card is kept verbatim (manual 2.3.2).
+struct after_end : pg::plus<pg::any> {};
+struct end_card : pg::seq<pg::at<pg::opt<ws>, end_keyword>, card, pg::opt<after_end>> {};
+
+struct body : pg::seq<pg::star<pg::not_at<pg::opt<ws>, end_keyword>, pg::not_at<pg::eof>, line_item>,
+                      pg::opt<end_card>, pg::eof> {};
+
+struct bom : pg::string<'\xEF', '\xBB', '\xBF'> {};
+struct title_text : rest_of_line {};
+// The first line of a deck is its title, whatever it contains (manual 2.3.1).
+struct title_line : pg::seq<title_text, eolf> {};
+
+// A top-level deck: title line first.
+struct deck_file : pg::seq<pg::opt<bom>, title_line, body> {};
+// An included file (.include / .lib): no title line.
+struct include_file : pg::seq<pg::opt<bom>, body> {};
+
+}  // namespace deckscale::grammar

@@ -1,0 +1,119 @@
+#include "card_reader.hpp"
+
+#include <vector>
+
+#include "deck_errors.hpp"
+#include "deck_grammar.hpp"
+
+namespace deckscale {
+namespace {
+
+namespace pg = tao::pegtl;
+namespace g = grammar;
+
+struct ReaderState {
+    const SourceFile* file;
+    const CardVisitor* visit;
+    const char* base;
+    std::vector<Token> tokens;
+    std::vector<Token> fields;
+
+    void push(TokenKind kind, const char* b, const char* e) {
+        Token t{kind, static_cast<std::uint32_t>(b - base), static_cast<std::uint32_t>(e - base)};
+        tokens.push_back(t);
+        if (is_field(kind)) fields.push_back(t);
+    }
+    void emit(CardKind kind) {
+        if (tokens.empty()) return;
+        Card c{kind, file, tokens, fields};
+        (*visit)(c);
+        tokens.clear();
+        fields.clear();
+    }
+};
+
+template <typename Rule>
+struct action : pg::nothing<Rule> {};
+
+template <TokenKind K>
+struct token_action {
+    template <typename Input>
+    static void apply(const Input& in, ReaderState& st) {
+        st.push(K, in.begin(), in.end());
+    }
+};
+
+template <> struct action<g::bom> : token_action<TokenKind::bom> {};
+template <> struct action<g::ws> : token_action<TokenKind::whitespace> {};
+template <> struct action<g::eol> : token_action<TokenKind::line_end> {};
+template <> struct action<g::comment_text> : token_action<TokenKind::comment> {};
+template <> struct action<g::eol_comment> : token_action<TokenKind::comment> {};
+template <> struct action<g::plus_marker> : token_action<TokenKind::continuation> {};
+template <> struct action<g::backslash_marker> : token_action<TokenKind::continuation> {};
+template <> struct action<g::title_text> : token_action<TokenKind::title> {};
+template <> struct action<g::control_body> : token_action<TokenKind::control> {};
+template <> struct action<g::word> : token_action<TokenKind::word> {};
+template <> struct action<g::brace_expr> : token_action<TokenKind::brace> {};
+template <> struct action<g::squote_expr> : token_action<TokenKind::squote> {};
+template <> struct action<g::dquote_string> : token_action<TokenKind::dquote> {};
+template <> struct action<g::equals> : token_action<TokenKind::equals> {};
+template <> struct action<g::lparen> : token_action<TokenKind::lparen> {};
+template <> struct action<g::rparen> : token_action<TokenKind::rparen> {};
+template <> struct action<g::comma> : token_action<TokenKind::comma> {};
+
+template <CardKind K>
+struct card_action {
+    template <typename Input>
+    static void apply(const Input&, ReaderState& st) {
+        st.emit(K);
+    }
+};
+
+template <> struct action<g::title_line> : card_action<CardKind::title> {};
+template <> struct action<g::blank_card> : card_action<CardKind::blank> {};
+template <> struct action<g::comment_card> : card_action<CardKind::comment> {};
+template <> struct action<g::control_card> : card_action<CardKind::control> {};
+
+template <>
+struct action<g::card> {
+    template <typename Input>
+    static void apply(const Input&, ReaderState& st) {
+        bool dot = !st.fields.empty() && st.base[st.fields.front().begin] == '.';
+        st.emit(dot ? CardKind::dot : CardKind::element);
+    }
+};
+
+template <>
+struct action<g::after_end> {
+    template <typename Input>
+    static void apply(const Input& in, ReaderState& st) {
+        st.push(TokenKind::after_end, in.begin(), in.end());
+        st.emit(CardKind::after_end);
+    }
+};
+
+template <typename Grammar>
+void run(const SourceFile& file, const CardVisitor& visit) {
+    ReaderState st{&file, &visit, file.text().data(), {}, {}};
+    pg::memory_input<pg::tracking_mode::lazy, pg::eol::lf_crlf> in(file.text(), file.path());
+    try {
+        pg::parse<Grammar, action, g::error_control>(in, st);
+    } catch (const pg::parse_error& e) {
+        auto offset = static_cast<std::uint32_t>(e.positions().front().byte);
+        std::string msg(e.message());
+        throw DeckError(file.diagnose(Severity::error, offset, 1, msg));
+    }
+    // Anything left (only possible for a file that holds nothing but a byte-order mark).
+    st.emit(CardKind::blank);
+}
+
+}  // namespace
+
+void read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit) {
+    if (role == FileRole::deck)
+        run<g::deck_file>(file, visit);
+    else
+        run<g::include_file>(file, visit);
+}
+
+}  // namespace deckscale

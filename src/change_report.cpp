@@ -1,0 +1,58 @@
+#include "change_report.hpp"
+
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+#include "expression.hpp"
+
+namespace deckscale {
+
+std::string change_list_text(const Deck& deck, const ScaleResult& result) {
+    std::string out;
+    for (const auto& c : result.changes) {
+        const SourceFile& f = *deck.files[c.file].source;
+        auto pos = f.position(c.offset);
+        out += fmt::format("{}:{}:{}  {}  {}  {} -> {}  x{}{}\n", f.path(), pos.line, pos.column,
+                           c.element, c.field, c.old_text.empty() ? "(none)" : c.old_text,
+                           c.new_text, factor_text(c.factor),
+                           c.unit.empty() || c.unit == "-" ? "" : " [" + c.unit + "]");
+    }
+    return out;
+}
+
+namespace {
+
+nlohmann::json diagnostics_json(const std::vector<Diagnostic>& ds) {
+    auto arr = nlohmann::json::array();
+    for (const auto& d : ds)
+        arr.push_back({{"file", d.file}, {"line", d.line}, {"column", d.column}, {"message", d.message}});
+    return arr;
+}
+
+}  // namespace
+
+std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleFactors factors,
+                             const OutputPlan& plan) {
+    nlohmann::json j;
+    j["km"] = factors.km;
+    j["kf"] = factors.kf;
+    auto files = nlohmann::json::array();
+    for (const auto& f : plan.files)
+        files.push_back({{"input", deck.files[f.source_file].source->path()},
+                         {"output", f.path.empty() ? "-" : f.path}});
+    j["files"] = files;
+    auto changes = nlohmann::json::array();
+    for (const auto& c : result.changes) {
+        const SourceFile& f = *deck.files[c.file].source;
+        auto pos = f.position(c.offset);
+        changes.push_back({{"file", f.path()}, {"line", pos.line}, {"column", pos.column},
+                           {"element", c.element}, {"field", c.field}, {"unit", c.unit},
+                           {"old", c.old_text}, {"new", c.new_text}, {"factor", c.factor}});
+    }
+    j["changes"] = changes;
+    j["unscalable"] = diagnostics_json(result.unscalable);
+    j["notes"] = diagnostics_json(result.notes);
+    return j.dump(2) + "\n";
+}
+
+}  // namespace deckscale

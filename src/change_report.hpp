@@ -1,0 +1,19 @@
+// The change list of a scaling run: one line per rewritten value, and a JSON form.
+#pragma once
+
+#include <string>
+
+#include "deck.hpp"
+#include "scale_output.hpp"
+#include "scaler.hpp"
+
+namespace deckscale {
+
+// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]".
+std::string change_list_text(const Deck& deck, const ScaleResult& result);
+
+// The whole run as JSON (factors, files written, changes, unscalable items, notes).
+std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleFactors factors,
+                             const OutputPlan& plan);
+
+}  // namespace deckscale

@@ -1,0 +1,84 @@
+#include "cli.hpp"
+
+#include <CLI/CLI.hpp>
+#include <fmt/format.h>
+
+#include "factor.hpp"
+
+namespace deckscale {
+namespace {
+
+const char* kAbout =
+    "deckscale: move a SPICE deck to a new impedance level (Km) and frequency (Kf), and\n"
+    "prove by simulation that the rewritten deck behaves like the original.";
+
+// Checks a factor text and stores its value; returns an error text or "".
+std::string take_factor(const std::string& name, const std::string& text, double& value) {
+    auto v = parse_factor(text);
+    if (!v) return fmt::format("{}: '{}' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)", name, text);
+    if (!(*v > 0)) return fmt::format("{}: the factor must be positive, got '{}'", name, text);
+    value = *v;
+    return "";
+}
+
+}  // namespace
+
+Invocation parse_command_line(const std::vector<std::string>& args) {
+    Invocation inv;
+    CLI::App app(kAbout, "deckscale");
+    app.set_help_flag("-h,--help", "Show this help");
+    app.require_subcommand(0, 1);
+    bool version = false;
+    app.add_flag("--version", version, "Show the version");
+
+    auto* scale = app.add_subcommand("scale", "Rewrite every unit-carrying value of a deck by Km and Kf");
+    ScaleOptions& s = inv.scale;
+    scale->add_option("DECK", s.deck, "The deck to scale (it is never modified unless -i)")->required();
+    scale->add_option("--km", s.km_text, "Impedance factor: new/old impedance (e.g. 50, 1k, 1/50)");
+    scale->add_option("--kf", s.kf_text, "Frequency factor: new/old frequency (e.g. 2*pi*10meg)");
+    scale->add_option("-o,--output", s.output, "Write the scaled deck here (default: standard output)");
+    scale->add_flag("-i,--in-place", s.in_place, "Replace DECK itself (written to a temporary file, then renamed)");
+    scale->add_option("--digits", s.digits, "Significant digits of rewritten values (default 7)")
+        ->check(CLI::Range(3, 17));
+    scale->add_flag("--changes", s.list_changes, "List every rewritten value");
+    scale->add_option("--changes-json", s.changes_json, "Write the change list as JSON to this file");
+    scale->add_flag("--leave-unscalable", s.leave_unscalable,
+                    "Write the deck even if some items cannot be scaled; each is left as it was and "
+                    "marked by a comment line");
+    scale->add_flag("--flatten", s.flatten, "Write one self-contained deck with every include inlined");
+
+    std::vector<std::string> reversed(args.rbegin(), args.rend());
+    try {
+        app.parse(reversed);
+    } catch (const CLI::CallForHelp&) {
+        inv.what = Invocation::What::help;
+        inv.text = app.get_subcommands().empty() ? app.help() : app.get_subcommands().front()->help();
+        return inv;
+    } catch (const CLI::ParseError& e) {
+        inv.what = Invocation::What::usage_error;
+        inv.text = e.what();
+        return inv;
+    }
+    if (version) {
+        inv.what = Invocation::What::version;
+        inv.text = fmt::format("deckscale {}\n", DECKSCALE_VERSION);
+        return inv;
+    }
+    auto usage = [&](std::string text) {
+        inv.what = Invocation::What::usage_error;
+        inv.text = std::move(text);
+        return inv;
+    };
+    if (scale->parsed()) {
+        inv.what = Invocation::What::scale;
+        if (auto err = take_factor("--km", s.km_text, s.km); !err.empty()) return usage(err);
+        if (auto err = take_factor("--kf", s.kf_text, s.kf); !err.empty()) return usage(err);
+        if (s.in_place && !s.output.empty()) return usage("-i/--in-place and -o/--output exclude each other");
+        return inv;
+    }
+    inv.what = Invocation::What::help;
+    inv.text = app.help();
+    return inv;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,49 @@
+// Command-line options: a pure function from arguments to what to do.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace deckscale {
+
+struct ScaleOptions {
+    std::string deck;
+    double km = 1;
+    double kf = 1;
+    std::string km_text = "1", kf_text = "1";  // as the user wrote them
+    std::string output;            // empty: standard output
+    bool in_place = false;
+    int digits = 7;
+    bool list_changes = false;     // --changes
+    std::string changes_json;      // --changes-json FILE
+    bool leave_unscalable = false; // --leave-unscalable
+    bool flatten = false;          // --flatten
+    bool verify = false;           // --verify (scale, then verify the pair)
+};
+
+struct VerifyOptions {
+    std::string original;
+    std::string scaled;
+    bool factors_given = false;
+    double km = 1, kf = 1;
+    std::string km_text, kf_text;
+    std::string json;      // --json REPORT
+    std::string plot;      // --plot FILE.svg
+    std::vector<std::string> sweep;  // --sweep dec N F1 F2
+    std::string drive;     // --drive SOURCE: the source that gets "AC 1"
+    double tolerance = 1e-6;        // relative, AC and operating point
+    double tran_tolerance = 1e-3;   // relative to each waveform's peak
+    double timeout_s = 60;
+};
+
+struct Invocation {
+    enum class What { help, version, scale, verify, usage_error } what = What::help;
+    std::string text;  // help text or the usage error
+    ScaleOptions scale;
+    VerifyOptions verify;
+};
+
+// args excludes the program name.
+Invocation parse_command_line(const std::vector<std::string>& args);
+
+}  // namespace deckscale

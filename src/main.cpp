@@ -1,0 +1,29 @@
+// deckscale: a shim that parses the command line, runs one command, returns its exit code.
+#include <iostream>
+#include <string>
+#include <vector>
+
+#include "cli.hpp"
+#include "exit_codes.hpp"
+#include "scale_command.hpp"
+
+int main(int argc, char** argv) {
+    using namespace deckscale;
+    std::vector<std::string> args(argv + 1, argv + argc);
+    Invocation inv = parse_command_line(args);
+    switch (inv.what) {
+        case Invocation::What::help:
+        case Invocation::What::version:
+            std::cout << inv.text;
+            return exit_ok;
+        case Invocation::What::usage_error:
+            std::cerr << "deckscale: error: " << inv.text << "\n"
+                      << "Run 'deckscale --help' for usage.\n";
+            return exit_bad_input;
+        case Invocation::What::scale:
+            return run_scale(inv.scale, std::cout, std::cerr);
+        case Invocation::What::verify:
+            break;
+    }
+    return exit_bad_input;
+}

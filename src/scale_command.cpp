@@ -1,0 +1,104 @@
+#include "scale_command.hpp"
+
+#include <filesystem>
+
+#include <fmt/format.h>
+
+#include "change_report.hpp"
+#include "deck.hpp"
+#include "exit_codes.hpp"
+#include "expression.hpp"
+#include "output_file.hpp"
+#include "scale_output.hpp"
+#include "scaler.hpp"
+
+namespace deckscale {
+namespace {
+
+namespace fs = std::filesystem;
+
+bool same_file(const std::string& a, const std::string& b) {
+    std::error_code ec;
+    return fs::exists(a, ec) && fs::exists(b, ec) && fs::equivalent(a, b, ec);
+}
+
+// Cautions for anyone who builds hardware from a rescaled deck.
+std::string cautions(ScaleFactors f) {
+    std::string s;
+    if (f.km == 1 && f.kf == 1) return s;
+    s += "deckscale: caution: the values written are ideal. Before building, choose real parts\n"
+         "  and check their power, voltage and current ratings at the new impedance level.\n";
+    if (f.km < 1)
+        s += fmt::format(
+            "  Km = {} < 1: every current grows by 1/Km = {} and every resistor's power at the\n"
+            "  same voltage by the same factor.\n",
+            factor_text(f.km), factor_text(1 / f.km));
+    s += "  For mains-connected or high-voltage circuits, local codes and licensed practice govern.\n";
+    return s;
+}
+
+}  // namespace
+
+int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
+    std::string output = o.in_place ? o.deck : o.output;
+    if (!o.in_place && !output.empty() && same_file(output, o.deck)) {
+        err << fmt::format("deckscale: error: '{}' is the input deck; refusing to overwrite it "
+                           "(use -i/--in-place for that)\n", output);
+        return exit_bad_input;
+    }
+    DiskFileSystem disk;
+    ScaleSettings settings;
+    settings.factors = {o.km, o.kf};
+    settings.digits = o.digits;
+    settings.mark_unscalable = o.leave_unscalable;
+    try {
+        Deck deck = load_deck(o.deck, disk);
+        err << render(deck.warnings);
+        ScaleResult result = scale_deck(deck, settings);
+        err << render(result.notes);
+        if (!result.unscalable.empty()) {
+            err << render(result.unscalable);
+            if (!o.leave_unscalable) {
+                err << fmt::format(
+                    "deckscale: {} item(s) cannot be scaled exactly; nothing was written "
+                    "(--leave-unscalable writes the deck anyway, marking each item)\n",
+                    result.unscalable.size());
+                return exit_refused;
+            }
+        }
+        OutputPlan plan = plan_output(deck, result, output, o.flatten);
+        for (const auto& f : plan.files) {
+            if (f.path.empty()) {
+                out << f.content;
+                out.flush();
+                continue;
+            }
+            if (auto e = write_file_atomically(f.path, f.content); !e.empty()) {
+                err << "deckscale: error: " << e << "\n";
+                return exit_bad_input;
+            }
+        }
+        if (o.list_changes) (output.empty() ? err : out) << change_list_text(deck, result);
+        if (!o.changes_json.empty()) {
+            if (auto e = write_file_atomically(o.changes_json,
+                                               change_list_json(deck, result, settings.factors, plan));
+                !e.empty()) {
+                err << "deckscale: error: " << e << "\n";
+                return exit_bad_input;
+            }
+        }
+        if (!output.empty()) {
+            err << fmt::format("deckscale: {} value(s) rewritten (Km = {}, Kf = {}); wrote", 
+                               result.changes.size(), factor_text(o.km), factor_text(o.kf));
+            for (const auto& f : plan.files) err << " " << f.path;
+            err << "\n";
+        }
+        err << cautions(settings.factors);
+    } catch (const DeckError& e) {
+        err << render(e.diagnostic());
+        return exit_bad_input;
+    }
+    return exit_ok;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,274 @@
+// Card handlers for dot cards (analyses, options, initial conditions, measurements), model
+// cards and .control blocks (ngspice 39 manual ch. 15; shared notes "scaling-rules.md" §3-§6).
+#include <fmt/format.h>
+
+#include "expression.hpp"
+#include "rules.hpp"
+#include "scale_pass.hpp"
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+void scale_positional(ScalePass& p, const std::vector<Atom>& atoms, std::string_view scope,
+                      std::size_t skip = 0) {
+    std::size_t n = 0;
+    for (std::size_t i = skip; i < atoms.size(); ++i) {
+        if (atoms[i].key) continue;
+        ++n;
+        auto u = find_rule(scope, fmt::format("#{}", n));
+        if (!u) continue;  // words such as 'uic' or output names
+        if (!p.is_value_token(*atoms[i].value) && *u == Unit::none) continue;  // 'dec', 'lin'
+        p.scale_value(*atoms[i].value, *u, fmt::format("#{}", n));
+    }
+}
+
+// Sweep after a dec|oct|lin keyword: points, fstart, fstop [, extra].
+void scale_sweep(ScalePass& p, const std::vector<Atom>& atoms, std::string_view scope) {
+    for (std::size_t i = 0; i < atoms.size(); ++i) {
+        if (atoms[i].key) continue;
+        std::string w = to_lower(p.text(*atoms[i].value));
+        if (w != "dec" && w != "oct" && w != "lin") continue;
+        const char* names[] = {"points", "fstart", "fstop", "summary"};
+        for (std::size_t k = 0; k < 4 && i + 1 + k < atoms.size(); ++k) {
+            const Atom& a = atoms[i + 1 + k];
+            if (a.key || !p.is_value_token(*a.value)) break;
+            auto u = find_rule(scope, names[k]);
+            if (u) p.scale_value(*a.value, *u, names[k]);
+        }
+        return;
+    }
+}
+
+Unit dc_sweep_unit(ScalePass& p, const Token& src, bool& known) {
+    std::string s = to_lower(p.text(src));
+    known = true;
+    if (s == "temp") return Unit::none;
+    switch (s.empty() ? '\0' : s[0]) {
+        case 'v': return Unit::volt;
+        case 'i': return Unit::ampere;
+        case 'r': return Unit::ohm;
+        default: known = false; return Unit::none;
+    }
+}
+
+// Unit of an output variable named by the word before '(' ("v", "vdb", "i", ...).
+std::optional<Unit> output_unit(std::string_view w) {
+    std::string s = to_lower(w);
+    if (s == "v" || s == "vm" || s == "vr" || s == "vi") return Unit::volt;
+    if (s == "i" || s == "im" || s == "ir" || s == "ii") return Unit::ampere;
+    if (s == "vdb" || s == "vp" || s == "idb" || s == "ip") return Unit::none;
+    return std::nullopt;
+}
+
+void scale_meas(ScalePass& p) {
+    const Card& c = p.card();
+    const auto& fl = c.fields;
+    if (fl.size() < 2) return;
+    std::string analysis = to_lower(c.field_text(1));
+    std::string scope = ".meas:" + analysis;
+    std::optional<Unit> last_output;  // unit of the most recent v(...)/i(...)
+    for (std::size_t i = 2; i < fl.size(); ++i) {
+        if (fl[i].kind == TokenKind::word && i + 1 < fl.size() && fl[i + 1].kind == TokenKind::lparen) {
+            if (auto u = output_unit(c.field_text(i))) last_output = u;
+            continue;
+        }
+        if (fl[i].kind != TokenKind::equals || i + 1 >= fl.size()) continue;
+        const Token& value = fl[i + 1];
+        const Token& before = fl[i - 1];
+        if (before.kind == TokenKind::rparen) {
+            // when v(x)=value: the value has the unit of the output variable.
+            if (p.is_value_token(value) && last_output) p.scale_value(value, *last_output, "when");
+            continue;
+        }
+        if (before.kind != TokenKind::word) continue;
+        std::string key = to_lower(c.text(before));
+        if (key == "param") {
+            p.unscalable(before, "a .meas param= expression: its unit depends on the expression");
+            continue;
+        }
+        if (key == "val") {
+            if (last_output && p.is_value_token(value)) p.scale_value(value, *last_output, "val");
+            else if (p.is_value_token(value))
+                p.unscalable(value, "VAL= of a measurement whose quantity is not v() or i()");
+            continue;
+        }
+        auto u = find_rule(scope, key);
+        if (!u) u = find_rule(".meas", key);
+        if (u) {
+            if (p.is_value_token(value)) p.scale_value(value, *u, key);
+        } else if (key == "at" || key == "from" || key == "to" || key == "td") {
+            p.unscalable(before, fmt::format("{}= in a .meas {} (sweep units are not known)", key, analysis));
+        }
+    }
+}
+
+}  // namespace
+
+void scale_dot_card(ScalePass& p, const std::string& kw) {
+    const Card& c = p.card();
+    auto atoms = atoms_of(c, 1);
+    if (kw == ".ac" || kw == ".disto" || kw == ".sp") {
+        scale_positional(p, atoms, kw);
+    } else if (kw == ".tran") {
+        scale_positional(p, atoms, ".tran");
+    } else if (kw == ".four") {
+        if (!atoms.empty() && !atoms[0].key) p.scale_value(*atoms[0].value, Unit::hertz, "freq");
+    } else if (kw == ".pss") {
+        scale_positional(p, atoms, ".pss");
+    } else if (kw == ".noise") {
+        scale_sweep(p, atoms, ".noise");
+    } else if (kw == ".sens") {
+        scale_sweep(p, atoms, ".sens");
+    } else if (kw == ".dc") {
+        // .dc src start stop step [src2 start2 stop2 step2]
+        for (std::size_t i = 0; i + 3 < atoms.size() + 0; i += 4) {
+            if (atoms[i].key) break;
+            bool known = false;
+            Unit u = dc_sweep_unit(p, *atoms[i].value, known);
+            if (!known) {
+                p.unscalable(*atoms[i].value, fmt::format("DC sweep of '{}': only V, I, R sources "
+                                                          "and TEMP have a known unit", p.text(*atoms[i].value)));
+                continue;
+            }
+            for (std::size_t k = 1; k <= 3; ++k)
+                p.scale_value(*atoms[i + k].value, u, fmt::format("sweep {}", k));
+        }
+    } else if (kw == ".meas" || kw == ".measure") {
+        scale_meas(p);
+    } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
+        for (const auto& a : atoms) {
+            if (!a.key || !a.value) continue;
+            std::string key = to_lower(p.text(*a.key));
+            auto u = find_rule(".options", key);
+            if (u) {
+                if (p.is_value_token(*a.value)) p.scale_value(*a.value, *u, key);
+            } else if (p.is_number(*a.value)) {
+                p.note(*a.key, fmt::format("option '{}' is not in the rule table; its value is "
+                                           "left unchanged", p.text(*a.key)));
+            }
+        }
+    } else if (kw == ".ic" || kw == ".nodeset") {
+        for (std::size_t i = 0; i + 1 < c.fields.size(); ++i)
+            if (c.fields[i].kind == TokenKind::equals && p.is_value_token(c.fields[i + 1])) {
+                // v(n)=value: voltages; an i(...) initial condition would be a current.
+                bool current = false;
+                for (std::size_t j = i; j-- > 1;)
+                    if (c.fields[j].kind == TokenKind::word) {
+                        current = istarts_with(c.field_text(j), "i") && c.field_text(j).size() == 1;
+                        break;
+                    }
+                p.scale_value(c.fields[i + 1], current ? Unit::ampere : Unit::volt, "value");
+            }
+    } else if (kw == ".temp") {
+        for (const auto& a : atoms)
+            if (!a.key) p.scale_value(*a.value, Unit::none, "value");
+    }
+    // Everything else (.param .func .subckt .ends .include .lib .global .save .print .op
+    // .pz .tf .end ...) carries no unit-bearing literal of its own: parameter uses are
+    // scaled where they are used.
+}
+
+void scale_model(ScalePass& p) {
+    const Card& c = p.card();
+    if (c.fields.size() < 3) return;
+    std::string type = to_lower(c.field_text(2));
+    if (type == "res") type = "r";
+    std::string scope = "model:" + type;
+    static const char* semis[] = {"d", "npn", "pnp", "njf", "pjf", "nmos", "pmos", "nmf", "pmf", "vdmos"};
+    for (const char* s : semis)
+        if (type == s) {
+            p.unscalable(c.fields[2], fmt::format("semiconductor model '{}' ({}) is not scaled by this "
+                                                  "version", c.field_text(1), c.field_text(2)));
+            return;
+        }
+    bool any_rule = false;
+    for (const auto& r : rule_table())
+        if (r.scope == scope) {
+            any_rule = true;
+            break;
+        }
+    if (!any_rule) {
+        p.unscalable(c.fields[2], fmt::format("model type '{}' has no scaling rules (XSPICE and "
+                                              "other model-specific types are not known)", c.field_text(2)));
+        return;
+    }
+    auto atoms = atoms_of(c, 3);
+    std::set<std::string> given;
+    for (const auto& a : atoms) {
+        if (!a.key) continue;  // flags
+        std::string key = to_lower(p.text(*a.key));
+        given.insert(key);
+        auto u = find_rule(scope, key);
+        if (!u) {
+            p.unscalable(*a.key, fmt::format("model parameter '{}' of a '{}' model is not in the "
+                                             "rule table", p.text(*a.key), type));
+            continue;
+        }
+        if (!a.value) continue;
+        if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace)
+            p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u));
+        else
+            p.scale_value(*a.value, *u, key);
+    }
+    // Defaults with units must be written out scaled (ngspice 39 manual 3.3.15-16: switch
+    // RON defaults to 1 Ohm and ROFF to 1/GMIN; 6.3: URC FMAX 1G Hz, RPERL 1k Ohm/m,
+    // CPERL 1e-15 F/m -- the URC defaults are from memory of that table).
+    struct Default {
+        const char* scope;
+        const char* key;
+        double value;
+        Unit unit;
+    };
+    const Default defaults[] = {
+        {"model:sw", "ron", 1, Unit::ohm},      {"model:sw", "roff", 1 / p.facts().gmin, Unit::ohm},
+        {"model:csw", "ron", 1, Unit::ohm},     {"model:csw", "roff", 1 / p.facts().gmin, Unit::ohm},
+        {"model:urc", "fmax", 1e9, Unit::hertz}, {"model:urc", "rperl", 1000, Unit::ohm},
+        {"model:urc", "cperl", 1e-15, Unit::farad},
+    };
+    // Insert before a closing ')' if the parameters are in parentheses, else at the end.
+    const Token* last = &c.fields.back();
+    std::uint32_t at = last->kind == TokenKind::rparen ? last->begin : last->end;
+    std::string added;
+    double first_factor = 1;
+    for (const auto& d : defaults) {
+        if (scope != d.scope || given.count(d.key)) continue;
+        double k = factor_of(d.unit, p.factors());
+        if (k == 1) continue;
+        added += fmt::format(" {}={}", d.key, format_plain(d.value * k, 7));
+        first_factor = k;
+    }
+    if (!added.empty()) {
+        if (last->kind == TokenKind::rparen) added = added.substr(1) + " ";
+        p.insert(at, added, "defaults written out", first_factor);
+    }
+}
+
+void scale_control_block(ScalePass& p) {
+    const Card& c = p.card();
+    const Token& t = c.tokens.front().kind == TokenKind::control ? c.tokens.front() : c.tokens[0];
+    // Any number in the script (an analysis, an alter, a let) would need the same rules.
+    std::string_view s = c.text(t);
+    std::size_t pos = s.find('\n');
+    std::string_view body = pos == std::string_view::npos ? std::string_view{} : s.substr(pos + 1);
+    bool has_number = false;
+    std::size_t i = 0;
+    while (i < body.size() && !has_number) {
+        // Split into words at blanks and separators; skip v(...)/i(...) node names.
+        while (i < body.size() && std::string_view(" \t\r\n,=()").find(body[i]) != std::string_view::npos) ++i;
+        std::size_t j = i;
+        while (j < body.size() && std::string_view(" \t\r\n,=()").find(body[j]) == std::string_view::npos) ++j;
+        std::string_view w = body.substr(i, j - i);
+        bool after_paren = i > 0 && body[i - 1] == '(';
+        if (!w.empty() && !after_paren && !istarts_with(w, ".endc") &&
+            parse_spice_number(w).problem != NumberProblem::not_a_number)
+            has_number = true;
+        i = j;
+    }
+    if (has_number)
+        p.unscalable(t, ".control block with numbers: its commands are not rewritten; move "
+                        "analyses to dot cards or scale the script by hand");
+}
+
+}  // namespace deckscale

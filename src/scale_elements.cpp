@@ -1,0 +1,243 @@
+// Card handlers for R, C, L, K, controlled sources (E F G H B), lines and switches.
+#include <fmt/format.h>
+
+#include "rules.hpp"
+#include "scale_pass.hpp"
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+// Scales each key=value atom by the rule table of `scope`; unknown keys are unscalable.
+void scale_keyed(ScalePass& p, const Atom& a, std::string_view scope) {
+    std::string key = to_lower(p.card().text(*a.key));
+    auto unit = find_rule(scope, key);
+    if (!unit) {
+        p.unscalable(*a.key, fmt::format("parameter '{}' is not in the rule table for this card, "
+                                         "so its unit is unknown", p.text(*a.key)));
+        return;
+    }
+    if (!a.value) p.fail(*a.key, fmt::format("parameter '{}' has no value", p.text(*a.key)));
+    if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace) {
+        p.scale_expression(a.value->begin, a.value->end, factor_of(*unit, p.factors()), key);
+        return;
+    }
+    p.scale_value(*a.value, *unit, key);
+}
+
+// Degree of the k-th coefficient (0-based) of an nd-dimensional SPICE POLY: the terms are
+// ordered by total degree, and there are C(nd+d, d) terms of degree <= d.
+int poly_degree(std::size_t k, int nd) {
+    std::size_t count = 1;  // terms of degree <= d
+    for (int d = 0;; ++d) {
+        if (k < count) return d;
+        // C(nd+d+1, d+1) = C(nd+d, d) * (nd+d+1)/(d+1)
+        count = count * static_cast<std::size_t>(nd + d + 1) / static_cast<std::size_t>(d + 1);
+    }
+}
+
+}  // namespace
+
+void scale_passive(ScalePass& p, char letter) {
+    const Card& c = p.card();
+    std::string scope(1, letter);
+    auto atoms = atoms_of(c, 1);
+    if (letter == 'k') {
+        // K name L1 L2 k: the coupling is a ratio; both inductors scale alike.
+        for (std::size_t i = 0; i < 2 && i < atoms.size(); ++i) {
+            if (atoms[i].key) continue;
+            std::string l = to_lower(p.text(*atoms[i].value));
+            if (!p.facts().inductors.count(l))
+                p.unscalable(*atoms[i].value,
+                             fmt::format("'{}' couples '{}', which is not an inductor of this deck",
+                                         c.field_text(0), p.text(*atoms[i].value)));
+        }
+        if (atoms.size() > 2 && !atoms[2].key) p.scale_value(*atoms[2].value, Unit::none, "value");
+        return;
+    }
+    // Two nodes, then the value (or a model name), then key=value parameters.
+    std::size_t positional = 0;
+    bool has_value = false;
+    for (const auto& a : atoms) {
+        if (a.key) {
+            std::string key = to_lower(p.text(*a.key));
+            if (key == scope || key == "r" || key == "c" || key == "l" || key == "resistance" ||
+                key == "capacitance" || key == "inductance")
+                has_value = true;
+            scale_keyed(p, a, scope);
+            continue;
+        }
+        ++positional;
+        if (positional <= 2) continue;  // nodes
+        const Token& t = *a.value;
+        std::string word = to_lower(p.text(t));
+        if (!has_value && p.is_value_token(t)) {
+            has_value = true;
+            if (t.kind == TokenKind::squote || t.kind == TokenKind::brace) {
+                auto unit = *find_rule(scope, "value");
+                p.scale_expression(t.begin, t.end, factor_of(unit, p.factors()), "value");
+            } else {
+                p.scale_value(t, *find_rule(scope, "value"), "value");
+            }
+        } else if (p.facts().models.count(word)) {
+            // A model-based element: its model card is scaled (see scale_model).
+            std::string type = p.facts().models.at(word);
+            if (letter == 'l' && type != "l")
+                p.unscalable(t, fmt::format("inductor model '{}' of type '{}'", p.text(t), type));
+        } else if (has_value && p.is_number(t)) {
+            // ngspice takes a second bare number as the value ("R1 a b 1 5" = 5 Ohm).
+            p.scale_value(t, *find_rule(scope, "value"), "value");
+        } else if (t.kind == TokenKind::word && parse_spice_number(p.text(t)).problem !=
+                                                    NumberProblem::not_a_number) {
+            p.scale_value(t, *find_rule(scope, "value"), "value");  // fails with the reason
+        } else {
+            p.unscalable(t, fmt::format("'{}' is neither a value, a parameter nor a model of this "
+                                        "deck", p.text(t)));
+        }
+    }
+}
+
+void scale_controlled(ScalePass& p, char letter) {
+    const Card& c = p.card();
+    ScaleFactors f = p.factors();
+    if (letter == 'b') {
+        // B n+ n- V=expr | I=expr [tc1=..]: substitute variables, then scale the output.
+        const auto& fl = c.fields;
+        std::size_t eq = 0;
+        for (std::size_t i = 1; i + 1 < fl.size(); ++i)
+            if (fl[i].kind == TokenKind::equals) {
+                eq = i;
+                break;
+            }
+        if (eq < 2) {
+            p.unscalable(fl[0], "behavioural source without V= or I=");
+            return;
+        }
+        std::string which = to_lower(c.field_text(eq - 1));
+        double out = which == "i" ? 1 / f.km : 1;
+        if (which != "v" && which != "i") {
+            p.unscalable(fl[eq - 1], fmt::format("unknown behavioural source form '{}='", c.field_text(eq - 1)));
+            return;
+        }
+        // The expression runs to the end of the card, or to a trailing tc1=/tc2=/temp=/dtemp=.
+        std::size_t last = fl.size();
+        int depth = 0;
+        for (std::size_t i = eq + 1; i < fl.size(); ++i) {
+            if (fl[i].kind == TokenKind::lparen) ++depth;
+            if (fl[i].kind == TokenKind::rparen) --depth;
+            if (depth == 0 && i + 1 < fl.size() && fl[i].kind == TokenKind::word &&
+                fl[i + 1].kind == TokenKind::equals) {
+                std::string k = to_lower(c.field_text(i));
+                if (k == "tc1" || k == "tc2" || k == "temp" || k == "dtemp") {
+                    last = i;
+                    break;
+                }
+            }
+        }
+        if (last <= eq + 1) p.fail(fl[eq], "behavioural source without an expression");
+        p.scale_expression(fl[eq + 1].begin, fl[last - 1].end, out, which);
+        return;
+    }
+    auto atoms = atoms_of(c, 1);
+    // Output factor: E, H drive a voltage; F, G a current. Input: E, G sense a voltage.
+    double out_factor = (letter == 'f' || letter == 'g') ? 1 / f.km : 1;
+    bool current_in = letter == 'f' || letter == 'h';
+    for (std::size_t i = 2; i < atoms.size(); ++i) {
+        const Atom& a = atoms[i];
+        std::string word = a.value ? to_lower(p.text(*a.value)) : "";
+        if (a.key) {
+            std::string key = to_lower(p.text(*a.key));
+            if (key == "m" && (letter == 'f' || letter == 'g')) {
+                if (a.value) p.scale_value(*a.value, Unit::none, "m");
+                continue;
+            }
+            if ((key == "vol" && letter == 'e') || (key == "cur" && letter == 'g') || key == "value") {
+                if (!a.value) p.fail(*a.key, "expression missing");
+                // value= may be unquoted: take everything to the end of the card.
+                const Token& first = *a.value;
+                const Token& lastf = c.fields.back();
+                p.scale_expression(first.begin, lastf.end, out_factor, key);
+                return;
+            }
+            p.unscalable(*a.key, fmt::format("parameter '{}' is not in the rule table", p.text(*a.key)));
+            continue;
+        }
+        if (word == "poly") {
+            if (i + 1 >= atoms.size() || !atoms[i + 1].value) p.fail(*a.value, "POLY without a dimension");
+            auto nd_parse = parse_spice_number(p.text(*atoms[i + 1].value));
+            if (!nd_parse.number) p.fail(*atoms[i + 1].value, "POLY dimension must be a number");
+            int nd = static_cast<int>(nd_parse.number->value);
+            std::size_t inputs = current_in ? nd : 2 * nd;
+            std::size_t k = 0;
+            for (std::size_t j = i + 2 + inputs; j < atoms.size(); ++j, ++k) {
+                if (atoms[j].key) {
+                    p.unscalable(*atoms[j].key, "parameter after POLY coefficients");
+                    continue;
+                }
+                // Coefficient of degree d maps inputs^d to the output:
+                // factor = out_factor / in_factor^d, in_factor = 1/Km for current inputs.
+                int d = poly_degree(k, nd);
+                double in_factor = current_in ? 1 / f.km : 1;
+                double factor = out_factor / std::pow(in_factor, d);
+                p.scale_by(*atoms[j].value, factor, fmt::format("poly coefficient {}", k),
+                           fmt::format("degree {}", d));
+            }
+            return;
+        }
+        if (word == "table" || word == "laplace" || word == "freq") {
+            if (letter == 'e' && word == "table") {
+                // Input and output are voltages: only the controlling expression may need
+                // variable substitution.
+                if (i + 1 < atoms.size() && atoms[i + 1].value &&
+                    atoms[i + 1].value->kind == TokenKind::brace)
+                    p.scale_expression(atoms[i + 1].value->begin, atoms[i + 1].value->end, 1,
+                                       "table input");
+                return;
+            }
+            p.unscalable(*a.value, fmt::format("{} form of a controlled source", p.text(*a.value)));
+            return;
+        }
+        // Linear form: E/G n+ n- nc+ nc- gain; F/H n+ n- vname gain.
+        std::size_t gain_index = current_in ? 3 : 4;
+        if (i == gain_index) {
+            std::string scope(1, letter);
+            const Token& t = *a.value;
+            if (t.kind == TokenKind::squote || t.kind == TokenKind::brace)
+                p.scale_by(t, factor_of(*find_rule(scope, "value"), f), "gain",
+                           unit_name(*find_rule(scope, "value")));
+            else
+                p.scale_value(t, *find_rule(scope, "value"), "gain");
+        } else if (i > gain_index) {
+            p.unscalable(*a.value, fmt::format("unexpected field '{}'", p.text(*a.value)));
+        }
+    }
+}
+
+void scale_line_or_switch(ScalePass& p, char letter) {
+    const Card& c = p.card();
+    auto atoms = atoms_of(c, 1);
+    std::string scope(1, letter);
+    if (letter == 's' || letter == 'w' || letter == 'o') {
+        // Instances carry nodes, a model name and ON/OFF; the model card holds the values.
+        for (const auto& a : atoms)
+            if (a.key) scale_keyed(p, a, scope);
+        return;
+    }
+    for (std::size_t i = 0; i < atoms.size(); ++i) {
+        const Atom& a = atoms[i];
+        if (!a.key) continue;
+        std::string key = to_lower(p.text(*a.key));
+        if (letter == 't' && key == "ic") {
+            // IC=v1,i1,v2,i2: voltages stay, currents scale.
+            if (a.value) p.scale_value(*a.value, *find_rule("t", "ic#1"), "ic v1");
+            for (std::size_t j = 1; j < 4 && i + j < atoms.size() && !atoms[i + j].key; ++j)
+                p.scale_value(*atoms[i + j].value, *find_rule("t", fmt::format("ic#{}", j + 1)),
+                              fmt::format("ic #{}", j + 1));
+            continue;
+        }
+        scale_keyed(p, a, scope);
+    }
+}
+
+}  // namespace deckscale

@@ -1,0 +1,164 @@
+#include "scale_output.hpp"
+
+#include <filesystem>
+#include <set>
+
+#include <fmt/format.h>
+
+#include "text_util.hpp"
+
+namespace deckscale {
+
+namespace fs = std::filesystem;
+
+std::string scaled_copy_name(const std::string& original_path) {
+    fs::path p(original_path);
+    return p.stem().string() + "-scaled" + p.extension().string();
+}
+
+namespace {
+
+struct IncludeCard {
+    std::uint32_t begin, end;  // the whole card
+    const IncludeRef* ref;
+};
+
+std::vector<IncludeCard> include_cards(const Deck& deck, std::size_t file) {
+    std::vector<IncludeCard> out;
+    deck.visit_file(file, [&](const Card& c) {
+        if (c.kind != CardKind::dot || c.fields.size() < 2) return;
+        if (const IncludeRef* r = deck.include_at(file, c.fields[1].begin))
+            out.push_back({c.begin(), c.end(), r});
+    });
+    return out;
+}
+
+// [begin, end) of the cards of a .lib section (between ".lib name" and ".endl").
+std::pair<std::uint32_t, std::uint32_t> section_range(const Deck& deck, std::size_t file,
+                                                       const std::string& section) {
+    std::uint32_t begin = 0, end = 0;
+    bool inside = false, done = false;
+    deck.visit_file(file, [&](const Card& c) {
+        if (done || c.kind != CardKind::dot) return;
+        std::string kw = card_keyword(c);
+        if (!inside && kw == ".lib" && c.fields.size() == 2 && iequals(c.field_text(1), section)) {
+            inside = true;
+            begin = c.end();
+        } else if (inside && kw == ".endl") {
+            end = c.begin();
+            done = true;
+        }
+    });
+    if (!done) {
+        const auto& src = *deck.files[file].source;
+        throw DeckError(Diagnostic{Severity::error, src.path(), 0, 0, 0, "",
+                                   fmt::format("library section '{}' not found", section), {}});
+    }
+    return {begin, end};
+}
+
+std::string flatten_range(const Deck& deck, const std::vector<EditSet>& edits, std::size_t file,
+                          std::uint32_t begin, std::uint32_t end, int depth) {
+    const std::string& text = deck.files[file].source->text();
+    std::string out;
+    std::uint32_t pos = begin;
+    for (const auto& inc : include_cards(deck, file)) {
+        if (inc.begin < begin || inc.end > end) continue;
+        out += apply_edits(text, edits[file], pos, inc.begin);
+        const auto& target = *deck.files[inc.ref->target_file].source;
+        out += fmt::format("* deckscale: contents of {}{} follow\n", target.path(),
+                           inc.ref->section.empty() ? "" : " section " + inc.ref->section);
+        std::uint32_t tb = 0, te = static_cast<std::uint32_t>(target.text().size());
+        if (!inc.ref->section.empty())
+            std::tie(tb, te) = section_range(deck, inc.ref->target_file, inc.ref->section);
+        std::string inner = flatten_range(deck, edits, inc.ref->target_file, tb, te, depth + 1);
+        if (!inner.empty() && inner.back() != '\n') inner += '\n';
+        out += inner;
+        out += fmt::format("* deckscale: end of {}\n", target.path());
+        pos = inc.end;
+    }
+    out += apply_edits(text, edits[file], pos, end);
+    return out;
+}
+
+std::string quoted_like(std::string_view original, const std::string& path) {
+    if (!original.empty() && (original.front() == '"' || original.front() == '\''))
+        return original.front() + path + original.front();
+    return path;
+}
+
+}  // namespace
+
+OutputPlan plan_output(const Deck& deck, const ScaleResult& result, const std::string& output,
+                       bool flatten) {
+    OutputPlan plan;
+    std::vector<EditSet> edits = result.edits;
+    std::size_t n = deck.files.size();
+    if (flatten) {
+        const std::string& top = deck.top().text();
+        plan.files.push_back({output, flatten_range(deck, edits, 0, 0, static_cast<std::uint32_t>(top.size()), 0), 0});
+        return plan;
+    }
+    // A file is copied if it changed or if it includes a file that is copied.
+    std::vector<bool> copied(n, false);
+    for (std::size_t i = 1; i < n; ++i) copied[i] = !edits[i].empty();
+    for (bool again = true; again;) {
+        again = false;
+        for (const auto& inc : deck.includes)
+            if (inc.from_file != 0 && copied[inc.target_file] && !copied[inc.from_file])
+                copied[inc.from_file] = again = true;
+    }
+    bool any_copy = false;
+    for (std::size_t i = 1; i < n; ++i) any_copy = any_copy || copied[i];
+    if (output.empty()) {
+        if (any_copy) {
+            for (const auto& inc : deck.includes)
+                if (copied[inc.target_file]) {
+                    const auto& from = *deck.files[inc.from_file].source;
+                    throw DeckError(from.diagnose(
+                        Severity::error, inc.path_token.begin, inc.path_token.size(),
+                        "this included file needs rescaling too: give -o OUT (a scaled copy is "
+                        "written beside it) or --flatten"));
+                }
+        }
+        plan.files.push_back({"", apply_edits(deck.top().text(), edits[0]), 0});
+        return plan;
+    }
+    fs::path out_dir = fs::absolute(fs::path(output)).parent_path();
+    std::vector<std::string> new_path(n);
+    std::set<std::string> taken{fs::absolute(output).lexically_normal().string()};
+    for (std::size_t i = 0; i < n; ++i)
+        taken.insert(fs::absolute(deck.files[i].source->path()).lexically_normal().string());
+    for (std::size_t i = 1; i < n; ++i) {
+        if (!copied[i]) continue;
+        std::string name = scaled_copy_name(deck.files[i].source->path());
+        fs::path candidate = out_dir / name;
+        for (int k = 2; taken.count(candidate.lexically_normal().string()); ++k)
+            candidate = out_dir / (fs::path(name).stem().string() + fmt::format("-{}", k) +
+                                   fs::path(name).extension().string());
+        taken.insert(candidate.lexically_normal().string());
+        new_path[i] = candidate.string();
+    }
+    // Repoint include lines of every written file so they resolve from the output folder.
+    for (const auto& inc : deck.includes) {
+        if (inc.from_file != 0 && !copied[inc.from_file]) continue;
+        std::string target;
+        if (copied[inc.target_file]) {
+            target = fs::path(new_path[inc.target_file]).filename().string();
+        } else {
+            fs::path abs = fs::absolute(deck.files[inc.target_file].source->path()).lexically_normal();
+            fs::path rel = abs.lexically_relative(out_dir);
+            target = rel.empty() ? abs.string() : rel.string();
+        }
+        const SourceFile& from = *deck.files[inc.from_file].source;
+        std::string_view old = from.view(inc.path_token.begin, inc.path_token.end);
+        std::string text = quoted_like(old, target);
+        edits[inc.from_file].add(from.text(), Edit{inc.path_token.begin, inc.path_token.size(), text});
+    }
+    for (std::size_t i = 1; i < n; ++i)
+        if (copied[i]) plan.files.push_back({new_path[i], apply_edits(deck.files[i].source->text(), edits[i]), i});
+    plan.files.push_back({output, apply_edits(deck.top().text(), edits[0]), 0});
+    return plan;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,110 @@
+// Card handler for independent V and I sources: DC, AC, DISTOF and every transient
+// function (ngspice 39 manual 4.1; shared notes "scaling-rules.md" §2).
+#include <fmt/format.h>
+
+#include "rules.hpp"
+#include "scale_pass.hpp"
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+bool is_function(const std::string& w) {
+    return w == "pulse" || w == "sin" || w == "exp" || w == "pwl" || w == "sffm" || w == "am" ||
+           w == "trnoise" || w == "trrandom";
+}
+
+Unit resolve(Unit u, char letter) {
+    if (u != Unit::signal) return u;
+    return letter == 'i' ? Unit::ampere : Unit::volt;
+}
+
+}  // namespace
+
+void scale_source(ScalePass& p, char letter) {
+    const Card& c = p.card();
+    std::string scope(1, letter);
+    auto atoms = atoms_of(c, 1);
+    auto value_at = [&](std::size_t i) {
+        return i < atoms.size() && !atoms[i].key && p.is_value_token(*atoms[i].value);
+    };
+    auto rule = [&](std::string_view sc, std::string_view field) {
+        auto u = find_rule(sc, field);
+        return resolve(*u, letter);
+    };
+    bool have_dc = false;
+    for (std::size_t i = 2; i < atoms.size(); ++i) {  // atoms 0 and 1 are the nodes
+        const Atom& a = atoms[i];
+        if (a.key) {
+            std::string key = to_lower(p.text(*a.key));
+            if (key == "ac" || key == "dc") {  // "AC=1" is accepted by ngspice too
+                if (a.value) p.scale_value(*a.value, rule(scope, key), key);
+                if (key == "ac" && value_at(i + 1)) p.scale_value(*atoms[++i].value, Unit::none, "ac phase");
+                continue;
+            }
+            auto u = find_rule(scope, key);
+            if (!u) {
+                p.unscalable(*a.key, fmt::format("parameter '{}' is not in the rule table for "
+                                                 "{} sources", p.text(*a.key), letter == 'v' ? "voltage" : "current"));
+                continue;
+            }
+            if (a.value) p.scale_value(*a.value, resolve(*u, letter), key);
+            continue;
+        }
+        const Token& t = *a.value;
+        std::string w = to_lower(p.text(t));
+        if (w == "dc") {
+            if (value_at(i + 1)) p.scale_value(*atoms[++i].value, rule(scope, "dc"), "dc");
+            have_dc = true;
+        } else if (w == "ac" || w == "distof1" || w == "distof2") {
+            if (value_at(i + 1)) p.scale_value(*atoms[++i].value, rule(scope, w), w);
+            if (value_at(i + 1)) p.scale_value(*atoms[++i].value, Unit::none, w + " phase");
+        } else if (is_function(w)) {
+            // Arguments: every following value up to the next word that is not one.
+            std::vector<const Token*> args;
+            std::size_t j = i + 1;
+            while (j < atoms.size() && !atoms[j].key && p.is_value_token(*atoms[j].value))
+                args.push_back(atoms[j++].value);
+            if (w == "trrandom" && letter == 'i' && !args.empty() && p.is_number(*args[0]) &&
+                parse_spice_number(p.text(*args[0])).number->value == 4) {
+                p.unscalable(t, "TRRANDOM type 4 (Poisson) on a current source: its rate cannot "
+                                "be divided; scale the source with m= instead");
+                i = j - 1;
+                continue;
+            }
+            for (std::size_t k = 0; k < args.size(); ++k) {
+                std::string field;
+                Unit u;
+                if (w == "pwl") {
+                    field = k % 2 == 0 ? "time" : "value";
+                    u = rule("pwl", field);
+                    field = fmt::format("pwl {} {}", field, k / 2 + 1);
+                } else {
+                    std::string pos = fmt::format("#{}", k + 1);
+                    auto r = find_rule(w, pos);
+                    if (!r) {
+                        p.unscalable(*args[k], fmt::format("{} has no argument {}", p.text(t), k + 1));
+                        continue;
+                    }
+                    u = resolve(*r, letter);
+                    field = fmt::format("{} {}", w, pos);
+                }
+                p.scale_value(*args[k], u, field);
+            }
+            i = j - 1;
+        } else if (w == "external") {
+            p.unscalable(t, "EXTERNAL sources get their values from the host program, which "
+                            "must supply scaled values itself");
+        } else if (w == "portnum") {
+            if (value_at(i + 1)) p.scale_value(*atoms[++i].value, Unit::none, "portnum");
+        } else if (!have_dc && p.is_value_token(t)) {
+            p.scale_value(t, rule(scope, "dc"), "dc");
+            have_dc = true;
+        } else {
+            p.unscalable(t, fmt::format("unknown source field '{}'", p.text(t)));
+        }
+    }
+}
+
+}  // namespace deckscale

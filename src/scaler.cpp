@@ -1,0 +1,248 @@
+#include "scaler.hpp"
+
+#include <fmt/format.h>
+
+#include "expression.hpp"
+#include "scale_pass.hpp"
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+
+std::vector<Atom> atoms_of(const Card& card, std::size_t first) {
+    std::vector<Atom> out;
+    const auto& f = card.fields;
+    for (std::size_t i = first; i < f.size(); ++i) {
+        TokenKind k = f[i].kind;
+        if (k == TokenKind::lparen || k == TokenKind::rparen || k == TokenKind::comma ||
+            k == TokenKind::equals)
+            continue;
+        if (k == TokenKind::word && i + 1 < f.size() && f[i + 1].kind == TokenKind::equals) {
+            Atom a{&f[i], nullptr, i};
+            if (i + 2 < f.size() && f[i + 2].kind != TokenKind::equals &&
+                f[i + 2].kind != TokenKind::comma && f[i + 2].kind != TokenKind::rparen &&
+                f[i + 2].kind != TokenKind::lparen) {
+                a.value = &f[i + 2];
+                i += 2;
+            } else {
+                i += 1;
+            }
+            out.push_back(a);
+            continue;
+        }
+        out.push_back(Atom{nullptr, &f[i], i});
+    }
+    return out;
+}
+
+DeckFacts collect_facts(const Deck& deck) {
+    DeckFacts facts;
+    for (std::size_t i = 0; i < deck.files.size(); ++i) {
+        deck.visit_file(i, [&](const Card& c) {
+            if (c.fields.empty()) return;
+            std::string kw = card_keyword(c);
+            if (c.kind == CardKind::element) {
+                if (kw[0] == 'l') facts.inductors.insert(kw);
+                if (kw[0] == 'k')
+                    for (std::size_t j = 1; j < c.fields.size() && j < 3; ++j)
+                        facts.coupled_inductors.insert(to_lower(c.field_text(j)));
+                if (kw[0] == 'x')  // X-line parameter overrides name parameters too
+                    for (const auto& a : atoms_of(c, 1))
+                        if (a.key) facts.params.insert(to_lower(c.text(*a.key)));
+                return;
+            }
+            if (c.kind != CardKind::dot) return;
+            if (kw == ".param" || kw == ".subckt" || kw == ".csparam") {
+                for (const auto& a : atoms_of(c, 1))
+                    if (a.key) facts.params.insert(to_lower(c.text(*a.key)));
+            } else if (kw == ".func" && c.fields.size() > 1) {
+                facts.params.insert(to_lower(c.field_text(1)));
+            } else if (kw == ".model" && c.fields.size() > 2) {
+                facts.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
+            } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
+                for (const auto& a : atoms_of(c, 1))
+                    if (a.key && a.value && iequals(c.text(*a.key), "gmin"))
+                        if (auto n = parse_spice_number(c.text(*a.value)); n.number)
+                            facts.gmin = n.number->value;
+            }
+        });
+    }
+    return facts;
+}
+
+ScalePass::ScalePass(const Deck& deck, const ScaleSettings& settings, ScaleResult& result)
+    : deck_(deck), settings_(settings), result_(result), facts_(collect_facts(deck)) {
+    result_.edits.resize(deck.files.size());
+}
+
+void ScalePass::run() {
+    for (file_ = 0; file_ < deck_.files.size(); ++file_)
+        deck_.visit_file(file_, [&](const Card& c) { visit(c); });
+}
+
+void ScalePass::visit(const Card& c) {
+    card_ = &c;
+    card_marked_ = false;
+    if (c.kind == CardKind::control) {
+        scale_control_block(*this);
+        return;
+    }
+    if (c.fields.empty()) return;
+    std::string kw = card_keyword(c);
+    if (c.kind == CardKind::dot) {
+        if (kw == ".model")
+            scale_model(*this);
+        else
+            scale_dot_card(*this, kw);
+        return;
+    }
+    if (c.kind != CardKind::element) return;
+    char letter = kw[0];
+    switch (letter) {
+        case 'r': case 'c': case 'l': case 'k': scale_passive(*this, letter); break;
+        case 'v': case 'i': scale_source(*this, letter); break;
+        case 'e': case 'f': case 'g': case 'h': case 'b': scale_controlled(*this, letter); break;
+        case 't': case 'o': case 'u': case 's': case 'w': scale_line_or_switch(*this, letter); break;
+        case 'x': break;  // subcircuit definitions are scaled in place
+        case 'd': case 'q': case 'j': case 'z': case 'm':
+            unscalable(c.fields[0], "semiconductor devices are not scaled by this version "
+                                    "(their area/m factors and model cards need their own rules)");
+            break;
+        case 'a':
+            unscalable(c.fields[0], "XSPICE code-model devices have model-specific units");
+            break;
+        case 'y': case 'p':
+            unscalable(c.fields[0], "ngspice 39 KSPICE lines (TXL/CPL) do not stay equivalent "
+                                    "under scaling; use an LTRA line (O element) instead");
+            break;
+        case 'n':
+            unscalable(c.fields[0], "OSDI (Verilog-A) devices have model-specific units");
+            break;
+        default: break;  // the reader has already warned about unknown element types
+    }
+}
+
+bool ScalePass::is_number(const Token& t) const {
+    return t.kind == TokenKind::word && parse_spice_number(card_->text(t)).number.has_value();
+}
+
+bool ScalePass::is_value_token(const Token& t) const {
+    if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) return true;
+    if (t.kind != TokenKind::word) return false;
+    auto p = parse_spice_number(card_->text(t));
+    if (p.problem != NumberProblem::not_a_number) return true;  // a number, good or bad
+    return facts_.params.count(to_lower(card_->text(t))) > 0;
+}
+
+void ScalePass::scale_value(const Token& t, Unit unit, std::string_view field) {
+    scale_by(t, factor_of(unit, settings_.factors), field, unit_name(unit));
+}
+
+void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
+                         std::string_view unit) {
+    std::string_view s = card_->text(t);
+    if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
+        if (factor == 1) return;
+        // {expr} -> {(expr)*k}: exact whatever the parameters are.
+        insert(t.begin + 1, "(", field, factor);
+        edit(t.end - 1, 0, ")" + times_factor(factor), field, unit, factor);
+        return;
+    }
+    if (t.kind != TokenKind::word) fail(t, fmt::format("expected a value here, found '{}'", s));
+    auto p = parse_spice_number(s);
+    if (p.number) {
+        if (factor == 1) return;
+        edit(t.begin, t.size(), respell(*p.number, p.number->value * factor, settings_.digits), field,
+             unit, factor);
+        return;
+    }
+    if (p.problem != NumberProblem::not_a_number)
+        fail(t, describe(p.problem, s));
+    if (card_->kind == CardKind::dot)
+        fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 reads it as 0; "
+                            "write {{{}}}", s, s));
+    if (!facts_.params.count(to_lower(s)))
+        fail(t, fmt::format("'{}' is neither a number nor a parameter defined by .param", s));
+    if (factor == 1) return;
+    edit(t.begin, t.size(), fmt::format("{{({}){}}}", s, times_factor(factor)), field, unit, factor);
+}
+
+void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
+                                 std::string_view field) {
+    std::string_view expr = card_->file->view(begin, end);
+    bool delimited = !expr.empty() && (expr.front() == '{' || expr.front() == '\'');
+    std::string_view inner = delimited ? expr.substr(1, expr.size() - 2) : expr;
+    auto sub = substitute_variables(inner, settings_.factors);
+    if (!sub.unsupported.empty()) {
+        Token at{TokenKind::word, begin, end};
+        unscalable(at, fmt::format("expression uses {} whose scaling is unknown", sub.unsupported.front()));
+        return;
+    }
+    if (!sub.changed && out_factor == 1) return;
+    std::string body = out_factor == 1 ? sub.text : "(" + sub.text + ")" + times_factor(out_factor);
+    std::string text = delimited ? expr.front() + body + expr.back() : "(" + body + ")";
+    if (!delimited && out_factor == 1) text = sub.text;
+    edit(begin, end - begin, std::move(text), field, "expr", out_factor);
+}
+
+void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view field, double factor) {
+    edit(offset, 0, std::move(text), field, "", factor);
+}
+
+void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string text,
+                     std::string_view field, std::string_view unit, double factor) {
+    const SourceFile& file = *card_->file;
+    std::string old_text(file.view(offset, offset + length));
+    if (old_text == text) return;
+    result_.edits[file_].add(file.text(), Edit{offset, length, text});
+    if (length == 0 && text == "(") return;  // the opening half of a wrap is not listed
+    Change ch;
+    ch.file = file_;
+    ch.offset = offset;
+    ch.element = std::string(card_->field_text(0));
+    if (card_->kind == CardKind::dot && card_->fields.size() > 1 &&
+        iequals(card_->field_text(0), ".model"))
+        ch.element += " " + std::string(card_->field_text(1));
+    ch.field = std::string(field);
+    ch.unit = std::string(unit);
+    ch.old_text = std::move(old_text);
+    ch.new_text = std::move(text);
+    ch.factor = factor;
+    result_.changes.push_back(std::move(ch));
+}
+
+void ScalePass::unscalable(const Token& at, std::string why) {
+    Severity sev = settings_.mark_unscalable ? Severity::warning : Severity::error;
+    result_.unscalable.push_back(card_->file->diagnose(sev, at.begin, at.size(), why));
+    if (settings_.mark_unscalable && !card_marked_) {
+        card_marked_ = true;
+        // Mark the card with a comment line in the line-end style of the card itself.
+        std::string eol = "\n";
+        for (const auto& t : card_->tokens)
+            if (t.kind == TokenKind::line_end) {
+                eol = std::string(card_->text(t));
+                break;
+            }
+        std::string line = "* deckscale: left unscaled: " + why + eol;
+        for (auto& ch : line)
+            if (ch == '\n' && &ch != &line.back() && &ch != &line.back() - 1) ch = ' ';
+        result_.edits[file_].add(card_->file->text(), Edit{card_->begin(), 0, line});
+    }
+}
+
+void ScalePass::note(const Token& at, std::string what) {
+    result_.notes.push_back(card_->file->diagnose(Severity::note, at.begin, at.size(), std::move(what)));
+}
+
+void ScalePass::fail(const Token& at, std::string why) const {
+    throw DeckError(card_->file->diagnose(Severity::error, at.begin, at.size(), std::move(why)));
+}
+
+ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
+    ScaleResult result;
+    ScalePass pass(deck, settings, result);
+    pass.run();
+    return result;
+}
+
+}  // namespace deckscale

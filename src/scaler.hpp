@@ -1,0 +1,42 @@
+// The scaling pass: reads a deck and the rule table, produces edits for every file of the
+// deck, a change list, and the items it cannot scale exactly. It never writes anything.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "deck.hpp"
+#include "diagnostic.hpp"
+#include "edit.hpp"
+#include "units.hpp"
+
+namespace deckscale {
+
+struct ScaleSettings {
+    ScaleFactors factors;
+    int digits = 7;                 // significant digits of rewritten numbers
+    bool mark_unscalable = false;   // insert a comment line before each unscalable card
+};
+
+struct Change {
+    std::size_t file = 0;
+    std::uint32_t offset = 0;  // of the old text in its file
+    std::string element;       // card name as written: "R1", ".tran", ".model dmod"
+    std::string field;         // "value", "ac", "pulse #3", "gmin", ...
+    std::string unit;          // "Ohm", "F", ...
+    std::string old_text;
+    std::string new_text;
+    double factor = 1;
+};
+
+struct ScaleResult {
+    std::vector<EditSet> edits;           // one per Deck::files entry
+    std::vector<Change> changes;          // in file order
+    std::vector<Diagnostic> unscalable;   // items that cannot be scaled exactly
+    std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
+};
+
+// Throws DeckError for bad input (malformed numbers and the like).
+ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings);
+
+}  // namespace deckscale

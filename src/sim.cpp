@@ -1,0 +1,241 @@
+// The parent side of simulation: start children, read their pipes, enforce deadlines, reap.
+#include "sim.hpp"
+
+#include <fcntl.h>
+#include <poll.h>
+#include <signal.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <algorithm>
+#include <cctype>
+#include <cerrno>
+#include <cstring>
+#include <optional>
+#include <thread>
+
+#include <fmt/format.h>
+
+#include "sim_child.hpp"
+#include "sim_wire.hpp"
+
+namespace deckscale {
+namespace {
+
+using Clock = std::chrono::steady_clock;
+
+struct Running {
+    std::size_t index = 0;  // position in the job list
+    pid_t pid = -1;
+    int fd = -1;            // read end; -1 once the child closed its end
+    std::string bytes;      // everything read so far
+    Clock::time_point deadline;
+};
+
+std::string named(const SimJob& job) { return job.label.empty() ? "the deck" : job.label; }
+
+// Cards ngspice would silently mangle are refused before any process is started.
+std::optional<std::string> invalid_cards(const SimJob& job) {
+    if (job.cards.empty()) return "no cards to simulate";
+    for (std::size_t i = 0; i < job.cards.size(); ++i) {
+        const std::string& c = job.cards[i];
+        if (c.find('\n') != std::string::npos || c.find('\0') != std::string::npos)
+            return fmt::format("card {} contains a line break or NUL byte", i + 1);
+    }
+    return std::nullopt;
+}
+
+SimOutcome failure(SimStatus status, std::string message) {
+    SimOutcome out;
+    out.status = status;
+    out.message = std::move(message);
+    return out;
+}
+
+// Starts one child; returns the outcome directly when no child could be started.
+std::optional<SimOutcome> start(const SimJob& job, std::size_t index, Running& r) {
+    if (auto why = invalid_cards(job)) return failure(SimStatus::load_failed, *why);
+    int fds[2];
+    if (::pipe2(fds, O_CLOEXEC) != 0) {
+        return failure(SimStatus::crashed,
+                       fmt::format("cannot create a pipe: {}", std::strerror(errno)));
+    }
+    // Clamped so that the deadline arithmetic cannot overflow.
+    auto timeout = std::clamp<std::chrono::milliseconds>(job.timeout, std::chrono::milliseconds(0),
+                                                         std::chrono::hours(24 * 365));
+    r.deadline = Clock::now() + timeout;
+    pid_t pid = ::fork();
+    if (pid < 0) {
+        int err = errno;
+        ::close(fds[0]);
+        ::close(fds[1]);
+        return failure(SimStatus::crashed,
+                       fmt::format("cannot start a simulator process: {}", std::strerror(err)));
+    }
+    if (pid == 0) {
+        ::close(fds[0]);
+        run_child(job, fds[1]);  // never returns
+    }
+    ::setpgid(pid, pid);  // also done by the child; whoever is first wins the race
+    ::close(fds[1]);
+    ::fcntl(fds[0], F_SETFL, O_NONBLOCK);
+    r.index = index;
+    r.pid = pid;
+    r.fd = fds[0];
+    return std::nullopt;
+}
+
+// Reads what is available; closes the descriptor at end of stream.
+void drain(Running& r) {
+    char buffer[65536];
+    for (;;) {
+        ssize_t n = ::read(r.fd, buffer, sizeof buffer);
+        if (n > 0) {
+            r.bytes.append(buffer, static_cast<std::size_t>(n));
+            continue;
+        }
+        if (n < 0 && errno == EINTR) continue;
+        if (n < 0 && (errno == EAGAIN || errno == EWOULDBLOCK)) return;
+        ::close(r.fd);  // end of stream or a read error: nothing more will come
+        r.fd = -1;
+        return;
+    }
+}
+
+// waitpid that survives EINTR; returns false while the child is still running (no_hang).
+bool reap(pid_t pid, int& status, bool no_hang) {
+    for (;;) {
+        pid_t got = ::waitpid(pid, &status, no_hang ? WNOHANG : 0);
+        if (got == pid) return true;
+        if (got == 0) return false;
+        if (errno == EINTR) continue;
+        status = 0;  // ECHILD: someone else reaped it (SIGCHLD ignored); judge by the stream
+        return true;
+    }
+}
+
+std::string last_words(const SimOutcome& out) {
+    if (out.log.empty()) return "";
+    std::string_view last = out.log.back();
+    last.remove_prefix(std::min(last.size(), last.find_first_not_of(' ')));
+    return fmt::format("; its last line was: {}", last);
+}
+
+SimOutcome judge(const SimJob& job, const Running& r, int wait_status, bool timed_out) {
+    SimOutcome out;
+    wire::StreamState state = wire::decode(r.bytes, out);
+    if (timed_out) {
+        out.status = SimStatus::timed_out;
+        out.plots.clear();
+        out.message = fmt::format("{} did not finish within {} ms and was stopped{}", named(job),
+                                  job.timeout.count(), last_words(out));
+    } else if (WIFSIGNALED(wait_status)) {
+        int sig = WTERMSIG(wait_status);
+        out.status = SimStatus::crashed;
+        out.plots.clear();
+        out.message = fmt::format("the simulator process for {} died from signal {} ({}){}",
+                                  named(job), sig, ::strsignal(sig), last_words(out));
+    } else if (state != wire::StreamState::complete) {
+        out.status = SimStatus::crashed;
+        out.plots.clear();
+        int code = WIFEXITED(wait_status) ? WEXITSTATUS(wait_status) : -1;
+        out.message = fmt::format(
+            "the simulator process for {} exited (code {}) with {} result data{}", named(job),
+            code, state == wire::StreamState::garbled ? "garbled" : "incomplete",
+            last_words(out));
+    }
+    return out;
+}
+
+}  // namespace
+
+const char* to_string(SimStatus s) {
+    switch (s) {
+        case SimStatus::ok: return "ok";
+        case SimStatus::load_failed: return "load failed";
+        case SimStatus::run_failed: return "run failed";
+        case SimStatus::controlled_exit: return "controlled exit";
+        case SimStatus::crashed: return "crashed";
+        case SimStatus::timed_out: return "timed out";
+    }
+    return "unknown";
+}
+
+const SimVector* SimPlot::find(const std::string& wanted) const {
+    auto same = [&](const std::string& name) {
+        return name.size() == wanted.size() &&
+               std::equal(name.begin(), name.end(), wanted.begin(), [](char a, char b) {
+                   return std::tolower(static_cast<unsigned char>(a)) ==
+                          std::tolower(static_cast<unsigned char>(b));
+               });
+    };
+    for (const SimVector& v : vectors)
+        if (same(v.name)) return &v;
+    return nullptr;
+}
+
+SimOutcome simulate(const SimJob& job) { return std::move(simulate_all({job}, 1).front()); }
+
+std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel) {
+    if (parallel == 0) parallel = std::thread::hardware_concurrency();
+    parallel = std::max(parallel, 1u);
+    std::vector<SimOutcome> outcomes(jobs.size());
+    std::vector<Running> running;
+    std::size_t next = 0;
+    while (next < jobs.size() || !running.empty()) {
+        while (running.size() < parallel && next < jobs.size()) {
+            Running r;
+            if (auto direct = start(jobs[next], next, r)) {
+                outcomes[next] = std::move(*direct);
+            } else {
+                running.push_back(std::move(r));
+            }
+            ++next;
+        }
+        if (running.empty()) continue;
+
+        // Wait for data, for the nearest deadline, or briefly for a child that closed its
+        // pipe but has not exited yet.
+        std::vector<pollfd> fds;
+        Clock::time_point wake = Clock::time_point::max();
+        for (const Running& r : running) {
+            if (r.fd >= 0) fds.push_back({r.fd, POLLIN, 0});
+            wake = std::min(wake, r.fd >= 0 ? r.deadline : Clock::now() + std::chrono::milliseconds(2));
+        }
+        auto wait = std::chrono::ceil<std::chrono::milliseconds>(wake - Clock::now());
+        int timeout_ms = static_cast<int>(std::clamp<long long>(wait.count(), 0, 1000));
+        if (::poll(fds.data(), fds.size(), timeout_ms) < 0 && errno != EINTR) {
+            ::usleep(1000);  // should not happen (EFAULT/ENOMEM); do not spin
+        }
+        for (Running& r : running)
+            if (r.fd >= 0) drain(r);
+
+        // Finish every child that exited or ran out of time.
+        for (auto it = running.begin(); it != running.end();) {
+            Running& r = *it;
+            int status = 0;
+            bool done = reap(r.pid, status, true);
+            bool late = false;
+            if (!done && Clock::now() >= r.deadline) {
+                // The whole group: also a shell or other program ngspice may have started.
+                if (::kill(-r.pid, SIGKILL) != 0) ::kill(r.pid, SIGKILL);
+                reap(r.pid, status, false);
+                done = late = true;
+            }
+            if (done && r.fd >= 0) {  // the child is gone: what it wrote is in the pipe
+                drain(r);
+                if (r.fd >= 0) ::close(r.fd);  // still open: held by a process it started
+                r.fd = -1;
+            }
+            if (!done) {
+                ++it;
+                continue;
+            }
+            outcomes[r.index] = judge(jobs[r.index], r, status, late);
+            it = running.erase(it);
+        }
+    }
+    return outcomes;
+}
+
+}  // namespace deckscale

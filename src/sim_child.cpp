@@ -1,0 +1,336 @@
+// The simulator child: one job in a fresh process, libngspice loaded with dlopen.
+#include "sim_child.hpp"
+
+#include <dlfcn.h>
+#include <fcntl.h>
+#include <ngspice/sharedspice.h>
+#include <signal.h>
+#include <sys/prctl.h>
+#include <unistd.h>
+
+#include <cerrno>
+#include <clocale>
+#include <cstdlib>
+#include <cstring>
+#include <exception>
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include <fmt/format.h>
+
+#include "sim_verdict.hpp"
+#include "sim_wire.hpp"
+
+namespace deckscale {
+namespace {
+
+// ngspice's vector types (enum vector_types in ngspice's include/ngspice/sim.h; sharedspice.h
+// only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3, SV_CURRENT = 4.
+VectorKind kind_of(int v_type) {
+    switch (v_type) {
+        case 1: return VectorKind::time;
+        case 2: return VectorKind::frequency;
+        case 3: return VectorKind::voltage;
+        case 4: return VectorKind::current;
+        default: return VectorKind::other;
+    }
+}
+constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
+
+// Exit codes of a child that could not even report (the parent then says "crashed").
+constexpr int exit_pipe_broken = 120;
+constexpr int exit_setup_failed = 121;
+constexpr int exit_internal = 122;
+
+constexpr const char* library_name = "libngspice.so.0";
+constexpr const char* no_home = "/nonexistent/deckscale-no-home";
+
+struct Api {
+    decltype(&ngSpice_Init) init = nullptr;
+    decltype(&ngSpice_Circ) circ = nullptr;
+    decltype(&ngSpice_Command) command = nullptr;
+    decltype(&ngGet_Vec_Info) vec_info = nullptr;
+    decltype(&ngSpice_AllPlots) all_plots = nullptr;
+    decltype(&ngSpice_AllVecs) all_vecs = nullptr;
+};
+
+struct PlotRecord {  // what SendInitData said about one new plot
+    std::string type, name, title;
+};
+
+struct Child {
+    int fd = -1;
+    Api api;
+    std::vector<PrintedLine> lines;
+    std::vector<PlotRecord> records;
+    bool exit_requested = false;
+    bool exit_by_quit = false;
+    int exit_status = 0;
+
+    void send(const std::string& bytes) {
+        const char* p = bytes.data();
+        std::size_t left = bytes.size();
+        while (left > 0) {
+            ssize_t n = ::write(fd, p, left);
+            if (n < 0 && errno == EINTR) continue;
+            if (n <= 0) _exit(exit_pipe_broken);
+            p += n;
+            left -= static_cast<std::size_t>(n);
+        }
+    }
+
+    [[noreturn]] void finish(SimStatus status, const std::string& message) {
+        send(wire::result_frame(status, message));
+        _exit(0);
+    }
+
+    [[noreturn]] void finish_exit_request() {
+        std::string quoted = quote_problems(lines, 0, lines.size());
+        if (quoted.empty() && exit_by_quit) {
+            for (const PrintedLine& l : lines)
+                if (l.text.find("quit") != std::string::npos) quoted = l.text;
+        }
+        if (quoted.empty()) quoted = fmt::format("ngspice asked to exit (status {})", exit_status);
+        finish(SimStatus::controlled_exit, quoted);
+    }
+
+    // Runs one API call that may end in ControlledExit; after one, ngspice is unusable.
+    template <typename F>
+    void guarded(F&& call) {
+        call();
+        if (exit_requested) finish_exit_request();
+    }
+};
+
+int on_char(char* s, int, void* user) {
+    auto* child = static_cast<Child*>(user);
+    try {
+        PrintedLine line = strip_channel(s ? s : "");
+        child->send(wire::log_frame(line.text));
+        child->lines.push_back(std::move(line));
+    } catch (...) {
+        _exit(exit_internal);
+    }
+    return 0;
+}
+
+int on_exit_request(int status, NG_BOOL, NG_BOOL quit, int, void* user) {
+    auto* child = static_cast<Child*>(user);
+    child->exit_requested = true;
+    child->exit_by_quit = quit;
+    child->exit_status = status;
+    return 0;
+}
+
+int on_init_data(pvecinfoall info, int, void* user) {
+    auto* child = static_cast<Child*>(user);
+    try {
+        if (info) {
+            child->records.push_back({info->type ? info->type : "", info->name ? info->name : "",
+                                      info->title ? info->title : ""});
+        }
+    } catch (...) {
+        _exit(exit_internal);
+    }
+    return 0;
+}
+
+// Some line of lines[first, last) is a substitution warning or (with `errors`) an error line.
+bool any_problem(const std::vector<PrintedLine>& lines, std::size_t first, std::size_t last,
+                 bool errors) {
+    for (std::size_t i = first; i < last; ++i) {
+        if (is_substitution_warning(lines[i].text)) return true;
+        if (errors && is_error_line(lines[i].text)) return true;
+    }
+    return false;
+}
+
+// Standard streams to /dev/null, the pipe on fd 3, every other inherited descriptor closed
+// (a sibling child's pipe must not stay open here), default signal handling, death with the
+// parent, and a process group of its own.
+int take_over_process(int fd) {
+    int pipe_fd = ::fcntl(fd, F_DUPFD, 3);
+    int null_fd = ::open("/dev/null", O_RDWR);
+    if (pipe_fd < 0 || null_fd < 0) _exit(exit_setup_failed);
+    for (int std_fd = 0; std_fd <= 2; ++std_fd) ::dup2(null_fd, std_fd);
+    if (pipe_fd != 3 && ::dup2(pipe_fd, 3) < 0) _exit(exit_setup_failed);
+    if (::close_range(4, ~0U, 0) != 0) {
+        for (int i = 4; i < 4096; ++i) ::close(i);
+    }
+    for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE, SIGCHLD, SIGQUIT}) ::signal(sig, SIG_DFL);
+    sigset_t none;
+    sigemptyset(&none);
+    ::sigprocmask(SIG_SETMASK, &none, nullptr);
+    ::prctl(PR_SET_PDEATHSIG, SIGKILL);
+    ::setpgid(0, 0);  // own process group, so that a timeout kills what ngspice started too
+    return 3;
+}
+
+// ngspice 39 executes ./.spiceinit when it is initialised, or else ~/.spiceinit with the
+// home directory taken from the password database, not from $HOME (seen with strace). A
+// user's file there can change how decks are read, so ngspice is initialised in a fresh
+// private directory holding an empty .spiceinit. Returns "" if none could be made.
+std::string make_start_dir() {
+    std::error_code ec;
+    std::filesystem::path base = std::filesystem::temp_directory_path(ec);
+    if (ec) base = "/tmp";
+    std::string dir = (base / "deckscale-sim-XXXXXX").string();
+    if (!::mkdtemp(dir.data())) return "";
+    std::string file = dir + "/.spiceinit";
+    int fd = ::open(file.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
+    if (fd < 0) {
+        ::rmdir(dir.c_str());
+        return "";
+    }
+    ::close(fd);
+    return dir;
+}
+
+void remove_start_dir(const std::string& dir) {
+    if (dir.empty()) return;
+    ::unlink((dir + "/.spiceinit").c_str());
+    ::rmdir(dir.c_str());
+}
+
+template <typename T>
+bool resolve(void* lib, const char* name, T& out) {
+    out = reinterpret_cast<T>(::dlsym(lib, name));
+    return out != nullptr;
+}
+
+// Every plot except "const", oldest first, with all vectors copied out of ngspice.
+std::vector<SimPlot> collect_plots(Child& child) {
+    std::vector<std::string> names;
+    for (char** p = child.api.all_plots(); p && *p; ++p)
+        if (std::strcmp(*p, "const") != 0) names.emplace_back(*p);
+    std::vector<SimPlot> plots;
+    for (auto it = names.rbegin(); it != names.rend(); ++it) {
+        SimPlot plot;
+        plot.name = *it;
+        for (const PlotRecord& r : child.records)
+            if (r.type == plot.name) plot.analysis = r.name;
+        std::vector<std::string> vec_names;
+        for (char** v = child.api.all_vecs(plot.name.data()); v && *v; ++v)
+            vec_names.emplace_back(*v);
+        for (const std::string& vec_name : vec_names) {
+            std::string qualified = plot.name + "." + vec_name;
+            pvector_info info = child.api.vec_info(qualified.data());  // one static struct
+            if (!info) continue;                                       // its error line is logged
+            SimVector v;
+            v.name = info->v_name ? info->v_name : vec_name;
+            v.kind = kind_of(info->v_type);
+            bool complex = (info->v_flags & vf_complex) != 0 && info->v_compdata;
+            int n = info->v_length;
+            v.values.reserve(n > 0 ? static_cast<std::size_t>(n) : 0);
+            for (int i = 0; i < n; ++i) {
+                if (complex) {
+                    v.values.emplace_back(info->v_compdata[i].cx_real, info->v_compdata[i].cx_imag);
+                } else if (info->v_realdata) {
+                    v.values.emplace_back(info->v_realdata[i], 0.0);
+                }
+            }
+            plot.vectors.push_back(std::move(v));
+        }
+        plots.push_back(std::move(plot));
+    }
+    return plots;
+}
+
+[[noreturn]] void run(Child& child, const SimJob& job) {
+    // The deck's directory is checked and remembered; ngspice is initialised in a start
+    // directory (see make_start_dir) and loads the deck in the deck's directory.
+    if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
+        child.finish(SimStatus::load_failed,
+                     fmt::format("cannot enter directory {}: {}", job.work_dir,
+                                 std::strerror(errno)));
+    }
+    int deck_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+    ::setenv("HOME", no_home, 1);
+    ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
+    std::setlocale(LC_ALL, "C");
+    std::string start_dir = make_start_dir();
+    if (deck_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
+        _exit(exit_setup_failed);
+
+    void* lib = ::dlopen(library_name, RTLD_NOW | RTLD_LOCAL);
+    if (!lib) {
+        const char* why = ::dlerror();
+        child.finish(SimStatus::load_failed, fmt::format("cannot load {}: {}", library_name,
+                                                         why ? why : "unknown reason"));
+    }
+    Api& api = child.api;
+    if (!resolve(lib, "ngSpice_Init", api.init) || !resolve(lib, "ngSpice_Circ", api.circ) ||
+        !resolve(lib, "ngSpice_Command", api.command) ||
+        !resolve(lib, "ngGet_Vec_Info", api.vec_info) ||
+        !resolve(lib, "ngSpice_AllPlots", api.all_plots) ||
+        !resolve(lib, "ngSpice_AllVecs", api.all_vecs)) {
+        child.finish(SimStatus::load_failed,
+                     fmt::format("{} lacks a function this program needs", library_name));
+    }
+
+    child.guarded([&] {
+        api.init(on_char, nullptr, on_exit_request, nullptr, on_init_data, nullptr, &child);
+    });
+    remove_start_dir(start_dir);
+    if (::fchdir(deck_dir) != 0) _exit(exit_setup_failed);
+    ::close(deck_dir);
+    char unset_dialect[] = "unset ngbehavior";  // a .spiceinit may have set one
+    child.guarded([&] { api.command(unset_dialect); });
+
+    // ngspice skips empty entries, so a blank title would silently make the first card
+    // the title; it is replaced by a word (the title is not simulated).
+    std::vector<std::string> cards = job.cards;
+    if (cards.empty()) child.finish(SimStatus::load_failed, "no cards to simulate");
+    if (cards[0].find_first_not_of(" \t\r") == std::string::npos) cards[0] = "untitled";
+    std::vector<char*> argv;
+    for (std::string& c : cards) argv.push_back(c.data());
+    argv.push_back(nullptr);
+
+    std::size_t load_begin = child.lines.size();
+    child.guarded([&] { api.circ(argv.data()); });
+    std::size_t load_end = child.lines.size();
+    if (any_problem(child.lines, load_begin, load_end, true))
+        child.finish(SimStatus::load_failed, quote_problems(child.lines, load_begin, load_end));
+
+    char run_command[] = "run";
+    child.guarded([&] { api.command(run_command); });
+    std::size_t run_end = child.lines.size();
+    if (any_problem(child.lines, load_end, run_end, false))  // e.g. "set to 1 mOhm" at setup
+        child.finish(SimStatus::load_failed, quote_problems(child.lines, load_end, run_end));
+    bool run_failed = any_problem(child.lines, load_end, run_end, true);
+    std::string why = run_failed ? quote_problems(child.lines, load_end, run_end) : "";
+
+    std::string title = expected_title(cards);
+    for (const PlotRecord& r : child.records) {
+        if (!same_title(title, r.title)) {
+            child.finish(SimStatus::load_failed,
+                         fmt::format("plot {} comes from a circuit titled '{}', not from this deck",
+                                     r.type, r.title));
+        }
+    }
+    std::vector<SimPlot> plots = collect_plots(child);
+    if (plots.empty() || child.records.empty()) {
+        if (!run_failed) why = quote_problems(child.lines, load_end, run_end);
+        if (!why.empty()) why += '\n';
+        child.finish(SimStatus::run_failed, why + "the run produced no plot");
+    }
+    for (const SimPlot& p : plots) child.send(wire::plot_frame(p));
+    child.finish(run_failed ? SimStatus::run_failed : SimStatus::ok, why);
+}
+
+}  // namespace
+
+void run_child(const SimJob& job, int fd) noexcept {
+    Child child;
+    child.fd = take_over_process(fd);
+    try {
+        run(child, job);
+    } catch (const std::exception& e) {
+        child.finish(SimStatus::crashed, fmt::format("simulator process failed: {}", e.what()));
+    } catch (...) {
+        _exit(exit_internal);
+    }
+}
+
+}  // namespace deckscale

@@ -1,0 +1,47 @@
+#include "source_file.hpp"
+
+#include <algorithm>
+
+namespace deckscale {
+
+void SourceFile::index_lines() const {
+    if (!line_starts_.empty()) return;
+    line_starts_.push_back(0);
+    for (std::uint32_t i = 0; i < text_.size(); ++i)
+        if (text_[i] == '\n') line_starts_.push_back(i + 1);
+}
+
+SourceFile::Position SourceFile::position(std::uint32_t offset) const {
+    index_lines();
+    auto it = std::upper_bound(line_starts_.begin(), line_starts_.end(), offset);
+    auto line = static_cast<std::uint32_t>(it - line_starts_.begin());
+    return {line, offset - line_starts_[line - 1] + 1};
+}
+
+std::string_view SourceFile::line_text(std::uint32_t line) const {
+    index_lines();
+    if (line == 0 || line > line_starts_.size()) return {};
+    std::uint32_t begin = line_starts_[line - 1];
+    std::uint32_t end = line < line_starts_.size() ? line_starts_[line] : text_.size();
+    std::string_view s = view(begin, end);
+    while (!s.empty() && (s.back() == '\n' || s.back() == '\r')) s.remove_suffix(1);
+    return s;
+}
+
+Diagnostic SourceFile::diagnose(Severity severity, std::uint32_t offset, std::uint32_t length,
+                                std::string message) const {
+    Diagnostic d;
+    d.severity = severity;
+    d.file = path_;
+    auto pos = position(std::min<std::uint32_t>(offset, text_.size()));
+    d.line = pos.line;
+    d.column = pos.column;
+    d.source_line = std::string(line_text(pos.line));
+    // Underline no further than the end of the line.
+    std::uint32_t room = d.source_line.size() >= pos.column ? d.source_line.size() - pos.column + 1 : 1;
+    d.length = std::max<std::uint32_t>(1, std::min(length, room));
+    d.message = std::move(message);
+    return d;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,242 @@
+#include "spice_number.hpp"
+
+#include <array>
+#include <charconv>
+#include <cmath>
+#include <algorithm>
+#include <cctype>
+#include <cstring>
+
+#include <fmt/format.h>
+#include <tao/pegtl.hpp>
+
+#include "number_grammar.hpp"
+
+namespace deckscale {
+namespace {
+
+namespace pg = tao::pegtl;
+namespace ng = grammar::number;
+
+struct Parts {
+    const char* base;
+    std::string_view value, suffix, tail;
+    bool has_exponent = false;
+    char exponent_letter = 'e';
+};
+
+template <typename Rule>
+struct action : pg::nothing<Rule> {};
+template <>
+struct action<ng::value> {
+    template <typename In>
+    static void apply(const In& in, Parts& p) { p.value = std::string_view(in.begin(), in.size()); }
+};
+template <>
+struct action<ng::exponent> {
+    template <typename In>
+    static void apply(const In& in, Parts& p) {
+        p.has_exponent = true;
+        p.exponent_letter = *in.begin();
+    }
+};
+template <>
+struct action<ng::suffix> {
+    template <typename In>
+    static void apply(const In& in, Parts& p) { p.suffix = std::string_view(in.begin(), in.size()); }
+};
+template <>
+struct action<ng::unit_tail> {
+    template <typename In>
+    static void apply(const In& in, Parts& p) { p.tail = std::string_view(in.begin(), in.size()); }
+};
+
+char lower(char c) { return static_cast<char>(std::tolower(static_cast<unsigned char>(c))); }
+
+bool iequals(std::string_view a, std::string_view b) {
+    if (a.size() != b.size()) return false;
+    for (std::size_t i = 0; i < a.size(); ++i)
+        if (lower(a[i]) != lower(b[i])) return false;
+    return true;
+}
+
+double parse_value(std::string_view v) {
+    std::array<char, 64> buf{};
+    std::size_t n = 0;
+    std::size_t start = (!v.empty() && v[0] == '+') ? 1 : 0;  // from_chars takes no '+'
+    for (std::size_t i = start; i < v.size() && n < buf.size(); ++i) {
+        char c = v[i];
+        buf[n++] = (c == 'd' || c == 'D') ? 'e' : c;
+    }
+    double x = 0;
+    std::from_chars(buf.data(), buf.data() + n, x);
+    return x;
+}
+
+// Length of the longest prefix that ngspice reads as a number, suffix and letters.
+std::size_t good_prefix(std::string_view text) {
+    std::size_t i = 0;
+    auto at = [&](std::size_t k) { return k < text.size() ? text[k] : '\0'; };
+    if (at(i) == '+' || at(i) == '-') ++i;
+    while (std::isdigit(static_cast<unsigned char>(at(i)))) ++i;
+    if (at(i) == '.') ++i;
+    while (std::isdigit(static_cast<unsigned char>(at(i)))) ++i;
+    if (std::strchr("eEdD", at(i)) && at(i) != '\0') {
+        std::size_t j = i + 1;
+        if (at(j) == '+' || at(j) == '-') ++j;
+        if (std::isdigit(static_cast<unsigned char>(at(j)))) {
+            while (std::isdigit(static_cast<unsigned char>(at(j)))) ++j;
+            i = j;
+        }
+    }
+    while (std::isalpha(static_cast<unsigned char>(at(i)))) ++i;
+    return i;
+}
+
+struct SuffixInfo {
+    const char* lower;
+    double multiplier;
+};
+constexpr std::array<SuffixInfo, 10> kSuffixes{{{"t", 1e12}, {"g", 1e9}, {"meg", 1e6}, {"k", 1e3},
+                                                 {"mil", 25.4e-6}, {"m", 1e-3}, {"u", 1e-6},
+                                                 {"n", 1e-9}, {"p", 1e-12}, {"f", 1e-15}}};
+
+}  // namespace
+
+double suffix_multiplier(std::string_view suffix) {
+    if (suffix.empty()) return 1;
+    for (const auto& s : kSuffixes)
+        if (iequals(suffix, s.lower)) return s.multiplier;
+    return 1;
+}
+
+NumberParse parse_spice_number(std::string_view text) {
+    NumberParse r;
+    {
+        pg::memory_input<pg::tracking_mode::lazy> probe(text.data(), text.size(), "");
+        if (!pg::parse<ng::number_start>(probe)) {
+            r.problem = NumberProblem::not_a_number;
+            return r;
+        }
+    }
+    Parts p{text.data(), {}, {}, {}};
+    pg::memory_input<pg::tracking_mode::lazy> in(text.data(), text.size(), "");
+    if (!pg::parse<ng::spice_number, action>(in, p)) {
+        std::size_t k = good_prefix(text);
+        r.problem_offset = k;
+        unsigned char c = k < text.size() ? static_cast<unsigned char>(text[k]) : 0;
+        if (c >= 0x80)
+            r.problem = NumberProblem::non_ascii;
+        else if (std::isdigit(c) && k > 0 && std::isalpha(static_cast<unsigned char>(text[k - 1])))
+            r.problem = NumberProblem::rkm_style;
+        else
+            r.problem = NumberProblem::trailing_junk;
+        return r;
+    }
+    SpiceNumber n;
+    n.mantissa = p.value;
+    n.suffix = p.suffix;
+    n.tail = p.tail;
+    n.has_exponent = p.has_exponent;
+    n.exponent_letter = p.exponent_letter;
+    n.value = parse_value(p.value) * suffix_multiplier(p.suffix);
+    r.number = n;
+    return r;
+}
+
+std::string describe(NumberProblem problem, std::string_view text) {
+    switch (problem) {
+        case NumberProblem::none: return {};
+        case NumberProblem::not_a_number:
+            return fmt::format("'{}' is not a number", text);
+        case NumberProblem::trailing_junk:
+            return fmt::format("malformed number '{}': ngspice 39 would silently read only '{}'",
+                               text, text.substr(0, good_prefix(text)));
+        case NumberProblem::rkm_style:
+            return fmt::format(
+                "RKM-style value '{}' is ambiguous: ngspice 39 reads '{}' in its default mode "
+                "but the digits after the letter in LTspice mode; write it with a decimal point",
+                text, text.substr(0, good_prefix(text)));
+        case NumberProblem::non_ascii:
+            return fmt::format(
+                "number '{}' has a non-ASCII character after '{}': it is no SPICE scale suffix "
+                "(write 'u' for micro) and ngspice 39 would ignore it",
+                text, text.substr(0, good_prefix(text)));
+    }
+    return {};
+}
+
+std::string format_plain(double value, int digits) {
+    std::string s = fmt::format("{:.{}g}", value, digits);
+    return s;
+}
+
+namespace {
+
+// Mantissa text with `digits` significant digits, without an exponent when possible.
+std::string mantissa_text(double m, int digits) {
+    std::string s = fmt::format("{:.{}g}", m, digits);
+    return s;
+}
+
+std::string cased(std::string_view lower_suffix, std::string_view original) {
+    std::string out(lower_suffix);
+    if (original.empty()) return out;
+    // "Meg" style: first upper, rest lower.
+    bool first_upper = std::isupper(static_cast<unsigned char>(original[0]));
+    bool rest_upper = original.size() > 1 ? std::isupper(static_cast<unsigned char>(original[1]))
+                                          : first_upper;
+    for (std::size_t i = 0; i < out.size(); ++i) {
+        bool up = i == 0 ? first_upper : rest_upper;
+        out[i] = up ? static_cast<char>(std::toupper(static_cast<unsigned char>(out[i]))) : out[i];
+    }
+    if (out.size() == 3 && original.size() == 1 && first_upper) out = "MEG";
+    if (lower_suffix == "m") out = "m";  // an upper-case M reads as mega to people: milli stays 'm'
+    return out;
+}
+
+}  // namespace
+
+std::string respell(const SpiceNumber& original, double value, int digits) {
+    if (!original.suffix.empty()) {
+        static constexpr std::array<std::pair<const char*, int>, 9> eng{{{"f", -15}, {"p", -12},
+            {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};
+        int exp3 = 0;
+        if (value != 0) {
+            // Round first so that 999.99999 does not pick the smaller suffix.
+            double rounded = std::stod(fmt::format("{:.{}e}", std::fabs(value), digits - 1));
+            exp3 = static_cast<int>(std::floor(std::log10(rounded) / 3.0)) * 3;
+        }
+        exp3 = std::clamp(exp3, -15, 12);
+        const char* suffix = "t";
+        for (const auto& [s, e] : eng)
+            if (e == exp3) suffix = s;
+        std::string text = mantissa_text(value / std::pow(10.0, exp3), digits);
+        if (std::string_view(suffix).empty()) {
+            // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
+            // when the tail cannot be misread as a suffix.
+            std::string tail(original.tail);
+            if (!tail.empty() && std::strchr("tTgGkKmMuUnNpPfFeEdD", tail[0])) {
+                // e.g. original "1kF" -> 5 F would read back as femto: use milli-free form
+                return mantissa_text(value / 1e3, digits) + cased("k", original.suffix) + tail;
+            }
+            return text + tail;
+        }
+        return text + cased(suffix, original.suffix) + std::string(original.tail);
+    }
+    if (original.has_exponent) {
+        std::string text = fmt::format("{:.{}e}", value, digits - 1);
+        // Trim trailing zeros of the mantissa: 1.500000e-07 -> 1.5e-07
+        auto epos = text.find('e');
+        std::string mant = text.substr(0, epos), ex = text.substr(epos + 1);
+        if (mant.find('.') != std::string::npos) {
+            while (!mant.empty() && mant.back() == '0') mant.pop_back();
+            if (!mant.empty() && mant.back() == '.') mant.pop_back();
+        }
+        char letter = std::isupper(static_cast<unsigned char>(original.exponent_letter)) ? 'E' : 'e';
+        return mant + letter + ex + std::string(original.tail);
+    }
+    return format_plain(value, digits) + std::string(original.tail);
+}
+
+}  // namespace deckscale
