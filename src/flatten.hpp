@@ -1,0 +1,16 @@
+// One self-contained deck text: every .include/.lib card replaced by the contents of the
+// file (or library section) it names, with each file's edits applied.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "deck.hpp"
+#include "edit.hpp"
+
+namespace deckscale {
+
+// `edits` has one entry per Deck::files entry.
+std::string flatten_deck(const Deck& deck, const std::vector<EditSet>& edits);
+
+}  // namespace deckscale
