@@ -2,6 +2,7 @@
 #include "sim.hpp"
 
 #include <fcntl.h>
+#include <fmt/format.h>
 #include <poll.h>
 #include <signal.h>
 #include <sys/wait.h>
@@ -14,8 +15,6 @@
 #include <optional>
 #include <thread>
 
-#include <fmt/format.h>
-
 #include "sim_child.hpp"
 #include "sim_wire.hpp"
 
@@ -27,8 +26,8 @@ using Clock = std::chrono::steady_clock;
 struct Running {
     std::size_t index = 0;  // position in the job list
     pid_t pid = -1;
-    int fd = -1;            // read end; -1 once the child closed its end
-    std::string bytes;      // everything read so far
+    int fd = -1;        // read end; -1 once the child closed its end
+    std::string bytes;  // everything read so far
     Clock::time_point deadline;
 };
 
@@ -140,9 +139,8 @@ SimOutcome judge(const SimJob& job, const Running& r, int wait_status, bool time
         out.plots.clear();
         int code = WIFEXITED(wait_status) ? WEXITSTATUS(wait_status) : -1;
         out.message = fmt::format(
-            "the simulator process for {} exited (code {}) with {} result data{}", named(job),
-            code, state == wire::StreamState::garbled ? "garbled" : "incomplete",
-            last_words(out));
+            "the simulator process for {} exited (code {}) with {} result data{}", named(job), code,
+            state == wire::StreamState::garbled ? "garbled" : "incomplete", last_words(out));
     }
     return out;
 }
@@ -151,20 +149,26 @@ SimOutcome judge(const SimJob& job, const Running& r, int wait_status, bool time
 
 const char* to_string(SimStatus s) {
     switch (s) {
-        case SimStatus::ok: return "ok";
-        case SimStatus::load_failed: return "load failed";
-        case SimStatus::run_failed: return "run failed";
-        case SimStatus::controlled_exit: return "controlled exit";
-        case SimStatus::crashed: return "crashed";
-        case SimStatus::timed_out: return "timed out";
+        case SimStatus::ok:
+            return "ok";
+        case SimStatus::load_failed:
+            return "load failed";
+        case SimStatus::run_failed:
+            return "run failed";
+        case SimStatus::controlled_exit:
+            return "controlled exit";
+        case SimStatus::crashed:
+            return "crashed";
+        case SimStatus::timed_out:
+            return "timed out";
     }
     return "unknown";
 }
 
 const SimVector* SimPlot::find(const std::string& wanted) const {
-    auto same = [&](const std::string& name) {
-        return name.size() == wanted.size() &&
-               std::equal(name.begin(), name.end(), wanted.begin(), [](char a, char b) {
+    auto same = [&](const std::string& candidate) {
+        return candidate.size() == wanted.size() &&
+               std::equal(candidate.begin(), candidate.end(), wanted.begin(), [](char a, char b) {
                    return std::tolower(static_cast<unsigned char>(a)) ==
                           std::tolower(static_cast<unsigned char>(b));
                });
@@ -200,7 +204,8 @@ std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned p
         Clock::time_point wake = Clock::time_point::max();
         for (const Running& r : running) {
             if (r.fd >= 0) fds.push_back({r.fd, POLLIN, 0});
-            wake = std::min(wake, r.fd >= 0 ? r.deadline : Clock::now() + std::chrono::milliseconds(2));
+            wake = std::min(wake,
+                            r.fd >= 0 ? r.deadline : Clock::now() + std::chrono::milliseconds(2));
         }
         auto wait = std::chrono::ceil<std::chrono::milliseconds>(wake - Clock::now());
         int timeout_ms = static_cast<int>(std::clamp<long long>(wait.count(), 0, 1000));

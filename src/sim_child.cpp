@@ -3,6 +3,7 @@
 
 #include <dlfcn.h>
 #include <fcntl.h>
+#include <fmt/format.h>
 #include <ngspice/sharedspice.h>
 #include <signal.h>
 #include <sys/prctl.h>
@@ -17,8 +18,6 @@
 #include <string>
 #include <vector>
 
-#include <fmt/format.h>
-
 #include "sim_verdict.hpp"
 #include "sim_wire.hpp"
 
@@ -29,11 +28,16 @@ namespace {
 // only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3, SV_CURRENT = 4.
 VectorKind kind_of(int v_type) {
     switch (v_type) {
-        case 1: return VectorKind::time;
-        case 2: return VectorKind::frequency;
-        case 3: return VectorKind::voltage;
-        case 4: return VectorKind::current;
-        default: return VectorKind::other;
+        case 1:
+            return VectorKind::time;
+        case 2:
+            return VectorKind::frequency;
+        case 3:
+            return VectorKind::voltage;
+        case 4:
+            return VectorKind::current;
+        default:
+            return VectorKind::other;
     }
 }
 constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
@@ -64,6 +68,7 @@ struct Child {
     Api api;
     std::vector<PrintedLine> lines;
     std::vector<PlotRecord> records;
+    bool unreadable = false;  // some vector could not be read out of ngspice
     bool exit_requested = false;
     bool exit_by_quit = false;
     int exit_status = 0;
@@ -216,7 +221,10 @@ std::vector<SimPlot> collect_plots(Child& child) {
         for (const std::string& vec_name : vec_names) {
             std::string qualified = plot.name + "." + vec_name;
             pvector_info info = child.api.vec_info(qualified.data());  // one static struct
-            if (!info) continue;                                       // its error line is logged
+            if (!info) {  // e.g. a multi-dimensional vector; ngspice logged why
+                child.unreadable = true;
+                continue;
+            }
             SimVector v;
             v.name = info->v_name ? info->v_name : vec_name;
             v.kind = kind_of(info->v_type);
@@ -241,9 +249,8 @@ std::vector<SimPlot> collect_plots(Child& child) {
     // The deck's directory is checked and remembered; ngspice is initialised in a start
     // directory (see make_start_dir) and loads the deck in the deck's directory.
     if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
-        child.finish(SimStatus::load_failed,
-                     fmt::format("cannot enter directory {}: {}", job.work_dir,
-                                 std::strerror(errno)));
+        child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
+                                                         job.work_dir, std::strerror(errno)));
     }
     int deck_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
     ::setenv("HOME", no_home, 1);
@@ -256,8 +263,8 @@ std::vector<SimPlot> collect_plots(Child& child) {
     void* lib = ::dlopen(library_name, RTLD_NOW | RTLD_LOCAL);
     if (!lib) {
         const char* why = ::dlerror();
-        child.finish(SimStatus::load_failed, fmt::format("cannot load {}: {}", library_name,
-                                                         why ? why : "unknown reason"));
+        child.finish(SimStatus::load_failed,
+                     fmt::format("cannot load {}: {}", library_name, why ? why : "unknown reason"));
     }
     Api& api = child.api;
     if (!resolve(lib, "ngSpice_Init", api.init) || !resolve(lib, "ngSpice_Circ", api.circ) ||
@@ -310,6 +317,12 @@ std::vector<SimPlot> collect_plots(Child& child) {
         }
     }
     std::vector<SimPlot> plots = collect_plots(child);
+    if (child.unreadable) {
+        run_failed = true;
+        std::string lost = quote_problems(child.lines, run_end, child.lines.size());
+        why += fmt::format("{}{}", why.empty() ? "" : "\n",
+                           lost.empty() ? "a vector could not be read" : lost);
+    }
     if (plots.empty() || child.records.empty()) {
         if (!run_failed) why = quote_problems(child.lines, load_end, run_end);
         if (!why.empty()) why += '\n';

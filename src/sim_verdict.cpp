@@ -1,9 +1,9 @@
 #include "sim_verdict.hpp"
 
+#include <fmt/format.h>
+
 #include <array>
 #include <cctype>
-
-#include <fmt/format.h>
 
 namespace deckscale {
 namespace {

@@ -29,7 +29,7 @@ std::string frame(Tag tag, std::string_view payload) {
 
 // Bounds-checked reading of one payload; every getter fails (nullopt) past the end.
 class Reader {
-public:
+  public:
     explicit Reader(std::string_view bytes) : bytes_(bytes) {}
 
     template <typename T>
@@ -58,7 +58,7 @@ public:
 
     bool at_end() const { return pos_ == bytes_.size(); }
 
-private:
+  private:
     std::string_view bytes_;
     std::size_t pos_ = 0;
 };
@@ -147,7 +147,8 @@ StreamState decode(std::string_view bytes, SimOutcome& out) {
     while (!r.at_end()) {
         auto tag = r.get<std::uint8_t>();
         if (!tag) return StreamState::truncated;
-        if (*tag != static_cast<std::uint8_t>(Tag::log) && *tag != static_cast<std::uint8_t>(Tag::plot) &&
+        if (*tag != static_cast<std::uint8_t>(Tag::log) &&
+            *tag != static_cast<std::uint8_t>(Tag::plot) &&
             *tag != static_cast<std::uint8_t>(Tag::result))
             return StreamState::garbled;
         auto length = r.get<std::uint32_t>();

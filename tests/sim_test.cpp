@@ -1,7 +1,8 @@
-// Tests of the simulator layer. The Sim* suites run real ngspice (libngspice 39) in child
-// processes; SimWire and SimVerdict test the pure parts (pipe encoding, judging printed lines).
+// Tests of the simulator layer: real ngspice (libngspice 39) runs in child processes. The pure
+// parts have their own files: sim_wire_test.cpp (pipe encoding), sim_verdict_test.cpp.
 #include "sim.hpp"
 
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 #include <sys/wait.h>
 
@@ -15,11 +16,6 @@
 #include <string>
 #include <thread>
 #include <vector>
-
-#include <fmt/format.h>
-
-#include "sim_verdict.hpp"
-#include "sim_wire.hpp"
 
 namespace deckscale {
 namespace {
@@ -67,9 +63,8 @@ struct ScratchDir {
 // common practice in any circuit-analysis text).
 constexpr double rc_r = 1e3;
 constexpr double rc_c = 159.155e-9;
-const std::vector<std::string> rc_cards = {"RC low-pass",       "V1 in 0 DC 0 AC 1",
-                                           "R1 in out 1k",      "C1 out 0 159.155n",
-                                           ".ac dec 10 1 1meg", ".end"};
+const std::vector<std::string> rc_cards = {"RC low-pass",       "V1 in 0 DC 0 AC 1", "R1 in out 1k",
+                                           "C1 out 0 159.155n", ".ac dec 10 1 1meg", ".end"};
 
 ::testing::AssertionResult rc_is_correct(const SimOutcome& out) {
     if (out.status != SimStatus::ok)
@@ -79,7 +74,8 @@ const std::vector<std::string> rc_cards = {"RC low-pass",       "V1 in 0 DC 0 AC
     const SimVector* f = ac->find("frequency");
     const SimVector* v = ac->find("out");
     const SimVector* i = ac->find("v1#branch");
-    if (!f || !v || !i) return ::testing::AssertionFailure() << "frequency, out or v1#branch missing";
+    if (!f || !v || !i)
+        return ::testing::AssertionFailure() << "frequency, out or v1#branch missing";
     // ngspice notes §5: "dec 10 1 1meg" gives 61 points.
     if (f->values.size() != 61 || v->values.size() != 61 || i->values.size() != 61)
         return ::testing::AssertionFailure() << "want 61 points, got " << f->values.size();
@@ -89,13 +85,16 @@ const std::vector<std::string> rc_cards = {"RC low-pass",       "V1 in 0 DC 0 AC
         double want_mag = 1.0 / std::sqrt(1.0 + x * x);
         double want_phase = -std::atan(x);
         std::complex<double> h = v->values[k];
-        if (std::abs(std::abs(h) - want_mag) > 1e-6 * want_mag || std::abs(std::arg(h) - want_phase) > 1e-6)
-            return ::testing::AssertionFailure() << "wrong response at " << f->values[k].real() << " Hz";
+        if (std::abs(std::abs(h) - want_mag) > 1e-6 * want_mag ||
+            std::abs(std::arg(h) - want_phase) > 1e-6)
+            return ::testing::AssertionFailure()
+                   << "wrong response at " << f->values[k].real() << " Hz";
         // The branch current of a voltage source flows from its + node through it to its - node
         // (SPICE convention, ngspice manual ch. 4.1): here -(v(in) - v(out))/R1 with v(in) = 1.
         std::complex<double> want_i = -(1.0 - h) / rc_r;
         if (std::abs(i->values[k] - want_i) > 1e-9 * std::abs(want_i) + 1e-15)
-            return ::testing::AssertionFailure() << "wrong v1#branch at " << f->values[k].real() << " Hz";
+            return ::testing::AssertionFailure()
+                   << "wrong v1#branch at " << f->values[k].real() << " Hz";
     }
     return ::testing::AssertionSuccess();
 }
@@ -123,7 +122,8 @@ TEST(SimRc, FirstOrderLowPassMatchesTheAnalyticResponse) {
 // ---- Doubly terminated LC ladders at R0 = 50 ohm, fc = 10 MHz, shunt C first. Source V1
 // (AC 1) behind Rs = R0, load R0: the flat loss is 20 log10(2) = 6.0206 dB, so the filter's
 // own attenuation is -20 log10(2 |v(n3)|). Decks as in /work/shared/notes/reference-values.md §5.
-std::vector<std::string> ladder(const std::string& title, const double (&g)[5], const std::string& sweep) {
+std::vector<std::string> ladder(const std::string& title, const double (&g)[5],
+                                const std::string& sweep) {
     const double r0 = 50.0, wc = 2 * pi * 10e6;
     // Denormalisation: C = g/(wc R0), L = g R0/wc (Matthaei, Young & Jones 1964, §4.04).
     auto c = [&](double gk) { return fmt::format("{:.12g}", gk / (wc * r0)); };
@@ -145,7 +145,8 @@ TEST(SimFilter, ButterworthFifthOrderLadder) {
     // g_k = 2 sin((2k-1) pi / 2n) (Matthaei, Young & Jones 1964, §4.05, eq. 4.05-1).
     double g[5];
     for (int k = 1; k <= 5; ++k) g[k - 1] = 2 * std::sin((2 * k - 1) * pi / 10);
-    SimOutcome out = simulate(make_job("butterworth", ladder("Butterworth n=5", g, ".ac dec 50 1meg 100meg")));
+    SimOutcome out =
+        simulate(make_job("butterworth", ladder("Butterworth n=5", g, ".ac dec 50 1meg 100meg")));
     ASSERT_EQ(out.status, SimStatus::ok) << out.message;
     const SimPlot& ac = out.plots.at(0);
     const SimVector& f = *ac.find("frequency");
@@ -160,7 +161,8 @@ TEST(SimFilter, ButterworthFifthOrderLadder) {
         double x = f.values[k].real() / 10e6;
         // |H| = 1/sqrt(1 + (f/fc)^2n), halved by the terminations (maximally flat response).
         double want = 0.5 / std::sqrt(1 + std::pow(x, 10));
-        EXPECT_NEAR(db(std::abs(v.values[k])), db(want), 0.01) << "at " << f.values[k].real() << " Hz";
+        EXPECT_NEAR(db(std::abs(v.values[k])), db(want), 0.01)
+            << "at " << f.values[k].real() << " Hz";
         if (std::abs(x - 1) < 1e-9) {
             saw_fc = true;
             // 10 log10 2 = 3.0103 dB at fc for every order (reference-values.md §1.1).
@@ -186,12 +188,14 @@ double attenuation_db(const SimVector& v, std::size_t k) { return -db(2 * std::a
     }
     // Equal ripple L_Ar = 0.5 dB in the passband (Chebyshev response |S21|^2 = 1/(1+eps^2 T_n^2)).
     if (std::abs((hi - lo) - 0.5) > 0.005 || v.values.size() != 2000)
-        return ::testing::AssertionFailure() << "ripple " << hi - lo << " dB over " << v.values.size();
+        return ::testing::AssertionFailure()
+               << "ripple " << hi - lo << " dB over " << v.values.size();
     return ::testing::AssertionSuccess();
 }
 
 TEST(SimFilter, ChebyshevHalfDecibelRipple) {
-    SimOutcome out = simulate(make_job("chebyshev", ladder("Chebyshev 0.5 dB n=5", chebyshev_g, ".ac lin 2000 5k 10meg")));
+    SimOutcome out = simulate(make_job(
+        "chebyshev", ladder("Chebyshev 0.5 dB n=5", chebyshev_g, ".ac lin 2000 5k 10meg")));
     EXPECT_TRUE(ripple_is_half_db(out));
 }
 
@@ -200,9 +204,9 @@ TEST(SimKinds, OperatingPointAndTransientPlots) {
     // op: the capacitor is open, out = 10 V * 3k/(1k + 3k) = 7.5 V, i(V1) = -10 V/4k (divider).
     // tran: the pulse steps 0 -> 1 V, out = 0.75 (1 - exp(-t/tau)), tau = (1k || 3k) * 1u = 750 us
     // (first-order step response, Thevenin equivalent).
-    SimOutcome out = simulate(make_job("op+tran", {"op and tran", "V1 in 0 DC 10 PULSE(0 1 0 1n 1n 1 2)",
-                                                   "R1 in out 1k", "R2 out 0 3k", "C1 out 0 1u", ".op",
-                                                   ".tran 1u 3m 0 1u", ".end"}));
+    SimOutcome out = simulate(
+        make_job("op+tran", {"op and tran", "V1 in 0 DC 10 PULSE(0 1 0 1n 1n 1 2)", "R1 in out 1k",
+                             "R2 out 0 3k", "C1 out 0 1u", ".op", ".tran 1u 3m 0 1u", ".end"}));
     ASSERT_EQ(out.status, SimStatus::ok) << out.message;
     ASSERT_EQ(out.plots.size(), 2u);
     const SimPlot& op = out.plots[0];
@@ -233,7 +237,9 @@ TEST(SimKinds, OperatingPointAndTransientPlots) {
     for (std::size_t k = 0; k < t->values.size(); ++k) {
         double time = t->values[k].real();
         EXPECT_EQ(t->values[k].imag(), 0.0);  // transient data are real
-        if (k > 0) EXPECT_GT(time, t->values[k - 1].real());
+        if (k > 0) {
+            EXPECT_GT(time, t->values[k - 1].real());
+        }
         double want = time < 1e-9 ? 0.0 : 0.75 * (1 - std::exp(-(time - 1e-9) / 750e-6));
         EXPECT_NEAR(v->values[k].real(), want, 1e-5) << "at t = " << time;
         double want_i = -(in->values[k].real() - v->values[k].real()) / 1e3;
@@ -252,37 +258,60 @@ struct FailureCase {
 };
 
 const std::vector<FailureCase> failure_cases = {
-    {"unknown model", {"t", "V1 in 0 AC 1", "R1 in out 1k", "D1 out 0 nosuchmodel", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::load_failed, "could not find a valid modelname"},
+    {"unknown model",
+     {"t", "V1 in 0 AC 1", "R1 in out 1k", "D1 out 0 nosuchmodel", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::load_failed,
+     "could not find a valid modelname"},
     // A numparam error makes ngspice call ControlledExit (it then cannot recover).
-    {"undefined param", {"t", "V1 in 0 AC 1", "R1 in out {rval}", "C1 out 0 1n", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::controlled_exit, "Undefined parameter [rval]"},
-    {"missing .ends", {"t", ".subckt blk a b", "R1 a b 1k", "V1 in 0 AC 1", "X1 in out blk", "C1 out 0 1n",
-                       ".ac dec 10 1 1meg", ".end"},
-     SimStatus::controlled_exit, "Mismatch of .subckt ... .ends statements!"},
-    {"quit in .control", {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".ac dec 10 1 1meg", ".control",
-                          "quit", ".endc", ".end"},
-     SimStatus::controlled_exit, "'quit' asks for detaching"},
+    {"undefined param",
+     {"t", "V1 in 0 AC 1", "R1 in out {rval}", "C1 out 0 1n", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::controlled_exit,
+     "Undefined parameter [rval]"},
+    {"missing .ends",
+     {"t", ".subckt blk a b", "R1 a b 1k", "V1 in 0 AC 1", "X1 in out blk", "C1 out 0 1n",
+      ".ac dec 10 1 1meg", ".end"},
+     SimStatus::controlled_exit,
+     "Mismatch of .subckt ... .ends statements!"},
+    {"quit in .control",
+     {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".ac dec 10 1 1meg", ".control", "quit",
+      ".endc", ".end"},
+     SimStatus::controlled_exit,
+     "'quit' asks for detaching"},
     // Two sources in parallel: singular matrix, the operating point fails, no plot.
-    {"voltage source loop", {"t", "V1 a 0 DC 1 AC 1", "V2 a 0 DC 2", "R1 a 0 1k", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::run_failed, "run simulation(s) aborted"},
+    {"voltage source loop",
+     {"t", "V1 a 0 DC 1 AC 1", "V2 a 0 DC 2", "R1 a 0 1k", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::run_failed,
+     "run simulation(s) aborted"},
     // Accepted by ngspice with a 1 mOhm resistor: the simulated circuit is not the deck.
-    {"resistor without value", {"t", "V1 in 0 AC 1", "R1 in out", "C1 out 0 1n", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::load_failed, "set to 1 mOhm"},
-    {"missing .end", {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".ac dec 10 1 1meg"},
-     SimStatus::load_failed, ".end statement is missing"},
-    {"unknown dot card", {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".foo bar", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::load_failed, "unimplemented control card"},
-    {"missing include", {"t", ".include no-such-file.inc", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::load_failed, "no-such-file.inc"},
-    {"coupling to missing inductor", {"t", "V1 in 0 AC 1", "R1 in a 1k", "L1 a 0 1m", "K1 L1 L2 0.5",
-                                      ".ac dec 10 1 1meg", ".end"},
-     SimStatus::run_failed, "coupling to non-existant inductor l2"},
-    {"no analysis", {"t", "V1 in 0 DC 1", "R1 in 0 1k", ".end"}, SimStatus::run_failed,
+    {"resistor without value",
+     {"t", "V1 in 0 AC 1", "R1 in out", "C1 out 0 1n", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::load_failed,
+     "set to 1 mOhm"},
+    {"missing .end",
+     {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".ac dec 10 1 1meg"},
+     SimStatus::load_failed,
+     ".end statement is missing"},
+    {"unknown dot card",
+     {"t", "V1 in 0 AC 1", "R1 in out 1k", "C1 out 0 1n", ".foo bar", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::load_failed,
+     "unimplemented control card"},
+    {"missing include",
+     {"t", ".include no-such-file.inc", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::load_failed,
+     "no-such-file.inc"},
+    {"coupling to missing inductor",
+     {"t", "V1 in 0 AC 1", "R1 in a 1k", "L1 a 0 1m", "K1 L1 L2 0.5", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::run_failed,
+     "coupling to non-existant inductor l2"},
+    {"no analysis",
+     {"t", "V1 in 0 DC 1", "R1 in 0 1k", ".end"},
+     SimStatus::run_failed,
      "No job (tran, ac, op etc.) defined"},
     // Refused before ngspice sees it: ngspice would silently drop the text after '\n'.
-    {"line break in a card", {"t", "V1 in 0 AC 1\nR1 in 0 1k", ".ac dec 10 1 1meg", ".end"},
-     SimStatus::load_failed, "card 2 contains a line break"},
+    {"line break in a card",
+     {"t", "V1 in 0 AC 1\nR1 in 0 1k", ".ac dec 10 1 1meg", ".end"},
+     SimStatus::load_failed,
+     "card 2 contains a line break"},
 };
 
 TEST(SimFailure, EachClassGivesItsStatusAndTheNextDeckStillWorks) {
@@ -292,7 +321,9 @@ TEST(SimFailure, EachClassGivesItsStatusAndTheNextDeckStillWorks) {
         EXPECT_EQ(to_string(out.status), std::string(to_string(c.status))) << out.message;
         EXPECT_NE(out.message.find(c.words), std::string::npos) << out.message;
         EXPECT_EQ(out.message.find("stderr "), std::string::npos) << out.message;
-        if (out.status != SimStatus::run_failed) EXPECT_TRUE(out.plots.empty());
+        if (out.status != SimStatus::run_failed) {
+            EXPECT_TRUE(out.plots.empty());
+        }
         EXPECT_TRUE(rc_is_correct(simulate(make_job("rc", rc_cards))));  // isolation
     }
     EXPECT_TRUE(no_children_left());
@@ -302,8 +333,8 @@ TEST(SimFailure, ChildKilledBySignalIsReportedAsCrash) {
     // The deck's .control block makes ngspice run a shell that sends SIGSEGV to the child.
     ScratchDir dir;
     dir.write("crash.sh", "kill -SEGV $PPID\n");
-    SimJob job = make_job("crash.cir", {"t", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg", ".control",
-                                        "shell exec sh crash.sh", ".endc", ".end"});
+    SimJob job = make_job("crash.cir", {"t", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg",
+                                        ".control", "shell exec sh crash.sh", ".endc", ".end"});
     job.work_dir = dir.path.string();
     SimOutcome out = simulate(job);
     EXPECT_EQ(out.status, SimStatus::crashed) << out.message;
@@ -315,8 +346,9 @@ TEST(SimFailure, ChildKilledBySignalIsReportedAsCrash) {
 TEST(SimFailure, HangingRunIsKilledAtTheDeadline) {
     // 10 s of a 1 kHz sine with a 1 ns step: far longer than the 300 ms allowed.
     auto begin = std::chrono::steady_clock::now();
-    SimOutcome out = simulate(make_job("slow", {"slow transient", "V1 in 0 SIN(0 1 1k)", "R1 in out 1k",
-                                                "C1 out 0 1u", ".tran 1n 10", ".end"},
+    SimOutcome out = simulate(make_job("slow",
+                                       {"slow transient", "V1 in 0 SIN(0 1 1k)", "R1 in out 1k",
+                                        "C1 out 0 1u", ".tran 1n 10", ".end"},
                                        300ms));
     auto elapsed = std::chrono::steady_clock::now() - begin;
     EXPECT_EQ(out.status, SimStatus::timed_out) << out.message;
@@ -335,14 +367,16 @@ bool process_is_dead(pid_t pid) {
     std::ifstream stat("/proc/" + std::to_string(pid) + "/stat");
     std::string text((std::istreambuf_iterator<char>(stat)), std::istreambuf_iterator<char>());
     auto close_paren = text.rfind(')');
-    return text.empty() || (close_paren != std::string::npos && text.substr(close_paren + 2, 1) == "Z");
+    return text.empty() ||
+           (close_paren != std::string::npos && text.substr(close_paren + 2, 1) == "Z");
 }
 
 TEST(SimFailure, TimeoutAlsoStopsProgramsNgspiceStarted) {
     ScratchDir dir;
     dir.write("hang.sh", "echo $$ > hang.pid\nexec sleep 30\n");
-    SimJob job = make_job("hang", {"t", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg", ".control",
-                                   "shell sh hang.sh", ".endc", ".end"},
+    SimJob job = make_job("hang",
+                          {"t", "V1 in 0 AC 1", "R1 in 0 1k", ".ac dec 10 1 1meg", ".control",
+                           "shell sh hang.sh", ".endc", ".end"},
                           300ms);
     job.work_dir = dir.path.string();
     SimOutcome out = simulate(job);
@@ -368,7 +402,8 @@ TEST(SimEnv, IncludeResolvesInWorkDirAndSpiceinitIsIgnored) {
     job.work_dir = dir.path.string();
     SimOutcome out = simulate(job);
     EXPECT_TRUE(rc_is_correct(out));
-    for (const std::string& line : out.log) EXPECT_EQ(line.find("spiceinit-was-read"), std::string::npos);
+    for (const std::string& line : out.log)
+        EXPECT_EQ(line.find("spiceinit-was-read"), std::string::npos);
 
     job.work_dir = (dir.path / "missing").string();
     out = simulate(job);
@@ -401,130 +436,6 @@ TEST(SimAll, FailuresStayWithTheirJob) {
     EXPECT_TRUE(rc_is_correct(outs[0]));
     EXPECT_EQ(outs[1].status, SimStatus::controlled_exit);
     EXPECT_TRUE(rc_is_correct(outs[2]));
-}
-
-// ---- Pipe encoding.
-SimOutcome sample_outcome() {
-    SimOutcome o;
-    o.status = SimStatus::run_failed;
-    o.message = "Error: something\nsecond line";
-    o.log = {"first", "", "third \xff"};
-    o.plots.push_back({"ac1", "AC Analysis",
-                       {{"frequency", VectorKind::frequency, {{1, 0}, {10, 0}}},
-                        {"out", VectorKind::voltage, {{0.5, -0.5}, {1e-300, 1e300}}},
-                        {"v1#branch", VectorKind::current, {}}}});
-    o.plots.push_back({"op1", "", {{"@r1[i]", VectorKind::other, {{-1, 0}}}}});
-    return o;
-}
-
-std::string encode(const SimOutcome& o) {
-    std::string bytes;
-    for (const std::string& l : o.log) bytes += wire::log_frame(l);
-    for (const SimPlot& p : o.plots) bytes += wire::plot_frame(p);
-    return bytes + wire::result_frame(o.status, o.message);
-}
-
-TEST(SimWire, RoundTripKeepsEveryField) {
-    SimOutcome in = sample_outcome();
-    SimOutcome out;
-    ASSERT_EQ(wire::decode(encode(in), out), wire::StreamState::complete);
-    EXPECT_EQ(out.status, in.status);
-    EXPECT_EQ(out.message, in.message);
-    EXPECT_EQ(out.log, in.log);
-    ASSERT_EQ(out.plots.size(), in.plots.size());
-    for (std::size_t p = 0; p < in.plots.size(); ++p) {
-        EXPECT_EQ(out.plots[p].name, in.plots[p].name);
-        EXPECT_EQ(out.plots[p].analysis, in.plots[p].analysis);
-        ASSERT_EQ(out.plots[p].vectors.size(), in.plots[p].vectors.size());
-        for (std::size_t v = 0; v < in.plots[p].vectors.size(); ++v) {
-            EXPECT_EQ(out.plots[p].vectors[v].name, in.plots[p].vectors[v].name);
-            EXPECT_EQ(out.plots[p].vectors[v].kind, in.plots[p].vectors[v].kind);
-            EXPECT_EQ(out.plots[p].vectors[v].values, in.plots[p].vectors[v].values);
-        }
-    }
-}
-
-TEST(SimWire, EveryTruncationIsDetected) {
-    std::string bytes = encode(sample_outcome());
-    for (std::size_t n = 0; n < bytes.size(); ++n) {
-        SimOutcome out;
-        ASSERT_EQ(wire::decode(std::string_view(bytes).substr(0, n), out), wire::StreamState::truncated)
-            << "prefix of " << n << " bytes";
-    }
-}
-
-TEST(SimWire, GarbledStreamsAreDetected) {
-    std::string good = encode(sample_outcome());
-    SimOutcome out;
-    EXPECT_EQ(wire::decode(good + "x", out), wire::StreamState::garbled);  // bytes after the result
-    EXPECT_EQ(wire::decode("Z" + good, out), wire::StreamState::garbled);  // unknown tag
-    std::string bad_status = wire::result_frame(SimStatus::ok, "");
-    bad_status[5] = 99;
-    EXPECT_EQ(wire::decode(bad_status, out), wire::StreamState::garbled);
-    std::string plot = wire::plot_frame(sample_outcome().plots[0]);
-    plot[plot.size() - 1] ^= 0x7f;  // corrupts the last vector's count
-    EXPECT_EQ(wire::decode(plot, out), wire::StreamState::garbled);
-}
-
-// ---- Judging printed lines (the lines are as ngspice 39 printed them in the runs above).
-TEST(SimVerdict, ErrorAndSubstitutionLines) {
-    struct Case {
-        const char* line;
-        bool error, substitution, chatter;
-    };
-    const Case cases[] = {
-        {"Error: circuit not parsed.", true, false, false},
-        {"ERROR: AC startfreq <= 0", true, false, false},
-        {"Fatal error: k1: coupling to non-existant inductor l2.", true, false, false},
-        {"run simulation(s) aborted", true, false, false},
-        {"Error: ngspice.dll cannot recover and awaits to be detached", true, false, false},
-        {"Warning: r1: resistance to low, set to 1 mOhm", false, true, false},
-        {"warning, can't find model 'nosuchmodel' from line", false, true, false},
-        {"Circuit: rc low-pass", false, false, false},
-        {"Note: Starting dynamic gmin stepping", false, false, true},
-        {"Warning: Further gmin increment", false, false, true},
-        {"Supplies reduced to   0.0000% ", false, false, true},
-        {"", false, false, true},
-    };
-    for (const Case& c : cases) {
-        SCOPED_TRACE(c.line);
-        EXPECT_EQ(is_error_line(c.line), c.error);
-        EXPECT_EQ(is_substitution_warning(c.line), c.substitution);
-        EXPECT_EQ(is_chatter(c.line), c.chatter);
-    }
-}
-
-TEST(SimVerdict, QuotingKeepsStderrProblemsOnce) {
-    std::vector<PrintedLine> lines = {
-        strip_channel("stdout Circuit: vv loop"),
-        strip_channel("stderr Warning: singular matrix:  check node v1#branch"),
-        strip_channel("stderr Warning: singular matrix:  check node v1#branch"),
-        strip_channel("stderr Note: Starting source stepping"),
-        strip_channel("stdout AC operating point failed -"),
-        strip_channel("stderr run simulation(s) aborted\r"),
-    };
-    EXPECT_EQ(quote_problems(lines, 0, lines.size()),
-              "Warning: singular matrix:  check node v1#branch\nrun simulation(s) aborted");
-    EXPECT_EQ(quote_problems(lines, 0, 1), "");
-    std::vector<PrintedLine> many(20, strip_channel("stderr Error: x"));
-    for (std::size_t i = 0; i < many.size(); ++i) many[i].text += std::to_string(i);
-    std::string quoted = quote_problems(many, 0, many.size());
-    EXPECT_NE(quoted.find("Error: x11\n(8 more lines in the log)"), std::string::npos) << quoted;
-}
-
-TEST(SimVerdict, ChannelPrefixAndTitles) {
-    EXPECT_EQ(strip_channel("stderr Error: x").text, "Error: x");
-    EXPECT_TRUE(strip_channel("stderr Error: x").to_stderr);
-    EXPECT_FALSE(strip_channel("stdout Circuit: t").to_stderr);
-    EXPECT_EQ(strip_channel(" Reference value :  3.28e+06\r").text, " Reference value :  3.28e+06");
-    EXPECT_TRUE(same_title("RC Low-Pass ", "rc low-pass"));
-    EXPECT_FALSE(same_title("RC low-pass", "rc low-pass 2"));
-    EXPECT_EQ(std::string(to_string(SimStatus::controlled_exit)), "controlled exit");
-    // ngspice 39 takes a .title card (even as the first line) as the circuit's title.
-    EXPECT_EQ(expected_title({"first line", "R1 a 0 1", ".end"}), "first line");
-    EXPECT_EQ(expected_title({".title foo", "R1 a 0 1", ".end"}), "foo");
-    EXPECT_EQ(expected_title({"t", "  .TITLE  Bar baz ", ".end"}), "Bar baz");
-    EXPECT_EQ(expected_title({"t", ".titles x", ".end"}), "t");
 }
 
 }  // namespace
