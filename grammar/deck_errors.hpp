@@ -20,7 +20,7 @@ template <>
 inline constexpr auto error_message<dquote_close> =
     "unterminated string: no closing '\"' on this line";
 template <>
-inline constexpr auto error_message<control_text> =
+inline constexpr auto error_message<control_unterminated> =
     "unterminated .control block: no .endc before the end of the file";
 template <>
 inline constexpr auto error_message<orphan_plus_error> =

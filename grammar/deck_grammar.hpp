@@ -21,6 +21,12 @@ struct blank_char
 struct ws : pg::plus<blank_char> {};
 struct rest_of_line : pg::star<pg::not_at<eol>, pg::any> {};
 
+// Tries Rule without actions first, so that a partial match (a blank run before a failing
+// rule) never leaves tokens behind; used for every alternative that can fail after
+// matching a token.
+template <typename Rule>
+struct guarded : pg::seq<pg::at<Rule>, Rule> {};
+
 // Field separators (manual 2.1.4.1: blanks, ',', '=', '(', ')').
 struct separator_char : pg::one<' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')'> {};
 
@@ -43,8 +49,9 @@ struct eol_comment : pg::seq<eol_comment_start, rest_of_line> {};
 // stand between (manual 2.3.5). A line ending in two backslashes continues too.
 struct plus_marker : pg::one<'+'> {};
 struct continuation_gap
-    : pg::seq<pg::opt<ws>, pg::opt<eol_comment>, eol, pg::star<pg::sor<blank_line, comment_line>>,
-              pg::opt<ws>, plus_marker> {};
+    : pg::seq<pg::opt<ws>, pg::opt<eol_comment>, eol,
+              pg::star<pg::sor<guarded<blank_line>, guarded<comment_line>>>, pg::opt<ws>,
+              plus_marker> {};
 struct backslash_marker : pg::two<'\\'> {};
 struct backslash_gap : pg::seq<backslash_marker, pg::opt<ws>, eol> {};
 // Checked first without actions, so that tokens are recorded only for a real continuation.
@@ -106,23 +113,31 @@ struct endc_line : pg::seq<pg::opt<ws>, endc_keyword, rest_of_line> {};
 struct control_text
     : pg::seq<pg::opt<ws>, control_keyword, rest_of_line, eol,
               pg::star<pg::not_at<endc_line>, rest_of_line, eol>, endc_line> {};
-struct control_body : pg::disable<pg::must<control_text>> {};  // one token
+struct control_unterminated : pg::failure {};  // only ever raised, see deck_errors.hpp
+struct control_body
+    : pg::disable<pg::sor<control_text, pg::raise<control_unterminated>>> {};  // one token
 struct control_block : pg::seq<pg::at<pg::opt<ws>, control_keyword>, control_body, eolf> {};
 
 // A '+' line with no card before it.
 struct orphan_plus : pg::seq<pg::opt<ws>, plus_marker> {};
 struct orphan_plus_error : orphan_plus {};  // only ever raised, see deck_errors.hpp
-struct orphan_continuation : pg::seq<pg::at<orphan_plus>, pg::raise<orphan_plus_error>> {};
+struct orphan_continuation
+    : pg::seq<pg::at<orphan_plus>, pg::opt<ws>, pg::raise<orphan_plus_error>> {};  // at the '+'
+
+// '.title text': the rest of the line is free text (manual 2.3.1), quotes and braces
+// included, and cannot be continued (manual 2.3.5).
+struct title_keyword : keyword<'.', 't', 'i', 't', 'l', 'e'> {};
+struct title_card_text : pg::plus<pg::not_at<eol>, pg::any> {};
+struct title_card : guarded<pg::seq<pg::opt<ws>, pg::at<title_keyword>, word,
+                                    pg::opt<title_card_text>, eolf>> {};
 
 // Top-level lines. Each alternative is tried without actions first, so that a partial
 // match never leaves tokens behind; a card cannot fail once its first field matched.
-template <typename Rule>
-struct guarded : pg::seq<pg::at<Rule>, Rule> {};
-struct blank_card : guarded<pg::sor<blank_line, blank_last_line>> {};
+struct blank_card : pg::sor<guarded<blank_line>, guarded<blank_last_line>> {};
 struct comment_card : guarded<comment_line> {};
 struct control_card : control_block {};
 struct line_item
-    : pg::sor<blank_card, comment_card, control_card, orphan_continuation, card> {};
+    : pg::sor<blank_card, comment_card, control_card, orphan_continuation, title_card, card> {};
 
 // Everything after the .end card is kept verbatim (manual 2.3.2).
 struct after_end : pg::plus<pg::any> {};

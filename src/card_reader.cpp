@@ -19,6 +19,7 @@ struct ReaderState {
     std::vector<Token> fields;
 
     void push(TokenKind kind, const char* b, const char* e) {
+        if (b == e) return;  // an empty title line holds no bytes, so no token
         Token t{kind, static_cast<std::uint32_t>(b - base), static_cast<std::uint32_t>(e - base)};
         tokens.push_back(t);
         if (is_field(kind)) fields.push_back(t);
@@ -51,6 +52,7 @@ template <> struct action<g::eol_comment> : token_action<TokenKind::comment> {};
 template <> struct action<g::plus_marker> : token_action<TokenKind::continuation> {};
 template <> struct action<g::backslash_marker> : token_action<TokenKind::continuation> {};
 template <> struct action<g::title_text> : token_action<TokenKind::title> {};
+template <> struct action<g::title_card_text> : token_action<TokenKind::title> {};
 template <> struct action<g::control_body> : token_action<TokenKind::control> {};
 template <> struct action<g::word> : token_action<TokenKind::word> {};
 template <> struct action<g::brace_expr> : token_action<TokenKind::brace> {};
@@ -73,6 +75,7 @@ template <> struct action<g::title_line> : card_action<CardKind::title> {};
 template <> struct action<g::blank_card> : card_action<CardKind::blank> {};
 template <> struct action<g::comment_card> : card_action<CardKind::comment> {};
 template <> struct action<g::control_card> : card_action<CardKind::control> {};
+template <> struct action<g::title_card> : card_action<CardKind::dot> {};
 
 template <>
 struct action<g::card> {

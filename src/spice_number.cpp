@@ -93,6 +93,19 @@ std::size_t good_prefix(std::string_view text) {
     return i;
 }
 
+// True if `prefix` (a good prefix followed by a digit) ends in digits and then one scale
+// suffix or 'R', as in the RKM spellings "4k7", "4R7", "2MEG2"; "0x10" is no such value.
+bool is_rkm_letters(std::string_view prefix) {
+    std::size_t i = prefix.size();
+    while (i > 0 && std::isalpha(static_cast<unsigned char>(prefix[i - 1]))) --i;
+    if (i == 0 || i == prefix.size() || !std::isdigit(static_cast<unsigned char>(prefix[i - 1])))
+        return false;
+    std::string_view letters = prefix.substr(i);
+    for (const char* s : {"t", "g", "meg", "k", "m", "u", "n", "p", "f", "r"})
+        if (iequals(letters, s)) return true;
+    return false;
+}
+
 struct SuffixInfo {
     const char* lower;
     double multiplier;
@@ -127,7 +140,7 @@ NumberParse parse_spice_number(std::string_view text) {
         unsigned char c = k < text.size() ? static_cast<unsigned char>(text[k]) : 0;
         if (c >= 0x80)
             r.problem = NumberProblem::non_ascii;
-        else if (std::isdigit(c) && k > 0 && std::isalpha(static_cast<unsigned char>(text[k - 1])))
+        else if (std::isdigit(c) && is_rkm_letters(text.substr(0, k)))
             r.problem = NumberProblem::rkm_style;
         else
             r.problem = NumberProblem::trailing_junk;

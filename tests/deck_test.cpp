@@ -1,0 +1,206 @@
+// Tests of deck loading: includes and libraries, structural checks, and the full rendered
+// text of every class of bad input a reader can see.
+#include "deck.hpp"
+
+#include <gtest/gtest.h>
+
+#include <string>
+
+#include "test_support.hpp"
+
+namespace deckscale {
+namespace {
+
+struct BadInputRow {
+    int line;
+    const char* what;
+    std::vector<std::pair<std::string, std::string>> files;  // [0] is the deck
+    std::string rendered;                                     // render() of the DeckError
+};
+
+std::vector<BadInputRow> bad_inputs() {
+    return {
+        {__LINE__, "too few fields", {{"proj/deck.cir", "t\nR1 a 0\n.end\n"}},
+         "proj/deck.cir:2:1: error: too few fields for 'R1': expected R<name> n+ n- value, found 2 "
+         "after the name\n"
+         "  R1 a 0\n"
+         "  ^~\n"},
+        {__LINE__, "too few fields on a dot card", {{"proj/deck.cir", "t\n.ac dec 10 1\n"}},
+         "proj/deck.cir:2:1: error: too few fields for '.ac': expected .ac dec|oct|lin points "
+         "fstart fstop\n"
+         "  .ac dec 10 1\n"
+         "  ^~~\n"},
+        {__LINE__, "'+' line with nothing before it", {{"proj/deck.cir", "t\n+ 1k\n"}},
+         "proj/deck.cir:2:1: error: continuation line '+' has no card before it to continue\n"
+         "  + 1k\n"
+         "  ^\n"},
+        {__LINE__, "'+' line after a comment at the start",
+         {{"proj/deck.cir", "t\n* header\n\t+ 1k\n"}},
+         "proj/deck.cir:3:2: error: continuation line '+' has no card before it to continue\n"
+         "  \t+ 1k\n"
+         "  \t^\n"},
+        {__LINE__, "unterminated .subckt",
+         {{"proj/deck.cir", "t\n.subckt filt in out\nR1 in out 1k\n.end\n"}},
+         "proj/deck.cir:2:1: error: unterminated .subckt 'filt': no .ends before the end of the "
+         "file\n"
+         "  .subckt filt in out\n"
+         "  ^~~~~~~\n"},
+        {__LINE__, ".ends without .subckt", {{"proj/deck.cir", "t\nR1 a 0 1\n.ends\n"}},
+         "proj/deck.cir:3:1: error: '.ends' without a '.subckt'\n"
+         "  .ends\n"
+         "  ^~~~~\n"},
+        {__LINE__, "unterminated .control",
+         {{"proj/deck.cir", "t\nR1 a 0 1\n.control\nrun\n.end\n"}},
+         "proj/deck.cir:3:1: error: unterminated .control block: no .endc before the end of the "
+         "file\n"
+         "  .control\n"
+         "  ^\n"},
+        {__LINE__, "unbalanced {", {{"proj/deck.cir", "t\nR1 a 0 {1k*2\n.end\n"}},
+         "proj/deck.cir:2:13: error: unbalanced '{': the card ends before the matching '}'\n"
+         "  R1 a 0 {1k*2\n"
+         "              ^\n"},
+        {__LINE__, "unterminated 'expr'", {{"proj/deck.cir", "t\nR1 a 0 '1k*2\n"}},
+         "proj/deck.cir:2:13: error: unterminated quoted expression: no closing \"'\" before the "
+         "end of the card\n"
+         "  R1 a 0 '1k*2\n"
+         "              ^\n"},
+        {__LINE__, "missing include",
+         {{"proj/deck.cir", "t\n.include models/missing.lib\nR1 a 0 1\n"}},
+         "proj/deck.cir:2:10: error: cannot read included file 'proj/models/missing.lib'\n"
+         "  .include models/missing.lib\n"
+         "           ^~~~~~~~~~~~~~~~~~\n"},
+        {__LINE__, "include cycle",
+         {{"proj/deck.cir", "t\n.include b.inc\n"},
+          {"proj/b.inc", ".include c.inc\n"},
+          {"proj/c.inc", "R1 a 0 1\n.inc b.inc\n"}},
+         "proj/c.inc:2:6: error: include cycle: proj/b.inc -> proj/c.inc -> proj/b.inc\n"
+         "  .inc b.inc\n"
+         "       ^~~~~\n"
+         "proj/b.inc:1:10: note: included from here\n"
+         "  .include c.inc\n"
+         "           ^~~~~\n"
+         "proj/deck.cir:2:10: note: included from here\n"
+         "  .include b.inc\n"
+         "           ^~~~~\n"},
+        {__LINE__, "a deck that includes itself", {{"proj/deck.cir", "t\n.include ./deck.cir\n"}},
+         "proj/deck.cir:2:10: error: include cycle: proj/deck.cir -> proj/./deck.cir\n"
+         "  .include ./deck.cir\n"
+         "           ^~~~~~~~~~\n"},
+        {__LINE__, "error inside an included file",
+         {{"proj/deck.cir", "t\n.lib 'parts.lib' filters\n"},
+          {"proj/parts.lib", ".lib filters\nC1 a\n.endl\n"}},
+         "proj/parts.lib:2:1: error: too few fields for 'C1': expected C<name> n+ n- value, found "
+         "1 after the name\n"
+         "  C1 a\n"
+         "  ^~\n"
+         "proj/deck.cir:2:6: note: included from here\n"
+         "  .lib 'parts.lib' filters\n"
+         "       ^~~~~~~~~~~\n"},
+        {__LINE__, "empty file", {{"proj/deck.cir", ""}},
+         "proj/deck.cir: error: empty file: a deck needs a title line and cards\n"},
+        {__LINE__, "binary data", {{"proj/deck.cir", std::string("t\nR1 a\0 0 1\n", 11)}},
+         "proj/deck.cir:2:5: error: binary data (a NUL byte): this is not a SPICE deck\n"
+         "  " + std::string("R1 a\0 0 1", 9) + "\n"
+         "      ^\n"},
+        {__LINE__, "missing deck", {},
+         "proj/deck.cir: error: cannot read the deck file\n"},
+    };
+}
+
+TEST(Deck, BadInputRendersInFull) {
+    for (const auto& row : bad_inputs()) {
+        SCOPED_TRACE(testing::Message() << "row at line " << row.line << ": " << row.what);
+        MemoryFileSystem fs;
+        for (const auto& [path, text] : row.files) fs.add(path, text);
+        try {
+            load_deck("proj/deck.cir", fs);
+            ADD_FAILURE() << "no DeckError";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()), row.rendered);
+        }
+    }
+}
+
+TEST(Deck, UnknownButWellFormedConstructsAreWarnings) {
+    MemoryFileSystem fs;
+    fs.add("d.cir", "t\n.frobnicate 1 2\n#pragma x\nR1 a 0 1\n.end\n");
+    Deck deck = load_deck("d.cir", fs);
+    EXPECT_EQ(render(deck.warnings),
+              "d.cir:2:1: warning: unknown dot card '.frobnicate' passes through unchanged\n"
+              "  .frobnicate 1 2\n"
+              "  ^~~~~~~~~~~\n"
+              "d.cir:3:1: warning: unknown element type '#pragma' passes through unchanged\n"
+              "  #pragma x\n"
+              "  ^~~~~~~\n");
+}
+
+TEST(Deck, TitleCardIsFreeText) {
+    // ngspice 39 takes the rest of a .title line as text: quotes and braces in it are fine.
+    MemoryFileSystem fs;
+    std::string text = "t\n.title Bob's {first} \"filter\n.TITLE\nR1 a 0 1\n.end\n";
+    fs.add("d.cir", text);
+    Deck deck = load_deck("d.cir", fs);
+    EXPECT_TRUE(deck.warnings.empty()) << render(deck.warnings);
+    auto r = test::read_back(deck.top(), FileRole::deck);
+    EXPECT_EQ(r.fault, "");
+    EXPECT_EQ(r.rebuilt, text);
+}
+
+TEST(Deck, IncludesAndLibrariesAreLoadedOnce) {
+    MemoryFileSystem fs;
+    fs.add("p/top.cir",
+           "t\n.include sub/models.inc\n.INC \"sub/models.inc\"\n.lib lib/parts.lib lowpass\n"
+           "X1 in out lp5\n.end\n.include after_end.inc\n");
+    fs.add("p/sub/models.inc", "* models\n.model swm sw vt=1\n");
+    fs.add("p/lib/parts.lib",
+           ".lib lowpass\n.subckt lp5 in out\nR1 in out 1k\nC1 out 0 1n\n.ends lp5\n.endl\n"
+           ".lib highpass\n.include ../sub/models.inc\n.endl highpass\n");
+    Deck deck = load_deck("p/top.cir", fs);
+    ASSERT_EQ(deck.files.size(), 3u);
+    EXPECT_EQ(deck.files[0].role, FileRole::deck);
+    EXPECT_EQ(deck.files[1].source->path(), "p/sub/models.inc");
+    EXPECT_EQ(deck.files[1].role, FileRole::include);
+    EXPECT_EQ(deck.files[2].source->path(), "p/lib/parts.lib");
+    ASSERT_EQ(deck.includes.size(), 4u);
+    // Includes are recorded after the included file was read, so the nested one comes first
+    // among those of parts.lib.
+    std::vector<std::string> seen;
+    for (const auto& inc : deck.includes)
+        seen.push_back(fmt::format("{}->{} [{}] {}", inc.from_file, inc.target_file, inc.section,
+                                   deck.files[inc.from_file].source->view(
+                                       inc.path_token.begin, inc.path_token.end)));
+    std::vector<std::string> expected{"0->1 [] sub/models.inc", "0->1 [] \"sub/models.inc\"",
+                                      "2->1 [] ../sub/models.inc", "0->2 [lowpass] lib/parts.lib"};
+    EXPECT_EQ(seen, expected);
+    EXPECT_NE(deck.include_at(0, deck.includes[0].path_token.begin), nullptr);
+    EXPECT_EQ(deck.include_at(0, 0), nullptr);
+    EXPECT_TRUE(deck.warnings.empty()) << render(deck.warnings);
+}
+
+TEST(Deck, CardKeyword) {
+    SourceFile f("f.cir", "t\n.SubCkt x a\nRload a 0 1\n\n");
+    std::vector<std::string> words;
+    read_cards(f, FileRole::deck, [&](const Card& c) { words.push_back(card_keyword(c)); });
+    EXPECT_EQ(words, (std::vector<std::string>{"", ".subckt", "rload", ""}));
+}
+
+TEST(Deck, EveryNetlistDeckLoads) {
+    DiskFileSystem disk;
+    for (const auto& path : test::netlist_files()) {
+        if (!test::is_top_deck(path)) continue;
+        SCOPED_TRACE(path.string());
+        try {
+            Deck deck = load_deck(path.string(), disk);
+            for (const auto& f : deck.files) {
+                auto r = test::read_back(*f.source, f.role);
+                EXPECT_EQ(r.fault, "");
+                EXPECT_TRUE(r.rebuilt == f.source->text()) << f.source->path();
+            }
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+}  // namespace
+}  // namespace deckscale

@@ -1,0 +1,126 @@
+// Tests of the edit set: sorted, conflict-checked byte-range edits and the one function that
+// applies them.
+#include "edit.hpp"
+
+#include <gtest/gtest.h>
+
+#include <stdexcept>
+#include <string>
+
+namespace deckscale {
+namespace {
+
+const std::string kText = "R1 a 0 1k\nC1 a 0 10n\n";  // 21 bytes: 1k at 7, 10n at 17
+
+TEST(EditSet, NoEditsGiveTheInputBack) {
+    EditSet edits;
+    EXPECT_TRUE(edits.empty());
+    EXPECT_EQ(apply_edits(kText, edits), kText);
+    EXPECT_EQ(apply_edits("", edits), "");
+}
+
+TEST(EditSet, EditsAreKeptSortedWhateverTheOrderAdded) {
+    EditSet edits;
+    edits.add(kText, {17, 3, "20n"});
+    edits.add(kText, {0, 2, "Rx"});
+    edits.add(kText, {7, 2, "2k"});
+    ASSERT_EQ(edits.size(), 3u);
+    EXPECT_EQ(edits.edits()[0].offset, 0u);
+    EXPECT_EQ(edits.edits()[1].offset, 7u);
+    EXPECT_EQ(edits.edits()[2].offset, 17u);
+    EXPECT_EQ(apply_edits(kText, edits), "Rx a 0 2k\nC1 a 0 20n\n");
+}
+
+TEST(EditSet, AnEditThatChangesNothingIsNotStored) {
+    EditSet edits;
+    edits.add(kText, {7, 2, "1k"});
+    EXPECT_TRUE(edits.empty());
+    // ...and so it cannot conflict with a real edit of the same bytes.
+    edits.add(kText, {7, 2, "2k"});
+    EXPECT_EQ(edits.size(), 1u);
+}
+
+TEST(EditSet, InsertionsAndDeletions) {
+    EditSet edits;
+    edits.add(kText, {0, 0, "* scaled\n"});
+    edits.add(kText, {10, 11, ""});
+    EXPECT_EQ(apply_edits(kText, edits), "* scaled\nR1 a 0 1k\n");
+}
+
+struct OverlapRow {
+    int line;
+    Edit first, second;
+    const char* message;
+};
+
+TEST(EditSet, OverlappingEditsThrowNamingBoth) {
+    const OverlapRow rows[] = {
+        {__LINE__, {7, 2, "2k"}, {8, 1, "M"},
+         "overlapping edits [7, 9) -> \"2k\" and [8, 9) -> \"M\""},
+        {__LINE__, {8, 1, "M"}, {7, 2, "2k"},  // the stored edit is named first
+         "overlapping edits [8, 9) -> \"M\" and [7, 9) -> \"2k\""},
+        {__LINE__, {7, 2, "2k"}, {7, 2, "3k"},
+         "overlapping edits [7, 9) -> \"2k\" and [7, 9) -> \"3k\""},
+        {__LINE__, {7, 0, "x"}, {7, 0, "y"},
+         "overlapping edits [7, 7) -> \"x\" and [7, 7) -> \"y\""},
+        {__LINE__, {0, 10, "gone"}, {7, 0, "y"},
+         "overlapping edits [0, 10) -> \"gone\" and [7, 7) -> \"y\""},
+    };
+    for (const auto& row : rows) {
+        SCOPED_TRACE(testing::Message() << "row at line " << row.line);
+        EditSet edits;
+        edits.add(kText, row.first);
+        try {
+            edits.add(kText, row.second);
+            ADD_FAILURE() << "no exception";
+        } catch (const std::logic_error& e) {
+            EXPECT_EQ(std::string(e.what()), row.message);
+        }
+        EXPECT_EQ(edits.size(), 1u);  // the set is unchanged
+    }
+}
+
+TEST(EditSet, AdjacentEditsDoNotConflict) {
+    EditSet edits;
+    edits.add(kText, {7, 1, "2"});
+    edits.add(kText, {8, 1, "M"});
+    EXPECT_EQ(apply_edits(kText, edits), "R1 a 0 2M\nC1 a 0 10n\n");
+}
+
+TEST(EditSet, EditOutsideTheFileThrows) {
+    EditSet edits;
+    EXPECT_THROW(edits.add(kText, {20, 10, "x"}), std::logic_error);
+}
+
+TEST(EditSet, ApplyToARange) {
+    EditSet edits;
+    edits.add(kText, {0, 0, "<"});    // insertion at the start of line 1
+    edits.add(kText, {7, 2, "2k"});
+    edits.add(kText, {10, 0, ">"});   // insertion at the start of line 2
+    edits.add(kText, {17, 3, "20n"});
+    struct {
+        int line;
+        std::uint32_t begin, end;
+        const char* expected;
+    } rows[] = {
+        {__LINE__, 0, 10, "<R1 a 0 2k\n"},  // the insertion at 10 belongs to the next range
+        {__LINE__, 10, 21, ">C1 a 0 20n\n"},
+        {__LINE__, 0, 21, "<R1 a 0 2k\n>C1 a 0 20n\n"},
+        {__LINE__, 3, 6, "a 0"},
+        {__LINE__, 21, 21, ""},
+    };
+    for (const auto& row : rows) {
+        SCOPED_TRACE(testing::Message() << "row at line " << row.line);
+        EXPECT_EQ(apply_edits(kText, edits, row.begin, row.end), row.expected);
+    }
+    EXPECT_EQ(apply_edits(kText, edits), "<R1 a 0 2k\n>C1 a 0 20n\n");
+}
+
+TEST(EditSet, InsertionAtTheVeryEndIsApplied) {
+    EditSet edits;
+    edits.add(kText, {21, 0, ".end\n"});
+    EXPECT_EQ(apply_edits(kText, edits), kText + ".end\n");
+}
+
+}  // namespace
+}  // namespace deckscale
