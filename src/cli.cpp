@@ -46,6 +46,28 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                     "Write the deck even if some items cannot be scaled; each is left as it was and "
                     "marked by a comment line");
     scale->add_flag("--flatten", s.flatten, "Write one self-contained deck with every include inlined");
+    scale->add_flag("--verify", s.verify,
+                    "Then simulate both decks and check that they are equivalent (needs -o or -i)");
+
+    auto* verify = app.add_subcommand("verify", "Prove a rescaled deck equivalent to its original by simulation");
+    VerifyOptions& v = inv.verify;
+    verify->add_option("ORIGINAL", v.original, "The original deck")->required();
+    verify->add_option("SCALED", v.scaled, "The rescaled deck")->required();
+    verify->add_option("--km", v.km_text, "Impedance factor (inferred from the element values if omitted)");
+    verify->add_option("--kf", v.kf_text, "Frequency factor (inferred from the element values if omitted)");
+    verify->add_option("--json", v.json, "Write the report as JSON to this file");
+    verify->add_option("--plot", v.plot, "Write an SVG Bode overlay of original and scaled responses");
+    verify->add_option("--sweep", v.sweep, "AC sweep of the original: dec|oct|lin N F1 F2")->expected(4);
+    verify->add_option("--drive", v.drive, "The independent source that drives the AC comparison (gets AC 1)");
+    verify->add_option("--tolerance", v.tolerance, "Relative tolerance for AC and operating point (default 1e-6)")
+        ->check(CLI::PositiveNumber);
+    verify->add_option("--tolerance-db", v.tolerance_db, "Also require the AC magnitude error within this many dB");
+    verify->add_option("--tolerance-deg", v.tolerance_deg, "Also require the AC phase error within this many degrees");
+    verify->add_option("--tran-tolerance", v.tran_tolerance,
+                       "Tolerance for transients, relative to each waveform's peak (default 1e-3)")
+        ->check(CLI::PositiveNumber);
+    verify->add_option("--sim-timeout", v.timeout_s, "Seconds one simulation may take (default 60)")
+        ->check(CLI::PositiveNumber);
 
     std::vector<std::string> reversed(args.rbegin(), args.rend());
     try {
@@ -74,6 +96,19 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
         if (auto err = take_factor("--km", s.km_text, s.km); !err.empty()) return usage(err);
         if (auto err = take_factor("--kf", s.kf_text, s.kf); !err.empty()) return usage(err);
         if (s.in_place && !s.output.empty()) return usage("-i/--in-place and -o/--output exclude each other");
+        if (s.verify && s.output.empty() && !s.in_place)
+            return usage("--verify needs the scaled deck in a file: give -o OUT (or -i)");
+        return inv;
+    }
+    if (verify->parsed()) {
+        inv.what = Invocation::What::verify;
+        if (v.km_text.empty() != v.kf_text.empty())
+            return usage("give both --km and --kf, or neither (then they are inferred)");
+        if (!v.km_text.empty()) {
+            v.factors_given = true;
+            if (auto err = take_factor("--km", v.km_text, v.km); !err.empty()) return usage(err);
+            if (auto err = take_factor("--kf", v.kf_text, v.kf); !err.empty()) return usage(err);
+        }
         return inv;
     }
     inv.what = Invocation::What::help;

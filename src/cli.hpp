@@ -33,6 +33,8 @@ struct VerifyOptions {
     std::string drive;     // --drive SOURCE: the source that gets "AC 1"
     double tolerance = 1e-6;        // relative, AC and operating point
     double tran_tolerance = 1e-3;   // relative to each waveform's peak
+    double tolerance_db = 0;        // 0 = not used
+    double tolerance_deg = 0;       // 0 = not used
     double timeout_s = 60;
 };
 

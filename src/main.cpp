@@ -6,6 +6,7 @@
 #include "cli.hpp"
 #include "exit_codes.hpp"
 #include "scale_command.hpp"
+#include "verify_command.hpp"
 
 int main(int argc, char** argv) {
     using namespace deckscale;
@@ -23,7 +24,7 @@ int main(int argc, char** argv) {
         case Invocation::What::scale:
             return run_scale(inv.scale, std::cout, std::cerr);
         case Invocation::What::verify:
-            break;
+            return run_verify(inv.verify, std::cout, std::cerr);
     }
     return exit_bad_input;
 }

@@ -1,0 +1,134 @@
+#include "analyses.hpp"
+
+#include <fmt/format.h>
+
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+// The plain words of a card after its name ('(' ')' ',' '=' dropped).
+std::vector<std::string_view> words_of(const Card& c) {
+    std::vector<std::string_view> w;
+    for (std::size_t i = 1; i < c.fields.size(); ++i) {
+        auto k = c.fields[i].kind;
+        if (k == TokenKind::word || k == TokenKind::brace || k == TokenKind::squote)
+            w.push_back(c.field_text(i));
+    }
+    return w;
+}
+
+std::optional<double> number(std::string_view s) {
+    auto p = parse_spice_number(s);
+    if (!p.number) return std::nullopt;
+    return p.number->value;
+}
+
+std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::string& error) {
+    if (w.size() < 4) {
+        error = "needs dec|oct|lin, a point count and two frequencies";
+        return std::nullopt;
+    }
+    AcSweep s;
+    s.type = to_lower(w[0]);
+    if (s.type != "dec" && s.type != "oct" && s.type != "lin") {
+        error = fmt::format("unknown sweep type '{}'", w[0]);
+        return std::nullopt;
+    }
+    auto n = number(w[1]), f1 = number(w[2]), f2 = number(w[3]);
+    if (!n || !f1 || !f2) {
+        error = "the point count and frequencies must be plain numbers (parameters are not evaluated)";
+        return std::nullopt;
+    }
+    if (*n < 1 || *f1 <= 0 || *f2 < *f1) {
+        error = "the sweep must have at least one point and 0 < fstart <= fstop";
+        return std::nullopt;
+    }
+    s.points = static_cast<long>(*n);
+    s.fstart = *f1;
+    s.fstop = *f2;
+    return s;
+}
+
+}  // namespace
+
+DeckAnalyses find_analyses(const Deck& deck) {
+    DeckAnalyses a;
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.fields.empty()) return;
+            std::string kw = card_keyword(c);
+            if (c.kind == CardKind::element && (kw[0] == 'v' || kw[0] == 'i')) {
+                a.sources.push_back(kw);
+                for (std::size_t i = 3; i < c.fields.size(); ++i)
+                    if (iequals(c.field_text(i), "ac")) {
+                        a.ac_sources.push_back(kw);
+                        break;
+                    }
+                return;
+            }
+            if (c.kind != CardKind::dot) return;
+            auto w = words_of(c);
+            if (kw == ".ac" && !a.ac) {
+                std::string err;
+                a.ac = sweep_from(w, err);
+                if (!a.ac) a.problems.push_back(fmt::format(".ac card: {}", err));
+            } else if (kw == ".tran" && !a.tran) {
+                TranSpec t;
+                std::vector<double> v;
+                bool ok = true;
+                for (auto s : w) {
+                    if (iequals(s, "uic")) {
+                        t.uic = true;
+                        continue;
+                    }
+                    if (auto x = number(s)) v.push_back(*x);
+                    else ok = false;
+                }
+                if (!ok || v.size() < 2) {
+                    a.problems.push_back(".tran card: its times must be plain numbers");
+                    return;
+                }
+                t.tstep = v[0];
+                t.tstop = v[1];
+                if (v.size() > 2) t.tstart = v[2];
+                if (v.size() > 3) t.tmax = v[3];
+                a.tran = t;
+            } else if (kw == ".op") {
+                a.op = true;
+            }
+        });
+    }
+    return a;
+}
+
+std::optional<AcSweep> parse_sweep(const std::vector<std::string>& words, std::string& error) {
+    std::vector<std::string_view> w(words.begin(), words.end());
+    return sweep_from(w, error);
+}
+
+AcSweep map_sweep(const AcSweep& s, double kf) {
+    AcSweep m = s;
+    m.fstart = s.fstart * kf;
+    m.fstop = s.fstop * kf;
+    return m;
+}
+
+TranSpec map_tran(const TranSpec& t, double kf) {
+    return TranSpec{t.tstep / kf, t.tstop / kf, t.tstart / kf, t.tmax / kf, t.uic};
+}
+
+std::string ac_card(const AcSweep& s) {
+    return fmt::format(".ac {} {} {:.17g} {:.17g}", s.type, s.points, s.fstart, s.fstop);
+}
+
+std::string tran_card(const TranSpec& t) {
+    std::string s = fmt::format(".tran {:.17g} {:.17g}", t.tstep, t.tstop);
+    if (t.tstart != 0 || t.tmax != 0) s += fmt::format(" {:.17g}", t.tstart);
+    if (t.tmax != 0) s += fmt::format(" {:.17g}", t.tmax);
+    if (t.uic) s += " uic";
+    return s;
+}
+
+}  // namespace deckscale

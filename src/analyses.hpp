@@ -1,0 +1,46 @@
+// The analyses a deck asks for (.ac, .tran, .op) and the sources that could drive an AC
+// comparison, read from its cards; and their images under frequency scaling.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "deck.hpp"
+
+namespace deckscale {
+
+struct AcSweep {
+    std::string type;  // "dec", "oct" or "lin"
+    long points = 0;
+    double fstart = 0;
+    double fstop = 0;
+};
+
+struct TranSpec {
+    double tstep = 0, tstop = 0, tstart = 0, tmax = 0;
+    bool uic = false;
+};
+
+struct DeckAnalyses {
+    std::optional<AcSweep> ac;
+    std::optional<TranSpec> tran;
+    bool op = false;
+    std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
+    std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)
+    std::vector<std::string> sources;       // every independent V and I source
+};
+
+DeckAnalyses find_analyses(const Deck& deck);
+
+// A sweep from the words of --sweep (dec|oct|lin N F1 F2); nullopt with `error` set otherwise.
+std::optional<AcSweep> parse_sweep(const std::vector<std::string>& words, std::string& error);
+
+// The mapped analyses of the scaled deck: frequencies x Kf, times / Kf.
+AcSweep map_sweep(const AcSweep& s, double kf);
+TranSpec map_tran(const TranSpec& t, double kf);
+
+std::string ac_card(const AcSweep& s);
+std::string tran_card(const TranSpec& t);
+
+}  // namespace deckscale

@@ -1,0 +1,129 @@
+#include "bode_plot.hpp"
+
+#include <cmath>
+#include <filesystem>
+#include <numbers>
+
+#include <fcntl.h>
+#include <spawn.h>
+#include <sys/wait.h>
+
+#include <fmt/format.h>
+
+#include "output_file.hpp"
+
+extern char** environ;
+
+namespace deckscale {
+namespace {
+
+namespace fs = std::filesystem;
+
+double db(std::complex<double> x) { return 20 * std::log10(std::max(std::abs(x), 1e-300)); }
+double deg(std::complex<double> x) { return std::arg(x) * 180 / std::numbers::pi; }
+
+std::string quote(const std::string& s) {
+    std::string out = "'";
+    for (char c : s) out += c == '\'' ? std::string("''") : std::string(1, c);
+    return out + "'";
+}
+
+// Runs gnuplot on a script; returns an error text or "".
+std::string run_gnuplot(const std::string& script, const std::string& dir) {
+    std::string prog = "gnuplot";
+    std::vector<char*> argv{prog.data(), const_cast<char*>(script.c_str()), nullptr};
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
+#if defined(__GLIBC__) && (__GLIBC__ > 2 || (__GLIBC__ == 2 && __GLIBC_MINOR__ >= 29))
+    posix_spawn_file_actions_addchdir_np(&fa, dir.c_str());
+#endif
+    pid_t pid;
+    int rc = posix_spawnp(&pid, prog.c_str(), &fa, nullptr, argv.data(), environ);
+    posix_spawn_file_actions_destroy(&fa);
+    if (rc != 0) return "cannot run gnuplot (install the gnuplot-nox package; scripts/setup does)";
+    int status = 0;
+    waitpid(pid, &status, 0);
+    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0)
+        return fmt::format("gnuplot failed on {}", script);
+    return "";
+}
+
+}  // namespace
+
+std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRequest& r) {
+    const SimVector* fo = nullptr;
+    for (const auto& v : o.vectors)
+        if (v.kind == VectorKind::frequency) fo = &v;
+    if (!fo) return "no AC sweep to plot";
+    fs::path svg = fs::absolute(r.svg_path);
+    fs::path dir = svg.parent_path();
+    std::string stem = svg.stem().string();
+    std::string dat_name = stem + ".dat", gp_name = stem + ".gp";
+
+    std::string data = "# frequency of the original deck, then per vector: original dB, original deg,\n"
+                       "# scaled (mapped back: current x Km) dB, scaled deg, relative error\n";
+    std::vector<const SimVector*> vo, vs;
+    for (const auto& name : r.vectors) {
+        const SimVector* a = o.find(name);
+        const SimVector* b = s.find(name);
+        if (!a || !b) return fmt::format("vector '{}' is not in both decks", name);
+        vo.push_back(a);
+        vs.push_back(b);
+    }
+    for (std::size_t k = 0; k < fo->values.size(); ++k) {
+        data += fmt::format("{:.10e}", fo->values[k].real());
+        for (std::size_t i = 0; i < vo.size(); ++i) {
+            if (k >= vo[i]->values.size() || k >= vs[i]->values.size()) break;
+            double back = vo[i]->kind == VectorKind::current ? r.km : 1;
+            double peak = 0;
+            for (const auto& x : vo[i]->values) peak = std::max(peak, std::abs(x));
+            auto a = vo[i]->values[k];
+            auto b = vs[i]->values[k] * back;
+            double err = peak > 0 ? std::abs(b - a) / peak : 0;
+            data += fmt::format(" {:.10e} {:.10e} {:.10e} {:.10e} {:.6e}", db(a), deg(a), db(b), deg(b),
+                                std::max(err, 1e-18));
+        }
+        data += "\n";
+    }
+    std::string gp;
+    gp += "# gnuplot script written by deckscale verify; edit and rerun: gnuplot " + gp_name + "\n";
+    gp += "set terminal svg size 900,900 dynamic noenhanced font 'sans,11' background '#ffffff'\n";
+    // gnuplot writes a temporary file that is renamed once complete.
+    std::string tmp_svg = "." + svg.filename().string() + ".part";
+    gp += "set output " + quote(tmp_svg) + "\n";
+    gp += "set multiplot layout 3,1 title " + quote(r.title) + "\n";
+    gp += "set logscale x\nset grid\nset key outside right\nset format x '%.0s%c'\n";
+    gp += fmt::format("set xlabel 'frequency of the original deck / Hz (scaled deck ran at x{:.6g})'\n", r.kf);
+    auto series = [&](int col_o, int col_s, const char* what) {
+        std::string cmd = "plot ";
+        for (std::size_t i = 0; i < vo.size(); ++i) {
+            int base = 2 + static_cast<int>(i) * 5;
+            if (i) cmd += ", \\\n     ";
+            cmd += fmt::format("{} using 1:{} with lines lw 4 lc rgb '#9ecae1' title {}", quote(dat_name),
+                               base + col_o, quote(r.vectors[i] + " original " + what));
+            cmd += fmt::format(", {} using 1:{} with lines lw 1 lc rgb '#d95f02' title {}",
+                               quote(dat_name), base + col_s,
+                               quote(r.vectors[i] + " scaled, mapped back " + what));
+        }
+        return cmd + "\n";
+    };
+    gp += "set ylabel 'magnitude / dB'\n" + series(0, 2, "dB");
+    gp += "set ylabel 'phase / deg'\n" + series(1, 3, "deg");
+    gp += "set ylabel 'relative error'\nset logscale y\nset format y '%.0e'\nplot ";
+    for (std::size_t i = 0; i < vo.size(); ++i) {
+        if (i) gp += ", \\\n     ";
+        gp += fmt::format("{} using 1:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name),
+                          2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
+    }
+    gp += "\nunset multiplot\n";
+    if (auto e = write_file_atomically((dir / dat_name).string(), data); !e.empty()) return e;
+    if (auto e = write_file_atomically((dir / gp_name).string(), gp); !e.empty()) return e;
+    if (auto e = run_gnuplot(gp_name, dir.string()); !e.empty()) return e;
+    std::error_code ec;
+    fs::rename(dir / tmp_svg, svg, ec);
+    if (ec) return fmt::format("cannot write '{}': {}", svg.string(), ec.message());
+    return "";
+}
+
+}  // namespace deckscale

@@ -1,0 +1,134 @@
+#include "factor_inference.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+double median(std::vector<double> v) {
+    std::sort(v.begin(), v.end());
+    std::size_t n = v.size();
+    return n % 2 ? v[n / 2] : std::sqrt(v[n / 2 - 1] * v[n / 2]);
+}
+
+double predicted_ratio(char letter, double km, double kf) {
+    switch (letter) {
+        case 'r': return km;
+        case 'c': return 1 / (km * kf);
+        case 'l': return km / kf;
+    }
+    return 1;
+}
+
+}  // namespace
+
+std::vector<ElementValue> element_values(const Deck& deck) {
+    std::vector<ElementValue> out;
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::element || c.fields.empty()) return;
+            std::string name = card_keyword(c);
+            char letter = name[0];
+            if (letter != 'r' && letter != 'c' && letter != 'l') return;
+            int positional = 0;
+            const auto& fl = c.fields;
+            for (std::size_t i = 1; i < fl.size(); ++i) {
+                if (fl[i].kind != TokenKind::word) continue;
+                std::string_view w = c.field_text(i);
+                bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
+                std::string_view value_text;
+                if (keyed) {
+                    std::string key = to_lower(w);
+                    if (key.size() == 1 && key[0] == letter && i + 2 < fl.size())
+                        value_text = c.field_text(i + 2);
+                    else {
+                        i += 2;
+                        continue;
+                    }
+                } else if (++positional == 3) {
+                    value_text = w;
+                } else {
+                    continue;
+                }
+                auto p = parse_spice_number(value_text);
+                if (!p.number) return;
+                auto pos = c.file->position(c.fields[0].begin);
+                out.push_back({name, letter, p.number->value, c.file->path(), pos.line,
+                               std::string(value_text)});
+                return;
+            }
+        });
+    }
+    return out;
+}
+
+FactorInference infer_factors(const std::vector<ElementValue>& original,
+                              const std::vector<ElementValue>& scaled) {
+    FactorInference r;
+    std::map<std::string, const ElementValue*> by_name;
+    for (const auto& e : scaled) by_name[e.name] = &e;
+    std::vector<double> km_est;
+    std::vector<std::pair<char, double>> reactive;  // letter, ratio
+    for (const auto& e : original) {
+        auto it = by_name.find(e.name);
+        if (it == by_name.end() || e.value == 0 || it->second->value == 0) continue;
+        double ratio = it->second->value / e.value;
+        if (!(ratio > 0)) continue;
+        if (e.letter == 'r') km_est.push_back(ratio);
+        else reactive.emplace_back(e.letter, ratio);
+    }
+    r.resistor_pairs = static_cast<int>(km_est.size());
+    r.reactive_pairs = static_cast<int>(reactive.size());
+    if (km_est.empty() && reactive.size() < 2) {
+        r.message = "no matched resistors (by name) to infer Km from; give --km and --kf";
+        return r;
+    }
+    if (!km_est.empty()) {
+        r.km = median(km_est);
+    } else {
+        // Only C and L: C'/C * L'/L = 1/Kf^2 and L'/L / C'/C = Km^2.
+        std::vector<double> cs, ls;
+        for (auto [l, x] : reactive) (l == 'c' ? cs : ls).push_back(x);
+        if (cs.empty() || ls.empty()) {
+            r.message = "without matched resistors both a capacitor and an inductor are needed; give --km and --kf";
+            return r;
+        }
+        r.km = std::sqrt(median(ls) / median(cs));
+    }
+    std::vector<double> kf_est;
+    for (auto [l, x] : reactive) kf_est.push_back(l == 'c' ? 1 / (x * r.km) : r.km / x);
+    if (kf_est.empty()) {
+        r.kf = 1;
+        r.message = "no matched capacitors or inductors: Kf taken as 1";
+    } else {
+        r.kf = median(kf_est);
+    }
+    r.ok = true;
+    return r;
+}
+
+std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& original,
+                                        const std::vector<ElementValue>& scaled, double km,
+                                        double kf, double tolerance) {
+    std::vector<RatioMismatch> out;
+    std::map<std::string, const ElementValue*> by_name;
+    for (const auto& e : scaled) by_name[e.name] = &e;
+    for (const auto& e : original) {
+        auto it = by_name.find(e.name);
+        if (it == by_name.end()) continue;
+        double expected = e.value * predicted_ratio(e.letter, km, kf);
+        double dev = expected == 0 ? (it->second->value == 0 ? 0 : 1) : it->second->value / expected - 1;
+        if (std::fabs(dev) > tolerance) out.push_back({e, *it->second, expected, dev});
+    }
+    std::sort(out.begin(), out.end(), [](const RatioMismatch& a, const RatioMismatch& b) {
+        return std::fabs(a.deviation) > std::fabs(b.deviation);
+    });
+    return out;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,47 @@
+// Km and Kf read off a pair of decks: matched resistors give Km (R'/R), capacitors and
+// inductors give Kf (C'/C = 1/(Km Kf), L'/L = Km/Kf). Every element whose ratio disagrees
+// with the factors is reported: in a hand-scaled deck that is the likely typo.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "deck.hpp"
+
+namespace deckscale {
+
+struct ElementValue {
+    std::string name;  // lower-case
+    char letter = 0;   // 'r', 'c' or 'l'
+    double value = 0;
+    std::string file;
+    std::uint32_t line = 0;
+    std::string text;  // the value as written
+};
+
+// R, C and L elements with a literal value, from every file of the deck.
+std::vector<ElementValue> element_values(const Deck& deck);
+
+struct RatioMismatch {
+    ElementValue original;
+    ElementValue scaled;
+    double expected = 0;   // scaled value the factors predict
+    double deviation = 0;  // scaled/expected - 1
+};
+
+struct FactorInference {
+    bool ok = false;
+    double km = 1, kf = 1;
+    int resistor_pairs = 0, reactive_pairs = 0;
+    std::string message;  // why inference failed
+};
+
+FactorInference infer_factors(const std::vector<ElementValue>& original,
+                              const std::vector<ElementValue>& scaled);
+
+// Pairs whose ratio is off by more than `tolerance` (relative) from what km, kf predict.
+std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& original,
+                                        const std::vector<ElementValue>& scaled, double km,
+                                        double kf, double tolerance);
+
+}  // namespace deckscale

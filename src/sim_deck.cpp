@@ -1,0 +1,60 @@
+#include "sim_deck.hpp"
+
+#include <set>
+
+#include <fmt/format.h>
+
+#include "flatten.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+const std::set<std::string>& removed_cards() {
+    static const std::set<std::string> s{".ac", ".dc", ".tran", ".op", ".noise", ".disto", ".pz",
+                                         ".sens", ".tf", ".sp", ".pss", ".four", ".meas",
+                                         ".measure", ".print", ".plot", ".probe", ".save",
+                                         ".width", ".end"};
+    return s;
+}
+
+}  // namespace
+
+std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions& o) {
+    std::vector<EditSet> edits(deck.files.size());
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        const std::string& text = deck.files[f].source->text();
+        deck.visit_file(f, [&](const Card& c) {
+            bool remove = c.kind == CardKind::control || c.kind == CardKind::after_end ||
+                          (c.kind == CardKind::dot && removed_cards().count(card_keyword(c)));
+            if (remove) {
+                edits[f].add(text, Edit{c.begin(), c.end() - c.begin(), ""});
+                return;
+            }
+            if (!o.drive.empty() && c.kind == CardKind::element && card_keyword(c) == o.drive) {
+                const Token& last = c.fields.back();
+                edits[f].add(text, Edit{last.end, 0, fmt::format(" ac {:.17g}", o.drive_ac)});
+            }
+        });
+    }
+    std::string flat = flatten_deck(deck, edits);
+    std::vector<std::string> cards;
+    std::size_t pos = 0;
+    while (pos <= flat.size()) {
+        std::size_t nl = flat.find('\n', pos);
+        std::string line = flat.substr(pos, nl == std::string::npos ? std::string::npos : nl - pos);
+        if (!line.empty() && line.back() == '\r') line.pop_back();
+        cards.push_back(std::move(line));
+        if (nl == std::string::npos) break;
+        pos = nl + 1;
+    }
+    if (!cards.empty() && cards.front().rfind("\xEF\xBB\xBF", 0) == 0) cards.front().erase(0, 3);
+    while (cards.size() > 1 && cards.back().empty()) cards.pop_back();
+    if (cards.empty()) cards.push_back("deck");
+    if (cards.front().empty()) cards.front() = "untitled deck";
+    cards.push_back(o.analysis);
+    cards.push_back(".end");
+    return cards;
+}
+
+}  // namespace deckscale

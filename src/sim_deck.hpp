@@ -1,0 +1,22 @@
+// A deck prepared for one verification run: its own analyses, output cards and .control
+// blocks removed (a .control block may run shell commands: it never runs here), every
+// include inlined, and the verifier's analysis card added.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "deck.hpp"
+
+namespace deckscale {
+
+struct SimDeckOptions {
+    std::string analysis;     // e.g. ".ac dec 50 1 1meg"
+    std::string drive;        // lower-case source name that gets an AC value; "" = as written
+    double drive_ac = 1;      // the AC magnitude written on the driving source
+};
+
+// One card per entry (continuation lines as their own entries), title first, ".end" last.
+std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions& options);
+
+}  // namespace deckscale

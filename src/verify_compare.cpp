@@ -1,0 +1,190 @@
+#include "verify_compare.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <numbers>
+
+#include <fmt/format.h>
+
+namespace deckscale {
+
+bool Comparison::passed() const {
+    if (!problems.empty()) return false;
+    return std::all_of(vectors.begin(), vectors.end(), [](const VectorResult& v) { return v.passed; });
+}
+
+const VectorResult* Comparison::worst() const { return vectors.empty() ? nullptr : &vectors.front(); }
+
+namespace {
+
+bool compared(const SimVector& v) {
+    return v.kind == VectorKind::voltage || v.kind == VectorKind::current;
+}
+
+// Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents.
+double back_factor(const SimVector& v, double km) { return v.kind == VectorKind::current ? km : 1; }
+
+const SimVector* scale_vector(const SimPlot& p) {
+    for (const auto& v : p.vectors)
+        if (v.kind == VectorKind::frequency || v.kind == VectorKind::time) return &v;
+    return nullptr;
+}
+
+void sort_worst_first(Comparison& c) {
+    std::stable_sort(c.vectors.begin(), c.vectors.end(),
+                     [](const VectorResult& a, const VectorResult& b) { return a.worst > b.worst; });
+}
+
+// Vectors of the original that the scaled deck lacks, and the other way round.
+void match_names(const SimPlot& o, const SimPlot& s, Comparison& c) {
+    for (const auto& v : o.vectors)
+        if (compared(v) && !s.find(v.name))
+            c.problems.push_back(fmt::format("'{}' exists in the original but not in the scaled deck", v.name));
+    for (const auto& v : s.vectors)
+        if (compared(v) && !o.find(v.name))
+            c.problems.push_back(fmt::format("'{}' exists in the scaled deck but not in the original", v.name));
+}
+
+double wrap_degrees(double d) {
+    while (d > 180) d -= 360;
+    while (d < -180) d += 360;
+    return d;
+}
+
+}  // namespace
+
+Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, const Tolerances& tol) {
+    Comparison c;
+    c.analysis = "ac";
+    const SimVector* fo = scale_vector(o);
+    const SimVector* fs = scale_vector(s);
+    if (!fo || !fs) {
+        c.problems.push_back("an AC plot without a frequency vector");
+        return c;
+    }
+    std::size_t n = std::min(fo->values.size(), fs->values.size());
+    if (fo->values.size() != fs->values.size())
+        c.problems.push_back(fmt::format("the sweeps have {} and {} points", fo->values.size(),
+                                         fs->values.size()));
+    for (std::size_t k = 0; k < n; ++k) {
+        double f = fo->values[k].real(), g = fs->values[k].real();
+        if (std::fabs(g - kf * f) > 1e-9 * std::fabs(kf * f)) {
+            c.problems.push_back(fmt::format("point {}: the scaled deck ran at {:.9g} Hz, not at "
+                                             "Kf x {:.9g} Hz", k, g, f));
+            break;
+        }
+    }
+    c.points = n;
+    if (n) {
+        c.first = fo->values.front().real();
+        c.last = fo->values[n - 1].real();
+    }
+    match_names(o, s, c);
+    for (const auto& vo : o.vectors) {
+        if (!compared(vo)) continue;
+        const SimVector* vs = s.find(vo.name);
+        if (!vs) continue;
+        VectorResult r{vo.name, vo.kind};
+        double back = back_factor(vo, km);
+        for (std::size_t k = 0; k < n && k < vo.values.size(); ++k)
+            r.peak = std::max(r.peak, std::abs(vo.values[k]));
+        double floor = r.peak > 0 ? r.peak : 1e-300;
+        for (std::size_t k = 0; k < n && k < vo.values.size() && k < vs->values.size(); ++k) {
+            std::complex<double> a = vo.values[k], b = vs->values[k] * back;
+            double e = std::abs(b - a) / floor;
+            bool in_range = std::abs(a) > 1e-3 * r.peak && std::abs(b) > 0;
+            double db = in_range ? 20 * std::log10(std::abs(b) / std::abs(a)) : 0;
+            double deg = in_range ? wrap_degrees((std::arg(b) - std::arg(a)) * 180 / std::numbers::pi) : 0;
+            if (tol.db > 0 && std::fabs(db) > tol.db) r.passed = false;
+            if (tol.degrees > 0 && std::fabs(deg) > tol.degrees) r.passed = false;
+            if (e > r.worst || k == 0) {
+                r.worst = e;
+                r.at = fo->values[k].real();
+                r.db_error = db;
+                r.deg_error = deg;
+            }
+        }
+        if (r.peak == 0) r.worst = 0;
+        if (r.worst > tol.relative) r.passed = false;
+        c.vectors.push_back(r);
+    }
+    sort_worst_first(c);
+    return c;
+}
+
+Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Tolerances& tol) {
+    Comparison c;
+    c.analysis = "op";
+    c.points = 1;
+    match_names(o, s, c);
+    double vmax = 0, imax = 0;
+    for (const auto& v : o.vectors)
+        if (compared(v) && !v.values.empty())
+            (v.kind == VectorKind::current ? imax : vmax) =
+                std::max(v.kind == VectorKind::current ? imax : vmax, std::abs(v.values[0]));
+    for (const auto& vo : o.vectors) {
+        if (!compared(vo) || vo.values.empty()) continue;
+        const SimVector* vs = s.find(vo.name);
+        if (!vs || vs->values.empty()) continue;
+        VectorResult r{vo.name, vo.kind};
+        double a = vo.values[0].real(), b = vs->values[0].real() * back_factor(vo, km);
+        // Relative to the value itself, but never to less than a millionth of the largest
+        // value of its kind (a node at 0 V must not make 1e-15 V look like an error).
+        double scale = std::max(std::fabs(a), 1e-6 * (vo.kind == VectorKind::current ? imax : vmax));
+        r.peak = std::fabs(a);
+        r.worst = scale > 0 ? std::fabs(b - a) / scale : 0;
+        r.passed = r.worst <= tol.relative;
+        c.vectors.push_back(r);
+    }
+    sort_worst_first(c);
+    return c;
+}
+
+Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf, const Tolerances& tol) {
+    Comparison c;
+    c.analysis = "tran";
+    const SimVector* to = scale_vector(o);
+    const SimVector* ts = scale_vector(s);
+    if (!to || !ts || to->values.empty() || ts->values.empty()) {
+        c.problems.push_back("a transient plot without a time vector");
+        return c;
+    }
+    c.points = to->values.size();
+    c.first = to->values.front().real();
+    c.last = to->values.back().real();
+    match_names(o, s, c);
+    // Scaled times mapped back onto the original time axis.
+    std::vector<double> tmap(ts->values.size());
+    for (std::size_t j = 0; j < tmap.size(); ++j) tmap[j] = ts->values[j].real() * kf;
+    for (const auto& vo : o.vectors) {
+        if (!compared(vo)) continue;
+        const SimVector* vs = s.find(vo.name);
+        if (!vs) continue;
+        VectorResult r{vo.name, vo.kind};
+        double back = back_factor(vo, km);
+        for (const auto& x : vo.values) r.peak = std::max(r.peak, std::fabs(x.real()));
+        double floor = r.peak > 0 ? r.peak : 1e-300;
+        std::size_t j = 0;
+        for (std::size_t k = 0; k < to->values.size() && k < vo.values.size(); ++k) {
+            double t = to->values[k].real();
+            while (j + 1 < tmap.size() && tmap[j + 1] < t) ++j;
+            if (j + 1 >= tmap.size() || t < tmap.front()) continue;
+            double t0 = tmap[j], t1 = tmap[j + 1];
+            double w = t1 > t0 ? (t - t0) / (t1 - t0) : 0;
+            w = std::clamp(w, 0.0, 1.0);
+            double y = ((1 - w) * vs->values[j].real() + w * vs->values[j + 1].real()) * back;
+            double e = std::fabs(y - vo.values[k].real()) / floor;
+            if (e > r.worst) {
+                r.worst = e;
+                r.at = t;
+            }
+        }
+        if (r.peak == 0) r.worst = 0;
+        r.passed = r.worst <= tol.transient;
+        c.vectors.push_back(r);
+    }
+    sort_worst_first(c);
+    return c;
+}
+
+}  // namespace deckscale

@@ -1,0 +1,49 @@
+// Comparing the simulation of an original deck with that of its rescaled version. With x'
+// from the scaled deck: node voltages V'(Kf f) = V(f), branch currents Km I'(Kf f) = I(f),
+// V'(t/Kf) = v(t) (shared notes "scaling-rules.md" §7). Errors are relative to each
+// vector's largest magnitude (AC, transient) or to its own value (operating point).
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "sim.hpp"
+
+namespace deckscale {
+
+struct Tolerances {
+    double relative = 1e-6;       // AC and operating point
+    double transient = 1e-3;      // relative to each waveform's peak
+    double db = 0;                // when > 0: |magnitude error| in dB must be within it too
+    double degrees = 0;           // when > 0: |phase error| in degrees must be within it too
+};
+
+struct VectorResult {
+    std::string name;
+    VectorKind kind = VectorKind::other;
+    double worst = 0;      // relative error at the worst point
+    double at = 0;         // frequency or time of the worst point, in the original's units
+    double db_error = 0;   // AC: magnitude error at the worst point, dB
+    double deg_error = 0;  // AC: phase error at the worst point, degrees
+    double peak = 0;       // the reference magnitude
+    bool passed = true;
+};
+
+struct Comparison {
+    std::string analysis;          // "ac", "op" or "tran"
+    std::size_t points = 0;
+    double first = 0, last = 0;    // sweep or time range of the original
+    std::vector<VectorResult> vectors;  // worst first
+    std::vector<std::string> problems;  // anything that makes the comparison fail by itself
+    bool passed() const;
+    const VectorResult* worst() const;  // nullptr when there are no vectors
+};
+
+Comparison compare_ac(const SimPlot& original, const SimPlot& scaled, double km, double kf,
+                      const Tolerances& tol);
+Comparison compare_op(const SimPlot& original, const SimPlot& scaled, double km,
+                      const Tolerances& tol);
+Comparison compare_tran(const SimPlot& original, const SimPlot& scaled, double km, double kf,
+                        const Tolerances& tol);
+
+}  // namespace deckscale

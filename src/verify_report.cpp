@@ -1,0 +1,136 @@
+#include "verify_report.hpp"
+
+#include <algorithm>
+
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+#include "expression.hpp"
+
+namespace deckscale {
+
+bool VerifyReport::passed() const {
+    return !comparisons.empty() &&
+           std::all_of(comparisons.begin(), comparisons.end(), [](const Comparison& c) { return c.passed(); });
+}
+
+namespace {
+
+const char* kind_word(VectorKind k) {
+    switch (k) {
+        case VectorKind::voltage: return "voltage";
+        case VectorKind::current: return "current";
+        default: return "other";
+    }
+}
+
+const char* analysis_title(const std::string& a) {
+    if (a == "ac") return "AC sweep";
+    if (a == "op") return "Operating point";
+    return "Transient";
+}
+
+std::string unit_of_axis(const std::string& a) { return a == "ac" ? "Hz" : a == "tran" ? "s" : ""; }
+
+}  // namespace
+
+std::string report_text(const VerifyReport& r) {
+    std::string s;
+    s += "deckscale verify\n";
+    s += fmt::format("  original   {}\n  scaled     {}\n", r.original, r.scaled);
+    s += fmt::format("  factors    Km = {}, Kf = {}{}\n", factor_text(r.km), factor_text(r.kf),
+                     r.factors_inferred
+                         ? fmt::format("  (inferred from {} resistor and {} C/L pairs)", r.resistor_pairs,
+                                       r.reactive_pairs)
+                         : "  (given)");
+    if (r.mismatches.empty()) {
+        s += "  elements   every matched R, C and L agrees with the factors\n";
+    } else {
+        s += fmt::format("  elements   {} matched element(s) disagree with the factors:\n", r.mismatches.size());
+        for (const auto& m : r.mismatches)
+            s += fmt::format("    {}:{}: {} is {} (scaled {}:{}: {}), expected {:.7g}: off by {:+.4g} %\n",
+                             m.original.file, m.original.line, m.original.name, m.original.text,
+                             m.scaled.file, m.scaled.line, m.scaled.text, m.expected, m.deviation * 100);
+    }
+    for (const auto& n : r.notes) s += "  note       " + n + "\n";
+    for (const auto& c : r.comparisons) {
+        s += "\n";
+        std::string axis = unit_of_axis(c.analysis);
+        if (c.analysis == "op")
+            s += fmt::format("  {}: {} vectors\n", analysis_title(c.analysis), c.vectors.size());
+        else
+            s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
+                             analysis_title(c.analysis), c.points, c.first, axis, c.last, axis,
+                             c.vectors.size());
+        for (const auto& p : c.problems) s += "    problem: " + p + "\n";
+        if (c.vectors.empty()) continue;
+        if (c.analysis == "ac")
+            s += fmt::format("    {:<22} {:>12} {:>14} {:>12} {:>12}\n", "vector", "rel. error", "at Hz",
+                             "mag. dB", "phase deg");
+        else
+            s += fmt::format("    {:<22} {:>12} {:>14}\n", "vector", "rel. error", c.analysis == "tran" ? "at s" : "");
+        std::size_t shown = 0;
+        for (const auto& v : c.vectors) {
+            if (shown == 8 && v.passed) break;
+            ++shown;
+            std::string name = v.kind == VectorKind::current ? v.name + " (x Km)" : v.name;
+            if (c.analysis == "ac")
+                s += fmt::format("    {:<22} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, v.worst,
+                                 v.at, v.db_error, v.deg_error, v.passed ? "ok" : "FAIL");
+            else if (c.analysis == "tran")
+                s += fmt::format("    {:<22} {:>12.3g} {:>14.6g}  {}\n", name, v.worst, v.at,
+                                 v.passed ? "ok" : "FAIL");
+            else
+                s += fmt::format("    {:<22} {:>12.3g} {:>14}  {}\n", name, v.worst, "", v.passed ? "ok" : "FAIL");
+        }
+        if (shown < c.vectors.size())
+            s += fmt::format("    ... and {} more vectors within tolerance\n", c.vectors.size() - shown);
+    }
+    s += "\n";
+    double worst = 0;
+    for (const auto& c : r.comparisons)
+        if (auto w = c.worst()) worst = std::max(worst, w->worst);
+    if (r.passed())
+        s += fmt::format("PASS: the scaled deck is equivalent to the original (worst relative error "
+                         "{:.3g}; tolerance {:.3g} AC/OP, {:.3g} transient)\n",
+                         worst, r.tolerances.relative, r.tolerances.transient);
+    else
+        s += fmt::format("FAIL: the scaled deck is NOT equivalent to the original (worst relative "
+                         "error {:.3g}; tolerance {:.3g} AC/OP, {:.3g} transient)\n",
+                         worst, r.tolerances.relative, r.tolerances.transient);
+    return s;
+}
+
+std::string report_json(const VerifyReport& r) {
+    nlohmann::json j;
+    j["original"] = r.original;
+    j["scaled"] = r.scaled;
+    j["km"] = r.km;
+    j["kf"] = r.kf;
+    j["factors"] = r.factors_inferred ? "inferred" : "given";
+    j["passed"] = r.passed();
+    j["tolerance"] = {{"relative", r.tolerances.relative}, {"transient", r.tolerances.transient},
+                      {"db", r.tolerances.db}, {"degrees", r.tolerances.degrees}};
+    auto mm = nlohmann::json::array();
+    for (const auto& m : r.mismatches)
+        mm.push_back({{"element", m.original.name}, {"file", m.original.file}, {"line", m.original.line},
+                      {"scaled_file", m.scaled.file}, {"scaled_line", m.scaled.line},
+                      {"original", m.original.value}, {"scaled", m.scaled.value}, {"expected", m.expected},
+                      {"deviation", m.deviation}});
+    j["element_mismatches"] = mm;
+    auto an = nlohmann::json::array();
+    for (const auto& c : r.comparisons) {
+        auto vs = nlohmann::json::array();
+        for (const auto& v : c.vectors)
+            vs.push_back({{"name", v.name}, {"kind", kind_word(v.kind)}, {"worst", v.worst}, {"at", v.at},
+                          {"db_error", v.db_error}, {"deg_error", v.deg_error}, {"peak", v.peak},
+                          {"passed", v.passed}});
+        an.push_back({{"analysis", c.analysis}, {"points", c.points}, {"first", c.first}, {"last", c.last},
+                      {"passed", c.passed()}, {"problems", c.problems}, {"vectors", vs}});
+    }
+    j["analyses"] = an;
+    j["notes"] = r.notes;
+    return j.dump(2) + "\n";
+}
+
+}  // namespace deckscale

@@ -1,0 +1,28 @@
+// The verification report: text for people (summary first, worst offenders, one clear
+// PASS/FAIL line) and JSON for machines.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "factor_inference.hpp"
+#include "verify_compare.hpp"
+
+namespace deckscale {
+
+struct VerifyReport {
+    std::string original, scaled;
+    double km = 1, kf = 1;
+    bool factors_inferred = false;
+    int resistor_pairs = 0, reactive_pairs = 0;
+    std::vector<RatioMismatch> mismatches;
+    std::vector<Comparison> comparisons;
+    Tolerances tolerances;
+    std::vector<std::string> notes;
+    bool passed() const;
+};
+
+std::string report_text(const VerifyReport& r);
+std::string report_json(const VerifyReport& r);
+
+}  // namespace deckscale
