@@ -96,8 +96,8 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
         if (auto err = take_factor("--km", s.km_text, s.km); !err.empty()) return usage(err);
         if (auto err = take_factor("--kf", s.kf_text, s.kf); !err.empty()) return usage(err);
         if (s.in_place && !s.output.empty()) return usage("-i/--in-place and -o/--output exclude each other");
-        if (s.verify && s.output.empty() && !s.in_place)
-            return usage("--verify needs the scaled deck in a file: give -o OUT (or -i)");
+        if (s.verify && (s.output.empty() || s.in_place))
+            return usage("--verify needs the original and the scaled deck in files: give -o OUT");
         return inv;
     }
     if (verify->parsed()) {

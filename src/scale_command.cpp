@@ -11,6 +11,7 @@
 #include "output_file.hpp"
 #include "scale_output.hpp"
 #include "scaler.hpp"
+#include "verify_command.hpp"
 
 namespace deckscale {
 namespace {
@@ -94,6 +95,16 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
             err << "\n";
         }
         err << cautions(settings.factors);
+        if (o.verify) {
+            // Verify the pair just written (the CLI allows --verify only with -o).
+            VerifyOptions v;
+            v.original = o.deck;
+            v.scaled = output;
+            v.factors_given = true;
+            v.km = o.km;
+            v.kf = o.kf;
+            return run_verify(v, out, err);
+        }
     } catch (const DeckError& e) {
         err << render(e.diagnostic());
         return exit_bad_input;
