@@ -240,7 +240,11 @@ void scale_model(ScalePass& p) {
         first_factor = k;
     }
     if (!added.empty()) {
-        if (last->kind == TokenKind::rparen) added = added.substr(1) + " ";
+        if (last->kind == TokenKind::rparen) {
+            // "sw(vt=1)" -> "sw(vt=1 ron=.. roff=..)": keep the blank unless one is there.
+            char before = at > 0 ? c.file->text()[at - 1] : '(';
+            if (before == '(' || before == ' ' || before == '\t') added = added.substr(1);
+        }
         p.insert(at, added, "defaults written out", first_factor);
     }
 }

@@ -1,0 +1,258 @@
+// Tests of the scaling pass on whole cards: each row is a deck line (with the cards it needs
+// before it) and the exact line the pass must write for Km = 10, Kf = 1000 (shared notes
+// "scaling-rules.md" §1-§6 give every rule).
+#include "scaler.hpp"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+
+#include "diagnostic.hpp"
+#include "scale_test_support.hpp"
+
+namespace deckscale {
+namespace {
+
+struct LineCase {
+    int line;
+    std::string before;  // cards the tested line needs (unchanged by the pass)
+    std::string in, out;
+};
+
+std::vector<LineCase> line_cases() {
+    const std::string sense = "Vs s 0 0\nVt t 0 0\n";
+    return {
+        // ---- R C L K ----
+        {__LINE__, "", "R1 in a 1k ac=2k m=2 scale=3 tc1=0.01 tc2=0.001",
+         "R1 in a 10k ac=20k m=2 scale=3 tc1=0.01 tc2=0.001"},
+        {__LINE__, "", "R2 a 0 r=4.7k", "R2 a 0 r=47k"},
+        {__LINE__, "", "C1 a 0 10uF ic=1.5", "C1 a 0 1nF ic=1.5"},
+        {__LINE__, "", "C2 a 0 c=22n m=4", "C2 a 0 c=2.2p m=4"},
+        {__LINE__, "", "L1 a b 4.7uH ic=2m", "L1 a b 47nH ic=200u"},
+        {__LINE__, "", "L2 a b l=1m scale=2", "L2 a b l=10u scale=2"},
+        {__LINE__, "L1 a 0 1\nL2 b 0 1\n", "K1 L1 L2 0.9", "K1 L1 L2 0.9"},
+        // ---- independent sources ----
+        {__LINE__, "", "V1 in 0 DC 1 AC 1 45 DISTOF1 0.1 30 DISTOF2 0.2 60",
+         "V1 in 0 DC 1 AC 1 45 DISTOF1 0.1 30 DISTOF2 0.2 60"},
+        {__LINE__, "", "I1 0 n2 dc 2m ac 3m 45 distof1 4m 30", "I1 0 n2 dc 200u ac 300u 45 distof1 400u 30"},
+        {__LINE__, "", "I2 0 c 1m", "I2 0 c 100u"},
+        {__LINE__, "", "Vp p 0 PULSE(0 1 1u 2n 3n 4u 10u 5)", "Vp p 0 PULSE(0 1 1n 2p 3p 4n 10n 5)"},
+        {__LINE__, "", "Ip 0 p PULSE(0 1m 1u 2n 3n 4u 10u)", "Ip 0 p PULSE(0 100u 1n 2p 3p 4n 10n)"},
+        {__LINE__, "", "Vs s 0 SIN(0 1 1k 1m 100 30)", "Vs s 0 SIN(0 1 1meg 1u 100000 30)"},
+        {__LINE__, "", "Ve e 0 EXP(0 1 1u 2u 3u 4u)", "Ve e 0 EXP(0 1 1n 2n 3n 4n)"},
+        {__LINE__, "", "Vw w 0 PWL(0 0 1u 1 2u 0) r=1u td=0.5u", "Vw w 0 PWL(0 0 1n 1 2n 0) r=1n td=500p"},
+        {__LINE__, "", "Iw 0 w PWL(0 0 1u 1m 2u 0)", "Iw 0 w PWL(0 0 1n 100u 2n 0)"},
+        {__LINE__, "", "Vf f 0 SFFM(0 1 1k 2 100 10 20)", "Vf f 0 SFFM(0 1 1meg 2 100000 10 20)"},
+        {__LINE__, "", "If 0 f SFFM(1m 2m 1k 2 100)", "If 0 f SFFM(100u 200u 1meg 2 100000)"},
+        // AM on a current source: VA is a current, VO a dimensionless offset.
+        {__LINE__, "", "Ia 0 a AM(2m 1.5 1k 10k 1u 30)", "Ia 0 a AM(200u 1.5 1meg 10meg 1n 30)"},
+        {__LINE__, "", "Vn n 0 TRNOISE(1m 1u 1 2m 3m 4u 5u)", "Vn n 0 TRNOISE(1m 1n 1 2m 3m 4n 5n)"},
+        {__LINE__, "", "In 0 n TRNOISE(1m 1u 1 2m 3m 4u 5u)", "In 0 n TRNOISE(100u 1n 1 200u 300u 4n 5n)"},
+        {__LINE__, "", "Ir 0 rr TRRANDOM(1 1u 2u 3m 4m)", "Ir 0 rr TRRANDOM(1 1n 2n 300u 400u)"},
+        // ---- controlled sources, POLY per degree ----
+        {__LINE__, "", "E1 x 0 a 0 2", "E1 x 0 a 0 2"},
+        {__LINE__, sense, "F1 0 y Vs 3", "F1 0 y Vs 3"},
+        {__LINE__, "", "G1 0 z a 0 5m", "G1 0 z a 0 500u"},
+        {__LINE__, sense, "H1 h 0 Vs 100", "H1 h 0 Vs 1000"},
+        {__LINE__, "", "Ep pp 0 POLY(2) a 0 b 0 1 2 3 4 5 6", "Ep pp 0 POLY(2) a 0 b 0 1 2 3 4 5 6"},
+        // POLY(2) order: p0; p1 p2 (degree 1); p3 p4 p5 (degree 2); F: Km^(d-1).
+        {__LINE__, sense, "Fp 0 fp POLY(2) Vs Vt 1 2 3 4 5 6 7",
+         "Fp 0 fp POLY(2) Vs Vt 0.1 2 3 40 50 60 700"},
+        {__LINE__, sense, "Hp 0 hp POLY(2) Vs Vt 1 2 3 4 5 6", "Hp 0 hp POLY(2) Vs Vt 1 20 30 400 500 600"},
+        {__LINE__, sense, "Hq 0 hq POLY(1) Vs 1 2 3 4", "Hq 0 hq POLY(1) Vs 1 20 300 4000"},
+        {__LINE__, "", "Gp 0 gp POLY(2) a 0 b 0 1 2 3 4 5 6", "Gp 0 gp POLY(2) a 0 b 0 0.1 0.2 0.3 0.4 0.5 0.6"},
+        // ---- behavioural sources: variable substitution, output factor ----
+        {__LINE__, "", "B1 bb 0 V=v(a)*sin(2*pi*1k*time)+i(Vx)*ddt(v(a))",
+         "B1 bb 0 V=v(a)*sin(2*pi*1k*(time*1000))+(i(Vx)*10)*(ddt(v(a))/1000)"},
+        {__LINE__, "", "B2 0 bc I=v(a)/(1+hertz/1k)", "B2 0 bc I=((v(a)/(1+(hertz/1000)/1k))/10)"},
+        {__LINE__, "", "B3 r 0 V=v(a) tc1=0.1", "B3 r 0 V=v(a) tc1=0.1"},
+        {__LINE__, "", "Ev ev 0 VALUE={v(a)*sin(time*1k)}", "Ev ev 0 VALUE={v(a)*sin((time*1000)*1k)}"},
+        {__LINE__, "", "Gv 0 gv cur={v(a)/1k}", "Gv 0 gv cur={(v(a)/1k)/10}"},
+        // ---- lines, switches ----
+        {__LINE__, "", "T1 a 0 t 0 Z0=50 TD=1n", "T1 a 0 t 0 Z0=500 TD=1p"},
+        {__LINE__, "", "T2 a 0 t 0 Z0=50 F=1meg NL=0.25 IC=1,2m,3,4m",
+         "T2 a 0 t 0 Z0=500 F=1g NL=0.25 IC=1,200u,3,400u"},
+        {__LINE__, "", ".model lt ltra r=0.1 l=1u g=1m c=1p len=1",
+         ".model lt ltra r=1 l=10n g=100u c=0.1f len=1"},
+        {__LINE__, "", ".model ur urc k=2 fmax=1g rperl=1k cperl=1p",
+         ".model ur urc k=2 fmax=1t rperl=10k cperl=0.1f"},
+        // Defaults written out: URC FMAX 1G, RPERL 1k, CPERL 1e-15; switch RON 1, ROFF 1/GMIN.
+        {__LINE__, "", ".model ud urc k=2", ".model ud urc k=2 fmax=1e+12 rperl=10000 cperl=1e-19"},
+        {__LINE__, "", ".model swm sw vt=1 vh=0.1", ".model swm sw vt=1 vh=0.1 ron=10 roff=1e+13"},
+        {__LINE__, "", ".model cs csw it=1m ih=0.1m", ".model cs csw it=100u ih=10u ron=10 roff=1e+13"},
+        {__LINE__, ".options gmin=1e-9\n", ".model sp sw(vt=1)", ".model sp sw(vt=1 ron=10 roff=1e+10)"},
+        {__LINE__, "", ".model sq sw( vt=1 )", ".model sq sw( vt=1 ron=10 roff=1e+13)"},
+        // ---- analyses and options ----
+        {__LINE__, "", ".ac dec 10 1 1meg", ".ac dec 10 1000 1g"},
+        {__LINE__, "", ".tran 1n 1u 0 1n uic", ".tran 1p 1n 0 1p uic"},
+        {__LINE__, "V1 a 0 ac 1\n", ".noise v(a) V1 dec 10 1 1k 5", ".noise v(a) V1 dec 10 1000 1meg 5"},
+        {__LINE__, "", ".disto dec 10 1k 100meg 0.9", ".disto dec 10 1meg 100g 0.9"},
+        {__LINE__, "", ".four 1k v(a)", ".four 1meg v(a)"},
+        {__LINE__, "", ".sens v(a) ac dec 10 1 1k", ".sens v(a) ac dec 10 1000 1meg"},
+        {__LINE__, "", ".sp dec 10 1 1g 1", ".sp dec 10 1000 1t 1"},
+        {__LINE__, "V1 a 0 1\nI1 0 a 1\n", ".dc V1 0 1 0.1 I1 0 1m 0.1m", ".dc V1 0 1 0.1 I1 0 100u 10u"},
+        {__LINE__, "R1 a 0 1\n", ".dc R1 1k 2k 100", ".dc R1 10k 20k 1000"},
+        {__LINE__, "", ".dc TEMP -40 85 5", ".dc TEMP -40 85 5"},
+        {__LINE__, "", ".meas tran t1 TRIG v(a) VAL=0.5 RISE=1 TARG i(V1) VAL=1m FALL=1 TD=1u",
+         ".meas tran t1 TRIG v(a) VAL=0.5 RISE=1 TARG i(V1) VAL=100u FALL=1 TD=1n"},
+        {__LINE__, "", ".meas tran y AVG i(Va) FROM=1u TO=2u", ".meas tran y AVG i(Va) FROM=1n TO=2n"},
+        {__LINE__, "", ".meas tran t2 FIND v(a) AT=2u", ".meas tran t2 FIND v(a) AT=2n"},
+        {__LINE__, "", ".meas ac x WHEN im(Va)=1m", ".meas ac x WHEN im(Va)=100u"},
+        {__LINE__, "", ".meas ac m1 FIND vdb(a) AT=1k", ".meas ac m1 FIND vdb(a) AT=1meg"},
+        {__LINE__, "", ".ic v(a)=1 v(b)=2", ".ic v(a)=1 v(b)=2"},
+        {__LINE__, "", ".nodeset v(a)=1", ".nodeset v(a)=1"},
+        {__LINE__, "", ".options gmin=1e-12 abstol=1e-12 chgtol=1e-14 rshunt=1e9 scale=1e-6",
+         ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e+10 scale=1e-6"},
+        {__LINE__, "", ".options rseries=1m cshunt=1p reltol=1e-4 method=gear",
+         ".options rseries=10m cshunt=0.1f reltol=1e-4 method=gear"},
+        // ---- parameters and expressions: wrapped, never evaluated ----
+        {__LINE__, ".param rv=1k\n", "R1 in a {rv*2}", "R1 in a {(rv*2)*10}"},
+        {__LINE__, ".param rv=1k\n", "R2 a 0 'rv/2'", "R2 a 0 '(rv/2)*10'"},
+        {__LINE__, ".param rv=1k\n", "R3 a 0 rv", "R3 a 0 {(rv)*10}"},
+        {__LINE__, ".param cv=2n\n", "C1 a 0 cv", "C1 a 0 {(cv)/10000}"},
+        {__LINE__, ".param lv=1m\n", "L1 a 0 {lv}", "L1 a 0 {(lv)/100}"},
+        {__LINE__, ".subckt blk p q params: rr=1k\n", "Rx p q {rr}", "Rx p q {(rr)*10}"},
+    };
+}
+
+TEST(ScalerTest, LinesScaleAsTheRulesSay) {
+    for (const auto& c : line_cases()) {
+        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << c.line << ": " << c.in);
+        std::string deck = "line test\n" + c.before + c.in + "\n";
+        if (c.before.find(".subckt") != std::string::npos) deck += ".ends\n";
+        deck += ".end\n";
+        std::size_t n = 1 + static_cast<std::size_t>(std::count(c.before.begin(), c.before.end(), '\n'));
+        try {
+            auto s = test::scale_text(deck, 10, 1000);
+            std::string text = s.text();
+            std::size_t start = 0;
+            for (std::size_t i = 0; i < n; ++i) start = text.find('\n', start) + 1;
+            EXPECT_EQ(text.substr(start, text.find('\n', start) - start), c.out);
+            for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+TEST(ScalerTest, WrappedExpressionsAreInTheChangeList) {
+    auto s = test::scale_text("t\n.param rv=1k\nR1 a 0 {rv*2}\nR2 a 0 rv\n.end\n", 10, 1);
+    ASSERT_EQ(s.result.changes.size(), 2u);
+    EXPECT_EQ(s.result.changes[0].element, "R1");
+    EXPECT_EQ(s.result.changes[0].new_text, "{(rv*2)*10}");
+    EXPECT_EQ(s.result.changes[1].element, "R2");
+    EXPECT_EQ(s.result.changes[1].old_text, "rv");
+    EXPECT_EQ(s.result.changes[1].new_text, "{(rv)*10}");
+}
+
+TEST(ScalerTest, SubcircuitBodyIsScaledInPlace) {
+    std::string deck = "t\n.subckt rc in out\nR1 in out 1k\nC1 out 0 1n\n.ends rc\nX1 a b rc\n.end\n";
+    auto s = test::scale_text(deck, 10, 1000);
+    EXPECT_EQ(s.text(), "t\n.subckt rc in out\nR1 in out 10k\nC1 out 0 100f\n.ends rc\nX1 a b rc\n.end\n");
+}
+
+// Items that cannot be scaled exactly: one diagnostic each, at the right place.
+struct RefusalCase {
+    int line;
+    std::string deck;  // after the title
+    std::vector<std::string> where;  // "line:col" of each diagnostic
+};
+
+TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
+    const RefusalCase cases[] = {
+        {__LINE__, "D1 a 0 dm\n.model dm d is=1e-14\n", {"2:1", "3:11"}},
+        {__LINE__, "Q1 c b 0 qm\n", {"2:1"}},
+        {__LINE__, "M1 d g 0 0 mm w=1u l=1u\n", {"2:1"}},
+        {__LINE__, "J1 d g s jm\n", {"2:1"}},
+        {__LINE__, "A1 a b amp\n", {"2:1"}},
+        {__LINE__, "V1 a 0 EXTERNAL\n", {"2:8"}},
+        {__LINE__, "Y1 a 0 b 0 txlmod\n", {"2:1"}},
+        {__LINE__, "R1 a 0 1k\n.control\nac dec 10 1 1k\n.endc\n", {"3:1"}},
+        {__LINE__, "L1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n", {"4:7"}},
+        {__LINE__, "E1 a 0 LAPLACE {v(b)} {1/(1+s)}\n", {"2:8"}},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << c.line << ": " << c.deck);
+        try {
+            auto s = test::scale_text("refusal test\n" + c.deck + ".end\n", 10, 1000);
+            std::vector<std::string> got;
+            for (const auto& d : s.result.unscalable) {
+                EXPECT_EQ(d.severity, Severity::error);
+                EXPECT_EQ(d.file, "deck.cir");
+                got.push_back(std::to_string(d.line) + ":" + std::to_string(d.column));
+            }
+            EXPECT_EQ(got, c.where);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+TEST(ScalerTest, RefusalTextForACouplingOfANonInductor) {
+    auto s = test::scale_text("t\nL1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n.end\n", 10, 1);
+    ASSERT_EQ(s.result.unscalable.size(), 1u);
+    EXPECT_EQ(render(s.result.unscalable[0]),
+              "deck.cir:4:7: error: 'K1' couples 'R1', which is not an inductor of this deck\n"
+              "  K1 L1 R1 0.5\n"
+              "        ^~\n");
+}
+
+TEST(ScalerTest, LeaveUnscalableMarksEachCardInItsLineEndStyle) {
+    std::string lf = "t\nR1 a 0 1k\nD1 a 0 dm\n.end\n";
+    auto s = test::scale_text(lf, 10, 1, 7, true);
+    EXPECT_EQ(s.text(), "t\nR1 a 0 10k\n* deckscale: left unscaled: semiconductor devices are not "
+                        "scaled by this version (their area/m factors and model cards need their "
+                        "own rules)\nD1 a 0 dm\n.end\n");
+    EXPECT_EQ(s.result.unscalable.at(0).severity, Severity::warning);
+    std::string crlf = "t\r\nR1 a 0 1k\r\nQ1 c b 0 qm\r\nV1 a 0 EXTERNAL\r\n.end\r\n";
+    auto c = test::scale_text(crlf, 10, 1, 7, true);
+    std::string out = c.text();
+    EXPECT_EQ(out.substr(0, 15), "t\r\nR1 a 0 10k\r\n");
+    // Every line of the output ends in CRLF: no bare LF was inserted.
+    for (std::size_t i = 0; i < out.size(); ++i)
+        if (out[i] == '\n') EXPECT_TRUE(i > 0 && out[i - 1] == '\r') << "bare LF at " << i;
+    EXPECT_NE(out.find("\r\n* deckscale: left unscaled: EXTERNAL"), std::string::npos) << out;
+    EXPECT_NE(out.find("\r\n* deckscale: left unscaled: semiconductor"), std::string::npos) << out;
+}
+
+// Numbers keep their spelling: suffix and its case, unit tail, exponent style, digits.
+TEST(ScalerTest, SpellingIsKept) {
+    struct Row {
+        int line;
+        std::string in;
+        double km, kf;
+        int digits;
+        std::string out;
+    };
+    const Row rows[] = {
+        {__LINE__, "R1 a 0 2.2MEGohm", 10, 1, 7, "R1 a 0 22MEGohm"},
+        {__LINE__, "R1 a 0 4.7Meg", 10, 1, 7, "R1 a 0 47Meg"},
+        {__LINE__, "R1 a 0 47kOhm", 10, 1, 7, "R1 a 0 470kOhm"},
+        {__LINE__, "C1 a 0 4.7uF", 100, 1, 7, "C1 a 0 47nF"},
+        {__LINE__, "C1 a 0 4.7UF", 100, 1, 7, "C1 a 0 47NF"},
+        {__LINE__, "C3 a 0 1.5e-9", 10, 1000, 7, "C3 a 0 1.5e-13"},
+        {__LINE__, "C3 a 0 1.5E-9", 10, 1000, 7, "C3 a 0 1.5E-13"},
+        {__LINE__, "R1 a 0 1000", 2, 1, 7, "R1 a 0 2000"},
+        {__LINE__, "R1 a 0 0.5", 3, 1, 7, "R1 a 0 1.5"},
+        {__LINE__, "R1 a 0 1k", 3, 1, 3, "R1 a 0 3k"},
+        {__LINE__, "C1 a 0 10uF", 3, 1, 7, "C1 a 0 3.333333uF"},
+        {__LINE__, "C1 a 0 10uF", 3, 1, 3, "C1 a 0 3.33uF"},
+        {__LINE__, "L1 a 0 4.7uH", 3, 1, 4, "L1 a 0 14.1uH"},
+        {__LINE__, "L1 a 0 3.3mH", 10, 1000, 7, "L1 a 0 33uH"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << r.line);
+        auto s = test::scale_text("t\n" + r.in + "\n.end\n", r.km, r.kf, r.digits);
+        EXPECT_EQ(s.text(), "t\n" + r.out + "\n.end\n");
+    }
+}
+
+TEST(ScalerTest, FactorsOfOneChangeNothing) {
+    std::string deck = "t\n.param rv=1k\nR1 a 0 rv\nC1 a 0 1u\nB1 b 0 V=time*i(V1)\n.end\n";
+    auto s = test::scale_text(deck, 1, 1);
+    EXPECT_EQ(s.text(), deck);
+    EXPECT_TRUE(s.result.changes.empty());
+}
+
+}  // namespace
+}  // namespace deckscale
