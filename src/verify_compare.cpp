@@ -104,7 +104,12 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
                 r.deg_error = deg;
             }
         }
-        if (r.peak == 0) r.worst = 0;
+        if (r.peak == 0) {
+            // An original that is zero everywhere: any non-zero scaled value is an error of 100 %.
+            r.worst = 0;
+            for (std::size_t k = 0; k < n && k < vs->values.size(); ++k)
+                if (vs->values[k] != std::complex<double>(0)) r.worst = 1;
+        }
         if (r.worst > tol.relative) r.passed = false;
         c.vectors.push_back(r);
     }
@@ -117,11 +122,16 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     c.analysis = "op";
     c.points = 1;
     match_names(o, s, c);
+    // The largest value of each kind in either deck (scaled currents mapped back): an original
+    // at 0 V everywhere must not hide a scaled deck that is not.
     double vmax = 0, imax = 0;
-    for (const auto& v : o.vectors)
-        if (compared(v) && !v.values.empty())
-            (v.kind == VectorKind::current ? imax : vmax) =
-                std::max(v.kind == VectorKind::current ? imax : vmax, std::abs(v.values[0]));
+    for (const SimPlot* p : {&o, &s})
+        for (const auto& v : p->vectors)
+            if (compared(v) && !v.values.empty()) {
+                double x = std::abs(v.values[0]) * (p == &s ? back_factor(v, km) : 1);
+                double& m = v.kind == VectorKind::current ? imax : vmax;
+                m = std::max(m, x);
+            }
     for (const auto& vo : o.vectors) {
         if (!compared(vo) || vo.values.empty()) continue;
         const SimVector* vs = s.find(vo.name);
@@ -156,6 +166,12 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
     // Scaled times mapped back onto the original time axis.
     std::vector<double> tmap(ts->values.size());
     for (std::size_t j = 0; j < tmap.size(); ++j) tmap[j] = ts->values[j].real() * kf;
+    // Samples outside the scaled run would be compared against its end values: say so instead.
+    double slack = 1e-9 * std::max(std::fabs(c.last - c.first), std::fabs(c.last));
+    if (tmap.front() > c.first + slack || tmap.back() < c.last - slack)
+        c.problems.push_back(fmt::format("the scaled run covers {:.6g} s .. {:.6g} s of the original's "
+                                         "time, not {:.6g} s .. {:.6g} s",
+                                         tmap.front(), tmap.back(), c.first, c.last));
     for (const auto& vo : o.vectors) {
         if (!compared(vo)) continue;
         const SimVector* vs = s.find(vo.name);
@@ -179,7 +195,11 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
                 r.at = t;
             }
         }
-        if (r.peak == 0) r.worst = 0;
+        if (r.peak == 0) {
+            r.worst = 0;
+            for (const auto& x : vs->values)
+                if (x.real() != 0) r.worst = 1;
+        }
         r.passed = r.worst <= tol.transient;
         c.vectors.push_back(r);
     }

@@ -1,0 +1,96 @@
+// The analyses of a deck, its AC-capable sources, and their images under frequency scaling.
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "analyses.hpp"
+#include "deck.hpp"
+
+namespace deckscale {
+namespace {
+
+DeckAnalyses analyses_of(const std::string& text) {
+    MemoryFileSystem fs;
+    fs.add("a.cir", text);
+    return find_analyses(load_deck("a.cir", fs));
+}
+
+TEST(FindAnalyses, AcTranOpAndSources) {
+    auto a = analyses_of(
+        "mixed\n"
+        "V1 in 0 dc 0 ac 1\n"
+        "I2 0 x dc 1m\n"
+        "Vb x 0 0 AC 0.5 90\n"
+        "R1 in x 1k\n"
+        ".AC oct 12 2k 3meg\n"
+        ".tran 1u 2m 0.5m 10n uic\n"
+        ".op\n"
+        ".end\n");
+    ASSERT_TRUE(a.ac);
+    EXPECT_EQ(a.ac->type, "oct");
+    EXPECT_EQ(a.ac->points, 12);
+    EXPECT_EQ(a.ac->fstart, 2e3);
+    EXPECT_EQ(a.ac->fstop, 3e6);
+    ASSERT_TRUE(a.tran);
+    EXPECT_EQ(a.tran->tstep, 1e-6);
+    EXPECT_EQ(a.tran->tstop, 2e-3);
+    EXPECT_EQ(a.tran->tstart, 0.5e-3);
+    EXPECT_EQ(a.tran->tmax, 10e-9);
+    EXPECT_TRUE(a.tran->uic);
+    EXPECT_TRUE(a.op);
+    EXPECT_EQ(a.sources, (std::vector<std::string>{"v1", "i2", "vb"}));
+    EXPECT_EQ(a.ac_sources, (std::vector<std::string>{"v1", "vb"}));
+    EXPECT_TRUE(a.problems.empty());
+}
+
+TEST(FindAnalyses, NothingToRun) {
+    auto a = analyses_of("plain\nV1 in 0 5\nR1 in 0 1k\n.end\n");
+    EXPECT_FALSE(a.ac);
+    EXPECT_FALSE(a.tran);
+    EXPECT_FALSE(a.op);
+    EXPECT_TRUE(a.ac_sources.empty());
+}
+
+TEST(FindAnalyses, UnreadableCardsAreProblems) {
+    struct Case {
+        int line;
+        std::string card;
+        std::string problem;
+    };
+    const std::vector<Case> cases{
+        {__LINE__, ".ac dec 10 {fl} 1meg",
+         ".ac card: the point count and frequencies must be plain numbers (parameters are not evaluated)"},
+        {__LINE__, ".ac log 10 1 1meg", ".ac card: unknown sweep type 'log'"},
+        {__LINE__, ".ac dec 10 1meg 1k", ".ac card: the sweep must have at least one point and 0 < fstart <= fstop"},
+        {__LINE__, ".tran 1u {tend}", ".tran card: its times must be plain numbers"},
+    };
+    for (const auto& k : cases) {
+        SCOPED_TRACE(k.line);
+        auto a = analyses_of("p\n.param fl=1 tend=1m\nV1 a 0 ac 1\nR1 a 0 1\n" + k.card + "\n.end\n");
+        EXPECT_EQ(a.problems, std::vector<std::string>{k.problem});
+    }
+}
+
+TEST(ParseSweep, WordsOfTheOption) {
+    std::string e;
+    auto s = parse_sweep({"lin", "7", "100", "1.6k"}, e);
+    ASSERT_TRUE(s) << e;
+    EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1600");
+    EXPECT_FALSE(parse_sweep({"dec", "x", "1", "2"}, e));
+    EXPECT_EQ(e, "the point count and frequencies must be plain numbers (parameters are not evaluated)");
+}
+
+TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {
+    AcSweep s{"dec", 20, 0.1, 10};
+    EXPECT_EQ(ac_card(map_sweep(s, 1e6)), ".ac dec 20 100000 10000000");
+    TranSpec t{1e-3, 2, 0, 0, false};
+    EXPECT_EQ(tran_card(map_tran(t, 1e3)), ".tran 9.9999999999999995e-07 0.002");
+    TranSpec u{1e-3, 2, 0.5, 1e-4, true};
+    EXPECT_EQ(tran_card(map_tran(u, 10)), ".tran 0.0001 0.20000000000000001 0.050000000000000003 1.0000000000000001e-05 uic");
+    TranSpec v{1, 4, 2, 0, false};
+    EXPECT_EQ(tran_card(v), ".tran 1 4 2");
+}
+
+}  // namespace
+}  // namespace deckscale

@@ -1,0 +1,85 @@
+// The deck handed to the simulator: analyses, outputs and .control blocks removed,
+// includes inlined, the verifier's analysis added, and the drive source given an AC value.
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "deck.hpp"
+#include "sim_deck.hpp"
+
+namespace deckscale {
+namespace {
+
+std::vector<std::string> cards_of(const MemoryFileSystem& fs, const std::string& path,
+                                  const SimDeckOptions& o) {
+    return simulation_cards(load_deck(path, fs), o);
+}
+
+TEST(SimulationCards, RemovesAnalysesOutputsAndControlBlocks) {
+    MemoryFileSystem fs;
+    fs.add("top.cir",
+           "notch under test\n"
+           "V1 in 0 dc 0 ac 1\n"
+           "R1 in out 1k\n"
+           ".include parts/c.inc\n"
+           ".ac dec 5 1 1k\n"
+           ".tran 1u 1m\n"
+           ".op\n"
+           ".print ac v(out)\n"
+           ".meas ac peak max v(out)\n"
+           ".save all\n"
+           ".options reltol=1e-6\n"
+           ".control\n"
+           "run\n"
+           "shell touch marker\n"
+           "quit\n"
+           ".endc\n"
+           ".end\n"
+           "trailing text after the end\n");
+    fs.add("parts/c.inc", "* the capacitor lives here\nC1 out 0 1u\n");
+    auto cards = cards_of(fs, "top.cir", {".ac lin 3 10 30", "", 1});
+    EXPECT_EQ(cards, (std::vector<std::string>{
+                         "notch under test",
+                         "V1 in 0 dc 0 ac 1",
+                         "R1 in out 1k",
+                         "* deckscale: contents of parts/c.inc follow",
+                         "* the capacitor lives here",
+                         "C1 out 0 1u",
+                         "* deckscale: end of parts/c.inc",
+                         ".options reltol=1e-6",
+                         ".ac lin 3 10 30",
+                         ".end",
+                     }));
+}
+
+TEST(SimulationCards, DriveSourceGetsTheAcValue) {
+    MemoryFileSystem fs;
+    fs.add("d.cir",
+           "driven later\n"
+           "Vdd vdd 0 5\n"
+           "Vsig in 0 dc 0 pulse(0 1 0 1n 1n 1u 2u)\n"
+           "+ \n"
+           "R1 in vdd 1k\n"
+           ".end\n");
+    auto cards = cards_of(fs, "d.cir", {".op", "vsig", 0.25});
+    EXPECT_EQ(cards, (std::vector<std::string>{
+                         "driven later",
+                         "Vdd vdd 0 5",
+                         "Vsig in 0 dc 0 pulse(0 1 0 1n 1n 1u 2u) ac 0.25",
+                         "+ ",
+                         "R1 in vdd 1k",
+                         ".op",
+                         ".end",
+                     }));
+}
+
+TEST(SimulationCards, CrlfAndAnEmptyTitle) {
+    MemoryFileSystem fs;
+    fs.add("w.cir", "\r\nR1 a 0 1\r\n.end\r\n");
+    auto cards = cards_of(fs, "w.cir", {".op", "", 1});
+    EXPECT_EQ(cards, (std::vector<std::string>{"untitled deck", "R1 a 0 1", ".op", ".end"}));
+}
+
+}  // namespace
+}  // namespace deckscale

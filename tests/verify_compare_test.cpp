@@ -1,0 +1,300 @@
+// Unit tests of the comparison of two simulations on synthetic plots: no simulator runs.
+#include <cmath>
+#include <complex>
+#include <numbers>
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "verify_compare.hpp"
+
+namespace deckscale {
+namespace {
+
+using cd = std::complex<double>;
+
+SimVector vec(std::string name, VectorKind kind, std::vector<cd> values) {
+    return SimVector{std::move(name), kind, std::move(values)};
+}
+
+std::vector<cd> reals(const std::vector<double>& x) { return {x.begin(), x.end()}; }
+
+// A one-pole response H(f) = 1 / (1 + j f / fc) on the given frequencies, and the current
+// of a source driving 1 kOhm at that node (in amperes).
+SimPlot ac_plot(const std::vector<double>& freqs, double fc, double current_scale = 1e-3) {
+    SimPlot p{"ac1", "AC Analysis", {}};
+    std::vector<cd> v, i;
+    for (double f : freqs) {
+        cd h = 1.0 / cd(1, f / fc);
+        v.push_back(h);
+        i.push_back(-h * current_scale);
+    }
+    p.vectors.push_back(vec("frequency", VectorKind::frequency, reals(freqs)));
+    p.vectors.push_back(vec("out", VectorKind::voltage, v));
+    p.vectors.push_back(vec("v1#branch", VectorKind::current, i));
+    return p;
+}
+
+std::vector<double> times(const std::vector<double>& f, double k) {
+    std::vector<double> out;
+    for (double x : f) out.push_back(x * k);
+    return out;
+}
+
+const std::vector<double> kFreqs{10, 100, 1000, 10000};
+
+TEST(CompareAc, CurrentsAreMultipliedByKmAndFrequenciesByKf) {
+    const double km = 50, kf = 1e3;
+    SimPlot original = ac_plot(kFreqs, 1000);
+    SimPlot scaled = ac_plot(times(kFreqs, kf), 1000 * kf, 1e-3 / km);
+    Comparison c = compare_ac(original, scaled, km, kf, Tolerances{});
+    EXPECT_TRUE(c.problems.empty());
+    EXPECT_TRUE(c.passed());
+    ASSERT_EQ(c.vectors.size(), 2u);
+    EXPECT_LT(c.worst()->worst, 1e-12);
+    EXPECT_EQ(c.points, 4u);
+    EXPECT_EQ(c.first, 10);
+    EXPECT_EQ(c.last, 10000);
+
+    // The same currents without the 1/Km: the current vector fails, the voltage passes.
+    SimPlot unscaled_current = ac_plot(times(kFreqs, kf), 1000 * kf, 1e-3);
+    Comparison d = compare_ac(original, unscaled_current, km, kf, Tolerances{});
+    ASSERT_EQ(d.vectors.size(), 2u);
+    EXPECT_EQ(d.vectors[0].name, "v1#branch");
+    EXPECT_FALSE(d.vectors[0].passed);
+    EXPECT_NEAR(d.vectors[0].worst, km - 1, 1e-9);
+    EXPECT_TRUE(d.vectors[1].passed);
+    EXPECT_FALSE(d.passed());
+}
+
+TEST(CompareAc, FrequencyGridMismatchIsAProblem) {
+    struct Case {
+        int line;
+        std::vector<double> scaled_freqs;
+        std::string problem;
+    };
+    const std::vector<Case> cases{
+        {__LINE__, {10, 100, 1000, 10000}, "point 0: the scaled deck ran at 10 Hz, not at Kf x 10 Hz"},
+        {__LINE__, {100, 1000, 10000, 100000, 1e6}, "the sweeps have 4 and 5 points"},
+        {__LINE__, {100, 1000, 10001, 100000}, "point 2: the scaled deck ran at 10001 Hz, not at Kf x 1000 Hz"},
+    };
+    for (const auto& k : cases) {
+        SCOPED_TRACE(k.line);
+        Comparison c = compare_ac(ac_plot(kFreqs, 1000), ac_plot(k.scaled_freqs, 1e4), 1, 10, Tolerances{});
+        ASSERT_FALSE(c.problems.empty());
+        EXPECT_EQ(c.problems.front(), k.problem);
+        EXPECT_FALSE(c.passed());
+    }
+}
+
+TEST(CompareAc, MissingVectorsAreNamedBothWays) {
+    SimPlot original = ac_plot(kFreqs, 1000);
+    SimPlot scaled = ac_plot(kFreqs, 1000);
+    scaled.vectors.pop_back();  // no v1#branch
+    scaled.vectors.push_back(vec("extra", VectorKind::voltage, reals({1, 1, 1, 1})));
+    Comparison c = compare_ac(original, scaled, 1, 1, Tolerances{});
+    EXPECT_EQ(c.problems, (std::vector<std::string>{
+                              "'v1#branch' exists in the original but not in the scaled deck",
+                              "'extra' exists in the scaled deck but not in the original"}));
+    EXPECT_FALSE(c.passed());
+}
+
+TEST(CompareAc, NoFrequencyVector) {
+    SimPlot original = ac_plot(kFreqs, 1000);
+    original.vectors.erase(original.vectors.begin());
+    Comparison c = compare_ac(original, ac_plot(kFreqs, 1000), 1, 1, Tolerances{});
+    EXPECT_EQ(c.problems, std::vector<std::string>{"an AC plot without a frequency vector"});
+    EXPECT_FALSE(c.passed());
+}
+
+// A scaled response whose gain is off by `gain` and whose phase is off by `deg` everywhere.
+SimPlot distorted(double gain, double deg) {
+    SimPlot p = ac_plot(kFreqs, 1000);
+    cd factor = std::polar(gain, deg * std::numbers::pi / 180);
+    for (auto& v : p.vectors)
+        if (v.kind == VectorKind::voltage || v.kind == VectorKind::current)
+            for (auto& x : v.values) x *= factor;
+    return p;
+}
+
+TEST(CompareAc, DecibelAndDegreeTolerances) {
+    const double g01 = std::pow(10, 0.01 / 20);  // +0.01 dB
+    struct Case {
+        int line;
+        double gain, deg;
+        Tolerances tol;
+        bool passes;
+    };
+    const std::vector<Case> cases{
+        // Only the relative tolerance: 0.01 dB is 1.2e-3 relative.
+        {__LINE__, g01, 0, Tolerances{1e-2, 1e-3, 0, 0}, true},
+        {__LINE__, g01, 0, Tolerances{1e-3, 1e-3, 0, 0}, false},
+        // dB limit on top of a loose relative tolerance.
+        {__LINE__, g01, 0, Tolerances{1, 1e-3, 0.02, 0}, true},
+        {__LINE__, g01, 0, Tolerances{1, 1e-3, 0.005, 0}, false},
+        // Phase limit on top of a loose relative tolerance.
+        {__LINE__, 1, 0.5, Tolerances{1, 1e-3, 0, 1}, true},
+        {__LINE__, 1, 0.5, Tolerances{1, 1e-3, 0, 0.25}, false},
+        {__LINE__, 1, -0.5, Tolerances{1, 1e-3, 0, 0.25}, false},
+        // A phase error near 360 degrees is a small error, not a large one.
+        {__LINE__, 1, 359.9, Tolerances{1, 1e-3, 0, 0.2}, true},
+    };
+    for (const auto& k : cases) {
+        SCOPED_TRACE(k.line);
+        Comparison c = compare_ac(ac_plot(kFreqs, 1000), distorted(k.gain, k.deg), 1, 1, k.tol);
+        EXPECT_EQ(c.passed(), k.passes);
+        const VectorResult* out = nullptr;
+        for (const auto& v : c.vectors)
+            if (v.name == "out") out = &v;
+        ASSERT_NE(out, nullptr);
+        EXPECT_NEAR(out->db_error, 20 * std::log10(k.gain), 1e-9);
+        double d = k.deg > 180 ? k.deg - 360 : k.deg;
+        EXPECT_NEAR(out->deg_error, d, 1e-6);
+    }
+}
+
+TEST(CompareAc, ZeroOriginalDoesNotHideANonZeroScaledVector) {
+    SimPlot original = ac_plot(kFreqs, 1000);
+    SimPlot scaled = ac_plot(kFreqs, 1000);
+    original.vectors.push_back(vec("quiet", VectorKind::voltage, reals({0, 0, 0, 0})));
+    scaled.vectors.push_back(vec("quiet", VectorKind::voltage, reals({0, 0, 1e-3, 0})));
+    Comparison c = compare_ac(original, scaled, 1, 1, Tolerances{});
+    EXPECT_FALSE(c.passed());
+    EXPECT_EQ(c.worst()->name, "quiet");
+    EXPECT_EQ(c.worst()->worst, 1);
+
+    // Zero in both is agreement.
+    scaled.vectors.back().values = reals({0, 0, 0, 0});
+    EXPECT_TRUE(compare_ac(original, scaled, 1, 1, Tolerances{}).passed());
+}
+
+SimPlot op_plot(double vin, double vout, double i) {
+    SimPlot p{"op1", "Operating Point", {}};
+    p.vectors.push_back(vec("in", VectorKind::voltage, {vin}));
+    p.vectors.push_back(vec("out", VectorKind::voltage, {vout}));
+    p.vectors.push_back(vec("v1#branch", VectorKind::current, {i}));
+    return p;
+}
+
+TEST(CompareOp, RelativeToEachValueWithAFloor) {
+    struct Case {
+        int line;
+        SimPlot scaled;
+        double km;
+        std::string worst_name;
+        double worst;
+        bool passes;
+    };
+    // Original: 5 V in, 1e-9 V at out (nearly zero), -2 mA.
+    const std::vector<Case> cases{
+        {__LINE__, op_plot(5, 1e-9, -2e-3 / 10), 10, "in", 0, true},
+        // 2e-12 V off on a node at 1e-9 V, with 5 V the largest voltage:
+        // measured against the floor of 1e-6 x 5 V, so the relative error is 2e-12 / 5e-6.
+        {__LINE__, op_plot(5, 1e-9 + 2e-12, -2e-3 / 10), 10, "out", 2e-12 / 5e-6, true},
+        // The same node 1e-5 V off: beyond the floor.
+        {__LINE__, op_plot(5, 1e-5, -2e-3 / 10), 10, "out", (1e-5 - 1e-9) / 5e-6, false},
+        // A current not divided by Km.
+        {__LINE__, op_plot(5, 1e-9, -2e-3), 10, "v1#branch", 9, false},
+        {__LINE__, op_plot(5.00001, 1e-9, -2e-3 / 10), 10, "in", 2e-6, false},
+    };
+    for (const auto& k : cases) {
+        SCOPED_TRACE(k.line);
+        Comparison c = compare_op(op_plot(5, 1e-9, -2e-3), k.scaled, k.km, Tolerances{});
+        EXPECT_EQ(c.analysis, "op");
+        EXPECT_EQ(c.passed(), k.passes);
+        ASSERT_NE(c.worst(), nullptr);
+        if (k.worst > 0) {
+            EXPECT_EQ(c.worst()->name, k.worst_name);
+            EXPECT_NEAR(c.worst()->worst, k.worst, 1e-6 * k.worst);
+        } else {
+            EXPECT_LT(c.worst()->worst, 1e-12);
+        }
+    }
+}
+
+TEST(CompareOp, AllZeroOriginalAgainstNonZeroScaledFails) {
+    // Found by this test: with every value of the original at zero, the floor was zero and
+    // any scaled value compared as "no error".
+    Comparison c = compare_op(op_plot(0, 0, 0), op_plot(1, 0.5, -5e-5), 10, Tolerances{});
+    EXPECT_FALSE(c.passed());
+    EXPECT_TRUE(compare_op(op_plot(0, 0, 0), op_plot(0, 0, 0), 10, Tolerances{}).passed());
+}
+
+TEST(CompareOp, MissingVector) {
+    SimPlot scaled = op_plot(5, 1, 0);
+    scaled.vectors.erase(scaled.vectors.begin() + 1);
+    Comparison c = compare_op(op_plot(5, 1, 0), scaled, 1, Tolerances{});
+    EXPECT_EQ(c.problems, std::vector<std::string>{"'out' exists in the original but not in the scaled deck"});
+    EXPECT_FALSE(c.passed());
+}
+
+// An RC charging curve v(t) = 1 - exp(-t/tau) sampled on `t`, time axis scaled by 1/kf.
+SimPlot tran_plot(const std::vector<double>& t, double tau, double kf, double current_scale) {
+    SimPlot p{"tran1", "Transient Analysis", {}};
+    std::vector<cd> tt, v, i;
+    for (double x : t) {
+        tt.push_back(x / kf);
+        v.push_back(1 - std::exp(-x / tau));
+        i.push_back(-std::exp(-x / tau) * current_scale);
+    }
+    p.vectors.push_back(vec("time", VectorKind::time, tt));
+    p.vectors.push_back(vec("out", VectorKind::voltage, v));
+    p.vectors.push_back(vec("v1#branch", VectorKind::current, i));
+    return p;
+}
+
+std::vector<double> grid(double stop, int n, double warp = 1) {
+    std::vector<double> t;
+    for (int k = 0; k <= n; ++k) t.push_back(stop * std::pow(static_cast<double>(k) / n, warp));
+    return t;
+}
+
+TEST(CompareTran, InterpolatesBetweenDifferingGrids) {
+    const double km = 20, kf = 1e6, tau = 1e-3;
+    SimPlot original = tran_plot(grid(5e-3, 500), tau, 1, 1e-3);
+    // A finer, uneven grid in the scaled deck: linear interpolation error of a 1 - exp curve
+    // with steps of at most ~4e-5 s is about (h/tau)^2 / 8 = 2e-4 of the peak.
+    SimPlot scaled = tran_plot(grid(5e-3, 250, 1.3), tau, kf, 1e-3 / km);
+    Comparison c = compare_tran(original, scaled, km, kf, Tolerances{});
+    EXPECT_TRUE(c.problems.empty());
+    EXPECT_TRUE(c.passed());
+    ASSERT_EQ(c.vectors.size(), 2u);
+    EXPECT_GT(c.worst()->worst, 1e-7);  // the grids really differ
+    EXPECT_LT(c.worst()->worst, 1e-3);
+    EXPECT_EQ(c.first, 0);
+    EXPECT_NEAR(c.last, 5e-3, 1e-15);
+
+    // A tighter transient tolerance than the interpolation error fails.
+    Tolerances tight;
+    tight.transient = 1e-7;
+    EXPECT_FALSE(compare_tran(original, scaled, km, kf, tight).passed());
+
+    // A different time constant in the scaled deck fails.
+    SimPlot wrong = tran_plot(grid(5e-3, 500), 1.01 * tau, kf, 1e-3 / km);
+    Comparison w = compare_tran(original, wrong, km, kf, Tolerances{});
+    EXPECT_FALSE(w.passed());
+    EXPECT_GT(w.worst()->worst, 3e-3);
+}
+
+TEST(CompareTran, AScaledRunThatEndsEarlyIsAProblem) {
+    // Found by this test: samples past the end of the scaled run were compared against its
+    // last value and nothing said that the run was short.
+    SimPlot original = tran_plot(grid(5e-3, 100), 1e-3, 1, 1e-3);
+    SimPlot scaled = tran_plot(grid(2.5e-3, 50), 1e-3, 1e3, 1e-3);
+    Comparison c = compare_tran(original, scaled, 1, 1e3, Tolerances{});
+    EXPECT_EQ(c.problems, std::vector<std::string>{
+                              "the scaled run covers 0 s .. 0.0025 s of the original's time, not 0 s .. 0.005 s"});
+    EXPECT_FALSE(c.passed());
+}
+
+TEST(CompareTran, NoTimeVector) {
+    SimPlot original = tran_plot(grid(1, 10), 1, 1, 1);
+    SimPlot scaled = original;
+    scaled.vectors.erase(scaled.vectors.begin());
+    Comparison c = compare_tran(original, scaled, 1, 1, Tolerances{});
+    EXPECT_EQ(c.problems, std::vector<std::string>{"a transient plot without a time vector"});
+}
+
+}  // namespace
+}  // namespace deckscale
