@@ -38,7 +38,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     scale->add_option("--kf", s.kf_text, "Frequency factor: new/old frequency (e.g. 2*pi*10meg)");
     scale->add_option("-o,--output", s.output, "Write the scaled deck here (default: standard output)");
     scale->add_flag("-i,--in-place", s.in_place, "Replace DECK itself (written to a temporary file, then renamed)");
-    scale->add_option("--digits", s.digits, "Significant digits of rewritten values (default 7)")
+    scale->add_option("--digits", s.digits, "Significant digits of rewritten values (default 9)")
         ->check(CLI::Range(3, 17));
     scale->add_flag("--changes", s.list_changes, "List every rewritten value");
     scale->add_option("--changes-json", s.changes_json, "Write the change list as JSON to this file");

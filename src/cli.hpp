@@ -13,7 +13,7 @@ struct ScaleOptions {
     std::string km_text = "1", kf_text = "1";  // as the user wrote them
     std::string output;            // empty: standard output
     bool in_place = false;
-    int digits = 7;
+    int digits = 9;
     bool list_changes = false;     // --changes
     std::string changes_json;      // --changes-json FILE
     bool leave_unscalable = false; // --leave-unscalable

@@ -14,7 +14,7 @@ namespace deckscale {
 
 struct ScaleSettings {
     ScaleFactors factors;
-    int digits = 7;                 // significant digits of rewritten numbers
+    int digits = 9;                 // significant digits of rewritten numbers
     bool mark_unscalable = false;   // insert a comment line before each unscalable card
 };
 
