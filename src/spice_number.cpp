@@ -180,16 +180,54 @@ std::string describe(NumberProblem problem, std::string_view text) {
 }
 
 std::string format_plain(double value, int digits) {
-    std::string s = fmt::format("{:.{}g}", value, digits);
-    return s;
+    char buf[64];
+    auto r = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::general, digits);
+    return std::string(buf, r.ptr);
 }
 
 namespace {
 
 // Mantissa text with `digits` significant digits, without an exponent when possible.
-std::string mantissa_text(double m, int digits) {
-    std::string s = fmt::format("{:.{}g}", m, digits);
-    return s;
+std::string mantissa_text(double m, int digits) { return format_plain(m, digits); }
+
+// Exponent form with trailing mantissa zeros trimmed and a bare exponent: "1.5e-7", "1E4".
+std::string exponent_text(double value, int digits, char letter) {
+    char buf[64];
+    auto r = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::scientific, digits - 1);
+    std::string_view t(buf, r.ptr - buf);
+    auto epos = t.find('e');
+    std::string_view mant = t.substr(0, epos), ex = t.substr(epos + 1);
+    if (mant.find('.') != std::string_view::npos) {
+        while (!mant.empty() && mant.back() == '0') mant.remove_suffix(1);
+        if (!mant.empty() && mant.back() == '.') mant.remove_suffix(1);
+    }
+    bool negative = !ex.empty() && ex.front() == '-';
+    if (!ex.empty() && (ex.front() == '-' || ex.front() == '+')) ex.remove_prefix(1);
+    while (ex.size() > 1 && ex.front() == '0') ex.remove_prefix(1);
+    std::string out(mant);
+    out += letter;
+    if (negative) out += '-';
+    out += ex;
+    return out;
+}
+
+// The power of ten of a value after rounding to `digits` significant digits.
+int decimal_exponent(double value, int digits) {
+    char buf[64];
+    auto r = std::to_chars(buf, buf + sizeof buf, std::fabs(value), std::chars_format::scientific,
+                           digits - 1);
+    std::string_view t(buf, r.ptr - buf);
+    int e = 0;
+    auto epos = t.find('e');
+    std::string_view ex = t.substr(epos + 1);
+    if (!ex.empty() && ex.front() == '+') ex.remove_prefix(1);
+    std::from_chars(ex.data(), ex.data() + ex.size(), e);
+    return e;
+}
+
+double power_of_ten(int e) {
+    static constexpr double table[] = {1e-15, 1e-12, 1e-9, 1e-6, 1e-3, 1, 1e3, 1e6, 1e9, 1e12};
+    return table[(e + 15) / 3];
 }
 
 std::string cased(std::string_view lower_suffix, std::string_view original) {
@@ -216,15 +254,15 @@ std::string respell(const SpiceNumber& original, double value, int digits) {
             {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};
         int exp3 = 0;
         if (value != 0) {
-            // Round first so that 999.99999 does not pick the smaller suffix.
-            double rounded = std::stod(fmt::format("{:.{}e}", std::fabs(value), digits - 1));
-            exp3 = static_cast<int>(std::floor(std::log10(rounded) / 3.0)) * 3;
+            // The exponent after rounding, so that 999.99999 does not pick the smaller suffix.
+            int e = decimal_exponent(value, digits);
+            exp3 = (e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3;
         }
         exp3 = std::clamp(exp3, -15, 12);
         const char* suffix = "t";
         for (const auto& [s, e] : eng)
             if (e == exp3) suffix = s;
-        std::string text = mantissa_text(value / std::pow(10.0, exp3), digits);
+        std::string text = mantissa_text(value / power_of_ten(exp3), digits);
         if (std::string_view(suffix).empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
             // when the tail cannot be misread as a suffix.
@@ -238,16 +276,8 @@ std::string respell(const SpiceNumber& original, double value, int digits) {
         return text + cased(suffix, original.suffix) + std::string(original.tail);
     }
     if (original.has_exponent) {
-        std::string text = fmt::format("{:.{}e}", value, digits - 1);
-        // Trim trailing zeros of the mantissa: 1.500000e-07 -> 1.5e-07
-        auto epos = text.find('e');
-        std::string mant = text.substr(0, epos), ex = text.substr(epos + 1);
-        if (mant.find('.') != std::string::npos) {
-            while (!mant.empty() && mant.back() == '0') mant.pop_back();
-            if (!mant.empty() && mant.back() == '.') mant.pop_back();
-        }
         char letter = std::isupper(static_cast<unsigned char>(original.exponent_letter)) ? 'E' : 'e';
-        return mant + letter + ex + std::string(original.tail);
+        return exponent_text(value, digits, letter) + std::string(original.tail);
     }
     return format_plain(value, digits) + std::string(original.tail);
 }

@@ -102,7 +102,7 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", ".ic v(a)=1 v(b)=2", ".ic v(a)=1 v(b)=2"},
         {__LINE__, "", ".nodeset v(a)=1", ".nodeset v(a)=1"},
         {__LINE__, "", ".options gmin=1e-12 abstol=1e-12 chgtol=1e-14 rshunt=1e9 scale=1e-6",
-         ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e+10 scale=1e-6"},
+         ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e10 scale=1e-6"},
         {__LINE__, "", ".options rseries=1m cshunt=1p reltol=1e-4 method=gear",
          ".options rseries=10m cshunt=0.1f reltol=1e-4 method=gear"},
         // ---- parameters and expressions: wrapped, never evaluated ----

@@ -191,8 +191,8 @@ TEST(SpiceNumber, RespellKeepsTheStyle) {
         {__LINE__, "1kOhm", 1e-3, "1Ohm"},
         // exponent form keeps exponent form and the letter's case
         {__LINE__, "1e-14", 2, "2e-14"},
-        {__LINE__, "2.65E3", 2, "5.3E+03"},
-        {__LINE__, "1e3Ohm", 2, "2e+03Ohm"},
+        {__LINE__, "2.65E3", 2, "5.3E3"},
+        {__LINE__, "1e3Ohm", 2, "2e3Ohm"},
         // plain stays plain
         {__LINE__, "1000", 2, "2000"},
         {__LINE__, "0.5", 2, "1"},
