@@ -6,20 +6,88 @@
 // continuation lines, field separators); see also shared notes "deck-syntax.md" §1.
 #pragma once
 
+#include <cstring>
+
 #include <tao/pegtl.hpp>
+#include <tao/pegtl/contrib/analyze_traits.hpp>
 
 namespace deckscale::grammar {
 
 namespace pg = tao::pegtl;
 
+// Three hot lexical runs are written as primitive rules (a byte loop instead of one rule
+// match per character); each behaves exactly like the PEG shown beside it.
+namespace scan {
+
+// Bytes that end a word: blanks, line ends, separators, quotes, braces, ';'.
+inline bool word_stop(char c) {
+    switch (c) {
+        case ' ': case '\t': case '\f': case '\v': case '\r': case '\n': case ',': case '=':
+        case '(': case ')': case '{': case '\'': case '"': case ';':
+            return true;
+        default:
+            return false;
+    }
+}
+
+// plus< seq< not_at< two<'/'> >, not_one< word_stop bytes > > >
+struct word_run {
+    using rule_t = word_run;
+    using subs_t = pg::type_list<>;
+    template <typename ParseInput>
+    static bool match(ParseInput& in) {
+        const char* p = in.current();
+        const char* e = in.end();
+        const char* s = p;
+        while (p < e && !word_stop(*p) && !(*p == '/' && p + 1 < e && p[1] == '/')) ++p;
+        if (p == s) return false;
+        in.bump_in_this_line(static_cast<std::size_t>(p - s));
+        return true;
+    }
+};
+
+// plus< sor< one<' ', '\t', '\f', '\v'>, seq< one<'\r'>, not_at< one<'\n'> > > > >
+struct blank_run {
+    using rule_t = blank_run;
+    using subs_t = pg::type_list<>;
+    template <typename ParseInput>
+    static bool match(ParseInput& in) {
+        const char* p = in.current();
+        const char* e = in.end();
+        const char* s = p;
+        while (p < e && (*p == ' ' || *p == '\t' || *p == '\f' || *p == '\v' ||
+                         (*p == '\r' && !(p + 1 < e && p[1] == '\n'))))
+            ++p;
+        if (p == s) return false;
+        in.bump_in_this_line(static_cast<std::size_t>(p - s));
+        return true;
+    }
+};
+
+// star< not_at< eol >, any >  (eol = opt<'\r'> '\n')
+struct line_run {
+    using rule_t = line_run;
+    using subs_t = pg::type_list<>;
+    template <typename ParseInput>
+    static bool match(ParseInput& in) {
+        const char* s = in.current();
+        const char* e = in.end();
+        const char* nl = static_cast<const char*>(std::memchr(s, '\n', static_cast<std::size_t>(e - s)));
+        const char* p = nl ? nl : e;
+        if (nl && p > s && p[-1] == '\r') --p;
+        in.bump_in_this_line(static_cast<std::size_t>(p - s));
+        return true;
+    }
+};
+
+}  // namespace scan
+
 // ---- characters and line ends --------------------------------------------------------
 struct eol : pg::seq<pg::opt<pg::one<'\r'>>, pg::one<'\n'>> {};  // LF or CRLF
 struct eolf : pg::sor<eol, pg::eof> {};
 // A carriage return that does not end a line counts as a blank.
-struct blank_char
-    : pg::sor<pg::one<' ', '\t', '\f', '\v'>, pg::seq<pg::one<'\r'>, pg::not_at<pg::one<'\n'>>>> {};
-struct ws : pg::plus<blank_char> {};
-struct rest_of_line : pg::star<pg::not_at<eol>, pg::any> {};
+struct ws : scan::blank_run {};
+struct rest_of_line : scan::line_run {};
 
 // Tries Rule without actions first, so that a partial match (a blank run before a failing
 // rule) never leaves tokens behind; used for every alternative that can fail after
@@ -89,7 +157,7 @@ struct comma : pg::one<','> {};
 struct word_char
     : pg::seq<pg::not_at<pg::two<'/'>>,
               pg::not_one<' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'>> {};
-struct word : pg::plus<word_char> {};
+struct word : scan::word_run {};
 
 struct field : pg::sor<brace_expr, squote_expr, dquote_string, equals, lparen, rparen, comma, word> {};
 
@@ -157,3 +225,12 @@ struct deck_file : pg::seq<pg::opt<bom>, title_line, body> {};
 struct include_file : pg::seq<pg::opt<bom>, body> {};
 
 }  // namespace deckscale::grammar
+
+namespace tao::pegtl {
+template <typename Name>
+struct analyze_traits<Name, deckscale::grammar::scan::word_run> : analyze_any_traits<> {};
+template <typename Name>
+struct analyze_traits<Name, deckscale::grammar::scan::blank_run> : analyze_any_traits<> {};
+template <typename Name>
+struct analyze_traits<Name, deckscale::grammar::scan::line_run> : analyze_opt_traits<> {};
+}  // namespace tao::pegtl

@@ -7,6 +7,7 @@
 
 #include <fmt/format.h>
 
+#include "spice_number.hpp"
 #include "text_util.hpp"
 
 namespace deckscale {
@@ -178,6 +179,7 @@ private:
         };
         std::vector<Open> subckts;
         read_cards(file, deck_.files[index].role, [&](const Card& c) {
+            gather_symbols(c);
             if (c.kind == CardKind::element) check_element(c);
             if (c.kind != CardKind::dot) return;
             std::string kw = card_keyword(c);
@@ -204,6 +206,40 @@ private:
             throw DeckError(file.diagnose(
                 Severity::error, o.offset, o.length,
                 fmt::format("unterminated .subckt '{}': no .ends before the end of the file", o.name)));
+        }
+    }
+
+    // Keys of key=value pairs from field `first` on, lower-case.
+    static void add_keys(const Card& c, std::size_t first, std::set<std::string>& to) {
+        for (std::size_t i = first; i + 1 < c.fields.size(); ++i)
+            if (c.fields[i].kind == TokenKind::word && c.fields[i + 1].kind == TokenKind::equals)
+                to.insert(to_lower(c.field_text(i)));
+    }
+
+    void gather_symbols(const Card& c) {
+        if (c.fields.empty()) return;
+        DeckSymbols& s = deck_.symbols;
+        char first = ascii_lower(c.field_text(0)[0]);
+        if (c.kind == CardKind::element) {
+            if (first == 'l') s.inductors.insert(card_keyword(c));
+            if (first == 'k')
+                for (std::size_t j = 1; j < c.fields.size() && j < 3; ++j)
+                    s.coupled_inductors.insert(to_lower(c.field_text(j)));
+            if (first == 'x') add_keys(c, 1, s.params);  // X-line overrides name parameters
+            return;
+        }
+        if (c.kind != CardKind::dot || first != '.') return;
+        std::string kw = card_keyword(c);
+        if (kw == ".param" || kw == ".subckt" || kw == ".csparam") {
+            add_keys(c, 1, s.params);
+        } else if (kw == ".func" && c.fields.size() > 1) {
+            s.params.insert(to_lower(c.field_text(1)));
+        } else if (kw == ".model" && c.fields.size() > 2) {
+            s.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
+        } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
+            for (std::size_t i = 1; i + 2 < c.fields.size(); ++i)
+                if (c.fields[i + 1].kind == TokenKind::equals && iequals(c.field_text(i), "gmin"))
+                    if (auto n = parse_spice_number(c.field_text(i + 2)); n.number) s.gmin = n.number->value;
         }
     }
 

@@ -3,7 +3,9 @@
 #pragma once
 
 #include <cstdint>
+#include <map>
 #include <memory>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -26,8 +28,18 @@ struct IncludeRef {
     std::string section;           // .lib section name, empty for .include
 };
 
+// Names the deck declares, gathered while it is read (lower-case).
+struct DeckSymbols {
+    std::set<std::string> params;               // .param, .subckt/X parameters, .func names
+    std::map<std::string, std::string> models;  // model name -> type
+    std::set<std::string> inductors;            // inductor element names
+    std::set<std::string> coupled_inductors;    // inductors named by a K card
+    double gmin = 1e-12;                        // .options gmin, else ngspice's default
+};
+
 struct Deck {
     std::vector<DeckFile> files;  // [0] is the top deck
+    DeckSymbols symbols;
     std::vector<IncludeRef> includes;
     std::vector<Diagnostic> warnings;  // well-formed constructs the tool does not know
 

@@ -8,54 +8,80 @@
 namespace deckscale {
 namespace {
 
-std::string describe(const Edit& e) {
-    return fmt::format("[{}, {}) -> \"{}\"", e.offset, e.offset + e.length, e.text);
+std::string describe(std::uint32_t offset, std::uint32_t length, std::string_view text) {
+    return fmt::format("[{}, {}) -> \"{}\"", offset, offset + length, text);
 }
 
-bool overlaps(const Edit& a, const Edit& b) {
+bool overlaps(const EditView& a, const EditView& b) {
     // Two insertions at one offset, or an insertion inside a replaced range, conflict too.
     if (a.offset == b.offset) return true;
-    const Edit& first = a.offset < b.offset ? a : b;
-    const Edit& second = a.offset < b.offset ? b : a;
+    const EditView& first = a.offset < b.offset ? a : b;
+    const EditView& second = a.offset < b.offset ? b : a;
     return first.offset + first.length > second.offset;
 }
 
 }  // namespace
 
-void EditSet::add(std::string_view original, Edit e) {
+std::size_t EditSet::lower_bound(std::uint32_t offset) const {
+    // Edits usually arrive in file order: check the end first.
+    if (slots_.empty() || slots_.back().offset < offset) return slots_.size();
+    auto it = std::lower_bound(slots_.begin(), slots_.end(), offset,
+                               [](const Slot& x, std::uint32_t off) { return x.offset < off; });
+    return static_cast<std::size_t>(it - slots_.begin());
+}
+
+void EditSet::add(std::string_view original, const Edit& e) {
     if (e.offset + e.length > original.size())
-        throw std::logic_error(fmt::format("edit {} lies outside the file", describe(e)));
-    if (original.substr(e.offset, e.length) == e.text) return;
-    auto it = std::lower_bound(edits_.begin(), edits_.end(), e.offset,
-                               [](const Edit& x, std::uint32_t off) { return x.offset < off; });
-    if (it != edits_.end() && overlaps(*it, e))
-        throw std::logic_error(fmt::format("overlapping edits {} and {}", describe(*it), describe(e)));
-    if (it != edits_.begin() && overlaps(*(it - 1), e))
         throw std::logic_error(
-            fmt::format("overlapping edits {} and {}", describe(*(it - 1)), describe(e)));
-    edits_.insert(it, std::move(e));
+            fmt::format("edit {} lies outside the file", describe(e.offset, e.length, e.text)));
+    if (original.substr(e.offset, e.length) == e.text) return;
+    EditView v{e.offset, e.length, e.text};
+    std::size_t i = lower_bound(e.offset);
+    for (std::size_t j : {i, i - 1}) {
+        if (j >= slots_.size()) continue;  // also catches i - 1 when i == 0
+        EditView other = at(j);
+        if (overlaps(other, v))
+            throw std::logic_error(fmt::format("overlapping edits {} and {}",
+                                               describe(other.offset, other.length, other.text),
+                                               describe(e.offset, e.length, e.text)));
+    }
+    Slot s{e.offset, e.length, static_cast<std::uint32_t>(texts_.size()),
+           static_cast<std::uint32_t>(e.text.size())};
+    texts_ += e.text;
+    slots_.insert(slots_.begin() + static_cast<std::ptrdiff_t>(i), s);
 }
 
 std::string apply_edits(std::string_view original, const EditSet& edits) {
     return apply_edits(original, edits, 0, static_cast<std::uint32_t>(original.size()));
 }
 
+void apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
+                 std::uint32_t end, const std::function<void(std::string_view)>& sink) {
+    std::size_t pos = begin;
+    // First edit at or after `begin`.
+    std::size_t lo = 0, hi = edits.size();
+    while (lo < hi) {
+        std::size_t mid = (lo + hi) / 2;
+        if (edits.at(mid).offset < begin) lo = mid + 1;
+        else hi = mid;
+    }
+    for (std::size_t i = lo; i < edits.size(); ++i) {
+        EditView e = edits.at(i);
+        if (e.offset + e.length > end) break;
+        // An insertion exactly at `end` belongs to what follows, except at the file's end.
+        if (e.offset == end && e.length == 0 && end != original.size()) break;
+        if (e.offset > pos) sink(original.substr(pos, e.offset - pos));
+        if (!e.text.empty()) sink(e.text);
+        pos = e.offset + e.length;
+    }
+    if (end > pos) sink(original.substr(pos, end - pos));
+}
+
 std::string apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
                         std::uint32_t end) {
     std::string out;
-    std::size_t grow = 0;
-    for (const auto& e : edits.edits()) grow += e.text.size();
-    out.reserve(end - begin + grow);
-    std::size_t pos = begin;
-    auto it = std::lower_bound(edits.edits().begin(), edits.edits().end(), begin,
-                               [](const Edit& x, std::uint32_t off) { return x.offset < off; });
-    for (; it != edits.edits().end() && it->offset + it->length <= end; ++it) {
-        if (it->offset == end && it->length == 0 && end != original.size()) break;
-        out.append(original.substr(pos, it->offset - pos));
-        out.append(it->text);
-        pos = it->offset + it->length;
-    }
-    out.append(original.substr(pos, end - pos));
+    out.reserve(end - begin + (end - begin) / 8);
+    apply_edits(original, edits, begin, end, [&](std::string_view piece) { out.append(piece); });
     return out;
 }
 

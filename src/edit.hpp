@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstdint>
+#include <functional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -15,19 +16,42 @@ struct Edit {
     std::string text;          // what replaces them
 };
 
+// A stored edit, its text viewed in the set's own storage.
+struct EditView {
+    std::uint32_t offset;
+    std::uint32_t length;
+    std::string_view text;
+};
+
 class EditSet {
 public:
     // Adds an edit. An edit whose text equals the bytes it replaces is not stored. Throws
     // std::logic_error naming both edits if it overlaps one already stored.
-    void add(std::string_view original, Edit e);
+    void add(std::string_view original, const Edit& e);
 
-    const std::vector<Edit>& edits() const { return edits_; }
-    bool empty() const { return edits_.empty(); }
-    std::size_t size() const { return edits_.size(); }
+    bool empty() const { return slots_.empty(); }
+    std::size_t size() const { return slots_.size(); }
+    EditView at(std::size_t i) const {
+        const Slot& s = slots_[i];
+        return {s.offset, s.length, std::string_view(texts_).substr(s.text_begin, s.text_size)};
+    }
 
 private:
-    std::vector<Edit> edits_;  // sorted by offset
+    // Edits of a large deck number in the millions: 16 bytes each plus their text, kept in
+    // one buffer, rather than a std::string per edit.
+    struct Slot {
+        std::uint32_t offset, length, text_begin, text_size;
+    };
+    std::size_t lower_bound(std::uint32_t offset) const;
+
+    std::vector<Slot> slots_;  // sorted by offset
+    std::string texts_;
 };
+
+// Hands original[begin, end), with the edits that lie inside that range applied, to `sink`
+// in pieces. The one place that turns edits into output; the functions below use it.
+void apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
+                 std::uint32_t end, const std::function<void(std::string_view)>& sink);
 
 // Copies `original`, replacing the edited ranges.
 std::string apply_edits(std::string_view original, const EditSet& edits);

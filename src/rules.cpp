@@ -1,6 +1,9 @@
 #include "rules.hpp"
 
+#include <algorithm>
 #include <array>
+#include <tuple>
+#include <vector>
 
 namespace deckscale {
 namespace {
@@ -142,8 +145,19 @@ constexpr FieldRule kRules[] = {
 std::span<const FieldRule> rule_table() { return kRules; }
 
 std::optional<Unit> find_rule(std::string_view scope, std::string_view field) {
-    for (const auto& r : kRules)
-        if (r.scope == scope && r.field == field) return r.unit;
+    // The table sorted once by (scope, field), then searched by halves.
+    static const std::vector<FieldRule> sorted = [] {
+        std::vector<FieldRule> v(std::begin(kRules), std::end(kRules));
+        std::sort(v.begin(), v.end(), [](const FieldRule& a, const FieldRule& b) {
+            return std::tie(a.scope, a.field) < std::tie(b.scope, b.field);
+        });
+        return v;
+    }();
+    auto it = std::lower_bound(sorted.begin(), sorted.end(), std::tie(scope, field),
+                               [](const FieldRule& r, const std::tuple<std::string_view&, std::string_view&>& k) {
+                                   return std::tie(r.scope, r.field) < k;
+                               });
+    if (it != sorted.end() && it->scope == scope && it->field == field) return it->unit;
     return std::nullopt;
 }
 

@@ -52,6 +52,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
     settings.factors = {o.km, o.kf};
     settings.digits = o.digits;
     settings.mark_unscalable = o.leave_unscalable;
+    settings.record_changes = o.list_changes || !o.changes_json.empty();
     try {
         Deck deck = load_deck(o.deck, disk);
         err << render(deck.warnings);
@@ -67,14 +68,15 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                 return exit_refused;
             }
         }
-        OutputPlan plan = plan_output(deck, result, output, o.flatten);
+        OutputPlan plan = plan_output(deck, std::move(result.edits), output, o.flatten);
         for (const auto& f : plan.files) {
             if (f.path.empty()) {
-                out << f.content;
+                produce_output(deck, plan, f, [&](std::string_view piece) { out << piece; });
                 out.flush();
                 continue;
             }
-            if (auto e = write_file_atomically(f.path, f.content); !e.empty()) {
+            auto produce = [&](const PieceSink& sink) { produce_output(deck, plan, f, sink); };
+            if (auto e = write_file_atomically(f.path, produce); !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;
             }
@@ -90,7 +92,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         }
         if (!output.empty()) {
             err << fmt::format("deckscale: {} value(s) rewritten (Km = {}, Kf = {}); wrote", 
-                               result.changes.size(), factor_text(o.km), factor_text(o.kf));
+                               result.change_count, factor_text(o.km), factor_text(o.kf));
             for (const auto& f : plan.files) err << " " << f.path;
             err << "\n";
         }

@@ -26,13 +26,24 @@ std::string quoted_like(std::string_view original, const std::string& path) {
 
 }  // namespace
 
-OutputPlan plan_output(const Deck& deck, const ScaleResult& result, const std::string& output,
+void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
+                    const std::function<void(std::string_view)>& sink) {
+    if (file.flattened) {
+        sink(file.content);
+        return;
+    }
+    const std::string& text = deck.files[file.source_file].source->text();
+    apply_edits(text, plan.edits[file.source_file], 0, static_cast<std::uint32_t>(text.size()), sink);
+}
+
+OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const std::string& output,
                        bool flatten) {
     OutputPlan plan;
-    std::vector<EditSet> edits = result.edits;
+    plan.edits = std::move(edits_in);
+    std::vector<EditSet>& edits = plan.edits;
     std::size_t n = deck.files.size();
     if (flatten) {
-        plan.files.push_back({output, flatten_deck(deck, edits), 0});
+        plan.files.push_back({output, 0, true, flatten_deck(deck, edits)});
         return plan;
     }
     // A file is copied if it changed or if it includes a file that is copied.
@@ -57,7 +68,7 @@ OutputPlan plan_output(const Deck& deck, const ScaleResult& result, const std::s
                         "written beside it) or --flatten"));
                 }
         }
-        plan.files.push_back({"", apply_edits(deck.top().text(), edits[0]), 0});
+        plan.files.push_back({"", 0, false, {}});
         return plan;
     }
     fs::path out_dir = fs::absolute(fs::path(output)).parent_path();
@@ -92,8 +103,8 @@ OutputPlan plan_output(const Deck& deck, const ScaleResult& result, const std::s
         edits[inc.from_file].add(from.text(), Edit{inc.path_token.begin, inc.path_token.size(), text});
     }
     for (std::size_t i = 1; i < n; ++i)
-        if (copied[i]) plan.files.push_back({new_path[i], apply_edits(deck.files[i].source->text(), edits[i]), i});
-    plan.files.push_back({output, apply_edits(deck.top().text(), edits[0]), 0});
+        if (copied[i]) plan.files.push_back({new_path[i], i, false, {}});
+    plan.files.push_back({output, 0, false, {}});
     return plan;
 }
 

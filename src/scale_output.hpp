@@ -11,19 +11,26 @@
 namespace deckscale {
 
 struct OutputFile {
-    std::string path;     // where to write ("" = standard output)
-    std::string content;
+    std::string path;             // where to write ("" = standard output)
     std::size_t source_file = 0;  // index into Deck::files
+    bool flattened = false;       // then `content` holds the whole deck
+    std::string content;
 };
 
 struct OutputPlan {
+    std::vector<EditSet> edits;     // per Deck::files entry, include lines repointed
     std::vector<OutputFile> files;  // included copies first, the main deck last
 };
 
-// `output` is the main deck's path ("" for standard output). Throws DeckError when the
-// deck cannot be written that way (changed includes with standard output).
-OutputPlan plan_output(const Deck& deck, const ScaleResult& result, const std::string& output,
+// `edits` are the scaling pass's (one per Deck::files entry); `output` is the main deck's
+// path ("" for standard output). Throws DeckError when the deck cannot be written that way
+// (changed includes with standard output).
+OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits, const std::string& output,
                        bool flatten);
+
+// Hands the bytes of one planned file to `sink`, in pieces.
+void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
+                    const std::function<void(std::string_view)>& sink);
 
 // The name of the copy of an included file: "<stem>-scaled<ext>".
 std::string scaled_copy_name(const std::string& original_path);

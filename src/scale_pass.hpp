@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "scaler.hpp"
+#include "spice_number.hpp"
 
 namespace deckscale {
 
@@ -21,16 +22,9 @@ struct Atom {
 // Atoms from fields[first...]; '(', ')' and ',' separate like blanks, as in ngspice.
 std::vector<Atom> atoms_of(const Card& card, std::size_t first);
 
-// What the pass knows about the whole deck before it edits anything.
-struct DeckFacts {
-    std::set<std::string> params;                  // .param and subcircuit parameter names
-    std::map<std::string, std::string> models;     // model name -> type (lower-case)
-    std::set<std::string> inductors;               // inductor names (lower-case)
-    std::set<std::string> coupled_inductors;       // named by a K card
-    double gmin = 1e-12;                           // .options gmin, else ngspice's default
-};
-
-DeckFacts collect_facts(const Deck& deck);
+// What the pass knows about the whole deck before it edits anything: what the reader
+// gathered while loading it.
+using DeckFacts = DeckSymbols;
 
 class ScalePass {
 public:
@@ -61,6 +55,7 @@ public:
     // True when a token can carry a value (number, {expr}, 'expr', parameter name).
     bool is_value_token(const Token& t) const;
     bool is_number(const Token& t) const;
+    const NumberParse& number_of(const Token& t) const;
     std::string text(const Token& t) const { return std::string(card_->text(t)); }
 
 private:
@@ -71,10 +66,14 @@ private:
     const Deck& deck_;
     ScaleSettings settings_;
     ScaleResult& result_;
-    DeckFacts facts_;
+    const DeckFacts& facts_;
     std::size_t file_ = 0;
     const Card* card_ = nullptr;
     bool card_marked_ = false;
+    mutable NumberParse cached_parse_;
+    mutable std::uint32_t cached_begin_ = ~0u;
+    mutable std::size_t cached_file_ = ~std::size_t{0};
+    mutable const Card* cached_card_ = nullptr;
 };
 
 // Card handlers, one per family.

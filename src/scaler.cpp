@@ -35,43 +35,8 @@ std::vector<Atom> atoms_of(const Card& card, std::size_t first) {
     return out;
 }
 
-DeckFacts collect_facts(const Deck& deck) {
-    DeckFacts facts;
-    for (std::size_t i = 0; i < deck.files.size(); ++i) {
-        deck.visit_file(i, [&](const Card& c) {
-            if (c.fields.empty()) return;
-            std::string kw = card_keyword(c);
-            if (c.kind == CardKind::element) {
-                if (kw[0] == 'l') facts.inductors.insert(kw);
-                if (kw[0] == 'k')
-                    for (std::size_t j = 1; j < c.fields.size() && j < 3; ++j)
-                        facts.coupled_inductors.insert(to_lower(c.field_text(j)));
-                if (kw[0] == 'x')  // X-line parameter overrides name parameters too
-                    for (const auto& a : atoms_of(c, 1))
-                        if (a.key) facts.params.insert(to_lower(c.text(*a.key)));
-                return;
-            }
-            if (c.kind != CardKind::dot) return;
-            if (kw == ".param" || kw == ".subckt" || kw == ".csparam") {
-                for (const auto& a : atoms_of(c, 1))
-                    if (a.key) facts.params.insert(to_lower(c.text(*a.key)));
-            } else if (kw == ".func" && c.fields.size() > 1) {
-                facts.params.insert(to_lower(c.field_text(1)));
-            } else if (kw == ".model" && c.fields.size() > 2) {
-                facts.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
-            } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
-                for (const auto& a : atoms_of(c, 1))
-                    if (a.key && a.value && iequals(c.text(*a.key), "gmin"))
-                        if (auto n = parse_spice_number(c.text(*a.value)); n.number)
-                            facts.gmin = n.number->value;
-            }
-        });
-    }
-    return facts;
-}
-
 ScalePass::ScalePass(const Deck& deck, const ScaleSettings& settings, ScaleResult& result)
-    : deck_(deck), settings_(settings), result_(result), facts_(collect_facts(deck)) {
+    : deck_(deck), settings_(settings), result_(result), facts_(deck.symbols) {
     result_.edits.resize(deck.files.size());
 }
 
@@ -122,14 +87,25 @@ void ScalePass::visit(const Card& c) {
     }
 }
 
+const NumberParse& ScalePass::number_of(const Token& t) const {
+    // Handlers often ask about a token and then scale it: parse each token once.
+    if (cached_begin_ != t.begin || cached_file_ != file_ || cached_card_ != card_) {
+        cached_parse_ = parse_spice_number(card_->text(t));
+        cached_begin_ = t.begin;
+        cached_file_ = file_;
+        cached_card_ = card_;
+    }
+    return cached_parse_;
+}
+
 bool ScalePass::is_number(const Token& t) const {
-    return t.kind == TokenKind::word && parse_spice_number(card_->text(t)).number.has_value();
+    return t.kind == TokenKind::word && number_of(t).number.has_value();
 }
 
 bool ScalePass::is_value_token(const Token& t) const {
     if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) return true;
     if (t.kind != TokenKind::word) return false;
-    auto p = parse_spice_number(card_->text(t));
+    const auto& p = number_of(t);
     if (p.problem != NumberProblem::not_a_number) return true;  // a number, good or bad
     return facts_.params.count(to_lower(card_->text(t))) > 0;
 }
@@ -149,7 +125,7 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
         return;
     }
     if (t.kind != TokenKind::word) fail(t, fmt::format("expected a value here, found '{}'", s));
-    auto p = parse_spice_number(s);
+    const NumberParse& p = number_of(t);
     if (p.number) {
         if (factor == 1) return;
         edit(t.begin, t.size(), respell(*p.number, p.number->value * factor, settings_.digits), field,
@@ -192,10 +168,15 @@ void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view 
 void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string text,
                      std::string_view field, std::string_view unit, double factor) {
     const SourceFile& file = *card_->file;
-    std::string old_text(file.view(offset, offset + length));
-    if (old_text == text) return;
+    if (file.view(offset, offset + length) == text) return;
+    bool opening = length == 0 && text == "(";  // the opening half of a wrap is not listed
+    if (!opening) ++result_.change_count;
+    if (!settings_.record_changes || opening) {
+        result_.edits[file_].add(file.text(), Edit{offset, length, std::move(text)});
+        return;
+    }
     result_.edits[file_].add(file.text(), Edit{offset, length, text});
-    if (length == 0 && text == "(") return;  // the opening half of a wrap is not listed
+    std::string old_text(file.view(offset, offset + length));
     Change ch;
     ch.file = file_;
     ch.offset = offset;

@@ -16,6 +16,7 @@ struct ScaleSettings {
     ScaleFactors factors;
     int digits = 9;                 // significant digits of rewritten numbers
     bool mark_unscalable = false;   // insert a comment line before each unscalable card
+    bool record_changes = true;     // fill ScaleResult::changes (the edits are made either way)
 };
 
 struct Change {
@@ -31,7 +32,8 @@ struct Change {
 
 struct ScaleResult {
     std::vector<EditSet> edits;           // one per Deck::files entry
-    std::vector<Change> changes;          // in file order
+    std::vector<Change> changes;          // in file order (when recorded)
+    std::size_t change_count = 0;         // rewritten values, recorded or not
     std::vector<Diagnostic> unscalable;   // items that cannot be scaled exactly
     std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
 };

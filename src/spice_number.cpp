@@ -11,6 +11,7 @@
 #include <tao/pegtl.hpp>
 
 #include "number_grammar.hpp"
+#include "text_util.hpp"
 
 namespace deckscale {
 namespace {
@@ -51,14 +52,7 @@ struct action<ng::unit_tail> {
     static void apply(const In& in, Parts& p) { p.tail = std::string_view(in.begin(), in.size()); }
 };
 
-char lower(char c) { return static_cast<char>(std::tolower(static_cast<unsigned char>(c))); }
-
-bool iequals(std::string_view a, std::string_view b) {
-    if (a.size() != b.size()) return false;
-    for (std::size_t i = 0; i < a.size(); ++i)
-        if (lower(a[i]) != lower(b[i])) return false;
-    return true;
-}
+char lower(char c) { return ascii_lower(c); }
 
 double parse_value(std::string_view v) {
     std::array<char, 64> buf{};
@@ -118,6 +112,18 @@ constexpr std::array<SuffixInfo, 10> kSuffixes{{{"t", 1e12}, {"g", 1e9}, {"meg",
 
 double suffix_multiplier(std::string_view suffix) {
     if (suffix.empty()) return 1;
+    if (suffix.size() == 1) {
+        switch (lower(suffix[0])) {
+            case 't': return 1e12;
+            case 'g': return 1e9;
+            case 'k': return 1e3;
+            case 'm': return 1e-3;
+            case 'u': return 1e-6;
+            case 'n': return 1e-9;
+            case 'p': return 1e-12;
+            case 'f': return 1e-15;
+        }
+    }
     for (const auto& s : kSuffixes)
         if (iequals(suffix, s.lower)) return s.multiplier;
     return 1;
@@ -125,9 +131,13 @@ double suffix_multiplier(std::string_view suffix) {
 
 NumberParse parse_spice_number(std::string_view text) {
     NumberParse r;
+    // number_start: [sign] (digit | '.' digit), checked by hand on this hot path.
     {
-        pg::memory_input<pg::tracking_mode::lazy> probe(text.data(), text.size(), "");
-        if (!pg::parse<ng::number_start>(probe)) {
+        std::size_t i = (!text.empty() && (text[0] == '+' || text[0] == '-')) ? 1 : 0;
+        auto digit = [&](std::size_t k) {
+            return k < text.size() && text[k] >= '0' && text[k] <= '9';
+        };
+        if (!(digit(i) || (i < text.size() && text[i] == '.' && digit(i + 1)))) {
             r.problem = NumberProblem::not_a_number;
             return r;
         }

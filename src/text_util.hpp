@@ -7,9 +7,7 @@
 
 namespace deckscale {
 
-inline char ascii_lower(char c) {
-    return static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-}
+inline char ascii_lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c + 32) : c; }
 
 inline std::string to_lower(std::string_view s) {
     std::string out(s);

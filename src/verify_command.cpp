@@ -49,6 +49,17 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     report.original = o.original;
     report.scaled = o.scaled;
     report.tolerances = {o.tolerance, o.tran_tolerance, o.tolerance_db, o.tolerance_deg};
+    // Refuse unwritable report paths before any simulation runs.
+    for (const std::string& path : {o.json, o.plot}) {
+        if (path.empty()) continue;
+        fs::path dir = fs::absolute(path).parent_path();
+        std::error_code ec;
+        if (!fs::is_directory(dir, ec)) {
+            err << fmt::format("deckscale: error: cannot write '{}': the folder '{}' does not exist\n",
+                               path, dir.string());
+            return exit_bad_input;
+        }
+    }
     std::vector<PairJob> pairs;
     try {
         Deck original = load_deck(o.original, disk);

@@ -25,9 +25,9 @@ TEST(EditSet, EditsAreKeptSortedWhateverTheOrderAdded) {
     edits.add(kText, {0, 2, "Rx"});
     edits.add(kText, {7, 2, "2k"});
     ASSERT_EQ(edits.size(), 3u);
-    EXPECT_EQ(edits.edits()[0].offset, 0u);
-    EXPECT_EQ(edits.edits()[1].offset, 7u);
-    EXPECT_EQ(edits.edits()[2].offset, 17u);
+    EXPECT_EQ(edits.at(0).offset, 0u);
+    EXPECT_EQ(edits.at(1).offset, 7u);
+    EXPECT_EQ(edits.at(2).offset, 17u);
     EXPECT_EQ(apply_edits(kText, edits), "Rx a 0 2k\nC1 a 0 20n\n");
 }
 
