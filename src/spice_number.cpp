@@ -10,6 +10,7 @@
 #include <fmt/format.h>
 #include <tao/pegtl.hpp>
 
+#include "decimal.hpp"
 #include "number_grammar.hpp"
 #include "text_util.hpp"
 
@@ -190,55 +191,10 @@ std::string describe(NumberProblem problem, std::string_view text) {
 }
 
 std::string format_plain(double value, int digits) {
-    char buf[64];
-    auto r = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::general, digits);
-    return std::string(buf, r.ptr);
+    return general_text(to_decimal(value, digits), digits);
 }
 
 namespace {
-
-// Mantissa text with `digits` significant digits, without an exponent when possible.
-std::string mantissa_text(double m, int digits) { return format_plain(m, digits); }
-
-// Exponent form with trailing mantissa zeros trimmed and a bare exponent: "1.5e-7", "1E4".
-std::string exponent_text(double value, int digits, char letter) {
-    char buf[64];
-    auto r = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::scientific, digits - 1);
-    std::string_view t(buf, r.ptr - buf);
-    auto epos = t.find('e');
-    std::string_view mant = t.substr(0, epos), ex = t.substr(epos + 1);
-    if (mant.find('.') != std::string_view::npos) {
-        while (!mant.empty() && mant.back() == '0') mant.remove_suffix(1);
-        if (!mant.empty() && mant.back() == '.') mant.remove_suffix(1);
-    }
-    bool negative = !ex.empty() && ex.front() == '-';
-    if (!ex.empty() && (ex.front() == '-' || ex.front() == '+')) ex.remove_prefix(1);
-    while (ex.size() > 1 && ex.front() == '0') ex.remove_prefix(1);
-    std::string out(mant);
-    out += letter;
-    if (negative) out += '-';
-    out += ex;
-    return out;
-}
-
-// The power of ten of a value after rounding to `digits` significant digits.
-int decimal_exponent(double value, int digits) {
-    char buf[64];
-    auto r = std::to_chars(buf, buf + sizeof buf, std::fabs(value), std::chars_format::scientific,
-                           digits - 1);
-    std::string_view t(buf, r.ptr - buf);
-    int e = 0;
-    auto epos = t.find('e');
-    std::string_view ex = t.substr(epos + 1);
-    if (!ex.empty() && ex.front() == '+') ex.remove_prefix(1);
-    std::from_chars(ex.data(), ex.data() + ex.size(), e);
-    return e;
-}
-
-double power_of_ten(int e) {
-    static constexpr double table[] = {1e-15, 1e-12, 1e-9, 1e-6, 1e-3, 1, 1e3, 1e6, 1e9, 1e12};
-    return table[(e + 15) / 3];
-}
 
 std::string cased(std::string_view lower_suffix, std::string_view original) {
     std::string out(lower_suffix);
@@ -259,37 +215,37 @@ std::string cased(std::string_view lower_suffix, std::string_view original) {
 }  // namespace
 
 std::string respell(const SpiceNumber& original, double value, int digits) {
+    Decimal d = to_decimal(value, digits);  // rounded once; the text is cut from its digits
     if (!original.suffix.empty()) {
         static constexpr std::array<std::pair<const char*, int>, 9> eng{{{"f", -15}, {"p", -12},
             {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};
-        int exp3 = 0;
-        if (value != 0) {
-            // The exponent after rounding, so that 999.99999 does not pick the smaller suffix.
-            int e = decimal_exponent(value, digits);
-            exp3 = (e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3;
-        }
-        exp3 = std::clamp(exp3, -15, 12);
+        int e = d.digits == "0" ? 0 : d.exponent;
+        int exp3 = std::clamp((e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3, -15, 12);
         const char* suffix = "t";
-        for (const auto& [s, e] : eng)
-            if (e == exp3) suffix = s;
-        std::string text = mantissa_text(value / power_of_ten(exp3), digits);
+        for (const auto& [sx, ex] : eng)
+            if (ex == exp3) suffix = sx;
+        auto mantissa = [&](int shift) {
+            Decimal m = d;
+            m.exponent -= shift;
+            return general_text(m, digits);
+        };
         if (std::string_view(suffix).empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
             // when the tail cannot be misread as a suffix.
             std::string tail(original.tail);
             if (!tail.empty() && std::strchr("tTgGkKmMuUnNpPfFeEdD", tail[0])) {
                 // e.g. original "1kF" -> 5 F would read back as femto: use milli-free form
-                return mantissa_text(value / 1e3, digits) + cased("k", original.suffix) + tail;
+                return mantissa(3) + cased("k", original.suffix) + tail;
             }
-            return text + tail;
+            return mantissa(0) + tail;
         }
-        return text + cased(suffix, original.suffix) + std::string(original.tail);
+        return mantissa(exp3) + cased(suffix, original.suffix) + std::string(original.tail);
     }
     if (original.has_exponent) {
         char letter = std::isupper(static_cast<unsigned char>(original.exponent_letter)) ? 'E' : 'e';
-        return exponent_text(value, digits, letter) + std::string(original.tail);
+        return scientific_text(d, letter) + std::string(original.tail);
     }
-    return format_plain(value, digits) + std::string(original.tail);
+    return general_text(d, digits) + std::string(original.tail);
 }
 
 }  // namespace deckscale

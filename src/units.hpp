@@ -49,8 +49,15 @@ constexpr UnitExponents exponents(Unit u) {
     return {0, 0};
 }
 
+// x^n for a small integer n, by multiplication (exact for n = -1, 0, 1 like std::pow).
+inline double int_power(double x, int n) {
+    double r = 1;
+    for (int i = 0; i < (n < 0 ? -n : n); ++i) r *= x;
+    return n < 0 ? 1 / r : r;
+}
+
 inline double factor_of(UnitExponents e, ScaleFactors f) {
-    return std::pow(f.km, e.km) * std::pow(f.kf, e.kf);
+    return int_power(f.km, e.km) * int_power(f.kf, e.kf);
 }
 
 inline double factor_of(Unit u, ScaleFactors f) { return factor_of(exponents(u), f); }

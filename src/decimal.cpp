@@ -1,0 +1,113 @@
+#include "decimal.hpp"
+
+#include <charconv>
+#include <cmath>
+#include <cstdlib>
+
+namespace deckscale {
+namespace {
+
+constexpr double kPow10[] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
+                             1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
+
+double scale_by_pow10(double a, int s) {
+    if (s >= 0) return s <= 22 ? a * kPow10[s] : a * std::pow(10.0, s);
+    return -s <= 22 ? a / kPow10[-s] : a / std::pow(10.0, -s);
+}
+
+// Exact but slower path through the standard library.
+Decimal via_to_chars(double value, int precision) {
+    char buf[64];
+    auto r = std::to_chars(buf, buf + sizeof buf, std::fabs(value), std::chars_format::scientific,
+                           precision - 1);
+    std::string_view t(buf, static_cast<std::size_t>(r.ptr - buf));
+    auto epos = t.find('e');
+    Decimal d;
+    d.negative = std::signbit(value);
+    d.digits.clear();
+    for (char c : t.substr(0, epos))
+        if (c != '.') d.digits += c;
+    std::string_view ex = t.substr(epos + 1);
+    if (!ex.empty() && ex.front() == '+') ex.remove_prefix(1);
+    std::from_chars(ex.data(), ex.data() + ex.size(), d.exponent);
+    while (d.digits.size() > 1 && d.digits.back() == '0') d.digits.pop_back();
+    return d;
+}
+
+}  // namespace
+
+Decimal to_decimal(double value, int precision) {
+    Decimal d;
+    if (value == 0) return d;
+    double a = std::fabs(value);
+    if (precision > 12 || !std::isfinite(a) || a < 1e-280 || a > 1e280) return via_to_chars(value, precision);
+    d.negative = value < 0;
+    int e = static_cast<int>(std::floor(std::log10(a)));
+    long long low = static_cast<long long>(kPow10[precision - 1]);
+    long long high = static_cast<long long>(kPow10[precision]);
+    long long n = std::llround(scale_by_pow10(a, precision - 1 - e));
+    if (n >= high) {  // log10 rounded up to the next decade, or the rounding carried over
+        ++e;
+        n = std::llround(scale_by_pow10(a, precision - 1 - e));
+    } else if (n < low) {
+        --e;
+        n = std::llround(scale_by_pow10(a, precision - 1 - e));
+    }
+    if (n >= high) {  // 9.999... rounded up: one digit more, one decade up
+        n /= 10;
+        ++e;
+    }
+    char buf[24];
+    auto r = std::to_chars(buf, buf + sizeof buf, n);
+    d.digits.assign(buf, r.ptr);
+    while (d.digits.size() > 1 && d.digits.back() == '0') d.digits.pop_back();
+    d.exponent = e;
+    return d;
+}
+
+std::string general_text(const Decimal& d, int precision) {
+    std::string out;
+    if (d.negative) out += '-';
+    int x = d.digits == "0" ? 0 : d.exponent;
+    if (x < -4 || x >= precision) {
+        out += d.digits[0];
+        if (d.digits.size() > 1) {
+            out += '.';
+            out.append(d.digits, 1, std::string::npos);
+        }
+        out += x < 0 ? "e-" : "e+";
+        int ax = std::abs(x);
+        if (ax < 10) out += '0';
+        out += std::to_string(ax);
+        return out;
+    }
+    int n = static_cast<int>(d.digits.size());
+    if (x < 0) {
+        out += "0.";
+        out.append(static_cast<std::size_t>(-x - 1), '0');
+        out += d.digits;
+    } else if (n <= x + 1) {
+        out += d.digits;
+        out.append(static_cast<std::size_t>(x + 1 - n), '0');
+    } else {
+        out.append(d.digits, 0, static_cast<std::size_t>(x + 1));
+        out += '.';
+        out.append(d.digits, static_cast<std::size_t>(x + 1), std::string::npos);
+    }
+    return out;
+}
+
+std::string scientific_text(const Decimal& d, char letter) {
+    std::string out;
+    if (d.negative) out += '-';
+    out += d.digits[0];
+    if (d.digits.size() > 1) {
+        out += '.';
+        out.append(d.digits, 1, std::string::npos);
+    }
+    out += letter;
+    out += std::to_string(d.digits == "0" ? 0 : d.exponent);
+    return out;
+}
+
+}  // namespace deckscale
