@@ -159,11 +159,17 @@ struct word_char
               pg::not_one<' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'>> {};
 struct word : scan::word_run {};
 
-struct field : pg::sor<brace_expr, squote_expr, dquote_string, equals, lparen, rparen, comma, word> {};
+// word first: it is by far the most common field, and no other alternative can start
+// where a word starts.
+struct field : pg::sor<word, equals, lparen, rparen, comma, brace_expr, squote_expr, dquote_string> {};
 
 // A field that is none of the above: a stray '}' is taken by word; only an opening quote
 // or brace without its partner fails, and those raise their own messages.
-struct card_item : pg::sor<ws, continuation, pg::seq<pg::not_at<eol_comment_start>, field>> {};
+// A continuation can only start at a line end, a comment or a trailing "\\": fields are
+// tried first, and a field never starts with "\\" followed by the line end.
+struct card_item
+    : pg::sor<ws, pg::seq<pg::not_at<eol_comment_start>, pg::not_at<backslash_gap>, field>,
+              continuation> {};
 
 // ---- cards -----------------------------------------------------------------------------
 template <char... Cs>

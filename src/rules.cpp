@@ -1,9 +1,7 @@
 #include "rules.hpp"
 
-#include <algorithm>
-#include <array>
-#include <tuple>
-#include <vector>
+#include <string>
+#include <unordered_map>
 
 namespace deckscale {
 namespace {
@@ -145,20 +143,18 @@ constexpr FieldRule kRules[] = {
 std::span<const FieldRule> rule_table() { return kRules; }
 
 std::optional<Unit> find_rule(std::string_view scope, std::string_view field) {
-    // The table sorted once by (scope, field), then searched by halves.
-    static const std::vector<FieldRule> sorted = [] {
-        std::vector<FieldRule> v(std::begin(kRules), std::end(kRules));
-        std::sort(v.begin(), v.end(), [](const FieldRule& a, const FieldRule& b) {
-            return std::tie(a.scope, a.field) < std::tie(b.scope, b.field);
-        });
-        return v;
+    // The table indexed once by "scope|field".
+    static const std::unordered_map<std::string, Unit> index = [] {
+        std::unordered_map<std::string, Unit> m;
+        for (const auto& r : kRules) m.emplace(std::string(r.scope) + "|" + std::string(r.field), r.unit);
+        return m;
     }();
-    auto it = std::lower_bound(sorted.begin(), sorted.end(), std::tie(scope, field),
-                               [](const FieldRule& r, const std::tuple<std::string_view&, std::string_view&>& k) {
-                                   return std::tie(r.scope, r.field) < k;
-                               });
-    if (it != sorted.end() && it->scope == scope && it->field == field) return it->unit;
-    return std::nullopt;
+    std::string key;
+    key.reserve(scope.size() + field.size() + 1);
+    key.append(scope).append(1, '|').append(field);
+    auto it = index.find(key);
+    if (it == index.end()) return std::nullopt;
+    return it->second;
 }
 
 }  // namespace deckscale

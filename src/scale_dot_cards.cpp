@@ -108,7 +108,7 @@ void scale_meas(ScalePass& p) {
 
 void scale_dot_card(ScalePass& p, const std::string& kw) {
     const Card& c = p.card();
-    auto atoms = atoms_of(c, 1);
+    const auto& atoms = p.atoms(1);
     if (kw == ".ac" || kw == ".disto" || kw == ".sp") {
         scale_positional(p, atoms, kw);
     } else if (kw == ".tran") {
@@ -194,7 +194,7 @@ void scale_model(ScalePass& p) {
                                               "other model-specific types are not known)", c.field_text(2)));
         return;
     }
-    auto atoms = atoms_of(c, 3);
+    const auto& atoms = p.atoms(3);
     std::set<std::string> given;
     for (const auto& a : atoms) {
         if (!a.key) continue;  // flags

@@ -42,7 +42,7 @@ int poly_degree(std::size_t k, int nd) {
 void scale_passive(ScalePass& p, char letter) {
     const Card& c = p.card();
     std::string scope(1, letter);
-    auto atoms = atoms_of(c, 1);
+    const auto& atoms = p.atoms(1);
     if (letter == 'k') {
         // K name L1 L2 k: the coupling is a ratio; both inductors scale alike.
         for (std::size_t i = 0; i < 2 && i < atoms.size(); ++i) {
@@ -139,7 +139,7 @@ void scale_controlled(ScalePass& p, char letter) {
         p.scale_expression(fl[eq + 1].begin, fl[last - 1].end, out, which);
         return;
     }
-    auto atoms = atoms_of(c, 1);
+    const auto& atoms = p.atoms(1);
     // Output factor: E, H drive a voltage; F, G a current. Input: E, G sense a voltage.
     double out_factor = (letter == 'f' || letter == 'g') ? 1 / f.km : 1;
     bool current_in = letter == 'f' || letter == 'h';
@@ -216,7 +216,7 @@ void scale_controlled(ScalePass& p, char letter) {
 
 void scale_line_or_switch(ScalePass& p, char letter) {
     const Card& c = p.card();
-    auto atoms = atoms_of(c, 1);
+    const auto& atoms = p.atoms(1);
     std::string scope(1, letter);
     if (letter == 's' || letter == 'w' || letter == 'o') {
         // Instances carry nodes, a model name and ON/OFF; the model card holds the values.

@@ -21,6 +21,7 @@ struct Atom {
 
 // Atoms from fields[first...]; '(', ')' and ',' separate like blanks, as in ngspice.
 std::vector<Atom> atoms_of(const Card& card, std::size_t first);
+void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out);
 
 // What the pass knows about the whole deck before it edits anything: what the reader
 // gathered while loading it.
@@ -33,6 +34,8 @@ public:
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
+    // atoms_of(card(), first) in a buffer reused from card to card (valid until the next call).
+    const std::vector<Atom>& atoms(std::size_t first);
     const DeckFacts& facts() const { return facts_; }
     ScaleFactors factors() const { return settings_.factors; }
 
@@ -70,6 +73,7 @@ private:
     std::size_t file_ = 0;
     const Card* card_ = nullptr;
     bool card_marked_ = false;
+    std::vector<Atom> atoms_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};

@@ -25,7 +25,7 @@ Unit resolve(Unit u, char letter) {
 void scale_source(ScalePass& p, char letter) {
     const Card& c = p.card();
     std::string scope(1, letter);
-    auto atoms = atoms_of(c, 1);
+    const auto& atoms = p.atoms(1);
     auto value_at = [&](std::size_t i) {
         return i < atoms.size() && !atoms[i].key && p.is_value_token(*atoms[i].value);
     };

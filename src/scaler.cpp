@@ -11,6 +11,12 @@ namespace deckscale {
 
 std::vector<Atom> atoms_of(const Card& card, std::size_t first) {
     std::vector<Atom> out;
+    atoms_of(card, first, out);
+    return out;
+}
+
+void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out) {
+    out.clear();
     const auto& f = card.fields;
     for (std::size_t i = first; i < f.size(); ++i) {
         TokenKind k = f[i].kind;
@@ -32,7 +38,11 @@ std::vector<Atom> atoms_of(const Card& card, std::size_t first) {
         }
         out.push_back(Atom{nullptr, &f[i], i});
     }
-    return out;
+}
+
+const std::vector<Atom>& ScalePass::atoms(std::size_t first) {
+    atoms_of(*card_, first, atoms_);
+    return atoms_;
 }
 
 ScalePass::ScalePass(const Deck& deck, const ScaleSettings& settings, ScaleResult& result)
