@@ -114,7 +114,7 @@ std::string unquote(std::string_view s) {
 
 class Loader {
 public:
-    explicit Loader(const FileSystem& fs) : fs_(fs) {}
+    Loader(const FileSystem& fs, const DeckObserver& observer) : fs_(fs), observer_(observer) {}
 
     Deck take() { return std::move(deck_); }
 
@@ -181,9 +181,10 @@ private:
         read_cards(file, deck_.files[index].role, [&](const Card& c) {
             gather_symbols(c);
             if (c.kind == CardKind::element) check_element(c);
+            std::string kw = c.kind == CardKind::dot ? card_keyword(c) : std::string();
+            if (c.kind == CardKind::dot) check_dot_shape(c, kw);
+            if (observer_) observer_(deck_, index, c);
             if (c.kind != CardKind::dot) return;
-            std::string kw = card_keyword(c);
-            check_dot_shape(c, kw);
             if (kw == ".subckt") {
                 subckts.push_back({c.fields[0].begin, c.fields[0].size(),
                                    c.fields.size() > 1 ? std::string(c.field_text(1)) : ""});
@@ -292,6 +293,7 @@ private:
     }
 
     const FileSystem& fs_;
+    const DeckObserver& observer_;
     Deck deck_;
     std::vector<std::string> stack_ids_, stack_paths_;
     std::map<std::string, std::size_t> loaded_;
@@ -299,8 +301,8 @@ private:
 
 }  // namespace
 
-Deck load_deck(const std::string& path, const FileSystem& fs) {
-    Loader loader(fs);
+Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver& observer) {
+    Loader loader(fs, observer);
     loader.load(path, FileRole::deck, nullptr, nullptr);
     return loader.take();
 }

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstdint>
+#include <functional>
 #include <map>
 #include <memory>
 #include <set>
@@ -51,10 +52,14 @@ struct Deck {
     const IncludeRef* include_at(std::size_t file, std::uint32_t offset) const;
 };
 
+// Called for every card once the reader has checked it, with the deck as read so far (its
+// files and the symbols declared up to that card).
+using DeckObserver = std::function<void(const Deck& so_far, std::size_t file, const Card& card)>;
+
 // Reads the deck at `path` and everything it includes. Throws DeckError for bad input:
 // an empty file, NUL bytes, grammar errors, a missing or cyclic include, an unterminated
 // .subckt, a card with too few fields.
-Deck load_deck(const std::string& path, const FileSystem& fs);
+Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver& observer = nullptr);
 
 // The lower-cased name of a card's first field ("r1", ".subckt"); empty if none.
 std::string card_keyword(const Card& card);

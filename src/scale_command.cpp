@@ -54,9 +54,10 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
     settings.mark_unscalable = o.leave_unscalable;
     settings.record_changes = o.list_changes || !o.changes_json.empty();
     try {
-        Deck deck = load_deck(o.deck, disk);
+        ScaledDeck scaled = load_and_scale(o.deck, disk, settings);
+        const Deck& deck = scaled.deck;
+        ScaleResult& result = scaled.result;
         err << render(deck.warnings);
-        ScaleResult result = scale_deck(deck, settings);
         err << render(result.notes);
         if (!result.unscalable.empty()) {
             err << render(result.unscalable);

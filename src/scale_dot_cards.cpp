@@ -222,8 +222,8 @@ void scale_model(ScalePass& p) {
         Unit unit;
     };
     const Default defaults[] = {
-        {"model:sw", "ron", 1, Unit::ohm},      {"model:sw", "roff", 1 / p.facts().gmin, Unit::ohm},
-        {"model:csw", "ron", 1, Unit::ohm},     {"model:csw", "roff", 1 / p.facts().gmin, Unit::ohm},
+        {"model:sw", "ron", 1, Unit::ohm},      {"model:sw", "roff", 1 / p.gmin(), Unit::ohm},
+        {"model:csw", "ron", 1, Unit::ohm},     {"model:csw", "roff", 1 / p.gmin(), Unit::ohm},
         {"model:urc", "fmax", 1e9, Unit::hertz}, {"model:urc", "rperl", 1000, Unit::ohm},
         {"model:urc", "cperl", 1e-15, Unit::farad},
     };

@@ -48,7 +48,7 @@ void scale_passive(ScalePass& p, char letter) {
         for (std::size_t i = 0; i < 2 && i < atoms.size(); ++i) {
             if (atoms[i].key) continue;
             std::string l = to_lower(p.text(*atoms[i].value));
-            if (!p.facts().inductors.count(l))
+            if (!p.is_inductor(l))
                 p.unscalable(*atoms[i].value,
                              fmt::format("'{}' couples '{}', which is not an inductor of this deck",
                                          c.field_text(0), p.text(*atoms[i].value)));
@@ -80,9 +80,9 @@ void scale_passive(ScalePass& p, char letter) {
             } else {
                 p.scale_value(t, *find_rule(scope, "value"), "value");
             }
-        } else if (p.facts().models.count(word)) {
+        } else if (const std::string* model = p.model_type(word)) {
             // A model-based element: its model card is scaled (see scale_model).
-            std::string type = p.facts().models.at(word);
+            const std::string& type = *model;
             if (letter == 'l' && type != "l")
                 p.unscalable(t, fmt::format("inductor model '{}' of type '{}'", p.text(t), type));
         } else if (has_value && p.is_number(t)) {

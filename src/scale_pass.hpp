@@ -3,6 +3,7 @@
 #pragma once
 
 #include <map>
+#include <optional>
 #include <set>
 #include <string>
 #include <vector>
@@ -23,20 +24,27 @@ struct Atom {
 std::vector<Atom> atoms_of(const Card& card, std::size_t first);
 void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out);
 
-// What the pass knows about the whole deck before it edits anything: what the reader
-// gathered while loading it.
-using DeckFacts = DeckSymbols;
-
 class ScalePass {
 public:
-    ScalePass(const Deck& deck, const ScaleSettings& settings, ScaleResult& result);
-    void run();
+    ScalePass(const ScaleSettings& settings, ScaleResult& result);
+    // Scales every card of a fully read deck.
+    void run(const Deck& deck);
+    // Scales one card while the deck is still being read (see DeckObserver). Symbols the
+    // deck declares later are not known yet: every lookup that found nothing is remembered.
+    void observe(const Deck& so_far, std::size_t file, const Card& card);
+    // True when a lookup made while observing would answer differently with the final
+    // symbols (a name declared after its use, a later .options gmin): scale again then.
+    bool relied_on_missing(const DeckSymbols& final_symbols) const;
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
     // atoms_of(card(), first) in a buffer reused from card to card (valid until the next call).
     const std::vector<Atom>& atoms(std::size_t first);
-    const DeckFacts& facts() const { return facts_; }
+    // What the deck declares (lower-case names).
+    bool is_param(const std::string& name) const;
+    const std::string* model_type(const std::string& name) const;  // nullptr if no such model
+    bool is_inductor(const std::string& name) const;
+    double gmin() const;
     ScaleFactors factors() const { return settings_.factors; }
 
     // Scales one value token by the unit's factor; validates numbers either way.
@@ -66,10 +74,14 @@ private:
     void edit(std::uint32_t offset, std::uint32_t length, std::string text, std::string_view field,
               std::string_view unit, double factor);
 
-    const Deck& deck_;
     ScaleSettings settings_;
     ScaleResult& result_;
-    const DeckFacts& facts_;
+    const DeckSymbols* symbols_ = nullptr;
+    // Lookups that found nothing, and the gmin that was used (for relied_on_missing).
+    mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_;
+    mutable std::optional<double> gmin_used_;
+    bool observing_ = false;  // inside observe(): the deck is not complete yet
+    bool rescan_ = false;     // a decision was left to a scan of the complete deck
     std::size_t file_ = 0;
     const Card* card_ = nullptr;
     bool card_marked_ = false;

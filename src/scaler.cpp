@@ -45,14 +45,61 @@ const std::vector<Atom>& ScalePass::atoms(std::size_t first) {
     return atoms_;
 }
 
-ScalePass::ScalePass(const Deck& deck, const ScaleSettings& settings, ScaleResult& result)
-    : deck_(deck), settings_(settings), result_(result), facts_(deck.symbols) {
+ScalePass::ScalePass(const ScaleSettings& settings, ScaleResult& result)
+    : settings_(settings), result_(result) {}
+
+void ScalePass::run(const Deck& deck) {
+    observing_ = false;
+    symbols_ = &deck.symbols;
     result_.edits.resize(deck.files.size());
+    for (std::size_t f = 0; f < deck.files.size(); ++f)
+        deck.visit_file(f, [&](const Card& c) {
+            file_ = f;
+            visit(c);
+        });
 }
 
-void ScalePass::run() {
-    for (file_ = 0; file_ < deck_.files.size(); ++file_)
-        deck_.visit_file(file_, [&](const Card& c) { visit(c); });
+void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) {
+    observing_ = true;
+    symbols_ = &so_far.symbols;
+    if (result_.edits.size() < so_far.files.size()) result_.edits.resize(so_far.files.size());
+    file_ = file;
+    visit(card);
+}
+
+bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
+    if (rescan_) return true;
+    for (const auto& n : missed_params_)
+        if (s.params.count(n)) return true;
+    for (const auto& n : missed_models_)
+        if (s.models.count(n)) return true;
+    for (const auto& n : missed_inductors_)
+        if (s.inductors.count(n)) return true;
+    return gmin_used_ && *gmin_used_ != s.gmin;
+}
+
+bool ScalePass::is_param(const std::string& name) const {
+    if (symbols_->params.count(name)) return true;
+    missed_params_.insert(name);
+    return false;
+}
+
+const std::string* ScalePass::model_type(const std::string& name) const {
+    auto it = symbols_->models.find(name);
+    if (it != symbols_->models.end()) return &it->second;
+    missed_models_.insert(name);
+    return nullptr;
+}
+
+bool ScalePass::is_inductor(const std::string& name) const {
+    if (symbols_->inductors.count(name)) return true;
+    missed_inductors_.insert(name);
+    return false;
+}
+
+double ScalePass::gmin() const {
+    gmin_used_ = symbols_->gmin;
+    return symbols_->gmin;
 }
 
 void ScalePass::visit(const Card& c) {
@@ -117,7 +164,7 @@ bool ScalePass::is_value_token(const Token& t) const {
     if (t.kind != TokenKind::word) return false;
     const auto& p = number_of(t);
     if (p.problem != NumberProblem::not_a_number) return true;  // a number, good or bad
-    return facts_.params.count(to_lower(card_->text(t))) > 0;
+    return is_param(to_lower(card_->text(t)));
 }
 
 void ScalePass::scale_value(const Token& t, Unit unit, std::string_view field) {
@@ -147,7 +194,12 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     if (card_->kind == CardKind::dot)
         fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 reads it as 0; "
                             "write {{{}}}", s, s));
-    if (!facts_.params.count(to_lower(s)))
+    if (!is_param(to_lower(s)) && observing_) {
+        // While reading: the parameter may be declared further down; decide at the end.
+        rescan_ = true;
+        return;
+    }
+    if (!is_param(to_lower(s)))
         fail(t, fmt::format("'{}' is neither a number nor a parameter defined by .param", s));
     if (factor == 1) return;
     edit(t.begin, t.size(), fmt::format("{{({}){}}}", s, times_factor(factor)), field, unit, factor);
@@ -231,9 +283,24 @@ void ScalePass::fail(const Token& at, std::string why) const {
 
 ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     ScaleResult result;
-    ScalePass pass(deck, settings, result);
-    pass.run();
+    ScalePass pass(settings, result);
+    pass.run(deck);
     return result;
+}
+
+ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
+                          const ScaleSettings& settings) {
+    // One reading pass for both: the pass scales each card as soon as the reader checked it.
+    ScaledDeck out;
+    ScalePass pass(settings, out.result);
+    out.deck = load_deck(path, fs, [&](const Deck& so_far, std::size_t file, const Card& c) {
+        pass.observe(so_far, file, c);
+    });
+    // A name used before it was declared: the answers given then may be wrong, so scale
+    // the (now complete) deck again from scratch.
+    if (pass.relied_on_missing(out.deck.symbols)) out.result = scale_deck(out.deck, settings);
+    out.result.edits.resize(out.deck.files.size());
+    return out;
 }
 
 }  // namespace deckscale

@@ -41,4 +41,14 @@ struct ScaleResult {
 // Throws DeckError for bad input (malformed numbers and the like).
 ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings);
 
+struct ScaledDeck {
+    Deck deck;
+    ScaleResult result;
+};
+
+// Reads the deck at `path` and scales it in the same reading pass (the same result as
+// load_deck followed by scale_deck). Throws DeckError for bad input.
+ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
+                          const ScaleSettings& settings);
+
 }  // namespace deckscale

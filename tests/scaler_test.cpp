@@ -256,3 +256,43 @@ TEST(ScalerTest, FactorsOfOneChangeNothing) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// The one-pass load_and_scale must give exactly what load_deck + scale_deck give, also when
+// the deck uses names before it declares them (then it scales the complete deck again).
+TEST(ScalerTest, OnePassEqualsTwoPasses) {
+    struct Row {
+        int line;
+        const char* deck;
+    };
+    const Row rows[] = {
+        {__LINE__, "t\nR1 a 0 1k\nC1 a 0 1n\n.ac dec 10 1 1meg\n.end\n"},
+        // K before its inductors, R with a model declared later, a parameter used before
+        // .param, a switch model before the .options gmin that sets its default ROFF.
+        {__LINE__,
+         "t\nK1 L1 L2 0.5\nR1 a b rmod l=10u w=1u\nR2 b 0 rv\n.model swm sw vt=1\n"
+         "S1 b 0 a 0 swm\nL1 a 0 1u\nL2 b 0 2u\n.model rmod r rsh=50\n.param rv=2k\n"
+         ".options gmin=1e-9\n.end\n"},
+        // A keyed value naming a parameter declared further down.
+        {__LINE__, "t\nR3 b 0 r=rv2\nC3 b 0 c={cv}\n.param rv2=1k cv=1n\n.end\n"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "row at line " << r.line);
+        MemoryFileSystem fs;
+        fs.add("deck.cir", r.deck);
+        ScaleSettings settings;
+        settings.factors = {10, 100};
+        Deck deck = load_deck("deck.cir", fs);
+        ScaleResult two = scale_deck(deck, settings);
+        ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+        EXPECT_EQ(apply_edits(one.deck.top().text(), one.result.edits[0]),
+                  apply_edits(deck.top().text(), two.edits[0]));
+        EXPECT_EQ(one.result.change_count, two.change_count);
+        EXPECT_EQ(render(one.result.unscalable), render(two.unscalable));
+    }
+}
+
+}  // namespace
+}  // namespace deckscale
