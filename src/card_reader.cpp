@@ -95,6 +95,26 @@ struct action<g::after_end> {
     }
 };
 
+// An unclosed '{' or quote is noticed where its card ends; point at the opening character
+// instead (the last unmatched '{', or the last quote, before the failure).
+std::uint32_t opening_of_unclosed(const std::string& text, std::uint32_t at, const std::string& msg) {
+    char open = 0;
+    if (msg == g::error_message<g::brace_close>) open = '{';
+    if (msg == g::error_message<g::squote_close>) open = '\'';
+    if (msg == g::error_message<g::dquote_close>) open = '"';
+    if (!open) return at;
+    int depth = 0;
+    for (std::uint32_t i = std::min<std::uint32_t>(at, static_cast<std::uint32_t>(text.size())); i-- > 0;) {
+        char c = text[i];
+        if (open == '{' && c == '}') ++depth;
+        if (c == open) {
+            if (depth == 0) return i;
+            --depth;
+        }
+    }
+    return at;
+}
+
 template <typename Grammar>
 void run(const SourceFile& file, const CardVisitor& visit) {
     ReaderState st{&file, &visit, file.text().data(), {}, {}};
@@ -104,6 +124,7 @@ void run(const SourceFile& file, const CardVisitor& visit) {
     } catch (const pg::parse_error& e) {
         auto offset = static_cast<std::uint32_t>(e.positions().front().byte);
         std::string msg(e.message());
+        offset = opening_of_unclosed(file.text(), offset, msg);
         throw DeckError(file.diagnose(Severity::error, offset, 1, msg));
     }
     // Anything left (only possible for a file that holds nothing but a byte-order mark).

@@ -29,7 +29,8 @@ void render_into(std::string& out, const Diagnostic& d) {
         out += d.source_line;
         out += "\n  ";
         // Keep tabs so the caret lines up under tab-indented source text.
-        for (std::uint32_t i = 0; i + 1 < d.column && i < d.source_line.size(); ++i)
+        std::uint32_t caret = d.caret_column ? d.caret_column : d.column;
+        for (std::uint32_t i = 0; i + 1 < caret && i < d.source_line.size(); ++i)
             out += d.source_line[i] == '\t' ? '\t' : ' ';
         out += '^';
         for (std::uint32_t i = 1; i < d.length; ++i) out += '~';

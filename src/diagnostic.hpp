@@ -20,9 +20,10 @@ struct Diagnostic {
     std::uint32_t line = 0;   // 1-based; 0 when unknown
     std::uint32_t column = 0; // 1-based byte column; 0 when unknown
     std::uint32_t length = 0; // bytes underlined after the caret (0 or 1 gives a lone caret)
-    std::string source_line;  // the text of that line without its line end
+    std::string source_line;  // the text of that line without its line end (or a window of it)
     std::string message;
     std::vector<Diagnostic> notes;  // e.g. "included from here", rendered after the main text
+    std::uint32_t caret_column = 0;  // where the caret goes in source_line; 0 = `column`
 };
 
 // Renders one diagnostic (with its notes) as text ending in a newline.

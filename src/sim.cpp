@@ -16,6 +16,7 @@
 #include <thread>
 
 #include "sim_child.hpp"
+#include "sim_template.hpp"
 #include "sim_wire.hpp"
 
 namespace deckscale {
@@ -51,8 +52,10 @@ SimOutcome failure(SimStatus status, std::string message) {
     return out;
 }
 
-// Starts one child; returns the outcome directly when no child could be started.
-std::optional<SimOutcome> start(const SimJob& job, std::size_t index, Running& r) {
+// Starts one child, cloned from the template if one runs; returns the outcome directly when
+// no child could be started.
+std::optional<SimOutcome> start(const SimJob& job, std::size_t index, SimTemplate* from,
+                                Running& r) {
     if (auto why = invalid_cards(job)) return failure(SimStatus::load_failed, *why);
     int fds[2];
     if (::pipe2(fds, O_CLOEXEC) != 0) {
@@ -63,7 +66,8 @@ std::optional<SimOutcome> start(const SimJob& job, std::size_t index, Running& r
     auto timeout = std::clamp<std::chrono::milliseconds>(job.timeout, std::chrono::milliseconds(0),
                                                          std::chrono::hours(24 * 365));
     r.deadline = Clock::now() + timeout;
-    pid_t pid = ::fork();
+    pid_t pid = from ? from->spawn(index, fds[1]) : -1;
+    if (pid < 0) pid = ::fork();  // the direct path: no template, or it failed
     if (pid < 0) {
         int err = errno;
         ::close(fds[0]);
@@ -178,18 +182,30 @@ const SimVector* SimPlot::find(const std::string& wanted) const {
     return nullptr;
 }
 
-SimOutcome simulate(const SimJob& job) { return std::move(simulate_all({job}, 1).front()); }
+namespace {
 
-std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel) {
+// Runs the jobs, cloned from a template process when `use_template` (see sim_template.hpp).
+std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned parallel,
+                                 bool use_template) {
     if (parallel == 0) parallel = std::thread::hardware_concurrency();
     parallel = std::max(parallel, 1u);
     std::vector<SimOutcome> outcomes(jobs.size());
+    SimTemplate from;
+    if (use_template && !jobs.empty()) {
+        // It gets as long to initialise as the most patient job would.
+        std::chrono::milliseconds wait(2000);
+        for (const SimJob& job : jobs)
+            wait = std::clamp<std::chrono::milliseconds>(job.timeout, wait, std::chrono::hours(1));
+        if (!from.start(jobs, wait)) {
+            // Not even ngspice's initialisation worked: every job's own process says why.
+        }
+    }
     std::vector<Running> running;
     std::size_t next = 0;
     while (next < jobs.size() || !running.empty()) {
         while (running.size() < parallel && next < jobs.size()) {
             Running r;
-            if (auto direct = start(jobs[next], next, r)) {
+            if (auto direct = start(jobs[next], next, from.running() ? &from : nullptr, r)) {
                 outcomes[next] = std::move(*direct);
             } else {
                 running.push_back(std::move(r));
@@ -241,6 +257,14 @@ std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned p
         }
     }
     return outcomes;
+}
+
+}  // namespace
+
+SimOutcome simulate(const SimJob& job) { return std::move(run_jobs({job}, 1, false).front()); }
+
+std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel) {
+    return run_jobs(jobs, parallel, true);
 }
 
 }  // namespace deckscale

@@ -14,6 +14,7 @@
 #include <cstdlib>
 #include <cstring>
 #include <exception>
+#include <optional>
 #include <filesystem>
 #include <string>
 #include <vector>
@@ -112,7 +113,7 @@ int on_char(char* s, int, void* user) {
     auto* child = static_cast<Child*>(user);
     try {
         PrintedLine line = strip_channel(s ? s : "");
-        child->send(wire::log_frame(line.text));
+        if (child->fd >= 0) child->send(wire::log_frame(line.text));  // a template only records
         child->lines.push_back(std::move(line));
     } catch (...) {
         _exit(exit_internal);
@@ -245,26 +246,22 @@ std::vector<SimPlot> collect_plots(Child& child) {
     return plots;
 }
 
-[[noreturn]] void run(Child& child, const SimJob& job) {
-    // The deck's directory is checked and remembered; ngspice is initialised in a start
-    // directory (see make_start_dir) and loads the deck in the deck's directory.
-    if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
-        child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
-                                                         job.work_dir, std::strerror(errno)));
-    }
-    int deck_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+// Loads libngspice and initialises it in a private start directory (see make_start_dir), then
+// returns to the directory it was called in. Returns why it failed, or nothing; a
+// ControlledExit during initialisation is left in child.exit_requested.
+std::optional<std::string> start_ngspice(Child& child) {
+    int call_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
     std::setlocale(LC_ALL, "C");
     std::string start_dir = make_start_dir();
-    if (deck_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
+    if (call_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
         _exit(exit_setup_failed);
 
     void* lib = ::dlopen(library_name, RTLD_NOW | RTLD_LOCAL);
     if (!lib) {
         const char* why = ::dlerror();
-        child.finish(SimStatus::load_failed,
-                     fmt::format("cannot load {}: {}", library_name, why ? why : "unknown reason"));
+        return fmt::format("cannot load {}: {}", library_name, why ? why : "unknown reason");
     }
     Api& api = child.api;
     if (!resolve(lib, "ngSpice_Init", api.init) || !resolve(lib, "ngSpice_Circ", api.circ) ||
@@ -272,19 +269,20 @@ std::vector<SimPlot> collect_plots(Child& child) {
         !resolve(lib, "ngGet_Vec_Info", api.vec_info) ||
         !resolve(lib, "ngSpice_AllPlots", api.all_plots) ||
         !resolve(lib, "ngSpice_AllVecs", api.all_vecs)) {
-        child.finish(SimStatus::load_failed,
-                     fmt::format("{} lacks a function this program needs", library_name));
+        return fmt::format("{} lacks a function this program needs", library_name);
     }
-
-    child.guarded([&] {
-        api.init(on_char, nullptr, on_exit_request, nullptr, on_init_data, nullptr, &child);
-    });
+    api.init(on_char, nullptr, on_exit_request, nullptr, on_init_data, nullptr, &child);
     remove_start_dir(start_dir);
-    if (::fchdir(deck_dir) != 0) _exit(exit_setup_failed);
-    ::close(deck_dir);
-    char unset_dialect[] = "unset ngbehavior";  // a .spiceinit may have set one
-    child.guarded([&] { api.command(unset_dialect); });
+    if (::fchdir(call_dir) != 0) _exit(exit_setup_failed);
+    ::close(call_dir);
+    return std::nullopt;
+}
 
+// Loads and runs the job's cards in an initialised ngspice whose current directory is the
+// deck's, and reports.
+[[noreturn]] void run_job(Child& child, const SimJob& job) {
+    char unset_dialect[] = "unset ngbehavior";  // a .spiceinit may have set one
+    child.guarded([&] { child.api.command(unset_dialect); });
     // ngspice skips empty entries, so a blank title would silently make the first card
     // the title; it is replaced by a word (the title is not simulated).
     std::vector<std::string> cards = job.cards;
@@ -295,13 +293,13 @@ std::vector<SimPlot> collect_plots(Child& child) {
     argv.push_back(nullptr);
 
     std::size_t load_begin = child.lines.size();
-    child.guarded([&] { api.circ(argv.data()); });
+    child.guarded([&] { child.api.circ(argv.data()); });
     std::size_t load_end = child.lines.size();
     if (any_problem(child.lines, load_begin, load_end, true))
         child.finish(SimStatus::load_failed, quote_problems(child.lines, load_begin, load_end));
 
     char run_command[] = "run";
-    child.guarded([&] { api.command(run_command); });
+    child.guarded([&] { child.api.command(run_command); });
     std::size_t run_end = child.lines.size();
     if (any_problem(child.lines, load_end, run_end, false))  // e.g. "set to 1 mOhm" at setup
         child.finish(SimStatus::load_failed, quote_problems(child.lines, load_end, run_end));
@@ -332,6 +330,20 @@ std::vector<SimPlot> collect_plots(Child& child) {
     child.finish(run_failed ? SimStatus::run_failed : SimStatus::ok, why);
 }
 
+
+// The direct path: a fresh child loads and initialises ngspice itself.
+[[noreturn]] void run(Child& child, const SimJob& job) {
+    // The deck's directory is checked first; ngspice is initialised elsewhere (start_ngspice).
+    if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
+        child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
+                                                         job.work_dir, std::strerror(errno)));
+    }
+    std::optional<std::string> failed = start_ngspice(child);
+    if (child.exit_requested) child.finish_exit_request();
+    if (failed) child.finish(SimStatus::load_failed, *failed);
+    run_job(child, job);
+}
+
 }  // namespace
 
 void run_child(const SimJob& job, int fd) noexcept {
@@ -339,6 +351,48 @@ void run_child(const SimJob& job, int fd) noexcept {
     child.fd = take_over_process(fd);
     try {
         run(child, job);
+    } catch (const std::exception& e) {
+        child.finish(SimStatus::crashed, fmt::format("simulator process failed: {}", e.what()));
+    } catch (...) {
+        _exit(exit_internal);
+    }
+}
+
+// ---- The template path: ngspice is initialised once, each job runs in a clone of it.
+namespace {
+Child the_template;  // the callbacks' user pointer: at the same address in every clone
+}  // namespace
+
+int prepare_template(int keep_fd) noexcept {
+    try {
+        int fd = take_over_process(keep_fd);
+        the_template.fd = -1;  // no job yet: what ngspice prints is only recorded
+        std::optional<std::string> failed = start_ngspice(the_template);
+        if (failed || the_template.exit_requested) return -1;
+        return fd;
+    } catch (...) {
+        return -1;
+    }
+}
+
+void run_cloned_child(const SimJob& job, int fd) noexcept {
+    Child& child = the_template;
+    // The pipe becomes fd 3; the template's socket and anything else it holds are closed.
+    if (fd != 3 && ::dup2(fd, 3) < 0) _exit(exit_setup_failed);
+    if (::close_range(4, ~0U, 0) != 0) {
+        for (int i = 4; i < 4096; ++i) ::close(i);
+    }
+    child.fd = 3;
+    ::prctl(PR_SET_PDEATHSIG, SIGKILL);  // not inherited across a clone
+    ::setpgid(0, 0);
+    try {
+        if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
+            child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
+                                                             job.work_dir, std::strerror(errno)));
+        }
+        // What ngspice printed while the template was initialised, as a direct child sends it.
+        for (const PrintedLine& line : child.lines) child.send(wire::log_frame(line.text));
+        run_job(child, job);
     } catch (const std::exception& e) {
         child.finish(SimStatus::crashed, fmt::format("simulator process failed: {}", e.what()));
     } catch (...) {

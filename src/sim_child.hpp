@@ -12,4 +12,15 @@ namespace deckscale {
 // the caller's frames.
 [[noreturn]] void run_child(const SimJob& job, int fd) noexcept;
 
+// The template path (driven by sim_template.cpp). prepare_template makes a freshly forked
+// child a template: it takes over the process like run_child, keeping `keep_fd` as fd 3, and
+// loads and initialises libngspice without loading any circuit. Returns 3, or -1 if ngspice
+// could not be started (the caller then ends the process; the direct path reports why).
+int prepare_template(int keep_fd) noexcept;
+
+// Runs `job` like run_child, in a process cloned from a prepared template: only `fd` (the
+// write end of the job's pipe) is kept, the process gets a group of its own, enters the job's
+// work_dir and sends the lines ngspice printed at initialisation before its own.
+[[noreturn]] void run_cloned_child(const SimJob& job, int fd) noexcept;
+
 }  // namespace deckscale

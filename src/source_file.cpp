@@ -37,8 +37,22 @@ Diagnostic SourceFile::diagnose(Severity severity, std::uint32_t offset, std::ui
     d.line = pos.line;
     d.column = pos.column;
     d.source_line = std::string(line_text(pos.line));
+    // Control bytes (binary data) would garble a terminal: show them as '?'.
+    for (char& c : d.source_line)
+        if ((static_cast<unsigned char>(c) < 0x20 && c != '\t') || c == 0x7f) c = '?';
+    // A very long line is shown as a window around the column.
+    constexpr std::uint32_t kBefore = 60, kAfter = 100;
+    if (d.source_line.size() > kBefore + kAfter + 20) {
+        std::uint32_t from = pos.column > kBefore ? pos.column - 1 - kBefore : 0;
+        std::string window = (from > 0 ? "..." : "") + d.source_line.substr(from, kBefore + kAfter);
+        if (from + kBefore + kAfter < d.source_line.size()) window += "...";
+        d.source_line = window;
+        // The column stays the file's; the caret goes under the same byte of the window.
+        d.caret_column = pos.column - from + (from > 0 ? 3 : 0);
+    }
     // Underline no further than the end of the line.
-    std::uint32_t room = d.source_line.size() >= pos.column ? d.source_line.size() - pos.column + 1 : 1;
+    std::uint32_t shown = d.caret_column ? d.caret_column : pos.column;
+    std::uint32_t room = d.source_line.size() >= shown ? d.source_line.size() - shown + 1 : 1;
     d.length = std::max<std::uint32_t>(1, std::min(length, room));
     d.message = std::move(message);
     return d;

@@ -56,14 +56,14 @@ std::vector<BadInputRow> bad_inputs() {
          "  .control\n"
          "  ^\n"},
         {__LINE__, "unbalanced {", {{"proj/deck.cir", "t\nR1 a 0 {1k*2\n.end\n"}},
-         "proj/deck.cir:2:13: error: unbalanced '{': the card ends before the matching '}'\n"
+         "proj/deck.cir:2:8: error: unbalanced '{': the card ends before the matching '}'\n"
          "  R1 a 0 {1k*2\n"
-         "              ^\n"},
+         "         ^\n"},
         {__LINE__, "unterminated 'expr'", {{"proj/deck.cir", "t\nR1 a 0 '1k*2\n"}},
-         "proj/deck.cir:2:13: error: unterminated quoted expression: no closing \"'\" before the "
+         "proj/deck.cir:2:8: error: unterminated quoted expression: no closing \"'\" before the "
          "end of the card\n"
          "  R1 a 0 '1k*2\n"
-         "              ^\n"},
+         "         ^\n"},
         {__LINE__, "missing include",
          {{"proj/deck.cir", "t\n.include models/missing.lib\nR1 a 0 1\n"}},
          "proj/deck.cir:2:10: error: cannot read included file 'proj/models/missing.lib'\n"
@@ -100,7 +100,7 @@ std::vector<BadInputRow> bad_inputs() {
          "proj/deck.cir: error: empty file: a deck needs a title line and cards\n"},
         {__LINE__, "binary data", {{"proj/deck.cir", std::string("t\nR1 a\0 0 1\n", 11)}},
          "proj/deck.cir:2:5: error: binary data (a NUL byte): this is not a SPICE deck\n"
-         "  " + std::string("R1 a\0 0 1", 9) + "\n"
+         "  R1 a? 0 1\n"  // control bytes are shown as '?'
          "      ^\n"},
         {__LINE__, "missing deck", {},
          "proj/deck.cir: error: cannot read the deck file\n"},

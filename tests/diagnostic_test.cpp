@@ -85,5 +85,20 @@ TEST(SourceFile, PositionsAndLines) {
     EXPECT_EQ(f.line_text(5), "");
 }
 
+// A long line is shown as a window around the column, with the caret under the same byte;
+// control bytes are shown as '?'.
+TEST(SourceFile, LongLinesAreWindowedAndControlBytesHidden) {
+    std::string line = "R1 a b " + std::string(500, 'x') + " 1.2.3";
+    SourceFile f("long.cir", "t\n" + line + "\n");
+    std::uint32_t offset = 2 + static_cast<std::uint32_t>(line.find("1.2.3"));
+    Diagnostic d = f.diagnose(Severity::error, offset, 5, "bad");
+    EXPECT_EQ(d.column, 509u);
+    std::string shown = "..." + std::string(60, 'x').substr(0, 59) + " 1.2.3";
+    EXPECT_EQ(render(d), "long.cir:2:509: error: bad\n  " + shown + "\n  " +
+                             std::string(shown.size() - 5, ' ') + "^~~~~\n");
+    SourceFile b("bin.cir", std::string("t\nR1\x01\x7f a\n", 9));
+    EXPECT_EQ(render(b.diagnose(Severity::error, 4, 1, "x")), "bin.cir:2:3: error: x\n  R1?? a\n    ^\n");
+}
+
 }  // namespace
 }  // namespace deckscale
