@@ -1,5 +1,7 @@
 #include "analyses.hpp"
 
+#include <algorithm>
+
 #include <fmt/format.h>
 
 #include "spice_number.hpp"
@@ -97,6 +99,10 @@ DeckAnalyses find_analyses(const Deck& deck) {
                 a.tran = t;
             } else if (kw == ".op") {
                 a.op = true;
+            } else if (kw == ".dc" || kw == ".noise" || kw == ".disto" || kw == ".pz" ||
+                       kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
+                if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
+                    a.uncompared.push_back(kw);
             }
         });
     }

@@ -26,6 +26,7 @@ struct DeckAnalyses {
     std::optional<AcSweep> ac;
     std::optional<TranSpec> tran;
     bool op = false;
+    std::vector<std::string> uncompared;     // analysis cards verify does not map (".dc", ...)
     std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
     std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)
     std::vector<std::string> sources;       // every independent V and I source

@@ -86,6 +86,9 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
 
         DeckAnalyses an = find_analyses(original);
         for (const auto& p : an.problems) report.notes.push_back(p + " (not compared)");
+        for (const auto& kw : an.uncompared)
+            report.notes.push_back(fmt::format("the original's {} analysis is not compared (verify maps "
+                                               ".ac, .op and .tran)", kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
             std::string e;
