@@ -20,7 +20,8 @@ void scale_keyed(ScalePass& p, const Atom& a, std::string_view scope) {
     }
     if (!a.value) p.fail(*a.key, fmt::format("parameter '{}' has no value", p.text(*a.key)));
     if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace) {
-        p.scale_expression(a.value->begin, a.value->end, factor_of(*unit, p.factors()), key);
+        p.scale_expression(a.value->begin, a.value->end, factor_of(*unit, p.factors()), key,
+                           unit_name(*unit));
         return;
     }
     p.scale_value(*a.value, *unit, key);
@@ -76,7 +77,8 @@ void scale_passive(ScalePass& p, char letter) {
             has_value = true;
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace) {
                 auto unit = *find_rule(scope, "value");
-                p.scale_expression(t.begin, t.end, factor_of(unit, p.factors()), "value");
+                p.scale_expression(t.begin, t.end, factor_of(unit, p.factors()), "value",
+                                   unit_name(unit));
             } else {
                 p.scale_value(t, *find_rule(scope, "value"), "value");
             }
@@ -136,7 +138,7 @@ void scale_controlled(ScalePass& p, char letter) {
             }
         }
         if (last <= eq + 1) p.fail(fl[eq], "behavioural source without an expression");
-        p.scale_expression(fl[eq + 1].begin, fl[last - 1].end, out, which);
+        p.scale_expression(fl[eq + 1].begin, fl[last - 1].end, out, which, which == "i" ? "A" : "V");
         return;
     }
     const auto& atoms = p.atoms(1);
@@ -157,7 +159,8 @@ void scale_controlled(ScalePass& p, char letter) {
                 // value= may be unquoted: take everything to the end of the card.
                 const Token& first = *a.value;
                 const Token& lastf = c.fields.back();
-                p.scale_expression(first.begin, lastf.end, out_factor, key);
+                p.scale_expression(first.begin, lastf.end, out_factor, key,
+                                   letter == 'g' ? "A" : "V");
                 return;
             }
             p.unscalable(*a.key, fmt::format("parameter '{}' is not in the rule table", p.text(*a.key)));
@@ -192,7 +195,7 @@ void scale_controlled(ScalePass& p, char letter) {
                 if (i + 1 < atoms.size() && atoms[i + 1].value &&
                     atoms[i + 1].value->kind == TokenKind::brace)
                     p.scale_expression(atoms[i + 1].value->begin, atoms[i + 1].value->end, 1,
-                                       "table input");
+                                       "table input", "V");
                 return;
             }
             p.unscalable(*a.value, fmt::format("{} form of a controlled source", p.text(*a.value)));

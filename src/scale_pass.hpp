@@ -54,7 +54,7 @@ public:
     // A behavioural expression spanning [begin, end) of the card: substitute variables and
     // multiply by out_factor. `delimited` is true for {..} / '..' tokens (kept as such).
     void scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
-                          std::string_view field);
+                          std::string_view field, std::string_view unit);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
     // Records an item that cannot be scaled exactly.

@@ -206,7 +206,7 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
 }
 
 void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
-                                 std::string_view field) {
+                                 std::string_view field, std::string_view unit) {
     std::string_view expr = card_->file->view(begin, end);
     bool delimited = !expr.empty() && (expr.front() == '{' || expr.front() == '\'');
     std::string_view inner = delimited ? expr.substr(1, expr.size() - 2) : expr;
@@ -220,7 +220,7 @@ void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double 
     std::string body = out_factor == 1 ? sub.text : "(" + sub.text + ")" + times_factor(out_factor);
     std::string text = delimited ? expr.front() + body + expr.back() : "(" + body + ")";
     if (!delimited && out_factor == 1) text = sub.text;
-    edit(begin, end - begin, std::move(text), field, "expr", out_factor);
+    edit(begin, end - begin, std::move(text), field, unit, out_factor);
 }
 
 void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view field, double factor) {

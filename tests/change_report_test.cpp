@@ -1,0 +1,57 @@
+// The change list of a scaling run, as text and as JSON.
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "change_report.hpp"
+#include "scale_output.hpp"
+
+namespace deckscale {
+namespace {
+
+struct ScaleRun {
+    Deck deck;
+    ScaleResult result;
+    OutputPlan plan;
+};
+
+ScaleRun run_scale_in_memory(const std::string& text, double km, double kf) {
+    MemoryFileSystem fs;
+    fs.add("deck.cir", text);
+    ScaleSettings s;
+    s.factors = {km, kf};
+    ScaleRun r{load_deck("deck.cir", fs), {}, {}};
+    r.result = scale_deck(r.deck, s);
+    r.plan = plan_output(r.deck, r.result.edits, "", false);
+    return r;
+}
+
+TEST(ChangeReport, OneLinePerRewrittenValue) {
+    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nC1 a 0 {c0}\n.param c0=1n\nD1 a 0 dm\n.model dm d\n.end\n", 50, 2);
+    EXPECT_EQ(change_list_text(r.deck, r.result),
+              "deck.cir:2:8  R1  value  1k -> 50k  x50 [Ohm]\n"
+              "deck.cir:3:8  C1  value  {c0} -> {(c0)/100}  x0.01 [F]\n");
+}
+
+TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
+    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nD1 a 0 dm\n.model dm d\n.end\n", 50, 2);
+    auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {50, 2}, r.plan));
+    EXPECT_EQ(j["km"], 50);
+    EXPECT_EQ(j["kf"], 2);
+    ASSERT_EQ(j["files"].size(), 1u);
+    EXPECT_EQ(j["files"][0]["input"], "deck.cir");
+    EXPECT_EQ(j["files"][0]["output"], "-");
+    ASSERT_EQ(j["changes"].size(), 1u);
+    EXPECT_EQ(j["changes"][0]["element"], "R1");
+    EXPECT_EQ(j["changes"][0]["line"], 2);
+    EXPECT_EQ(j["changes"][0]["column"], 8);
+    EXPECT_EQ(j["changes"][0]["old"], "1k");
+    EXPECT_EQ(j["changes"][0]["new"], "50k");
+    EXPECT_EQ(j["changes"][0]["unit"], "Ohm");
+    EXPECT_DOUBLE_EQ(j["changes"][0]["factor"].get<double>(), 50);
+    ASSERT_EQ(j["unscalable"].size(), 2u);  // the diode and its model
+    EXPECT_EQ(j["unscalable"][0]["line"], 3);
+}
+
+}  // namespace
+}  // namespace deckscale
