@@ -30,39 +30,39 @@ inline bool word_stop(char c) {
     }
 }
 
-// plus< seq< not_at< two<'/'> >, not_one< word_stop bytes > > >
-struct word_run {
-    using rule_t = word_run;
+// One or more bytes that `Byte::accept(p, end)` takes, as one primitive rule.
+template <typename Byte>
+struct byte_run {
+    using rule_t = byte_run;
     using subs_t = pg::type_list<>;
     template <typename ParseInput>
     static bool match(ParseInput& in) {
         const char* p = in.current();
         const char* e = in.end();
         const char* s = p;
-        while (p < e && !word_stop(*p) && !(*p == '/' && p + 1 < e && p[1] == '/')) ++p;
+        while (p < e && Byte::accept(p, e)) ++p;
         if (p == s) return false;
         in.bump_in_this_line(static_cast<std::size_t>(p - s));
         return true;
     }
 };
 
-// plus< sor< one<' ', '\t', '\f', '\v'>, seq< one<'\r'>, not_at< one<'\n'> > > > >
-struct blank_run {
-    using rule_t = blank_run;
-    using subs_t = pg::type_list<>;
-    template <typename ParseInput>
-    static bool match(ParseInput& in) {
-        const char* p = in.current();
-        const char* e = in.end();
-        const char* s = p;
-        while (p < e && (*p == ' ' || *p == '\t' || *p == '\f' || *p == '\v' ||
-                         (*p == '\r' && !(p + 1 < e && p[1] == '\n'))))
-            ++p;
-        if (p == s) return false;
-        in.bump_in_this_line(static_cast<std::size_t>(p - s));
-        return true;
+// plus< seq< not_at< two<'/'> >, not_one< word_stop bytes > > >
+struct word_byte {
+    static bool accept(const char* p, const char* e) {
+        return !word_stop(*p) && !(*p == '/' && p + 1 < e && p[1] == '/');
     }
 };
+using word_run = byte_run<word_byte>;
+
+// plus< sor< one<' ', '\t', '\f', '\v'>, seq< one<'\r'>, not_at< one<'\n'> > > > >
+struct blank_byte {
+    static bool accept(const char* p, const char* e) {
+        return *p == ' ' || *p == '\t' || *p == '\f' || *p == '\v' ||
+               (*p == '\r' && !(p + 1 < e && p[1] == '\n'));
+    }
+};
+using blank_run = byte_run<blank_byte>;
 
 // star< not_at< eol >, any >  (eol = opt<'\r'> '\n')
 struct line_run {
@@ -233,10 +233,8 @@ struct include_file : pg::seq<pg::opt<bom>, body> {};
 }  // namespace deckscale::grammar
 
 namespace tao::pegtl {
-template <typename Name>
-struct analyze_traits<Name, deckscale::grammar::scan::word_run> : analyze_any_traits<> {};
-template <typename Name>
-struct analyze_traits<Name, deckscale::grammar::scan::blank_run> : analyze_any_traits<> {};
+template <typename Name, typename Byte>
+struct analyze_traits<Name, deckscale::grammar::scan::byte_run<Byte>> : analyze_any_traits<> {};
 template <typename Name>
 struct analyze_traits<Name, deckscale::grammar::scan::line_run> : analyze_opt_traits<> {};
 }  // namespace tao::pegtl
