@@ -184,21 +184,22 @@ const SimVector* SimPlot::find(const std::string& wanted) const {
 
 namespace {
 
-// Runs the jobs, cloned from a template process when `use_template` (see sim_template.hpp).
+// Runs the jobs, cloned from a template process (see sim_template.hpp) if `how` says so.
 std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned parallel,
-                                 bool use_template) {
+                                 SimProcesses how) {
     if (parallel == 0) parallel = std::thread::hardware_concurrency();
     parallel = std::max(parallel, 1u);
+    if (how == SimProcesses::automatic)
+        how = jobs.size() > parallel ? SimProcesses::from_template : SimProcesses::direct;
     std::vector<SimOutcome> outcomes(jobs.size());
     SimTemplate from;
-    if (use_template && !jobs.empty()) {
+    if (how == SimProcesses::from_template && !jobs.empty()) {
         // It gets as long to initialise as the most patient job would.
         std::chrono::milliseconds wait(2000);
         for (const SimJob& job : jobs)
             wait = std::clamp<std::chrono::milliseconds>(job.timeout, wait, std::chrono::hours(1));
-        if (!from.start(jobs, wait)) {
-            // Not even ngspice's initialisation worked: every job's own process says why.
-        }
+        // If it cannot start, each job is forked directly and its own process says why.
+        from.start(jobs, wait);
     }
     std::vector<Running> running;
     std::size_t next = 0;
@@ -261,10 +262,13 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
 
 }  // namespace
 
-SimOutcome simulate(const SimJob& job) { return std::move(run_jobs({job}, 1, false).front()); }
+SimOutcome simulate(const SimJob& job) {
+    return std::move(run_jobs({job}, 1, SimProcesses::direct).front());
+}
 
-std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel) {
-    return run_jobs(jobs, parallel, true);
+std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel,
+                                     SimProcesses how) {
+    return run_jobs(jobs, parallel, how);
 }
 
 }  // namespace deckscale

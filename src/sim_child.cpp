@@ -14,8 +14,8 @@
 #include <cstdlib>
 #include <cstring>
 #include <exception>
-#include <optional>
 #include <filesystem>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -329,7 +329,6 @@ std::optional<std::string> start_ngspice(Child& child) {
     for (const SimPlot& p : plots) child.send(wire::plot_frame(p));
     child.finish(run_failed ? SimStatus::run_failed : SimStatus::ok, why);
 }
-
 
 // The direct path: a fresh child loads and initialises ngspice itself.
 [[noreturn]] void run(Child& child, const SimJob& job) {

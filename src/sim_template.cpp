@@ -69,8 +69,8 @@ bool send_all(int sock, const void* data, std::size_t size) {
         if (!receive_job(sock, index, fd)) _exit(0);
         std::int32_t reply = -EINVAL;
         if (fd >= 0 && index < jobs.size()) {
-            long pid = ::syscall(SYS_clone, CLONE_PARENT | SIGCHLD, nullptr, nullptr, nullptr,
-                                 nullptr);
+            long pid =
+                ::syscall(SYS_clone, CLONE_PARENT | SIGCHLD, nullptr, nullptr, nullptr, nullptr);
             if (pid == 0) run_cloned_child(jobs[index], fd);
             reply = pid > 0 ? static_cast<std::int32_t>(pid) : -errno;
         }

@@ -22,7 +22,7 @@
 namespace deckscale {
 
 class SimTemplate {
-public:
+  public:
     SimTemplate() = default;
     SimTemplate(const SimTemplate&) = delete;
     SimTemplate& operator=(const SimTemplate&) = delete;
@@ -42,7 +42,7 @@ public:
     // Ends and reaps the template; the jobs' processes are not affected.
     void stop();
 
-private:
+  private:
     pid_t pid_ = -1;
     int socket_ = -1;
 };
