@@ -97,7 +97,7 @@ struct action<g::after_end> {
 
 // An unclosed '{' or quote is noticed where its card ends; point at the opening character
 // instead (the last unmatched '{', or the last quote, before the failure).
-std::uint32_t opening_of_unclosed(const std::string& text, std::uint32_t at, const std::string& msg) {
+std::uint32_t opening_of_unclosed(std::string_view text, std::uint32_t at, const std::string& msg) {
     char open = 0;
     if (msg == g::error_message<g::brace_close>) open = '{';
     if (msg == g::error_message<g::squote_close>) open = '\'';

@@ -29,6 +29,12 @@ public:
     // std::logic_error naming both edits if it overlaps one already stored.
     void add(std::string_view original, const Edit& e);
 
+    // Room for that many edits and bytes of new text (untouched room costs no memory).
+    void reserve(std::size_t edits, std::size_t text_bytes) {
+        slots_.reserve(edits);
+        texts_.reserve(text_bytes);
+    }
+
     bool empty() const { return slots_.empty(); }
     std::size_t size() const { return slots_.size(); }
     EditView at(std::size_t i) const {

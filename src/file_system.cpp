@@ -1,28 +1,57 @@
 #include "file_system.hpp"
 
+#include <cerrno>
 #include <filesystem>
-#include <fstream>
-#include <sstream>
+
+#include <fcntl.h>
+#include <sys/mman.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 namespace deckscale {
 
 namespace fs = std::filesystem;
 
-std::optional<std::string> DiskFileSystem::read(const std::string& path) const {
-    std::error_code ec;
-    if (fs::is_directory(path, ec)) return std::nullopt;
-    std::ifstream in(path, std::ios::binary);
-    if (!in) return std::nullopt;
-    std::string text;
-    in.seekg(0, std::ios::end);
-    auto size = in.tellg();
-    if (size > 0) {
-        text.resize(static_cast<std::size_t>(size));
-        in.seekg(0);
-        in.read(text.data(), size);
-        if (!in) return std::nullopt;
+FileText owned_text(std::string text) {
+    auto owner = std::make_shared<const std::string>(std::move(text));
+    return FileText{owner, std::string_view(*owner)};
+}
+
+std::optional<FileText> DiskFileSystem::read(const std::string& path) const {
+    int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
+    if (fd < 0) return std::nullopt;
+    struct stat st {};
+    if (::fstat(fd, &st) != 0 || S_ISDIR(st.st_mode)) {
+        ::close(fd);
+        return std::nullopt;
     }
-    return text;
+    std::size_t size = static_cast<std::size_t>(st.st_size);
+    if (S_ISREG(st.st_mode) && size > 0) {
+        void* p = ::mmap(nullptr, size, PROT_READ, MAP_PRIVATE, fd, 0);
+        if (p != MAP_FAILED) {
+            ::close(fd);
+            ::madvise(p, size, MADV_SEQUENTIAL);
+            std::shared_ptr<const void> owner(p, [size](const void* q) {
+                ::munmap(const_cast<void*>(q), size);
+            });
+            return FileText{owner, std::string_view(static_cast<const char*>(p), size)};
+        }
+    }
+    // Not mappable (a pipe, an empty file, ...): read it.
+    std::string text;
+    char buf[1 << 16];
+    for (;;) {
+        ssize_t n = ::read(fd, buf, sizeof buf);
+        if (n < 0 && errno == EINTR) continue;
+        if (n < 0) {
+            ::close(fd);
+            return std::nullopt;
+        }
+        if (n == 0) break;
+        text.append(buf, static_cast<std::size_t>(n));
+    }
+    ::close(fd);
+    return owned_text(std::move(text));
 }
 
 std::string DiskFileSystem::identity(const std::string& path) const {
@@ -31,11 +60,11 @@ std::string DiskFileSystem::identity(const std::string& path) const {
     return ec ? fs::path(path).lexically_normal().string() : p.string();
 }
 
-std::optional<std::string> MemoryFileSystem::read(const std::string& path) const {
+std::optional<FileText> MemoryFileSystem::read(const std::string& path) const {
     auto it = files_.find(fs::path(path).lexically_normal().string());
     if (it == files_.end()) it = files_.find(path);
     if (it == files_.end()) return std::nullopt;
-    return it->second;
+    return owned_text(it->second);
 }
 
 std::string MemoryFileSystem::identity(const std::string& path) const {

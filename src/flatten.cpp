@@ -48,7 +48,7 @@ std::pair<std::uint32_t, std::uint32_t> section_range(const Deck& deck, std::siz
 
 std::string flatten_range(const Deck& deck, const std::vector<EditSet>& edits, std::size_t file,
                           std::uint32_t begin, std::uint32_t end) {
-    const std::string& text = deck.files[file].source->text();
+    std::string_view text = deck.files[file].source->text();
     std::string out;
     std::uint32_t pos = begin;
     for (const auto& inc : include_cards(deck, file)) {

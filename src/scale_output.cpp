@@ -32,7 +32,7 @@ void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& 
         sink(file.content);
         return;
     }
-    const std::string& text = deck.files[file.source_file].source->text();
+    std::string_view text = deck.files[file.source_file].source->text();
     apply_edits(text, plan.edits[file.source_file], 0, static_cast<std::uint32_t>(text.size()), sink);
 }
 

@@ -62,7 +62,12 @@ void ScalePass::run(const Deck& deck) {
 void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) {
     observing_ = true;
     symbols_ = &so_far.symbols;
-    if (result_.edits.size() < so_far.files.size()) result_.edits.resize(so_far.files.size());
+    while (result_.edits.size() < so_far.files.size()) {
+        // At most about one edit per value of a dense deck: reserve that much up front, so
+        // a million edits are not copied again and again as the buffers grow.
+        std::size_t size = so_far.files[result_.edits.size()].source->text().size();
+        result_.edits.emplace_back().reserve(size / 12, size / 3);
+    }
     file_ = file;
     visit(card);
 }

@@ -23,7 +23,7 @@ const std::set<std::string>& removed_cards() {
 std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions& o) {
     std::vector<EditSet> edits(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
-        const std::string& text = deck.files[f].source->text();
+        std::string_view text = deck.files[f].source->text();
         deck.visit_file(f, [&](const Card& c) {
             bool remove = c.kind == CardKind::control || c.kind == CardKind::after_end ||
                           (c.kind == CardKind::dot && removed_cards().count(card_keyword(c)));

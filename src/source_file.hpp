@@ -3,22 +3,27 @@
 #pragma once
 
 #include <cstdint>
+#include <memory>
 #include <string>
 #include <string_view>
 #include <vector>
 
 #include "diagnostic.hpp"
+#include "file_system.hpp"
 
 namespace deckscale {
 
 class SourceFile {
 public:
-    SourceFile(std::string path, std::string text) : path_(std::move(path)), text_(std::move(text)) {}
+    SourceFile(std::string path, std::string text)
+        : SourceFile(std::move(path), owned_text(std::move(text))) {}
+    SourceFile(std::string path, FileText text)
+        : path_(std::move(path)), owner_(std::move(text.owner)), text_(text.bytes) {}
 
     const std::string& path() const { return path_; }  // as shown to the user
-    const std::string& text() const { return text_; }
+    std::string_view text() const { return text_; }
     std::string_view view(std::uint32_t begin, std::uint32_t end) const {
-        return std::string_view(text_).substr(begin, end - begin);
+        return text_.substr(begin, end - begin);
     }
 
     struct Position {
@@ -36,7 +41,8 @@ private:
     void index_lines() const;
 
     std::string path_;
-    std::string text_;
+    std::shared_ptr<const void> owner_;  // keeps text_ alive
+    std::string_view text_;
     mutable std::vector<std::uint32_t> line_starts_;  // built on first use (diagnostics only)
 };
 
