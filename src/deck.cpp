@@ -245,8 +245,7 @@ private:
     }
 
     void check_element(const Card& c) {
-        std::string name = card_keyword(c);
-        char letter = name.empty() ? '\0' : name[0];
+        char letter = ascii_lower(c.field_text(0)[0]);
         for (const auto& s : kShapes) {
             if (s.letter != letter) continue;
             int have = value_fields(c);

@@ -115,8 +115,8 @@ void ScalePass::visit(const Card& c) {
         return;
     }
     if (c.fields.empty()) return;
-    std::string kw = card_keyword(c);
     if (c.kind == CardKind::dot) {
+        std::string kw = card_keyword(c);
         if (kw == ".model")
             scale_model(*this);
         else
@@ -124,7 +124,7 @@ void ScalePass::visit(const Card& c) {
         return;
     }
     if (c.kind != CardKind::element) return;
-    char letter = kw[0];
+    char letter = ascii_lower(c.field_text(0)[0]);
     switch (letter) {
         case 'r': case 'c': case 'l': case 'k': scale_passive(*this, letter); break;
         case 'v': case 'i': scale_source(*this, letter); break;
