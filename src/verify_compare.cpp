@@ -17,8 +17,21 @@ const VectorResult* Comparison::worst() const { return vectors.empty() ? nullptr
 
 namespace {
 
+// Node voltages and branch currents ("x#branch": voltage sources, inductors, E and H
+// sources) are compared. Other '#' vectors are internal states of devices such as
+// transmission lines ("t1#i1"), in the device's own normalisation, not port currents.
+bool internal_state(const SimVector& v) {
+    auto hash = v.name.find('#');
+    return hash != std::string::npos && v.name.compare(hash, std::string::npos, "#branch") != 0;
+}
+
 bool compared(const SimVector& v) {
-    return v.kind == VectorKind::voltage || v.kind == VectorKind::current;
+    return (v.kind == VectorKind::voltage || v.kind == VectorKind::current) && !internal_state(v);
+}
+
+void note_internal_states(const SimPlot& o, Comparison& c) {
+    for (const auto& v : o.vectors)
+        if (internal_state(v)) c.not_compared.push_back(v.name);
 }
 
 // Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents.
@@ -80,6 +93,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
         c.last = fo->values[n - 1].real();
     }
     match_names(o, s, c);
+    note_internal_states(o, c);
     for (const auto& vo : o.vectors) {
         if (!compared(vo)) continue;
         const SimVector* vs = s.find(vo.name);
@@ -122,6 +136,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     c.analysis = "op";
     c.points = 1;
     match_names(o, s, c);
+    note_internal_states(o, c);
     // The largest value of each kind in either deck (scaled currents mapped back): an original
     // at 0 V everywhere must not hide a scaled deck that is not.
     double vmax = 0, imax = 0;
@@ -163,6 +178,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
     c.first = to->values.front().real();
     c.last = to->values.back().real();
     match_names(o, s, c);
+    note_internal_states(o, c);
     // Scaled times mapped back onto the original time axis.
     std::vector<double> tmap(ts->values.size());
     for (std::size_t j = 0; j < tmap.size(); ++j) tmap[j] = ts->values[j].real() * kf;

@@ -35,6 +35,7 @@ struct Comparison {
     double first = 0, last = 0;    // sweep or time range of the original
     std::vector<VectorResult> vectors;  // worst first
     std::vector<std::string> problems;  // anything that makes the comparison fail by itself
+    std::vector<std::string> not_compared;  // device-internal vectors (e.g. "t1#i1")
     bool passed() const;
     const VectorResult* worst() const;  // nullptr when there are no vectors
 };

@@ -63,6 +63,11 @@ std::string report_text(const VerifyReport& r) {
                              analysis_title(c.analysis), c.points, c.first, axis, c.last, axis,
                              c.vectors.size());
         for (const auto& p : c.problems) s += "    problem: " + p + "\n";
+        if (!c.not_compared.empty()) {
+            std::string names;
+            for (const auto& n : c.not_compared) names += (names.empty() ? "" : ", ") + n;
+            s += fmt::format("    not compared (device-internal states, not port currents): {}\n", names);
+        }
         if (c.vectors.empty()) continue;
         if (c.analysis == "ac")
             s += fmt::format("    {:<22} {:>12} {:>14} {:>12} {:>12}\n", "vector", "rel. error", "at Hz",
@@ -129,7 +134,8 @@ std::string report_json(const VerifyReport& r) {
                           {"db_error", v.db_error}, {"deg_error", v.deg_error}, {"peak", v.peak},
                           {"passed", v.passed}});
         an.push_back({{"analysis", c.analysis}, {"points", c.points}, {"first", c.first}, {"last", c.last},
-                      {"passed", c.passed()}, {"problems", c.problems}, {"vectors", vs}});
+                      {"passed", c.passed()}, {"problems", c.problems}, {"not_compared", c.not_compared},
+                      {"vectors", vs}});
     }
     j["analyses"] = an;
     j["notes"] = r.notes;

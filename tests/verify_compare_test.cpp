@@ -298,3 +298,23 @@ TEST(CompareTran, NoTimeVector) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Device-internal '#' vectors (transmission-line states such as "t1#i1") are listed as not
+// compared, even when they differ; "#branch" currents are compared.
+TEST(CompareAc, DeviceInternalStatesAreListedNotCompared) {
+    std::vector<double> f{1, 10, 100};
+    SimPlot o = ac_plot(f, 10);
+    SimPlot s = ac_plot(times(f, 1000), 10000, 1e-3 / 50);
+    o.vectors.push_back(vec("t1#i1", VectorKind::current, reals({1, 2, 3})));
+    s.vectors.push_back(vec("t1#i1", VectorKind::current, reals({9, 9, 9})));
+    Comparison c = compare_ac(o, s, 50, 1000, Tolerances{});
+    EXPECT_TRUE(c.passed());
+    EXPECT_EQ(c.not_compared, std::vector<std::string>{"t1#i1"});
+    ASSERT_EQ(c.vectors.size(), 2u);
+}
+
+}  // namespace
+}  // namespace deckscale
