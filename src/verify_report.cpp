@@ -69,24 +69,28 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("    not compared (device-internal states, not port currents): {}\n", names);
         }
         if (c.vectors.empty()) continue;
+        // The name column fits the longest name shown ("(x Km)" marks a current).
+        std::size_t width = 22;
+        for (const auto& v : c.vectors) width = std::max(width, v.name.size() + 8);
         if (c.analysis == "ac")
-            s += fmt::format("    {:<22} {:>12} {:>14} {:>12} {:>12}\n", "vector", "rel. error", "at Hz",
+            s += fmt::format("    {:<{}} {:>12} {:>14} {:>12} {:>12}\n", "vector", width, "rel. error", "at Hz",
                              "mag. dB", "phase deg");
         else
-            s += fmt::format("    {:<22} {:>12} {:>14}\n", "vector", "rel. error", c.analysis == "tran" ? "at s" : "");
+            s += fmt::format("    {:<{}} {:>12} {:>14}\n", "vector", width, "rel. error",
+                             c.analysis == "tran" ? "at s" : "");
         std::size_t shown = 0;
         for (const auto& v : c.vectors) {
             if (shown == 8 && v.passed) break;
             ++shown;
             std::string name = v.kind == VectorKind::current ? v.name + " (x Km)" : v.name;
             if (c.analysis == "ac")
-                s += fmt::format("    {:<22} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, v.worst,
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, width, v.worst,
                                  v.at, v.db_error, v.deg_error, v.passed ? "ok" : "FAIL");
             else if (c.analysis == "tran")
-                s += fmt::format("    {:<22} {:>12.3g} {:>14.6g}  {}\n", name, v.worst, v.at,
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g}  {}\n", name, width, v.worst, v.at,
                                  v.passed ? "ok" : "FAIL");
             else
-                s += fmt::format("    {:<22} {:>12.3g} {:>14}  {}\n", name, v.worst, "", v.passed ? "ok" : "FAIL");
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "", v.passed ? "ok" : "FAIL");
         }
         if (shown < c.vectors.size())
             s += fmt::format("    ... and {} more vectors within tolerance\n", c.vectors.size() - shown);
