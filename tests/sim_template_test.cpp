@@ -16,6 +16,7 @@
 #include <vector>
 
 #include "sim.hpp"
+#include "sim_test_support.hpp"
 
 namespace deckscale {
 namespace {
@@ -31,22 +32,8 @@ SimJob make_job(std::string label, std::vector<std::string> cards,
     return job;
 }
 
-bool no_children_left() {
-    errno = 0;
-    return ::waitpid(-1, nullptr, WNOHANG) == -1 && errno == ECHILD;
-}
-
-struct ScratchDir {
-    std::filesystem::path path;
-    ScratchDir() {
-        std::string tmpl = (std::filesystem::temp_directory_path() / "sim-tpl-XXXXXX").string();
-        path = ::mkdtemp(tmpl.data());
-    }
-    ~ScratchDir() { std::filesystem::remove_all(path); }
-    void write(const std::string& name, const std::string& text) const {
-        std::ofstream(path / name) << text;
-    }
-};
+using test::no_children_left;
+using test::ScratchDir;
 
 const std::vector<std::string> rc_cards = {"RC low-pass",       "V1 in 0 DC 0 AC 1", "R1 in out 1k",
                                            "C1 out 0 159.155n", ".ac dec 10 1 1meg", ".end"};

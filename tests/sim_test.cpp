@@ -1,6 +1,7 @@
 // Tests of the simulator layer: real ngspice (libngspice 39) runs in child processes. The pure
 // parts have their own files: sim_wire_test.cpp (pipe encoding), sim_verdict_test.cpp.
 #include "sim.hpp"
+#include "sim_test_support.hpp"
 
 #include <fmt/format.h>
 #include <gtest/gtest.h>
@@ -40,24 +41,8 @@ const SimPlot* plot_named(const SimOutcome& out, const std::string& name) {
 
 double db(double x) { return 20.0 * std::log10(x); }
 
-// Every child has been reaped: no zombies left behind.
-bool no_children_left() {
-    errno = 0;
-    return ::waitpid(-1, nullptr, WNOHANG) == -1 && errno == ECHILD;
-}
-
-// A private scratch directory, removed at the end of the test.
-struct ScratchDir {
-    std::filesystem::path path;
-    ScratchDir() {
-        std::string tmpl = (std::filesystem::temp_directory_path() / "sim-test-XXXXXX").string();
-        path = ::mkdtemp(tmpl.data());
-    }
-    ~ScratchDir() { std::filesystem::remove_all(path); }
-    void write(const std::string& name, const std::string& text) const {
-        std::ofstream(path / name) << text;
-    }
-};
+using test::no_children_left;
+using test::ScratchDir;
 
 // ---- RC low-pass: H(f) = 1/(1 + j f/fc), fc = 1/(2 pi R C) (analytic first-order response,
 // common practice in any circuit-analysis text).

@@ -1,0 +1,36 @@
+// Helpers shared by the simulator tests.
+#pragma once
+
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <cerrno>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <string>
+
+namespace deckscale::test {
+
+// Every child has been reaped: no zombies left behind.
+inline bool no_children_left() {
+    errno = 0;
+    return ::waitpid(-1, nullptr, WNOHANG) == -1 && errno == ECHILD;
+}
+
+// A private scratch directory, removed at the end of the test.
+struct ScratchDir {
+    std::filesystem::path path;
+    ScratchDir() {
+        std::string tmpl = (std::filesystem::temp_directory_path() / "sim-test-XXXXXX").string();
+        path = ::mkdtemp(tmpl.data());
+    }
+    ~ScratchDir() { std::filesystem::remove_all(path); }
+    ScratchDir(const ScratchDir&) = delete;
+    ScratchDir& operator=(const ScratchDir&) = delete;
+    void write(const std::string& name, const std::string& text) const {
+        std::ofstream(path / name) << text;
+    }
+};
+
+}  // namespace deckscale::test
