@@ -196,6 +196,14 @@ private:
             } else if (kw == ".include" || kw == ".inc" ||
                        (kw == ".lib" && value_fields(c) >= 2)) {
                 follow_include(index, c, kw == ".lib");
+            } else if (kw == ".lib" && value_fields(c) == 1 && names_a_file(c)) {
+                // ".lib file" without a section: a section header inside a library, but in a
+                // deck that names an existing file it is the LTspice/PSpice include form.
+                deck_.warnings.push_back(file.diagnose(
+                    Severity::warning, c.fields[1].begin, c.fields[1].size(),
+                    ".lib with a file name and no section is read as .include (ngspice 39 reads "
+                    "it so only with 'set ngbehavior=lt' or 'ps')"));
+                follow_include(index, c, false);
             } else if (!known_dots().count(kw)) {
                 deck_.warnings.push_back(file.diagnose(
                     Severity::warning, c.fields[0].begin, c.fields[0].size(),
@@ -271,6 +279,13 @@ private:
                     Severity::error, c.fields[0].begin, c.fields[0].size(),
                     fmt::format("too few fields for '{}': expected {}", c.field_text(0), s.form)));
         }
+    }
+
+    // True when field 1 names a readable file relative to the card's file.
+    bool names_a_file(const Card& c) const {
+        if (c.fields.size() < 2) return false;
+        std::string name = unquote(c.text(c.fields[1]));
+        return fs_.read(join_path(directory_of(c.file->path()), name)).has_value();
     }
 
     void follow_include(std::size_t index, const Card& c, bool is_lib) {

@@ -177,6 +177,23 @@ TEST(Deck, IncludesAndLibrariesAreLoadedOnce) {
     EXPECT_TRUE(deck.warnings.empty()) << render(deck.warnings);
 }
 
+// ".lib file" with no section naming an existing file is the LTspice/PSpice include form:
+// read as an include, with a warning; a ".lib name" that names no file is a section header.
+TEST(Deck, LibWithoutSectionNamingAFileIsAnInclude) {
+    MemoryFileSystem fs;
+    fs.add("d/top.cir", "t\n.lib parts.lib\n.lib notafile\n.endl\nR1 a 0 1k\n.end\n");
+    fs.add("d/parts.lib", "* parts\n.model rm r rsh=10\n");
+    Deck deck = load_deck("d/top.cir", fs);
+    ASSERT_EQ(deck.files.size(), 2u);
+    ASSERT_EQ(deck.includes.size(), 1u);
+    EXPECT_EQ(deck.includes[0].section, "");
+    EXPECT_EQ(render(deck.warnings),
+              "d/top.cir:2:6: warning: .lib with a file name and no section is read as .include "
+              "(ngspice 39 reads it so only with 'set ngbehavior=lt' or 'ps')\n"
+              "  .lib parts.lib\n"
+              "       ^~~~~~~~~\n");
+}
+
 TEST(Deck, CardKeyword) {
     SourceFile f("f.cir", "t\n.SubCkt x a\nRload a 0 1\n\n");
     std::vector<std::string> words;
