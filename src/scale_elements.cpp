@@ -38,6 +38,20 @@ int poly_degree(std::size_t k, int nd) {
     }
 }
 
+// The two classic suffix traps (ngspice 39 manual 2.1.4.3): 'M' is milli, not mega, and a
+// capacitor's 'F' is femto, not farad. Both are read the SPICE way; a note says so.
+void warn_suffix_trap(ScalePass& p, const Token& t, char letter) {
+    const NumberParse& n = p.number_of(t);
+    if (!n.number || n.number->suffix.size() != 1) return;
+    char sx = n.number->suffix[0];
+    if (letter == 'r' && sx == 'M')
+        p.note(t, fmt::format("'{}' is {:g} milliohm in SPICE ('M' is milli; mega is MEG); it is "
+                              "scaled as such", p.text(t), n.number->value * 1e3));
+    if (letter == 'c' && sx == 'F' && n.number->tail.empty())
+        p.note(t, fmt::format("'{}' is {:g} femtofarad in SPICE ('F' is femto); it is scaled as such",
+                              p.text(t), n.number->value * 1e15));
+}
+
 }  // namespace
 
 void scale_passive(ScalePass& p, char letter) {
@@ -80,6 +94,7 @@ void scale_passive(ScalePass& p, char letter) {
                 p.scale_expression(t.begin, t.end, factor_of(unit, p.factors()), "value",
                                    unit_name(unit));
             } else {
+                warn_suffix_trap(p, t, letter);
                 p.scale_value(t, *find_rule(scope, "value"), "value");
             }
         } else if (const std::string* model = p.model_type(word)) {

@@ -296,3 +296,22 @@ TEST(ScalerTest, OnePassEqualsTwoPasses) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// The suffix traps of the ngspice 39 manual, 2.1.4.3: 'M' is milli and a capacitor's 'F'
+// is femto. They are scaled the SPICE way and a note says so; MEG and uF draw no note.
+TEST(ScalerTest, SuffixTrapsGetANote) {
+    auto s = test::scale_text("t\nR1 a 0 2.2M\nC1 a 0 1F\nC2 a 0 10uF\nR2 a 0 1MEG\n.end\n", 2, 1);
+    EXPECT_EQ(render(s.result.notes),
+              "deck.cir:2:8: note: '2.2M' is 2.2 milliohm in SPICE ('M' is milli; mega is MEG); "
+              "it is scaled as such\n  R1 a 0 2.2M\n         ^~~~\n"
+              "deck.cir:3:8: note: '1F' is 1 femtofarad in SPICE ('F' is femto); it is scaled as "
+              "such\n  C1 a 0 1F\n         ^~\n");
+    // No atto suffix in ngspice 39: below 1f the mantissa goes under 1.
+    EXPECT_EQ(s.text(), "t\nR1 a 0 4.4m\nC1 a 0 0.5F\nC2 a 0 5uF\nR2 a 0 2MEG\n.end\n");
+}
+
+}  // namespace
+}  // namespace deckscale
