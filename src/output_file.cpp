@@ -25,7 +25,8 @@ std::string write_file_atomically(const std::string& path,
     std::error_code ec;
     if (!fs::is_directory(dir, ec))
         return fmt::format("cannot write '{}': the folder '{}' does not exist", path, dir.string());
-    std::string tmpl = (dir / ("." + target.filename().string() + ".XXXXXX")).string();
+    // mkstemp replaces the six trailing X.
+    std::string tmpl = (dir / ("." + target.filename().string() + "." + std::string(6, 'X'))).string();
     int fd = mkstemp(tmpl.data());
     if (fd < 0)
         return fmt::format("cannot create a temporary file in '{}': {}", dir.string(), std::strerror(errno));

@@ -181,7 +181,7 @@ std::string make_start_dir() {
     std::error_code ec;
     std::filesystem::path base = std::filesystem::temp_directory_path(ec);
     if (ec) base = "/tmp";
-    std::string dir = (base / "deckscale-sim-XXXXXX").string();
+    std::string dir = (base / ("deckscale-sim-" + std::string(6, 'X'))).string();  // for mkdtemp
     if (!::mkdtemp(dir.data())) return "";
     std::string file = dir + "/.spiceinit";
     int fd = ::open(file.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);

@@ -23,14 +23,7 @@ namespace {
 
 using namespace std::chrono_literals;
 
-SimJob make_job(std::string label, std::vector<std::string> cards,
-                std::chrono::milliseconds timeout = 20s) {
-    SimJob job;
-    job.label = std::move(label);
-    job.cards = std::move(cards);
-    job.timeout = timeout;
-    return job;
-}
+using test::make_job;
 
 using test::no_children_left;
 using test::ScratchDir;

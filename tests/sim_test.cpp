@@ -24,14 +24,7 @@ namespace {
 using namespace std::chrono_literals;
 constexpr double pi = std::numbers::pi;
 
-SimJob make_job(std::string label, std::vector<std::string> cards,
-                std::chrono::milliseconds timeout = 20s) {
-    SimJob job;
-    job.label = std::move(label);
-    job.cards = std::move(cards);
-    job.timeout = timeout;
-    return job;
-}
+using test::make_job;
 
 const SimPlot* plot_named(const SimOutcome& out, const std::string& name) {
     for (const SimPlot& p : out.plots)

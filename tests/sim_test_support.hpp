@@ -8,9 +8,23 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <chrono>
 #include <string>
+#include <vector>
+
+#include "sim.hpp"
 
 namespace deckscale::test {
+
+// A job with a label, its cards and a generous deadline.
+inline SimJob make_job(std::string label, std::vector<std::string> cards,
+                       std::chrono::milliseconds timeout = std::chrono::seconds(20)) {
+    SimJob job;
+    job.label = std::move(label);
+    job.cards = std::move(cards);
+    job.timeout = timeout;
+    return job;
+}
 
 // Every child has been reaped: no zombies left behind.
 inline bool no_children_left() {
