@@ -47,7 +47,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                     "marked by a comment line");
     scale->add_flag("--flatten", s.flatten, "Write one self-contained deck with every include inlined");
     scale->add_flag("--verify", s.verify,
-                    "Then simulate both decks and check that they are equivalent (needs -o or -i)");
+                    "Then simulate both decks and check that they are equivalent (needs -o)");
 
     auto* verify = app.add_subcommand("verify", "Prove a rescaled deck equivalent to its original by simulation");
     VerifyOptions& v = inv.verify;

@@ -97,6 +97,9 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
             for (const auto& f : plan.files) err << " " << f.path;
             err << "\n";
         }
+        if (o.km == 1 && o.kf == 1)
+            err << "deckscale: note: Km = Kf = 1 (no --km or --kf given?): the deck is written "
+                   "unchanged\n";
         err << cautions(settings.factors);
         if (o.verify) {
             // Verify the pair just written (the CLI allows --verify only with -o).
