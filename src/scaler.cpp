@@ -206,7 +206,10 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     }
     if (!is_param(to_lower(s)))
         fail(t, fmt::format("'{}' is neither a number nor a parameter defined by .param", s));
-    if (factor == 1) return;
+    if (factor == 1) {
+        if (settings_.brace_bare_params) edit(t.begin, t.size(), fmt::format("{{{}}}", s), field, unit, 1);
+        return;
+    }
     edit(t.begin, t.size(), fmt::format("{{({}){}}}", s, times_factor(factor)), field, unit, factor);
 }
 

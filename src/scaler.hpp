@@ -17,6 +17,7 @@ struct ScaleSettings {
     int digits = 9;                 // significant digits of rewritten numbers
     bool mark_unscalable = false;   // insert a comment line before each unscalable card
     bool record_changes = true;     // fill ScaleResult::changes (the edits are made either way)
+    bool brace_bare_params = false; // write a bare parameter value "p" as "{p}" even when k = 1
 };
 
 struct Change {

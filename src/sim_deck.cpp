@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "flatten.hpp"
+#include "scaler.hpp"
 #include "text_util.hpp"
 
 namespace deckscale {
@@ -18,17 +19,38 @@ const std::set<std::string>& removed_cards() {
     return s;
 }
 
+// Removes a whole card; edits already made inside it (none are expected on analysis and
+// output cards) give way.
+void remove_card(EditSet& edits, std::string_view text, const Card& c) {
+    EditSet kept;
+    for (std::size_t i = 0; i < edits.size(); ++i) {
+        EditView e = edits.at(i);
+        if (e.offset + e.length <= c.begin() || e.offset >= c.end())
+            kept.add(text, Edit{e.offset, e.length, std::string(e.text)});
+    }
+    kept.add(text, Edit{c.begin(), c.end() - c.begin(), ""});
+    edits = std::move(kept);
+}
+
 }  // namespace
 
 std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions& o) {
-    std::vector<EditSet> edits(deck.files.size());
+    // A value written as a bare parameter name ("R1 a b rval") works in ngspice 39 but with a
+    // "can't find model" warning, which the simulator layer rightly treats as an error: the
+    // copy that is simulated spells it "{rval}", which means the same and draws no warning.
+    ScaleSettings braces;
+    braces.brace_bare_params = true;
+    braces.record_changes = false;
+    ScaleResult braced = scale_deck(deck, braces);
+    std::vector<EditSet> edits = std::move(braced.edits);
+    edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         std::string_view text = deck.files[f].source->text();
         deck.visit_file(f, [&](const Card& c) {
             bool remove = c.kind == CardKind::control || c.kind == CardKind::after_end ||
                           (c.kind == CardKind::dot && removed_cards().count(card_keyword(c)));
             if (remove) {
-                edits[f].add(text, Edit{c.begin(), c.end() - c.begin(), ""});
+                remove_card(edits[f], text, c);
                 return;
             }
             if (!o.drive.empty() && c.kind == CardKind::element && card_keyword(c) == o.drive) {

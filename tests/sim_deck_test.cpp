@@ -16,6 +16,16 @@ std::vector<std::string> cards_of(const MemoryFileSystem& fs, const std::string&
     return simulation_cards(load_deck(path, fs), o);
 }
 
+// ngspice 39 accepts "R1 a b rval" for a .param rval, but with a "can't find model"
+// warning (shared notes "deck-syntax.md" §3): the simulated copy spells it "{rval}".
+TEST(SimulationCards, BareParameterValuesAreBraced) {
+    MemoryFileSystem fs;
+    fs.add("p.cir", "t\n.param rval=10k\nR1 in out rval\nC1 out 0 {cval}\n.param cval=1n\n.end\n");
+    auto cards = cards_of(fs, "p.cir", {".op", "", 1});
+    EXPECT_EQ(cards, (std::vector<std::string>{"t", ".param rval=10k", "R1 in out {rval}",
+                                               "C1 out 0 {cval}", ".param cval=1n", ".op", ".end"}));
+}
+
 TEST(SimulationCards, RemovesAnalysesOutputsAndControlBlocks) {
     MemoryFileSystem fs;
     fs.add("top.cir",
