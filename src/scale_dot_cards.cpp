@@ -236,7 +236,7 @@ void scale_model(ScalePass& p) {
         if (scope != d.scope || given.count(d.key)) continue;
         double k = factor_of(d.unit, p.factors());
         if (k == 1) continue;
-        added += fmt::format(" {}={}", d.key, format_plain(d.value * k, 7));
+        added += fmt::format(" {}={}", d.key, format_plain(d.value * k, p.digits()));
         first_factor = k;
     }
     if (!added.empty()) {

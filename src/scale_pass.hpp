@@ -46,6 +46,7 @@ public:
     bool is_inductor(const std::string& name) const;
     double gmin() const;
     ScaleFactors factors() const { return settings_.factors; }
+    int digits() const { return settings_.digits; }
 
     // Scales one value token by the unit's factor; validates numbers either way.
     void scale_value(const Token& t, Unit unit, std::string_view field);
