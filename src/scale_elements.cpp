@@ -233,7 +233,6 @@ void scale_controlled(ScalePass& p, char letter) {
 }
 
 void scale_line_or_switch(ScalePass& p, char letter) {
-    const Card& c = p.card();
     const auto& atoms = p.atoms(1);
     std::string scope(1, letter);
     if (letter == 's' || letter == 'w' || letter == 'o') {

@@ -23,7 +23,6 @@ Unit resolve(Unit u, char letter) {
 }  // namespace
 
 void scale_source(ScalePass& p, char letter) {
-    const Card& c = p.card();
     std::string scope(1, letter);
     const auto& atoms = p.atoms(1);
     auto value_at = [&](std::size_t i) {
