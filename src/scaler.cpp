@@ -274,10 +274,14 @@ void ScalePass::unscalable(const Token& at, std::string why) {
                 eol = std::string(card_->text(t));
                 break;
             }
-        std::string line = "* deckscale: left unscaled: " + why + eol;
-        for (auto& ch : line)
-            if (ch == '\n' && &ch != &line.back() && &ch != &line.back() - 1) ch = ' ';
-        result_.edits[file_].add(card_->file->text(), Edit{card_->begin(), 0, line});
+        for (auto& ch : why)
+            if (ch == '\n' || ch == '\r') ch = ' ';  // one comment line, whatever was quoted
+        // After a byte-order mark, which must stay the first bytes of the file.
+        std::uint32_t at_line = card_->begin();
+        if (!card_->tokens.empty() && card_->tokens.front().kind == TokenKind::bom)
+            at_line = card_->tokens.front().end;
+        result_.edits[file_].add(card_->file->text(),
+                                 Edit{at_line, 0, "* deckscale: left unscaled: " + why + eol});
     }
 }
 

@@ -315,3 +315,17 @@ TEST(ScalerTest, SuffixTrapsGetANote) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// The marking comment goes after a byte-order mark, which stays the first bytes of the file.
+TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
+    auto s = test::scale_text("t\n.include inc.lib\n.end\n", 2, 1, 7, true,
+                              {{"inc.lib", "\xEF\xBB\xBF" "D1 a 0 dm\n.model dm d\n"}});
+    ASSERT_EQ(s.texts.size(), 2u);
+    EXPECT_EQ(s.texts[1].substr(0, 6), "\xEF\xBB\xBF* d");
+}
+
+}  // namespace
+}  // namespace deckscale
