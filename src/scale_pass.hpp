@@ -21,7 +21,6 @@ struct Atom {
 };
 
 // Atoms from fields[first...]; '(', ')' and ',' separate like blanks, as in ngspice.
-std::vector<Atom> atoms_of(const Card& card, std::size_t first);
 void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out);
 
 class ScalePass {

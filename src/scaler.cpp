@@ -9,12 +9,6 @@
 
 namespace deckscale {
 
-std::vector<Atom> atoms_of(const Card& card, std::size_t first) {
-    std::vector<Atom> out;
-    atoms_of(card, first, out);
-    return out;
-}
-
 void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out) {
     out.clear();
     const auto& f = card.fields;

@@ -53,8 +53,6 @@ struct action<ng::unit_tail> {
     static void apply(const In& in, Parts& p) { p.tail = std::string_view(in.begin(), in.size()); }
 };
 
-char lower(char c) { return ascii_lower(c); }
-
 double parse_value(std::string_view v) {
     std::array<char, 64> buf{};
     std::size_t n = 0;
@@ -114,7 +112,7 @@ constexpr std::array<SuffixInfo, 10> kSuffixes{{{"t", 1e12}, {"g", 1e9}, {"meg",
 double suffix_multiplier(std::string_view suffix) {
     if (suffix.empty()) return 1;
     if (suffix.size() == 1) {
-        switch (lower(suffix[0])) {
+        switch (ascii_lower(suffix[0])) {
             case 't': return 1e12;
             case 'g': return 1e9;
             case 'k': return 1e3;
