@@ -28,7 +28,7 @@ struct Running {
     std::size_t index = 0;  // position in the job list
     pid_t pid = -1;
     int fd = -1;        // read end; -1 once the child closed its end
-    std::string bytes;  // everything read so far
+    wire::StreamDecoder stream;  // decodes what has been read so far
     Clock::time_point deadline;
 };
 
@@ -94,7 +94,7 @@ void drain(Running& r) {
     for (;;) {
         ssize_t n = ::read(r.fd, buffer, sizeof buffer);
         if (n > 0) {
-            r.bytes.append(buffer, static_cast<std::size_t>(n));
+            r.stream.feed(std::string_view(buffer, static_cast<std::size_t>(n)));
             continue;
         }
         if (n < 0 && errno == EINTR) continue;
@@ -124,9 +124,9 @@ std::string last_words(const SimOutcome& out) {
     return fmt::format("; its last line was: {}", last);
 }
 
-SimOutcome judge(const SimJob& job, const Running& r, int wait_status, bool timed_out) {
-    SimOutcome out;
-    wire::StreamState state = wire::decode(r.bytes, out);
+SimOutcome judge(const SimJob& job, Running& r, int wait_status, bool timed_out) {
+    wire::StreamState state = r.stream.state();
+    SimOutcome out = std::move(r.stream.outcome());
     if (timed_out) {
         out.status = SimStatus::timed_out;
         out.plots.clear();

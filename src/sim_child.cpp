@@ -9,16 +9,18 @@
 #include <sys/prctl.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <cerrno>
 #include <clocale>
+#include <cstdint>
 #include <cstdlib>
 #include <cstring>
 #include <exception>
-#include <filesystem>
 #include <optional>
 #include <string>
 #include <vector>
 
+#include "sim_process.hpp"
 #include "sim_verdict.hpp"
 #include "sim_wire.hpp"
 
@@ -42,11 +44,6 @@ VectorKind kind_of(int v_type) {
     }
 }
 constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
-
-// Exit codes of a child that could not even report (the parent then says "crashed").
-constexpr int exit_pipe_broken = 120;
-constexpr int exit_setup_failed = 121;
-constexpr int exit_internal = 122;
 
 constexpr const char* library_name = "libngspice.so.0";
 constexpr const char* no_home = "/nonexistent/deckscale-no-home";
@@ -74,9 +71,9 @@ struct Child {
     bool exit_by_quit = false;
     int exit_status = 0;
 
-    void send(const std::string& bytes) {
-        const char* p = bytes.data();
-        std::size_t left = bytes.size();
+    void send(const std::string& bytes) { send(bytes.data(), bytes.size()); }
+
+    void send(const char* p, std::size_t left) {
         while (left > 0) {
             ssize_t n = ::write(fd, p, left);
             if (n < 0 && errno == EINTR) continue;
@@ -152,67 +149,37 @@ bool any_problem(const std::vector<PrintedLine>& lines, std::size_t first, std::
     return false;
 }
 
-// Standard streams to /dev/null, the pipe on fd 3, every other inherited descriptor closed
-// (a sibling child's pipe must not stay open here), default signal handling, death with the
-// parent, and a process group of its own.
-int take_over_process(int fd) {
-    int pipe_fd = ::fcntl(fd, F_DUPFD, 3);
-    int null_fd = ::open("/dev/null", O_RDWR);
-    if (pipe_fd < 0 || null_fd < 0) _exit(exit_setup_failed);
-    for (int std_fd = 0; std_fd <= 2; ++std_fd) ::dup2(null_fd, std_fd);
-    if (pipe_fd != 3 && ::dup2(pipe_fd, 3) < 0) _exit(exit_setup_failed);
-    if (::close_range(4, ~0U, 0) != 0) {
-        for (int i = 4; i < 4096; ++i) ::close(i);
-    }
-    for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE, SIGCHLD, SIGQUIT}) ::signal(sig, SIG_DFL);
-    sigset_t none;
-    sigemptyset(&none);
-    ::sigprocmask(SIG_SETMASK, &none, nullptr);
-    ::prctl(PR_SET_PDEATHSIG, SIGKILL);
-    ::setpgid(0, 0);  // own process group, so that a timeout kills what ngspice started too
-    return 3;
-}
-
-// ngspice 39 executes ./.spiceinit when it is initialised, or else ~/.spiceinit with the
-// home directory taken from the password database, not from $HOME (seen with strace). A
-// user's file there can change how decks are read, so ngspice is initialised in a fresh
-// private directory holding an empty .spiceinit. Returns "" if none could be made.
-std::string make_start_dir() {
-    std::error_code ec;
-    std::filesystem::path base = std::filesystem::temp_directory_path(ec);
-    if (ec) base = "/tmp";
-    std::string dir = (base / ("deckscale-sim-" + std::string(6, 'X'))).string();  // for mkdtemp
-    if (!::mkdtemp(dir.data())) return "";
-    std::string file = dir + "/.spiceinit";
-    int fd = ::open(file.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
-    if (fd < 0) {
-        ::rmdir(dir.c_str());
-        return "";
-    }
-    ::close(fd);
-    return dir;
-}
-
-void remove_start_dir(const std::string& dir) {
-    if (dir.empty()) return;
-    ::unlink((dir + "/.spiceinit").c_str());
-    ::rmdir(dir.c_str());
-}
-
 template <typename T>
 bool resolve(void* lib, const char* name, T& out) {
     out = reinterpret_cast<T>(::dlsym(lib, name));
     return out != nullptr;
 }
 
-// Every plot except "const", oldest first, with all vectors copied out of ngspice.
-std::vector<SimPlot> collect_plots(Child& child) {
+// One vector as ngspice holds it: its values are read in place when they are sent.
+struct VectorView {
+    std::string name;
+    VectorKind kind = VectorKind::other;
+    const ngcomplex_t* complex = nullptr;  // complex data, or
+    const double* real = nullptr;          // real data (imaginary part 0), or neither (empty)
+    std::uint32_t length = 0;
+};
+
+struct PlotView {
+    std::string name, analysis;
+    std::vector<VectorView> vectors;
+};
+
+static_assert(sizeof(ngcomplex_t) == 2 * sizeof(double), "ngspice's complex is two doubles");
+
+// Every plot except "const", oldest first, its vectors located in ngspice's memory (they stay
+// there: nothing runs in ngspice until they are sent).
+std::vector<PlotView> find_plots(Child& child) {
     std::vector<std::string> names;
     for (char** p = child.api.all_plots(); p && *p; ++p)
         if (std::strcmp(*p, "const") != 0) names.emplace_back(*p);
-    std::vector<SimPlot> plots;
+    std::vector<PlotView> plots;
     for (auto it = names.rbegin(); it != names.rend(); ++it) {
-        SimPlot plot;
+        PlotView plot;
         plot.name = *it;
         for (const PlotRecord& r : child.records)
             if (r.type == plot.name) plot.analysis = r.name;
@@ -226,24 +193,45 @@ std::vector<SimPlot> collect_plots(Child& child) {
                 child.unreadable = true;
                 continue;
             }
-            SimVector v;
+            VectorView v;
             v.name = info->v_name ? info->v_name : vec_name;
             v.kind = kind_of(info->v_type);
-            bool complex = (info->v_flags & vf_complex) != 0 && info->v_compdata;
-            int n = info->v_length;
-            v.values.reserve(n > 0 ? static_cast<std::size_t>(n) : 0);
-            for (int i = 0; i < n; ++i) {
-                if (complex) {
-                    v.values.emplace_back(info->v_compdata[i].cx_real, info->v_compdata[i].cx_imag);
-                } else if (info->v_realdata) {
-                    v.values.emplace_back(info->v_realdata[i], 0.0);
-                }
+            if ((info->v_flags & vf_complex) != 0 && info->v_compdata) {
+                v.complex = info->v_compdata;
+            } else if (info->v_realdata) {
+                v.real = info->v_realdata;
             }
+            v.length = (v.complex || v.real) && info->v_length > 0
+                           ? static_cast<std::uint32_t>(info->v_length)
+                           : 0;
             plot.vectors.push_back(std::move(v));
         }
         plots.push_back(std::move(plot));
     }
     return plots;
+}
+
+// Sends a plot frame and its vector frames; values go from ngspice's memory to the pipe.
+void send_plot(Child& child, const PlotView& plot) {
+    child.send(wire::plot_header_frame(plot.name, plot.analysis,
+                                       static_cast<std::uint32_t>(plot.vectors.size())));
+    for (const VectorView& v : plot.vectors) {
+        child.send(wire::vector_frame_start(v.name, v.kind, v.length));
+        if (v.complex) {
+            child.send(reinterpret_cast<const char*>(v.complex), v.length * sizeof(ngcomplex_t));
+            continue;
+        }
+        double pairs[2 * 512];
+        for (std::uint32_t i = 0; i < v.length;) {
+            std::uint32_t n = std::min<std::uint32_t>(512, v.length - i);
+            for (std::uint32_t k = 0; k < n; ++k) {
+                pairs[2 * k] = v.real[i + k];
+                pairs[2 * k + 1] = 0.0;
+            }
+            child.send(reinterpret_cast<const char*>(pairs), n * 2 * sizeof(double));
+            i += n;
+        }
+    }
 }
 
 // Loads libngspice and initialises it in a private start directory (see make_start_dir), then
@@ -314,7 +302,7 @@ std::optional<std::string> start_ngspice(Child& child) {
                                      r.type, r.title));
         }
     }
-    std::vector<SimPlot> plots = collect_plots(child);
+    std::vector<PlotView> plots = find_plots(child);
     if (child.unreadable) {
         run_failed = true;
         std::string lost = quote_problems(child.lines, run_end, child.lines.size());
@@ -326,7 +314,7 @@ std::optional<std::string> start_ngspice(Child& child) {
         if (!why.empty()) why += '\n';
         child.finish(SimStatus::run_failed, why + "the run produced no plot");
     }
-    for (const SimPlot& p : plots) child.send(wire::plot_frame(p));
+    for (const PlotView& p : plots) send_plot(child, p);
     child.finish(run_failed ? SimStatus::run_failed : SimStatus::ok, why);
 }
 

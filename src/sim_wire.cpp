@@ -1,5 +1,6 @@
 #include "sim_wire.hpp"
 
+#include <algorithm>
 #include <cstring>
 #include <optional>
 
@@ -65,74 +66,62 @@ class Reader {
 
 constexpr std::uint8_t last_kind = static_cast<std::uint8_t>(VectorKind::other);
 constexpr std::uint8_t last_status = static_cast<std::uint8_t>(SimStatus::timed_out);
+constexpr std::size_t header_size = 5;        // tag + payload length
+constexpr std::size_t value_size = 2 * sizeof(double);
+constexpr std::uint32_t reserve_limit = 1u << 20;  // values reserved ahead of their arrival
 
-std::optional<SimVector> read_vector(Reader& r) {
-    SimVector v;
-    auto name = r.get_string();
-    auto kind = r.get<std::uint8_t>();
-    auto count = r.get<std::uint32_t>();
-    if (!name || !kind || *kind > last_kind || !count) return std::nullopt;
-    auto raw = r.get_bytes(std::size_t{*count} * 2 * sizeof(double));
-    if (!raw) return std::nullopt;
-    v.name = std::move(*name);
-    v.kind = static_cast<VectorKind>(*kind);
-    v.values.resize(*count);
-    for (std::uint32_t i = 0; i < *count; ++i) {
-        double re, im;
-        std::memcpy(&re, raw->data() + (2 * i) * sizeof(double), sizeof(double));
-        std::memcpy(&im, raw->data() + (2 * i + 1) * sizeof(double), sizeof(double));
-        v.values[i] = {re, im};
-    }
-    return v;
+bool known_tag(std::uint8_t tag) {
+    for (Tag t : {Tag::log, Tag::plot, Tag::vector, Tag::result})
+        if (tag == static_cast<std::uint8_t>(t)) return true;
+    return false;
 }
 
-std::optional<SimPlot> read_plot(std::string_view payload) {
-    Reader r(payload);
-    SimPlot plot;
-    auto name = r.get_string();
-    auto analysis = r.get_string();
-    auto count = r.get<std::uint32_t>();
-    if (!name || !analysis || !count) return std::nullopt;
-    plot.name = std::move(*name);
-    plot.analysis = std::move(*analysis);
-    for (std::uint32_t i = 0; i < *count; ++i) {
-        auto v = read_vector(r);
-        if (!v) return std::nullopt;
-        plot.vectors.push_back(std::move(*v));
-    }
-    if (!r.at_end()) return std::nullopt;
-    return plot;
+std::string frame_header(Tag tag, std::size_t payload_size) {
+    std::string out;
+    put<std::uint8_t>(out, static_cast<std::uint8_t>(tag));
+    put<std::uint32_t>(out, static_cast<std::uint32_t>(payload_size));
+    return out;
 }
 
-bool read_result(std::string_view payload, SimOutcome& out) {
-    Reader r(payload);
-    auto status = r.get<std::uint8_t>();
-    auto message = r.get_string();
-    if (!status || *status > last_status || !message || !r.at_end()) return false;
-    out.status = static_cast<SimStatus>(*status);
-    out.message = std::move(*message);
-    return true;
+std::complex<double> value_at(const char* bytes) {
+    double re, im;
+    std::memcpy(&re, bytes, sizeof(double));
+    std::memcpy(&im, bytes + sizeof(double), sizeof(double));
+    return {re, im};
 }
 
 }  // namespace
 
 std::string log_frame(std::string_view line) { return frame(Tag::log, line); }
 
-std::string plot_frame(const SimPlot& plot) {
+std::string plot_header_frame(std::string_view name, std::string_view analysis,
+                              std::uint32_t vectors) {
     std::string payload;
-    put_string(payload, plot.name);
-    put_string(payload, plot.analysis);
-    put<std::uint32_t>(payload, static_cast<std::uint32_t>(plot.vectors.size()));
+    put_string(payload, name);
+    put_string(payload, analysis);
+    put<std::uint32_t>(payload, vectors);
+    return frame(Tag::plot, payload);
+}
+
+std::string vector_frame_start(std::string_view name, VectorKind kind, std::uint32_t count) {
+    std::string head;
+    put_string(head, name);
+    put<std::uint8_t>(head, static_cast<std::uint8_t>(kind));
+    put<std::uint32_t>(head, count);
+    return frame_header(Tag::vector, head.size() + std::size_t{count} * value_size) + head;
+}
+
+std::string plot_frame(const SimPlot& plot) {
+    std::string out =
+        plot_header_frame(plot.name, plot.analysis, static_cast<std::uint32_t>(plot.vectors.size()));
     for (const SimVector& v : plot.vectors) {
-        put_string(payload, v.name);
-        put<std::uint8_t>(payload, static_cast<std::uint8_t>(v.kind));
-        put<std::uint32_t>(payload, static_cast<std::uint32_t>(v.values.size()));
+        out += vector_frame_start(v.name, v.kind, static_cast<std::uint32_t>(v.values.size()));
         for (const std::complex<double>& x : v.values) {
-            put<double>(payload, x.real());
-            put<double>(payload, x.imag());
+            put<double>(out, x.real());
+            put<double>(out, x.imag());
         }
     }
-    return frame(Tag::plot, payload);
+    return out;
 }
 
 std::string result_frame(SimStatus status, std::string_view message) {
@@ -142,35 +131,160 @@ std::string result_frame(SimStatus status, std::string_view message) {
     return frame(Tag::result, payload);
 }
 
-StreamState decode(std::string_view bytes, SimOutcome& out) {
-    Reader r(bytes);
-    while (!r.at_end()) {
-        auto tag = r.get<std::uint8_t>();
-        if (!tag) return StreamState::truncated;
-        if (*tag != static_cast<std::uint8_t>(Tag::log) &&
-            *tag != static_cast<std::uint8_t>(Tag::plot) &&
-            *tag != static_cast<std::uint8_t>(Tag::result))
-            return StreamState::garbled;
-        auto length = r.get<std::uint32_t>();
-        if (!length) return StreamState::truncated;
-        auto payload = r.get_bytes(*length);
-        if (!payload) return StreamState::truncated;
-        switch (static_cast<Tag>(*tag)) {
-            case Tag::log:
-                out.log.emplace_back(*payload);
-                break;
-            case Tag::plot: {
-                auto plot = read_plot(*payload);
-                if (!plot) return StreamState::garbled;
-                out.plots.push_back(std::move(*plot));
+void StreamDecoder::feed(std::string_view bytes) {
+    while (state_ == StreamState::truncated && !bytes.empty()) {
+        switch (phase_) {
+            case Phase::header: {
+                std::size_t n = std::min(header_size - pending_.size(), bytes.size());
+                pending_.append(bytes.substr(0, n));
+                bytes.remove_prefix(n);
+                if (pending_.size() == header_size) start_frame();
                 break;
             }
-            case Tag::result:
-                if (!read_result(*payload, out)) return StreamState::garbled;
-                return r.at_end() ? StreamState::complete : StreamState::garbled;
+            case Phase::payload: {
+                std::size_t n = std::min(left_, bytes.size());
+                pending_.append(bytes.substr(0, n));
+                bytes.remove_prefix(n);
+                left_ -= n;
+                if (left_ == 0) finish_frame();
+                break;
+            }
+            case Phase::vector_head: {
+                // Name length first, then name, kind and count.
+                std::size_t need = 4;
+                if (pending_.size() >= 4) {
+                    std::uint32_t name_size;
+                    std::memcpy(&name_size, pending_.data(), 4);
+                    need = 4 + std::size_t{name_size} + 1 + 4;
+                }
+                if (need - pending_.size() > left_) {
+                    state_ = StreamState::garbled;
+                    break;
+                }
+                std::size_t n = std::min(need - pending_.size(), bytes.size());
+                pending_.append(bytes.substr(0, n));
+                bytes.remove_prefix(n);
+                left_ -= n;
+                if (pending_.size() == need && need > 4 && !start_vector())
+                    state_ = StreamState::garbled;
+                break;
+            }
+            case Phase::vector_values:
+                take_values(bytes);
+                break;
         }
     }
-    return StreamState::truncated;
+    if (state_ == StreamState::complete && !bytes.empty()) state_ = StreamState::garbled;
+}
+
+void StreamDecoder::start_frame() {
+    auto tag = static_cast<std::uint8_t>(pending_[0]);
+    std::uint32_t length;
+    std::memcpy(&length, pending_.data() + 1, sizeof length);
+    pending_.clear();
+    bool vector = tag == static_cast<std::uint8_t>(Tag::vector);
+    // Unknown tags, and vectors where no plot expects one (or the other way round).
+    if (!known_tag(tag) || vector != plot_is_open()) {
+        state_ = StreamState::garbled;
+        return;
+    }
+    tag_ = static_cast<Tag>(tag);
+    left_ = length;
+    phase_ = vector ? Phase::vector_head : Phase::payload;
+    if (!vector && left_ == 0) finish_frame();
+}
+
+void StreamDecoder::finish_frame() {
+    Reader r(pending_);
+    switch (tag_) {
+        case Tag::log:
+            out_.log.push_back(pending_);
+            break;
+        case Tag::plot: {
+            SimPlot plot;
+            auto name = r.get_string();
+            auto analysis = r.get_string();
+            auto count = r.get<std::uint32_t>();
+            if (!name || !analysis || !count || !r.at_end()) {
+                state_ = StreamState::garbled;
+                return;
+            }
+            plot.name = std::move(*name);
+            plot.analysis = std::move(*analysis);
+            out_.plots.push_back(std::move(plot));
+            vectors_left_ = *count;
+            break;
+        }
+        case Tag::result: {
+            auto status = r.get<std::uint8_t>();
+            auto message = r.get_string();
+            if (!status || *status > last_status || !message || !r.at_end()) {
+                state_ = StreamState::garbled;
+                return;
+            }
+            out_.status = static_cast<SimStatus>(*status);
+            out_.message = std::move(*message);
+            state_ = StreamState::complete;
+            break;
+        }
+        case Tag::vector:  // read by take_values
+            break;
+    }
+    pending_.clear();
+    phase_ = Phase::header;
+}
+
+bool StreamDecoder::start_vector() {
+    Reader r(pending_);
+    auto name = r.get_string();
+    auto kind = r.get<std::uint8_t>();
+    auto count = r.get<std::uint32_t>();
+    if (!name || !kind || *kind > last_kind || !count || left_ != std::size_t{*count} * value_size)
+        return false;
+    SimVector v;
+    v.name = std::move(*name);
+    v.kind = static_cast<VectorKind>(*kind);
+    v.values.reserve(std::min(*count, reserve_limit));
+    out_.plots.back().vectors.push_back(std::move(v));
+    --vectors_left_;
+    values_left_ = *count;
+    pending_.clear();
+    phase_ = Phase::vector_values;
+    if (values_left_ == 0) phase_ = Phase::header;
+    return true;
+}
+
+void StreamDecoder::take_values(std::string_view& bytes) {
+    std::vector<std::complex<double>>& values = out_.plots.back().vectors.back().values;
+    if (!pending_.empty() || bytes.size() < value_size) {  // a value split between reads
+        std::size_t n = std::min(value_size - pending_.size(), bytes.size());
+        pending_.append(bytes.substr(0, n));
+        bytes.remove_prefix(n);
+        if (pending_.size() < value_size) return;
+        values.push_back(value_at(pending_.data()));
+        pending_.clear();
+        --values_left_;
+    } else {
+        std::size_t n = std::min<std::size_t>(values_left_, bytes.size() / value_size);
+        for (std::size_t i = 0; i < n; ++i) values.push_back(value_at(bytes.data() + i * value_size));
+        bytes.remove_prefix(n * value_size);
+        values_left_ -= static_cast<std::uint32_t>(n);
+    }
+    left_ = std::size_t{values_left_} * value_size;
+    if (values_left_ == 0) phase_ = Phase::header;
+}
+
+StreamState decode(std::string_view bytes, SimOutcome& out) {
+    StreamDecoder decoder;
+    decoder.feed(bytes);
+    SimOutcome& got = decoder.outcome();
+    for (std::string& line : got.log) out.log.push_back(std::move(line));
+    for (SimPlot& plot : got.plots) out.plots.push_back(std::move(plot));
+    if (decoder.state() == StreamState::complete) {
+        out.status = got.status;
+        out.message = std::move(got.message);
+    }
+    return decoder.state();
 }
 
 }  // namespace deckscale::wire

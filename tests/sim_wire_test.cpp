@@ -73,5 +73,73 @@ TEST(SimWire, GarbledStreamsAreDetected) {
     EXPECT_EQ(wire::decode(plot, out), wire::StreamState::garbled);
 }
 
+TEST(SimWire, PiecesOfAnySizeDecodeLikeTheWhole) {
+    std::string bytes = encode(sample_outcome());
+    for (std::size_t piece : {1, 3, 7, 16, 17, 1000}) {
+        wire::StreamDecoder decoder;
+        for (std::size_t at = 0; at < bytes.size(); at += piece)
+            decoder.feed(std::string_view(bytes).substr(at, piece));
+        ASSERT_EQ(decoder.state(), wire::StreamState::complete) << "pieces of " << piece;
+        SimOutcome whole;
+        wire::decode(bytes, whole);
+        const SimOutcome& got = decoder.outcome();
+        EXPECT_EQ(got.log, whole.log) << "pieces of " << piece;
+        ASSERT_EQ(got.plots.size(), whole.plots.size());
+        for (std::size_t p = 0; p < got.plots.size(); ++p) {
+            ASSERT_EQ(got.plots[p].vectors.size(), whole.plots[p].vectors.size());
+            for (std::size_t v = 0; v < got.plots[p].vectors.size(); ++v)
+                EXPECT_EQ(got.plots[p].vectors[v].values, whole.plots[p].vectors[v].values)
+                    << "pieces of " << piece << ", plot " << p << ", vector " << v;
+        }
+    }
+}
+
+TEST(SimWire, VectorFramesMustMatchTheirPlot) {
+    SimOutcome sample = sample_outcome();
+    const SimPlot& plot = sample.plots[0];
+    std::string result = wire::result_frame(SimStatus::ok, "");
+    std::string vector = wire::vector_frame_start("out", VectorKind::voltage, 0);
+    std::string header = wire::plot_header_frame("ac1", "AC Analysis", 2);
+    std::string miscounted = wire::vector_frame_start("out", VectorKind::voltage, 1);
+    miscounted[miscounted.size() - 4] = 2;  // the frame has room for one value, the count says 2
+    std::string one_value(16, '\0');
+    struct Case {
+        int line;
+        std::string bytes;
+        wire::StreamState state;
+    };
+    const Case cases[] = {
+        {__LINE__, wire::plot_frame(plot) + result, wire::StreamState::complete},
+        {__LINE__, vector + result, wire::StreamState::garbled},           // no plot
+        {__LINE__, header + vector + result, wire::StreamState::garbled},  // one missing
+        {__LINE__, header + vector + vector + vector, wire::StreamState::garbled},  // one too many
+        {__LINE__, header + vector + vector + result, wire::StreamState::complete},
+        {__LINE__, header + vector, wire::StreamState::truncated},
+        {__LINE__, header + miscounted + one_value + vector + result, wire::StreamState::garbled},
+        {__LINE__, header + wire::vector_frame_start("out", VectorKind::voltage, 1) + one_value +
+                       vector + result,
+         wire::StreamState::complete},
+    };
+    for (const Case& c : cases) {
+        SimOutcome out;
+        EXPECT_EQ(wire::decode(c.bytes, out), c.state) << "line " << c.line;
+    }
+}
+
+TEST(SimWire, ValuesAreSentAsRealAndImaginaryDoubles) {
+    // What the child writes after vector_frame_start, straight from ngspice's memory.
+    const double raw[] = {1.5, -2.0, 3e-12, 0.0};
+    std::string bytes = wire::plot_header_frame("ac1", "AC Analysis", 1) +
+                        wire::vector_frame_start("v(2)", VectorKind::voltage, 2) +
+                        std::string(reinterpret_cast<const char*>(raw), sizeof raw) +
+                        wire::result_frame(SimStatus::ok, "");
+    SimOutcome out;
+    ASSERT_EQ(wire::decode(bytes, out), wire::StreamState::complete);
+    ASSERT_EQ(out.plots.size(), 1u);
+    ASSERT_EQ(out.plots[0].vectors.size(), 1u);
+    std::vector<std::complex<double>> want{{1.5, -2.0}, {3e-12, 0.0}};
+    EXPECT_EQ(out.plots[0].vectors[0].values, want);
+}
+
 }  // namespace
 }  // namespace deckscale

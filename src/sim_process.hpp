@@ -1,0 +1,24 @@
+// The process a simulator child runs in: taken over from the program it was forked from, and
+// the private directory ngspice is initialised in. Internal to the sim module.
+#pragma once
+
+#include <string>
+
+namespace deckscale {
+
+// Exit codes of a child that could not even report (the parent then says "crashed").
+constexpr int exit_pipe_broken = 120;
+constexpr int exit_setup_failed = 121;
+constexpr int exit_internal = 122;
+
+// Standard streams to /dev/null, the pipe `fd` on fd 3, every other inherited descriptor
+// closed (a sibling child's pipe must not stay open here), default signal handling, death
+// with the parent, and a process group of its own. Returns 3; ends the process if it cannot.
+int take_over_process(int fd);
+
+// A fresh private directory holding an empty .spiceinit, for ngspice to be initialised in;
+// "" if none could be made. See sim_process.cpp.
+std::string make_start_dir();
+void remove_start_dir(const std::string& dir);
+
+}  // namespace deckscale
