@@ -11,10 +11,16 @@ namespace {
 namespace pg = tao::pegtl;
 namespace g = grammar;
 
+// Thrown through the parser to end a partial read before the card that begins here.
+struct Stopped {
+    std::uint32_t at;
+};
+
 struct ReaderState {
     const SourceFile* file;
     const CardVisitor* visit;
     const char* base;
+    std::uint32_t stop_at = UINT32_MAX;
     std::vector<Token> tokens;
     std::vector<Token> fields;
 
@@ -26,8 +32,13 @@ struct ReaderState {
     }
     void emit(CardKind kind) {
         if (tokens.empty()) return;
+        if (tokens.front().begin >= stop_at) throw Stopped{tokens.front().begin};
         Card c{kind, file, tokens, fields};
-        (*visit)(c);
+        try {
+            (*visit)(c);
+        } catch (const StopReading&) {
+            throw Stopped{tokens.front().begin};
+        }
         tokens.clear();
         fields.clear();
     }
@@ -116,28 +127,37 @@ std::uint32_t opening_of_unclosed(std::string_view text, std::uint32_t at, const
 }
 
 template <typename Grammar>
-void run(const SourceFile& file, const CardVisitor& visit) {
-    ReaderState st{&file, &visit, file.text().data(), {}, {}};
-    pg::memory_input<pg::tracking_mode::lazy, pg::eol::lf_crlf> in(file.text(), file.path());
+std::uint32_t run(const SourceFile& file, const CardVisitor& visit, ReadSpan span) {
+    ReaderState st{&file, &visit, file.text().data(), span.stop_at, {}, {}};
+    std::string_view rest = file.text().substr(span.from);
+    pg::memory_input<pg::tracking_mode::lazy, pg::eol::lf_crlf> in(rest.data(), rest.size(),
+                                                                     file.path());
     try {
         pg::parse<Grammar, action, g::error_control>(in, st);
+        // Anything left (only possible for a file that holds nothing but a byte-order mark).
+        st.emit(CardKind::blank);
     } catch (const pg::parse_error& e) {
-        auto offset = static_cast<std::uint32_t>(e.positions().front().byte);
+        auto offset = static_cast<std::uint32_t>(span.from + e.positions().front().byte);
         std::string msg(e.message());
         offset = opening_of_unclosed(file.text(), offset, msg);
         throw DeckError(file.diagnose(Severity::error, offset, 1, msg));
+    } catch (const Stopped& s) {
+        return s.at;
     }
-    // Anything left (only possible for a file that holds nothing but a byte-order mark).
-    st.emit(CardKind::blank);
+    return static_cast<std::uint32_t>(file.text().size());
 }
 
 }  // namespace
 
 void read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit) {
-    if (role == FileRole::deck)
-        run<g::deck_file>(file, visit);
-    else
-        run<g::include_file>(file, visit);
+    read_cards(file, role, visit, ReadSpan{});
+}
+
+std::uint32_t read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit,
+                         ReadSpan span) {
+    if (span.from > 0) return run<g::body>(file, visit, span);  // between cards: no title
+    if (role == FileRole::deck) return run<g::deck_file>(file, visit, span);
+    return run<g::include_file>(file, visit, span);
 }
 
 }  // namespace deckscale

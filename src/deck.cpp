@@ -1,13 +1,14 @@
 #include "deck.hpp"
 
 #include <algorithm>
-#include <array>
+#include <atomic>
 #include <map>
-#include <set>
+#include <thread>
 
 #include <fmt/format.h>
 
-#include "spice_number.hpp"
+#include "deck_checks.hpp"
+#include "deck_pieces.hpp"
 #include "text_util.hpp"
 
 namespace deckscale {
@@ -29,83 +30,6 @@ const IncludeRef* Deck::include_at(std::size_t file, std::uint32_t offset) const
 
 namespace {
 
-struct ElementShape {
-    char letter;
-    int min_fields;  // fields after the name, not counting '=', '(', ')' and ','
-    const char* form;
-};
-
-// Minimal field counts per element letter (ngspice 39 manual chapters 3-12; shared notes
-// "deck-syntax.md" §4). ngspice accepts some shorter cards with a silently wrong circuit
-// (an R without value becomes 1 mOhm), so they are refused here.
-constexpr std::array<ElementShape, 21> kShapes{{
-    {'r', 3, "R<name> n+ n- value"},
-    {'c', 3, "C<name> n+ n- value"},
-    {'l', 3, "L<name> n+ n- value"},
-    {'k', 3, "K<name> L<name1> L<name2> coupling"},
-    {'v', 2, "V<name> n+ n- [[DC] value] [AC mag [phase]] [waveform]"},
-    {'i', 2, "I<name> n+ n- [[DC] value] [AC mag [phase]] [waveform]"},
-    {'e', 3, "E<name> n+ n- nc+ nc- gain"},
-    {'g', 3, "G<name> n+ n- nc+ nc- transconductance"},
-    {'f', 3, "F<name> n+ n- V<name> gain"},
-    {'h', 3, "H<name> n+ n- V<name> transresistance"},
-    {'b', 3, "B<name> n+ n- V=expr | I=expr"},
-    {'t', 5, "T<name> n1 n2 n3 n4 Z0=value TD=value"},
-    {'o', 5, "O<name> n1 n2 n3 n4 model"},
-    {'u', 4, "U<name> n1 n2 n3 model l=length"},
-    {'s', 5, "S<name> n+ n- nc+ nc- model"},
-    {'w', 4, "W<name> n+ n- V<name> model"},
-    {'d', 3, "D<name> n+ n- model"},
-    {'q', 4, "Q<name> nc nb ne model"},
-    {'j', 4, "J<name> nd ng ns model"},
-    {'z', 4, "Z<name> nd ng ns model"},
-    {'m', 4, "M<name> nd ng ns [nb] model"},
-}};
-
-const std::set<std::string>& other_letters() {
-    static const std::set<std::string> s{"x", "a", "y", "p", "n"};
-    return s;
-}
-
-struct DotShape {
-    const char* name;
-    int min_fields;
-    const char* form;
-};
-constexpr std::array<DotShape, 10> kDotShapes{{
-    {".model", 2, ".model name type (param=value ...)"},
-    {".subckt", 1, ".subckt name nodes ..."},
-    {".include", 1, ".include file"},
-    {".inc", 1, ".include file"},
-    {".lib", 1, ".lib file section"},
-    {".ac", 4, ".ac dec|oct|lin points fstart fstop"},
-    {".tran", 2, ".tran tstep tstop [tstart [tmax]]"},
-    {".dc", 4, ".dc source start stop step"},
-    {".four", 2, ".four freq output ..."},
-    {".temp", 1, ".temp t ..."},
-}};
-
-const std::set<std::string>& known_dots() {
-    static const std::set<std::string> s{
-        ".ac", ".dc", ".tran", ".op", ".noise", ".disto", ".pz", ".sens", ".tf", ".sp", ".pss",
-        ".four", ".meas", ".measure", ".param", ".func", ".csparam", ".subckt", ".ends", ".model",
-        ".include", ".inc", ".lib", ".endl", ".global", ".ic", ".nodeset", ".temp", ".options",
-        ".option", ".opt", ".save", ".print", ".plot", ".probe", ".width", ".title", ".end", ".if",
-        ".elseif", ".else", ".endif", ".data", ".enddata"};
-    return s;
-}
-
-int value_fields(const Card& c) {
-    int n = 0;
-    for (std::size_t i = 1; i < c.fields.size(); ++i) {
-        auto k = c.fields[i].kind;
-        if (k != TokenKind::equals && k != TokenKind::lparen && k != TokenKind::rparen &&
-            k != TokenKind::comma)
-            ++n;
-    }
-    return n;
-}
-
 std::string unquote(std::string_view s) {
     if (s.size() >= 2 && (s.front() == '"' || s.front() == '\'') && s.back() == s.front())
         return std::string(s.substr(1, s.size() - 2));
@@ -114,7 +38,8 @@ std::string unquote(std::string_view s) {
 
 class Loader {
 public:
-    Loader(const FileSystem& fs, const DeckObserver& observer) : fs_(fs), observer_(observer) {}
+    Loader(const FileSystem& fs, const DeckObserver& observer, const PieceReading& pieces)
+        : fs_(fs), observer_(observer), pieces_(pieces) {}
 
     Deck take() { return std::move(deck_); }
 
@@ -173,16 +98,12 @@ public:
 private:
     void check_file(std::size_t index) {
         const SourceFile& file = *deck_.files[index].source;
-        struct Open {
-            std::uint32_t offset, length;
-            std::string name;
-        };
-        std::vector<Open> subckts;
-        read_cards(file, deck_.files[index].role, [&](const Card& c) {
-            gather_symbols(c);
-            if (c.kind == CardKind::element) check_element(c);
+        FileRole role = deck_.files[index].role;
+        std::vector<OpenSubckt> subckts;
+        CardVisitor visit = [&](const Card& c) {
+            gather_symbols(c, deck_.symbols);
             std::string kw = c.kind == CardKind::dot ? card_keyword(c) : std::string();
-            if (c.kind == CardKind::dot) check_dot_shape(c, kw);
+            check_card(c, kw, deck_.warnings);
             if (observer_) observer_(deck_, index, c);
             if (c.kind != CardKind::dot) return;
             if (kw == ".subckt") {
@@ -204,12 +125,14 @@ private:
                     ".lib with a file name and no section is read as .include (ngspice 39 reads "
                     "it so only with 'set ngbehavior=lt' or 'ps')"));
                 follow_include(index, c, false);
-            } else if (!known_dots().count(kw)) {
-                deck_.warnings.push_back(file.diagnose(
-                    Severity::warning, c.fields[0].begin, c.fields[0].size(),
-                    fmt::format("unknown dot card '{}' passes through unchanged", c.field_text(0))));
             }
-        });
+        };
+        std::vector<std::uint32_t> starts;
+        if (pieces_.start) starts = piece_starts(file.text(), piece_count(file.text().size()));
+        if (starts.empty())
+            read_cards(file, role, visit);
+        else
+            read_in_pieces(index, starts, visit, subckts);
         if (!subckts.empty()) {
             const auto& o = subckts.back();
             throw DeckError(file.diagnose(
@@ -218,66 +141,49 @@ private:
         }
     }
 
-    // Keys of key=value pairs from field `first` on, lower-case.
-    static void add_keys(const Card& c, std::size_t first, std::set<std::string>& to) {
-        for (std::size_t i = first; i + 1 < c.fields.size(); ++i)
-            if (c.fields[i].kind == TokenKind::word && c.fields[i + 1].kind == TokenKind::equals)
-                to.insert(to_lower(c.field_text(i)));
+    unsigned piece_count(std::size_t bytes) const {
+        unsigned threads = pieces_.threads ? pieces_.threads : std::thread::hardware_concurrency();
+        std::size_t by_size = bytes / std::max<std::size_t>(pieces_.min_piece_bytes, 1);
+        return static_cast<unsigned>(std::min<std::size_t>(threads, by_size));
     }
 
-    void gather_symbols(const Card& c) {
-        if (c.fields.empty()) return;
-        DeckSymbols& s = deck_.symbols;
-        char first = ascii_lower(c.field_text(0)[0]);
-        if (c.kind == CardKind::element) {
-            if (first == 'l') s.inductors.insert(card_keyword(c));
-            if (first == 'k')
-                for (std::size_t j = 1; j < c.fields.size() && j < 3; ++j)
-                    s.coupled_inductors.insert(to_lower(c.field_text(j)));
-            if (first == 'x') add_keys(c, 1, s.params);  // X-line overrides name parameters
-            return;
+    // Pieces after the first go to helper threads while this thread reads the first; then,
+    // in file order, each piece is taken over if it starts where reading stopped and its
+    // observer agrees (see PieceReading), and whatever is left is read here.
+    void read_in_pieces(std::size_t index, const std::vector<std::uint32_t>& starts,
+                        const CardVisitor& visit, std::vector<OpenSubckt>& subckts) {
+        const SourceFile& file = *deck_.files[index].source;
+        FileRole role = deck_.files[index].role;
+        auto size = static_cast<std::uint32_t>(file.text().size());
+        std::vector<Piece> pieces(starts.size());
+        for (std::size_t k = 0; k < starts.size(); ++k) {
+            pieces[k].from = starts[k];
+            pieces[k].stop_at = k + 1 < starts.size() ? starts[k + 1] : UINT32_MAX;
+            pieces[k].observer = pieces_.start(std::min(pieces[k].stop_at, size) - starts[k]);
         }
-        if (c.kind != CardKind::dot || first != '.') return;
-        std::string kw = card_keyword(c);
-        if (kw == ".param" || kw == ".subckt" || kw == ".csparam") {
-            add_keys(c, 1, s.params);
-        } else if (kw == ".func" && c.fields.size() > 1) {
-            s.params.insert(to_lower(c.field_text(1)));
-        } else if (kw == ".model" && c.fields.size() > 2) {
-            s.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
-        } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
-            for (std::size_t i = 1; i + 2 < c.fields.size(); ++i)
-                if (c.fields[i + 1].kind == TokenKind::equals && iequals(c.field_text(i), "gmin"))
-                    if (auto n = parse_spice_number(c.field_text(i + 2)); n.number) s.gmin = n.number->value;
-        }
-    }
-
-    void check_element(const Card& c) {
-        char letter = ascii_lower(c.field_text(0)[0]);
-        for (const auto& s : kShapes) {
-            if (s.letter != letter) continue;
-            int have = value_fields(c);
-            if (have < s.min_fields)
-                throw DeckError(c.file->diagnose(
-                    Severity::error, c.fields[0].begin, c.fields[0].size(),
-                    fmt::format("too few fields for '{}': expected {}, found {} after the name",
-                                c.field_text(0), s.form, have)));
-            return;
-        }
-        if (other_letters().count(std::string(1, letter))) return;
-        deck_.warnings.push_back(c.file->diagnose(
-            Severity::warning, c.fields[0].begin, c.fields[0].size(),
-            fmt::format("unknown element type '{}' passes through unchanged", c.field_text(0))));
-    }
-
-    void check_dot_shape(const Card& c, const std::string& kw) {
-        for (const auto& s : kDotShapes) {
-            if (kw != s.name) continue;
-            int have = value_fields(c);
-            if (have < s.min_fields)
-                throw DeckError(c.file->diagnose(
-                    Severity::error, c.fields[0].begin, c.fields[0].size(),
-                    fmt::format("too few fields for '{}': expected {}", c.field_text(0), s.form)));
+        std::atomic<bool> cancel{false};
+        std::vector<std::jthread> threads;  // joined on every way out, errors included
+        struct CancelOnExit {
+            std::atomic<bool>& flag;
+            ~CancelOnExit() { flag = true; }
+        } cancel_on_exit{cancel};
+        for (auto& p : pieces)
+            threads.emplace_back([&file, &p, index, role, &cancel] {
+                read_piece(p, file, index, role, cancel);
+            });
+        std::uint32_t pos = read_cards(file, role, visit, ReadSpan{0, starts[0]});
+        for (std::size_t k = 0; k < pieces.size(); ++k) {
+            threads[k].join();
+            Piece& p = pieces[k];
+            if (pos == p.from && p.usable && pieces_.join(*p.observer, deck_.symbols)) {
+                add_symbols(deck_.symbols, std::move(p.local.symbols));
+                for (auto& w : p.local.warnings) deck_.warnings.push_back(std::move(w));
+                for (auto& o : p.opened) subckts.push_back(std::move(o));
+                pos = p.stopped;
+                ++deck_.pieces_taken;
+            }
+            if (pos < size && pos < p.stop_at)
+                pos = read_cards(file, role, visit, ReadSpan{pos, p.stop_at});
         }
     }
 
@@ -308,6 +214,7 @@ private:
 
     const FileSystem& fs_;
     const DeckObserver& observer_;
+    const PieceReading& pieces_;
     Deck deck_;
     std::vector<std::string> stack_ids_, stack_paths_;
     std::map<std::string, std::size_t> loaded_;
@@ -316,7 +223,12 @@ private:
 }  // namespace
 
 Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver& observer) {
-    Loader loader(fs, observer);
+    return load_deck(path, fs, observer, PieceReading{});
+}
+
+Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver& observer,
+               const PieceReading& pieces) {
+    Loader loader(fs, observer, pieces);
     loader.load(path, FileRole::deck, nullptr, nullptr);
     return loader.take();
 }

@@ -51,6 +51,26 @@ void EditSet::add(std::string_view original, const Edit& e) {
     slots_.insert(slots_.begin() + static_cast<std::ptrdiff_t>(i), s);
 }
 
+void EditSet::append(EditSet&& later) {
+    if (later.empty()) return;
+    if (empty()) {
+        *this = std::move(later);
+        return;
+    }
+    EditView last = at(size() - 1), first = later.at(0);
+    if (first.offset < last.offset || overlaps(last, first))
+        throw std::logic_error(fmt::format("overlapping edits {} and {}",
+                                           describe(last.offset, last.length, last.text),
+                                           describe(first.offset, first.length, first.text)));
+    auto shift = static_cast<std::uint32_t>(texts_.size());
+    texts_ += later.texts_;
+    slots_.reserve(slots_.size() + later.slots_.size());
+    for (Slot s : later.slots_) {
+        s.text_begin += shift;
+        slots_.push_back(s);
+    }
+}
+
 std::string apply_edits(std::string_view original, const EditSet& edits) {
     return apply_edits(original, edits, 0, static_cast<std::uint32_t>(original.size()));
 }

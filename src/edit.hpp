@@ -29,6 +29,10 @@ public:
     // std::logic_error naming both edits if it overlaps one already stored.
     void add(std::string_view original, const Edit& e);
 
+    // Appends the edits of a set whose edits all lie after this set's (throws std::logic_error
+    // if the first of them overlaps the last of these).
+    void append(EditSet&& later);
+
     // Room for that many edits and bytes of new text (untouched room costs no memory).
     void reserve(std::size_t edits, std::size_t text_bytes) {
         slots_.reserve(edits);

@@ -34,6 +34,12 @@ public:
     // True when a lookup made while observing would answer differently with the final
     // symbols (a name declared after its use, a later .options gmin): scale again then.
     bool relied_on_missing(const DeckSymbols& final_symbols) const;
+    // For a pass that observed a piece of a file read on its own (see PieceReading): false if
+    // one of its lookups would have found something among the symbols declared before the
+    // piece. Otherwise takes the piece's results and remembered lookups over and returns true.
+    bool take_piece(ScalePass& piece, ScaleResult& piece_result, const DeckSymbols& before);
+    // Edits of one file are reserved for this many bytes of it (default: the whole file).
+    void expect_bytes(std::size_t bytes) { expected_bytes_ = bytes; }
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
@@ -83,6 +89,7 @@ private:
     bool observing_ = false;  // inside observe(): the deck is not complete yet
     bool rescan_ = false;     // a decision was left to a scan of the complete deck
     std::size_t file_ = 0;
+    std::size_t expected_bytes_ = 0;
     const Card* card_ = nullptr;
     bool card_marked_ = false;
     std::vector<Atom> atoms_;

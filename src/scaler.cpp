@@ -56,11 +56,12 @@ void ScalePass::run(const Deck& deck) {
 void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) {
     observing_ = true;
     symbols_ = &so_far.symbols;
-    while (result_.edits.size() < so_far.files.size()) {
+    if (result_.edits.size() <= file) {
+        result_.edits.resize(file + 1);
         // At most about one edit per value of a dense deck: reserve that much up front, so
         // a million edits are not copied again and again as the buffers grow.
-        std::size_t size = so_far.files[result_.edits.size()].source->text().size();
-        result_.edits.emplace_back().reserve(size / 12, size / 3);
+        std::size_t size = expected_bytes_ ? expected_bytes_ : card.file->text().size();
+        result_.edits[file].reserve(size / 12, size / 3);
     }
     file_ = file;
     visit(card);
@@ -75,6 +76,29 @@ bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
     for (const auto& n : missed_inductors_)
         if (s.inductors.count(n)) return true;
     return gmin_used_ && *gmin_used_ != s.gmin;
+}
+
+bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& before) {
+    for (const auto& n : piece.missed_params_)
+        if (before.params.count(n)) return false;
+    for (const auto& n : piece.missed_models_)
+        if (before.models.count(n)) return false;
+    for (const auto& n : piece.missed_inductors_)
+        if (before.inductors.count(n)) return false;
+    if (piece.gmin_used_ && before.gmin_set) return false;  // it may have used the default
+    if (gmin_used_ && piece.gmin_used_ && *gmin_used_ != *piece.gmin_used_) rescan_ = true;
+    if (!gmin_used_) gmin_used_ = piece.gmin_used_;
+    rescan_ = rescan_ || piece.rescan_;
+    missed_params_.merge(piece.missed_params_);
+    missed_models_.merge(piece.missed_models_);
+    missed_inductors_.merge(piece.missed_inductors_);
+    if (result_.edits.size() < r.edits.size()) result_.edits.resize(r.edits.size());
+    for (std::size_t f = 0; f < r.edits.size(); ++f) result_.edits[f].append(std::move(r.edits[f]));
+    for (auto& c : r.changes) result_.changes.push_back(std::move(c));
+    result_.change_count += r.change_count;
+    for (auto& d : r.unscalable) result_.unscalable.push_back(std::move(d));
+    for (auto& d : r.notes) result_.notes.push_back(std::move(d));
+    return true;
 }
 
 bool ScalePass::is_param(const std::string& name) const {
@@ -294,14 +318,40 @@ ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     return result;
 }
 
+namespace {
+
+// The scaling pass of one piece of a large file (see PieceReading).
+struct PiecePass : PieceObserver {
+    PiecePass(const ScaleSettings& settings, std::size_t bytes) : pass(settings, result) {
+        pass.expect_bytes(bytes);
+    }
+    void observe(const Deck& piece, std::size_t file, const Card& card) override {
+        pass.observe(piece, file, card);
+    }
+    ScaleResult result;
+    ScalePass pass;
+};
+
+}  // namespace
+
 ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
                           const ScaleSettings& settings) {
-    // One reading pass for both: the pass scales each card as soon as the reader checked it.
+    // One reading pass for both: the pass scales each card as soon as the reader checked it,
+    // large files in pieces on several threads.
     ScaledDeck out;
     ScalePass pass(settings, out.result);
-    out.deck = load_deck(path, fs, [&](const Deck& so_far, std::size_t file, const Card& c) {
-        pass.observe(so_far, file, c);
-    });
+    PieceReading pieces;
+    pieces.threads = settings.threads;
+    pieces.min_piece_bytes = settings.min_piece_bytes;
+    pieces.start = [&](std::size_t bytes) { return std::make_unique<PiecePass>(settings, bytes); };
+    pieces.join = [&](PieceObserver& piece, const DeckSymbols& before) {
+        auto& p = static_cast<PiecePass&>(piece);
+        return pass.take_piece(p.pass, p.result, before);
+    };
+    out.deck = load_deck(
+        path, fs,
+        [&](const Deck& so_far, std::size_t file, const Card& c) { pass.observe(so_far, file, c); },
+        pieces);
     // A name used before it was declared: the answers given then may be wrong, so scale
     // the (now complete) deck again from scratch.
     if (pass.relied_on_missing(out.deck.symbols)) out.result = scale_deck(out.deck, settings);

@@ -18,6 +18,10 @@ struct ScaleSettings {
     bool mark_unscalable = false;   // insert a comment line before each unscalable card
     bool record_changes = true;     // fill ScaleResult::changes (the edits are made either way)
     bool brace_bare_params = false; // write a bare parameter value "p" as "{p}" even when k = 1
+    // load_and_scale reads a large file in pieces, this many at once (0 = one per core), none
+    // smaller than min_piece_bytes; the result is the same whatever the pieces.
+    unsigned threads = 0;
+    std::size_t min_piece_bytes = 4 << 20;
 };
 
 struct Change {

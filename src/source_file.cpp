@@ -4,25 +4,28 @@
 
 namespace deckscale {
 
-void SourceFile::index_lines() const {
-    if (!line_starts_.empty()) return;
-    line_starts_.push_back(0);
-    for (std::uint32_t i = 0; i < text_.size(); ++i)
-        if (text_[i] == '\n') line_starts_.push_back(i + 1);
+const std::vector<std::uint32_t>& SourceFile::line_starts() const {
+    std::call_once(lines_->once, [this] {
+        auto& starts = lines_->starts;
+        starts.push_back(0);
+        for (std::uint32_t i = 0; i < text_.size(); ++i)
+            if (text_[i] == '\n') starts.push_back(i + 1);
+    });
+    return lines_->starts;
 }
 
 SourceFile::Position SourceFile::position(std::uint32_t offset) const {
-    index_lines();
-    auto it = std::upper_bound(line_starts_.begin(), line_starts_.end(), offset);
-    auto line = static_cast<std::uint32_t>(it - line_starts_.begin());
-    return {line, offset - line_starts_[line - 1] + 1};
+    const auto& starts = line_starts();
+    auto it = std::upper_bound(starts.begin(), starts.end(), offset);
+    auto line = static_cast<std::uint32_t>(it - starts.begin());
+    return {line, offset - starts[line - 1] + 1};
 }
 
 std::string_view SourceFile::line_text(std::uint32_t line) const {
-    index_lines();
-    if (line == 0 || line > line_starts_.size()) return {};
-    std::uint32_t begin = line_starts_[line - 1];
-    std::uint32_t end = line < line_starts_.size() ? line_starts_[line] : text_.size();
+    const auto& starts = line_starts();
+    if (line == 0 || line > starts.size()) return {};
+    std::uint32_t begin = starts[line - 1];
+    std::uint32_t end = line < starts.size() ? starts[line] : static_cast<std::uint32_t>(text_.size());
     std::string_view s = view(begin, end);
     while (!s.empty() && (s.back() == '\n' || s.back() == '\r')) s.remove_suffix(1);
     return s;

@@ -4,6 +4,7 @@
 
 #include <cstdint>
 #include <memory>
+#include <mutex>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -38,12 +39,18 @@ public:
                         std::string message) const;
 
 private:
-    void index_lines() const;
+    const std::vector<std::uint32_t>& line_starts() const;
 
     std::string path_;
     std::shared_ptr<const void> owner_;  // keeps text_ alive
     std::string_view text_;
-    mutable std::vector<std::uint32_t> line_starts_;  // built on first use (diagnostics only)
+    // Built on first use (diagnostics only), once even when pieces of the file are read on
+    // several threads at a time.
+    struct LineIndex {
+        std::once_flag once;
+        std::vector<std::uint32_t> starts;
+    };
+    std::shared_ptr<LineIndex> lines_ = std::make_shared<LineIndex>();
 };
 
 }  // namespace deckscale

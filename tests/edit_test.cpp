@@ -31,6 +31,33 @@ TEST(EditSet, EditsAreKeptSortedWhateverTheOrderAdded) {
     EXPECT_EQ(apply_edits(kText, edits), "Rx a 0 2k\nC1 a 0 20n\n");
 }
 
+// Sets made for consecutive pieces of a file are joined in order; a set that would go
+// before or overlap the last edit is refused.
+TEST(EditSet, AppendJoinsLaterEdits) {
+    EditSet first, later, empty;
+    first.add(kText, {0, 2, "Rx"});
+    first.add(kText, {7, 2, "2k"});
+    later.add(kText, {17, 3, "20n"});
+    first.append(std::move(later));
+    first.append(std::move(empty));
+    ASSERT_EQ(first.size(), 3u);
+    EXPECT_EQ(apply_edits(kText, first), "Rx a 0 2k\nC1 a 0 20n\n");
+
+    EditSet none, only;
+    only.add(kText, {7, 2, "3k"});
+    none.append(std::move(only));
+    EXPECT_EQ(apply_edits(kText, none), "R1 a 0 3k\nC1 a 0 10n\n");
+
+    EditSet a, b;
+    a.add(kText, {7, 2, "2k"});
+    b.add(kText, {8, 3, "xyz"});
+    EXPECT_THROW(a.append(std::move(b)), std::logic_error);
+    EditSet c, d;
+    c.add(kText, {17, 3, "20n"});
+    d.add(kText, {0, 2, "Rx"});
+    EXPECT_THROW(c.append(std::move(d)), std::logic_error);
+}
+
 TEST(EditSet, AnEditThatChangesNothingIsNotStored) {
     EditSet edits;
     edits.add(kText, {7, 2, "1k"});

@@ -1,0 +1,171 @@
+#include "deck_checks.hpp"
+
+#include <array>
+#include <set>
+
+#include <fmt/format.h>
+
+#include "spice_number.hpp"
+#include "text_util.hpp"
+
+namespace deckscale {
+namespace {
+
+struct ElementShape {
+    char letter;
+    int min_fields;  // fields after the name, not counting '=', '(', ')' and ','
+    const char* form;
+};
+
+// Minimal field counts per element letter (ngspice 39 manual chapters 3-12; shared notes
+// "deck-syntax.md" §4). ngspice accepts some shorter cards with a silently wrong circuit
+// (an R without value becomes 1 mOhm), so they are refused here.
+constexpr std::array<ElementShape, 21> kShapes{{
+    {'r', 3, "R<name> n+ n- value"},
+    {'c', 3, "C<name> n+ n- value"},
+    {'l', 3, "L<name> n+ n- value"},
+    {'k', 3, "K<name> L<name1> L<name2> coupling"},
+    {'v', 2, "V<name> n+ n- [[DC] value] [AC mag [phase]] [waveform]"},
+    {'i', 2, "I<name> n+ n- [[DC] value] [AC mag [phase]] [waveform]"},
+    {'e', 3, "E<name> n+ n- nc+ nc- gain"},
+    {'g', 3, "G<name> n+ n- nc+ nc- transconductance"},
+    {'f', 3, "F<name> n+ n- V<name> gain"},
+    {'h', 3, "H<name> n+ n- V<name> transresistance"},
+    {'b', 3, "B<name> n+ n- V=expr | I=expr"},
+    {'t', 5, "T<name> n1 n2 n3 n4 Z0=value TD=value"},
+    {'o', 5, "O<name> n1 n2 n3 n4 model"},
+    {'u', 4, "U<name> n1 n2 n3 model l=length"},
+    {'s', 5, "S<name> n+ n- nc+ nc- model"},
+    {'w', 4, "W<name> n+ n- V<name> model"},
+    {'d', 3, "D<name> n+ n- model"},
+    {'q', 4, "Q<name> nc nb ne model"},
+    {'j', 4, "J<name> nd ng ns model"},
+    {'z', 4, "Z<name> nd ng ns model"},
+    {'m', 4, "M<name> nd ng ns [nb] model"},
+}};
+
+const std::set<std::string>& other_letters() {
+    static const std::set<std::string> s{"x", "a", "y", "p", "n"};
+    return s;
+}
+
+struct DotShape {
+    const char* name;
+    int min_fields;
+    const char* form;
+};
+constexpr std::array<DotShape, 10> kDotShapes{{
+    {".model", 2, ".model name type (param=value ...)"},
+    {".subckt", 1, ".subckt name nodes ..."},
+    {".include", 1, ".include file"},
+    {".inc", 1, ".include file"},
+    {".lib", 1, ".lib file section"},
+    {".ac", 4, ".ac dec|oct|lin points fstart fstop"},
+    {".tran", 2, ".tran tstep tstop [tstart [tmax]]"},
+    {".dc", 4, ".dc source start stop step"},
+    {".four", 2, ".four freq output ..."},
+    {".temp", 1, ".temp t ..."},
+}};
+
+const std::set<std::string>& known_dots() {
+    static const std::set<std::string> s{
+        ".ac", ".dc", ".tran", ".op", ".noise", ".disto", ".pz", ".sens", ".tf", ".sp", ".pss",
+        ".four", ".meas", ".measure", ".param", ".func", ".csparam", ".subckt", ".ends", ".model",
+        ".include", ".inc", ".lib", ".endl", ".global", ".ic", ".nodeset", ".temp", ".options",
+        ".option", ".opt", ".save", ".print", ".plot", ".probe", ".width", ".title", ".end", ".if",
+        ".elseif", ".else", ".endif", ".data", ".enddata"};
+    return s;
+}
+
+}  // namespace
+
+int value_fields(const Card& c) {
+    int n = 0;
+    for (std::size_t i = 1; i < c.fields.size(); ++i) {
+        auto k = c.fields[i].kind;
+        if (k != TokenKind::equals && k != TokenKind::lparen && k != TokenKind::rparen &&
+            k != TokenKind::comma)
+            ++n;
+    }
+    return n;
+}
+
+namespace {
+
+// Keys of key=value pairs from field `first` on, lower-case.
+void add_keys(const Card& c, std::size_t first, std::set<std::string>& to) {
+    for (std::size_t i = first; i + 1 < c.fields.size(); ++i)
+        if (c.fields[i].kind == TokenKind::word && c.fields[i + 1].kind == TokenKind::equals)
+            to.insert(to_lower(c.field_text(i)));
+}
+
+void check_element(const Card& c, std::vector<Diagnostic>& warnings) {
+    char letter = ascii_lower(c.field_text(0)[0]);
+    for (const auto& s : kShapes) {
+        if (s.letter != letter) continue;
+        int have = value_fields(c);
+        if (have < s.min_fields)
+            throw DeckError(c.file->diagnose(
+                Severity::error, c.fields[0].begin, c.fields[0].size(),
+                fmt::format("too few fields for '{}': expected {}, found {} after the name",
+                            c.field_text(0), s.form, have)));
+        return;
+    }
+    if (other_letters().count(std::string(1, letter))) return;
+    warnings.push_back(c.file->diagnose(
+        Severity::warning, c.fields[0].begin, c.fields[0].size(),
+        fmt::format("unknown element type '{}' passes through unchanged", c.field_text(0))));
+}
+
+void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings) {
+    for (const auto& s : kDotShapes) {
+        if (kw != s.name) continue;
+        int have = value_fields(c);
+        if (have < s.min_fields)
+            throw DeckError(c.file->diagnose(
+                Severity::error, c.fields[0].begin, c.fields[0].size(),
+                fmt::format("too few fields for '{}': expected {}", c.field_text(0), s.form)));
+    }
+    if (!known_dots().count(kw))
+        warnings.push_back(c.file->diagnose(
+            Severity::warning, c.fields[0].begin, c.fields[0].size(),
+            fmt::format("unknown dot card '{}' passes through unchanged", c.field_text(0))));
+}
+
+}  // namespace
+
+void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings) {
+    if (c.kind == CardKind::element) check_element(c, warnings);
+    if (c.kind == CardKind::dot) check_dot(c, kw, warnings);
+}
+
+void gather_symbols(const Card& c, DeckSymbols& s) {
+    if (c.fields.empty()) return;
+    char first = ascii_lower(c.field_text(0)[0]);
+    if (c.kind == CardKind::element) {
+        if (first == 'l') s.inductors.insert(card_keyword(c));
+        if (first == 'k')
+            for (std::size_t j = 1; j < c.fields.size() && j < 3; ++j)
+                s.coupled_inductors.insert(to_lower(c.field_text(j)));
+        if (first == 'x') add_keys(c, 1, s.params);  // X-line overrides name parameters
+        return;
+    }
+    if (c.kind != CardKind::dot || first != '.') return;
+    std::string kw = card_keyword(c);
+    if (kw == ".param" || kw == ".subckt" || kw == ".csparam") {
+        add_keys(c, 1, s.params);
+    } else if (kw == ".func" && c.fields.size() > 1) {
+        s.params.insert(to_lower(c.field_text(1)));
+    } else if (kw == ".model" && c.fields.size() > 2) {
+        s.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
+    } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
+        for (std::size_t i = 1; i + 2 < c.fields.size(); ++i)
+            if (c.fields[i + 1].kind == TokenKind::equals && iequals(c.field_text(i), "gmin"))
+                if (auto n = parse_spice_number(c.field_text(i + 2)); n.number) {
+                    s.gmin = n.number->value;
+                    s.gmin_set = true;
+                }
+    }
+}
+
+}  // namespace deckscale
