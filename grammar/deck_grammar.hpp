@@ -19,16 +19,17 @@ namespace pg = tao::pegtl;
 // match per character); each behaves exactly like the PEG shown beside it.
 namespace scan {
 
-// Bytes that end a word: blanks, line ends, separators, quotes, braces, ';'.
-inline bool word_stop(char c) {
-    switch (c) {
-        case ' ': case '\t': case '\f': case '\v': case '\r': case '\n': case ',': case '=':
-        case '(': case ')': case '{': case '\'': case '"': case ';':
-            return true;
-        default:
-            return false;
+// Bytes that end a word: blanks, line ends, separators, quotes, braces, ';' (and '/',
+// which ends a word only when another '/' follows: see word_byte).
+struct WordStops {
+    bool stop[256] = {};
+    constexpr WordStops() {
+        for (unsigned char c : {' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'})
+            stop[c] = true;
     }
-}
+};
+inline constexpr WordStops kWordStops{};
+inline bool word_stop(char c) { return kWordStops.stop[static_cast<unsigned char>(c)]; }
 
 // One or more bytes that `Byte::accept(p, end)` takes, as one primitive rule.
 template <typename Byte>

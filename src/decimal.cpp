@@ -42,7 +42,10 @@ Decimal to_decimal(double value, int precision) {
     double a = std::fabs(value);
     if (precision > 12 || !std::isfinite(a) || a < 1e-280 || a > 1e280) return via_to_chars(value, precision);
     d.negative = value < 0;
-    int e = static_cast<int>(std::floor(std::log10(a)));
+    // floor(log10(a)) or one less, from the binary exponent: a in [2^(e2-1), 2^e2).
+    int e2 = 0;
+    std::frexp(a, &e2);
+    int e = static_cast<int>(std::floor((e2 - 1) * 0.30102999566398120));
     long long low = static_cast<long long>(kPow10[precision - 1]);
     long long high = static_cast<long long>(kPow10[precision]);
     long long n = std::llround(scale_by_pow10(a, precision - 1 - e));
@@ -57,16 +60,25 @@ Decimal to_decimal(double value, int precision) {
         n /= 10;
         ++e;
     }
+    while (n % 10 == 0) n /= 10;  // no trailing zeros (n >= low > 0 here)
     char buf[24];
-    auto r = std::to_chars(buf, buf + sizeof buf, n);
-    d.digits.assign(buf, r.ptr);
-    while (d.digits.size() > 1 && d.digits.back() == '0') d.digits.pop_back();
+    char* p = buf + sizeof buf;
+    do {
+        *--p = static_cast<char>('0' + n % 10);
+        n /= 10;
+    } while (n > 0);
+    d.digits.assign(p, buf + sizeof buf);
     d.exponent = e;
     return d;
 }
 
 std::string general_text(const Decimal& d, int precision) {
     std::string out;
+    append_general_text(out, d, precision);
+    return out;
+}
+
+void append_general_text(std::string& out, const Decimal& d, int precision) {
     if (d.negative) out += '-';
     int x = d.digits == "0" ? 0 : d.exponent;
     if (x < -4 || x >= precision) {
@@ -79,7 +91,7 @@ std::string general_text(const Decimal& d, int precision) {
         int ax = std::abs(x);
         if (ax < 10) out += '0';
         out += std::to_string(ax);
-        return out;
+        return;
     }
     int n = static_cast<int>(d.digits.size());
     if (x < 0) {
@@ -94,7 +106,6 @@ std::string general_text(const Decimal& d, int precision) {
         out += '.';
         out.append(d.digits, static_cast<std::size_t>(x + 1), std::string::npos);
     }
-    return out;
 }
 
 std::string scientific_text(const Decimal& d, char letter) {

@@ -52,6 +52,13 @@ void warn_suffix_trap(ScalePass& p, const Token& t, char letter) {
                               p.text(t), n.number->value * 1e15));
 }
 
+// The unit of the value of an R, C or L (looked up once per letter).
+Unit passive_value_unit(char letter) {
+    static const Unit r = *find_rule("r", "value"), c = *find_rule("c", "value"),
+                      l = *find_rule("l", "value");
+    return letter == 'r' ? r : letter == 'c' ? c : l;
+}
+
 }  // namespace
 
 void scale_passive(ScalePass& p, char letter) {
@@ -86,28 +93,27 @@ void scale_passive(ScalePass& p, char letter) {
         ++positional;
         if (positional <= 2) continue;  // nodes
         const Token& t = *a.value;
-        std::string word = to_lower(p.text(t));
+        const Unit value_unit = passive_value_unit(letter);
         if (!has_value && p.is_value_token(t)) {
             has_value = true;
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace) {
-                auto unit = *find_rule(scope, "value");
-                p.scale_expression(t.begin, t.end, factor_of(unit, p.factors()), "value",
-                                   unit_name(unit));
+                p.scale_expression(t.begin, t.end, factor_of(value_unit, p.factors()), "value",
+                                   unit_name(value_unit));
             } else {
                 warn_suffix_trap(p, t, letter);
-                p.scale_value(t, *find_rule(scope, "value"), "value");
+                p.scale_value(t, value_unit, "value");
             }
-        } else if (const std::string* model = p.model_type(word)) {
+        } else if (const std::string* model = p.model_type(to_lower(p.text(t)))) {
             // A model-based element: its model card is scaled (see scale_model).
             const std::string& type = *model;
             if (letter == 'l' && type != "l")
                 p.unscalable(t, fmt::format("inductor model '{}' of type '{}'", p.text(t), type));
         } else if (has_value && p.is_number(t)) {
             // ngspice takes a second bare number as the value ("R1 a b 1 5" = 5 Ohm).
-            p.scale_value(t, *find_rule(scope, "value"), "value");
+            p.scale_value(t, value_unit, "value");
         } else if (t.kind == TokenKind::word && parse_spice_number(p.text(t)).problem !=
                                                     NumberProblem::not_a_number) {
-            p.scale_value(t, *find_rule(scope, "value"), "value");  // fails with the reason
+            p.scale_value(t, value_unit, "value");  // fails with the reason
         } else {
             p.unscalable(t, fmt::format("'{}' is neither a value, a parameter nor a model of this "
                                         "deck", p.text(t)));

@@ -53,7 +53,55 @@ struct action<ng::unit_tail> {
     static void apply(const In& in, Parts& p) { p.tail = std::string_view(in.begin(), in.size()); }
 };
 
+constexpr double kExactPow10[] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,
+                                  1e8,  1e9,  1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
+                                  1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
+
+// Clinger's fast path (W. D. Clinger, "How to read floating point numbers accurately",
+// PLDI 1990): with at most 15 significant digits and a power of ten up to 22, both the
+// digits and the power are exact doubles, and one IEEE multiplication or division rounds
+// correctly, giving the same double as std::from_chars. Returns false for anything else.
+bool parse_value_fast(std::string_view v, double& out) {
+    std::size_t i = 0, n = v.size();
+    bool negative = false;
+    if (i < n && (v[i] == '+' || v[i] == '-')) negative = v[i++] == '-';
+    std::uint64_t m = 0;
+    int significant = 0, power = 0;
+    auto digit = [&](char c) {
+        if (m == 0 && c == '0') return;  // leading zeros are not significant
+        m = m * 10 + static_cast<std::uint64_t>(c - '0');
+        ++significant;
+    };
+    for (; i < n && v[i] >= '0' && v[i] <= '9'; ++i) digit(v[i]);
+    if (i < n && v[i] == '.')
+        for (++i; i < n && v[i] >= '0' && v[i] <= '9'; ++i) {
+            digit(v[i]);
+            --power;
+        }
+    if (significant > 15) return false;
+    if (i < n) {  // the exponent: [eEdD] [sign] digits
+        ++i;
+        bool minus = false;
+        if (i < n && (v[i] == '+' || v[i] == '-')) minus = v[i++] == '-';
+        int x = 0;
+        for (; i < n && v[i] >= '0' && v[i] <= '9'; ++i) {
+            if (x > 1000) return false;
+            x = x * 10 + (v[i] - '0');
+        }
+        power += minus ? -x : x;
+    }
+    if (i != n) return false;
+    double d = static_cast<double>(m);
+    if (m != 0) {
+        if (power < -22 || power > 22) return false;
+        d = power < 0 ? d / kExactPow10[-power] : d * kExactPow10[power];
+    }
+    out = negative ? -d : d;
+    return true;
+}
+
 double parse_value(std::string_view v) {
+    if (double fast; parse_value_fast(v, fast)) return fast;
     std::array<char, 64> buf{};
     std::size_t n = 0;
     std::size_t start = (!v.empty() && v[0] == '+') ? 1 : 0;  // from_chars takes no '+'
@@ -194,26 +242,33 @@ std::string format_plain(double value, int digits) {
 
 namespace {
 
-std::string cased(std::string_view lower_suffix, std::string_view original) {
-    std::string out(lower_suffix);
-    if (original.empty()) return out;
-    // "Meg" style: first upper, rest lower.
+// Appends a suffix (given in lower case) in the letter case of the original suffix: "Meg"
+// style is first upper, rest lower; a lone upper-case 'M' original becomes "MEG"; milli is
+// always a lower-case 'm' (an upper-case M reads as mega to people).
+void append_cased(std::string& out, std::string_view lower_suffix, std::string_view original) {
+    if (original.empty() || lower_suffix == "m") {
+        out += lower_suffix;
+        return;
+    }
     bool first_upper = std::isupper(static_cast<unsigned char>(original[0]));
     bool rest_upper = original.size() > 1 ? std::isupper(static_cast<unsigned char>(original[1]))
                                           : first_upper;
-    for (std::size_t i = 0; i < out.size(); ++i) {
-        bool up = i == 0 ? first_upper : rest_upper;
-        out[i] = up ? static_cast<char>(std::toupper(static_cast<unsigned char>(out[i]))) : out[i];
+    if (lower_suffix.size() == 3 && original.size() == 1 && first_upper) {
+        out += "MEG";
+        return;
     }
-    if (out.size() == 3 && original.size() == 1 && first_upper) out = "MEG";
-    if (lower_suffix == "m") out = "m";  // an upper-case M reads as mega to people: milli stays 'm'
-    return out;
+    for (std::size_t i = 0; i < lower_suffix.size(); ++i) {
+        char c = lower_suffix[i];
+        out += (i == 0 ? first_upper : rest_upper) ? static_cast<char>(std::toupper(static_cast<unsigned char>(c))) : c;
+    }
 }
 
 }  // namespace
 
 std::string respell(const SpiceNumber& original, double value, int digits) {
     Decimal d = to_decimal(value, digits);  // rounded once; the text is cut from its digits
+    std::string out;
+    out.reserve(24);
     if (!original.suffix.empty()) {
         static constexpr std::array<std::pair<const char*, int>, 9> eng{{{"f", -15}, {"p", -12},
             {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};
@@ -225,25 +280,31 @@ std::string respell(const SpiceNumber& original, double value, int digits) {
         auto mantissa = [&](int shift) {
             Decimal m = d;
             m.exponent -= shift;
-            return general_text(m, digits);
+            append_general_text(out, m, digits);
         };
         if (std::string_view(suffix).empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
             // when the tail cannot be misread as a suffix.
-            std::string tail(original.tail);
+            std::string_view tail = original.tail;
             if (!tail.empty() && std::strchr("tTgGkKmMuUnNpPfFeEdD", tail[0])) {
                 // e.g. original "1kF" -> 5 F would read back as femto: use milli-free form
-                return mantissa(3) + cased("k", original.suffix) + tail;
+                mantissa(3);
+                append_cased(out, "k", original.suffix);
+            } else {
+                mantissa(0);
             }
-            return mantissa(0) + tail;
+        } else {
+            mantissa(exp3);
+            append_cased(out, suffix, original.suffix);
         }
-        return mantissa(exp3) + cased(suffix, original.suffix) + std::string(original.tail);
-    }
-    if (original.has_exponent) {
+    } else if (original.has_exponent) {
         char letter = std::isupper(static_cast<unsigned char>(original.exponent_letter)) ? 'E' : 'e';
-        return scientific_text(d, letter) + std::string(original.tail);
+        out = scientific_text(d, letter);
+    } else {
+        append_general_text(out, d, digits);
     }
-    return general_text(d, digits) + std::string(original.tail);
+    out += original.tail;
+    return out;
 }
 
 }  // namespace deckscale

@@ -5,7 +5,10 @@
 
 #include <gtest/gtest.h>
 
+#include <charconv>
 #include <cmath>
+#include <cstring>
+#include <random>
 #include <string>
 
 namespace deckscale {
@@ -73,6 +76,39 @@ TEST(SpiceNumber, AcceptedForms) {
         EXPECT_EQ(p.number->mantissa, row.mantissa);
         EXPECT_EQ(p.number->suffix, row.suffix);
         EXPECT_EQ(p.number->tail, row.tail);
+    }
+}
+
+// Suffix-free numbers read to the very same double as std::from_chars gives (which rounds
+// correctly), whichever path the reader takes: random digits, dots, exponents and signs,
+// many beyond the limits of the fast path (15 digits, powers of ten up to 22).
+TEST(SpiceNumber, ValuesEqualFromChars) {
+    std::mt19937 rng(7);
+    for (int it = 0; it < 200000; ++it) {
+        std::string s;
+        if (rng() % 4 == 0) s += rng() % 2 ? '-' : '+';
+        int before = static_cast<int>(rng() % 20), after = static_cast<int>(rng() % 20);
+        if (before == 0 && after == 0) before = 1;
+        for (int i = 0; i < before; ++i) s += static_cast<char>('0' + rng() % 10);
+        if (after > 0 || rng() % 2) {
+            s += '.';
+            if (before == 0 && after == 0) after = 1;
+        }
+        for (int i = 0; i < after; ++i) s += static_cast<char>('0' + rng() % 10);
+        if (rng() % 2) {
+            s += "eEdD"[rng() % 4];
+            if (rng() % 2) s += rng() % 2 ? '-' : '+';
+            s += std::to_string(rng() % 40);
+        }
+        auto p = parse_spice_number(s);
+        ASSERT_TRUE(p.number) << s;
+        std::string c = s.front() == '+' ? s.substr(1) : s;
+        for (auto& ch : c)
+            if (ch == 'd' || ch == 'D') ch = 'e';
+        double want = 0;
+        std::from_chars(c.data(), c.data() + c.size(), want);
+        ASSERT_EQ(std::memcmp(&want, &p.number->value, sizeof want), 0)
+            << s << ": " << want << " vs " << p.number->value;
     }
 }
 
