@@ -20,6 +20,7 @@
 #include <string>
 #include <vector>
 
+#include "sim_code_models.hpp"
 #include "sim_process.hpp"
 #include "sim_verdict.hpp"
 #include "sim_wire.hpp"
@@ -234,15 +235,29 @@ void send_plot(Child& child, const PlotView& plot) {
     }
 }
 
+// The init script ngspice would read, without its codemodel commands; "" when the code models
+// are wanted or the script cannot be read (ngspice then reads its own).
+std::string init_script(bool code_models) {
+    if (code_models) return "";
+    std::optional<std::string> spinit = read_small_file(spinit_dir() + "/spinit");
+    return spinit ? without_code_models(*spinit) : "";
+}
+
 // Loads libngspice and initialises it in a private start directory (see make_start_dir), then
-// returns to the directory it was called in. Returns why it failed, or nothing; a
-// ControlledExit during initialisation is left in child.exit_requested.
-std::optional<std::string> start_ngspice(Child& child) {
+// returns to the directory it was called in. Without `code_models` ngspice reads an init
+// script that loads none. Returns why it failed, or nothing; a ControlledExit during
+// initialisation is left in child.exit_requested.
+std::optional<std::string> start_ngspice(Child& child, bool code_models) {
     int call_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
     std::setlocale(LC_ALL, "C");
-    std::string start_dir = make_start_dir();
+    std::string script = init_script(code_models);
+    std::string start_dir = make_start_dir(script);
+    // ngspice 39 reads spinit from the one directory SPICE_SCRIPTS names (the start directory,
+    // which also replaces the scripts directory on its source path; decks reach ngspice with
+    // their includes inlined).
+    if (!script.empty() && !start_dir.empty()) ::setenv("SPICE_SCRIPTS", start_dir.c_str(), 1);
     if (call_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
         _exit(exit_setup_failed);
 
@@ -325,7 +340,7 @@ std::optional<std::string> start_ngspice(Child& child) {
         child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
                                                          job.work_dir, std::strerror(errno)));
     }
-    std::optional<std::string> failed = start_ngspice(child);
+    std::optional<std::string> failed = start_ngspice(child, needs_code_models(job.cards));
     if (child.exit_requested) child.finish_exit_request();
     if (failed) child.finish(SimStatus::load_failed, *failed);
     run_job(child, job);
@@ -350,11 +365,11 @@ namespace {
 Child the_template;  // the callbacks' user pointer: at the same address in every clone
 }  // namespace
 
-int prepare_template(int keep_fd) noexcept {
+int prepare_template(int keep_fd, bool code_models) noexcept {
     try {
         int fd = take_over_process(keep_fd);
         the_template.fd = -1;  // no job yet: what ngspice prints is only recorded
-        std::optional<std::string> failed = start_ngspice(the_template);
+        std::optional<std::string> failed = start_ngspice(the_template, code_models);
         if (failed || the_template.exit_requested) return -1;
         return fd;
     } catch (...) {

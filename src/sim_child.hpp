@@ -14,9 +14,10 @@ namespace deckscale {
 
 // The template path (driven by sim_template.cpp). prepare_template makes a freshly forked
 // child a template: it takes over the process like run_child, keeping `keep_fd` as fd 3, and
-// loads and initialises libngspice without loading any circuit. Returns 3, or -1 if ngspice
-// could not be started (the caller then ends the process; the direct path reports why).
-int prepare_template(int keep_fd) noexcept;
+// loads and initialises libngspice without loading any circuit, with the code models if
+// `code_models`. Returns 3, or -1 if ngspice could not be started (the caller then ends the
+// process; the direct path reports why).
+int prepare_template(int keep_fd, bool code_models) noexcept;
 
 // Runs `job` like run_child, in a process cloned from a prepared template: only `fd` (the
 // write end of the job's pipe) is kept, the process gets a group of its own, enters the job's

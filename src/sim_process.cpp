@@ -5,6 +5,7 @@
 #include <sys/prctl.h>
 #include <unistd.h>
 
+#include <cerrno>
 #include <cstdlib>
 #include <filesystem>
 
@@ -28,30 +29,63 @@ int take_over_process(int fd) {
     return 3;
 }
 
+namespace {
+
+bool write_new_file(const std::string& path, const std::string& text) {
+    int fd = ::open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
+    if (fd < 0) return false;
+    bool ok = true;
+    for (std::size_t done = 0; ok && done < text.size();) {
+        ssize_t n = ::write(fd, text.data() + done, text.size() - done);
+        if (n < 0 && errno == EINTR) continue;
+        ok = n > 0;
+        if (ok) done += static_cast<std::size_t>(n);
+    }
+    return ::close(fd) == 0 && ok;
+}
+
+}  // namespace
+
 // ngspice 39 executes ./.spiceinit when it is initialised, or else ~/.spiceinit with the
 // home directory taken from the password database, not from $HOME (seen with strace). A
 // user's file there can change how decks are read, so ngspice is initialised in a fresh
-// private directory holding an empty .spiceinit. Returns "" if none could be made.
-std::string make_start_dir() {
+// private directory holding an empty .spiceinit.
+std::string make_start_dir(const std::string& spinit) {
     std::error_code ec;
     std::filesystem::path base = std::filesystem::temp_directory_path(ec);
     if (ec) base = "/tmp";
     std::string dir = (base / ("deckscale-sim-" + std::string(6, 'X'))).string();  // for mkdtemp
     if (!::mkdtemp(dir.data())) return "";
-    std::string file = dir + "/.spiceinit";
-    int fd = ::open(file.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
-    if (fd < 0) {
-        ::rmdir(dir.c_str());
+    if (!write_new_file(dir + "/.spiceinit", "") ||
+        (!spinit.empty() && !write_new_file(dir + "/spinit", spinit))) {
+        remove_start_dir(dir);
         return "";
     }
-    ::close(fd);
     return dir;
 }
 
 void remove_start_dir(const std::string& dir) {
     if (dir.empty()) return;
     ::unlink((dir + "/.spiceinit").c_str());
+    ::unlink((dir + "/spinit").c_str());
     ::rmdir(dir.c_str());
+}
+
+std::optional<std::string> read_small_file(const std::string& path) {
+    int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
+    if (fd < 0) return std::nullopt;
+    std::string text;
+    char buffer[4096];
+    for (;;) {
+        ssize_t n = ::read(fd, buffer, sizeof buffer);
+        if (n < 0 && errno == EINTR) continue;
+        if (n <= 0) {
+            ::close(fd);
+            if (n < 0) return std::nullopt;
+            return text;
+        }
+        text.append(buffer, static_cast<std::size_t>(n));
+    }
 }
 
 }  // namespace deckscale

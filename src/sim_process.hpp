@@ -2,6 +2,7 @@
 // the private directory ngspice is initialised in. Internal to the sim module.
 #pragma once
 
+#include <optional>
 #include <string>
 
 namespace deckscale {
@@ -16,9 +17,13 @@ constexpr int exit_internal = 122;
 // with the parent, and a process group of its own. Returns 3; ends the process if it cannot.
 int take_over_process(int fd);
 
-// A fresh private directory holding an empty .spiceinit, for ngspice to be initialised in;
-// "" if none could be made. See sim_process.cpp.
-std::string make_start_dir();
+// A fresh private directory holding an empty .spiceinit and, unless `spinit` is empty, an
+// init script "spinit" with that text, for ngspice to be initialised in; "" if none could
+// be made. See sim_process.cpp.
+std::string make_start_dir(const std::string& spinit);
 void remove_start_dir(const std::string& dir);
+
+// The whole file at `path`, or nothing if it cannot be read.
+std::optional<std::string> read_small_file(const std::string& path);
 
 }  // namespace deckscale

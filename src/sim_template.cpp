@@ -17,6 +17,7 @@
 #include <cstring>
 
 #include "sim_child.hpp"
+#include "sim_code_models.hpp"
 
 namespace deckscale {
 namespace {
@@ -61,7 +62,9 @@ bool send_all(int sock, const void* data, std::size_t size) {
 // The template's life: initialise ngspice, then clone one process per job request. Its job
 // processes are its siblings (CLONE_PARENT), so it has no children to wait for.
 [[noreturn]] void serve(const std::vector<SimJob>& jobs, int sock) noexcept {
-    sock = prepare_template(sock);
+    bool code_models = std::any_of(jobs.begin(), jobs.end(),
+                                   [](const SimJob& job) { return needs_code_models(job.cards); });
+    sock = prepare_template(sock, code_models);
     if (sock < 0 || !send_all(sock, &ready_byte, 1)) _exit(0);
     for (;;) {
         std::uint32_t index = 0;
