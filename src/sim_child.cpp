@@ -235,14 +235,6 @@ void send_plot(Child& child, const PlotView& plot) {
     }
 }
 
-// The init script ngspice would read, without its codemodel commands; "" when the code models
-// are wanted or the script cannot be read (ngspice then reads its own).
-std::string init_script(bool code_models) {
-    if (code_models) return "";
-    std::optional<std::string> spinit = read_small_file(spinit_dir() + "/spinit");
-    return spinit ? without_code_models(*spinit) : "";
-}
-
 // Loads libngspice and initialises it in a private start directory (see make_start_dir), then
 // returns to the directory it was called in. Without `code_models` ngspice reads an init
 // script that loads none. Returns why it failed, or nothing; a ControlledExit during
@@ -252,7 +244,7 @@ std::optional<std::string> start_ngspice(Child& child, bool code_models) {
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
     std::setlocale(LC_ALL, "C");
-    std::string script = init_script(code_models);
+    std::string script = code_models ? "" : spinit_without_code_models();
     std::string start_dir = make_start_dir(script);
     // ngspice 39 reads spinit from the one directory SPICE_SCRIPTS names (the start directory,
     // which also replaces the scripts directory on its source path; decks reach ngspice with

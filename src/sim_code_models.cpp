@@ -5,6 +5,8 @@
 #include <cctype>
 #include <cstdlib>
 
+#include "sim_process.hpp"
+
 namespace deckscale {
 namespace {
 
@@ -90,6 +92,11 @@ std::string spinit_dir() {
     if (const char* scripts = std::getenv("SPICE_SCRIPTS")) return scripts;
     const char* lib = std::getenv("SPICE_LIB_DIR");
     return std::string(lib ? lib : "/usr/share/ngspice") + "/scripts";
+}
+
+std::string spinit_without_code_models() {
+    std::optional<std::string> spinit = read_small_file(spinit_dir() + "/spinit");
+    return spinit ? without_code_models(*spinit) : "";
 }
 
 }  // namespace deckscale

@@ -23,4 +23,8 @@ std::string without_code_models(std::string_view spinit);
 // the directory it was built with (/usr/share/ngspice/scripts in Debian's build).
 std::string spinit_dir();
 
+// The init script ngspice would read, without its codemodel commands; "" if it cannot be
+// read (ngspice is then left to read its own).
+std::string spinit_without_code_models();
+
 }  // namespace deckscale
