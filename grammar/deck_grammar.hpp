@@ -81,6 +81,48 @@ struct line_run {
     }
 };
 
+// The fast path for the bulk of a large deck, plain element lines such as "R12 n3 n4 1.5k":
+// a line that starts with a letter, holds only words of plain bytes separated by blanks
+// (' ', '\t'), ends in LF or CRLF, and is followed by a line that starts with a letter or
+// '.' (so no continuation or comment line can join it). For such a line the general rules
+// below give exactly: word and blank tokens, the line end, one element card. It is matched
+// in one step; every other line goes to the general rules. Tests read decks both ways and
+// compare every token (see reference_deck_file).
+// Byte classes of the fast path: printable ASCII except separators, quotes, braces and
+// comment or continuation marks is a word byte; ' ' and '\t' are blanks.
+struct SimpleBytes {
+    enum : unsigned char { word = 1, blank = 2, letter = 4 };
+    unsigned char of[256] = {};
+    constexpr SimpleBytes() {
+        for (int c = '!'; c < 0x7f; ++c) of[c] = word;
+        for (unsigned char c : {';', '$', '\\', '{', '}', '\'', '"', '=', '(', ')', ',', '/'}) of[c] = 0;
+        for (int c = 'a'; c <= 'z'; ++c) of[c] |= letter;
+        for (int c = 'A'; c <= 'Z'; ++c) of[c] |= letter;
+        of[static_cast<unsigned char>(' ')] = of[static_cast<unsigned char>('\t')] = blank;
+    }
+    bool is(char c, unsigned char cls) const { return (of[static_cast<unsigned char>(c)] & cls) != 0; }
+};
+inline constexpr SimpleBytes kSimpleBytes{};
+
+struct simple_line {
+    using rule_t = simple_line;
+    using subs_t = pg::type_list<>;
+    template <typename ParseInput>
+    static bool match(ParseInput& in) {
+        const auto& b = kSimpleBytes;
+        const char* s = in.current();
+        const char* e = in.end();
+        if (s == e || !b.is(*s, SimpleBytes::letter)) return false;
+        const char* p = s;
+        while (p < e && b.is(*p, SimpleBytes::word | SimpleBytes::blank)) ++p;
+        if (p < e && *p == '\r' && p + 1 < e && p[1] == '\n') ++p;
+        if (p + 1 >= e || *p != '\n' || !(b.is(p[1], SimpleBytes::letter) || p[1] == '.'))
+            return false;
+        in.bump(static_cast<std::size_t>(p + 1 - s));
+        return true;
+    }
+};
+
 }  // namespace scan
 
 // ---- characters and line ends --------------------------------------------------------
@@ -211,15 +253,19 @@ struct title_card : guarded<pg::seq<pg::opt<ws>, pg::at<title_keyword>, word,
 struct blank_card : pg::sor<guarded<blank_line>, guarded<blank_last_line>> {};
 struct comment_card : guarded<comment_line> {};
 struct control_card : control_block {};
-struct line_item
+struct line_item_general
     : pg::sor<blank_card, comment_card, control_card, orphan_continuation, title_card, card> {};
+struct simple_card : scan::simple_line {};
+struct line_item : pg::sor<simple_card, line_item_general> {};
 
 // Everything after the .end card is kept verbatim (manual 2.3.2).
 struct after_end : pg::plus<pg::any> {};
 struct end_card : pg::seq<pg::at<pg::opt<ws>, end_keyword>, card, pg::opt<after_end>> {};
 
-struct body : pg::seq<pg::star<pg::not_at<pg::opt<ws>, end_keyword>, pg::not_at<pg::eof>, line_item>,
-                      pg::opt<end_card>, pg::eof> {};
+template <typename Item>
+struct body_of : pg::seq<pg::star<pg::not_at<pg::opt<ws>, end_keyword>, pg::not_at<pg::eof>, Item>,
+                         pg::opt<end_card>, pg::eof> {};
+struct body : body_of<line_item> {};
 
 struct bom : pg::string<'\xEF', '\xBB', '\xBF'> {};
 struct title_text : rest_of_line {};
@@ -230,6 +276,8 @@ struct title_line : pg::seq<title_text, eolf> {};
 struct deck_file : pg::seq<pg::opt<bom>, title_line, body> {};
 // An included file (.include / .lib): no title line.
 struct include_file : pg::seq<pg::opt<bom>, body> {};
+// The grammar without its fast path (simple_card), for the tests that prove it changes nothing.
+struct reference_deck_file : pg::seq<pg::opt<bom>, title_line, body_of<line_item_general>> {};
 
 }  // namespace deckscale::grammar
 
@@ -238,4 +286,6 @@ template <typename Name, typename Byte>
 struct analyze_traits<Name, deckscale::grammar::scan::byte_run<Byte>> : analyze_any_traits<> {};
 template <typename Name>
 struct analyze_traits<Name, deckscale::grammar::scan::line_run> : analyze_opt_traits<> {};
+template <typename Name>
+struct analyze_traits<Name, deckscale::grammar::scan::simple_line> : analyze_any_traits<> {};
 }  // namespace tao::pegtl

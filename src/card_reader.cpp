@@ -97,6 +97,33 @@ struct action<g::card> {
     }
 };
 
+// A plain element line taken by the fast path: split into the tokens the general rules give.
+template <>
+struct action<g::simple_card> {
+    template <typename Input>
+    static void apply(const Input& in, ReaderState& st) {
+        using B = g::scan::SimpleBytes;
+        const auto& b = g::scan::kSimpleBytes;
+        const char* p = in.begin();
+        const char* e = in.end();
+        while (p < e) {
+            const char* q = p;
+            if (b.is(*p, B::blank)) {
+                while (b.is(*q, B::blank)) ++q;  // the line end stops it
+                st.push(TokenKind::whitespace, p, q);
+            } else if (b.is(*p, B::word)) {
+                while (b.is(*q, B::word)) ++q;
+                st.push(TokenKind::word, p, q);
+            } else {
+                st.push(TokenKind::line_end, p, e);
+                break;
+            }
+            p = q;
+        }
+        st.emit(CardKind::element);
+    }
+};
+
 template <>
 struct action<g::after_end> {
     template <typename Input>
@@ -151,6 +178,10 @@ std::uint32_t run(const SourceFile& file, const CardVisitor& visit, ReadSpan spa
 
 void read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit) {
     read_cards(file, role, visit, ReadSpan{});
+}
+
+void read_cards_reference(const SourceFile& file, const CardVisitor& visit) {
+    run<g::reference_deck_file>(file, visit, ReadSpan{});
 }
 
 std::uint32_t read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit,

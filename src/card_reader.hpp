@@ -19,6 +19,10 @@ using CardVisitor = std::function<void(const Card&)>;
 
 void read_cards(const SourceFile& file, FileRole role, const CardVisitor& visit);
 
+// A top-level deck read by the grammar without its fast path for plain element lines
+// (tests compare both readers token by token).
+void read_cards_reference(const SourceFile& file, const CardVisitor& visit);
+
 // Reading part of a file, for reading a large file in pieces at once. `from` is 0 or a
 // card boundary (where an earlier read stopped). The read stops before the first card that
 // begins at or after `stop_at`, or before a card whose visitor throws StopReading.

@@ -268,7 +268,6 @@ void append_cased(std::string& out, std::string_view lower_suffix, std::string_v
 std::string respell(const SpiceNumber& original, double value, int digits) {
     Decimal d = to_decimal(value, digits);  // rounded once; the text is cut from its digits
     std::string out;
-    out.reserve(24);
     if (!original.suffix.empty()) {
         static constexpr std::array<std::pair<const char*, int>, 9> eng{{{"f", -15}, {"p", -12},
             {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};

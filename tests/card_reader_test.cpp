@@ -4,6 +4,8 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
+#include <random>
 #include <string>
 #include <vector>
 
@@ -182,6 +184,64 @@ TEST(CardReader, TokenKindsOfAContinuedCard) {
                             T::word, T::whitespace, T::comment,  T::line_end,
                             T::continuation, T::whitespace, T::word, T::line_end};
     EXPECT_EQ(kinds, expected);
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Every card with every token, as text: "element|word:R1|whitespace: |...".
+std::string token_dump(const SourceFile& f, bool fast) {
+    std::string out;
+    CardVisitor dump = [&](const Card& c) {
+        out += std::to_string(static_cast<int>(c.kind));
+        for (const auto& t : c.tokens)
+            out += "|" + std::to_string(static_cast<int>(t.kind)) + ":" + std::string(c.text(t));
+        out += "\n";
+    };
+    try {
+        if (fast)
+            read_cards(f, FileRole::deck, dump);
+        else
+            read_cards_reference(f, dump);
+    } catch (const DeckError& e) {
+        out += "error: " + render(e.diagnostic());
+    }
+    return out;
+}
+
+// The fast path for plain element lines must give exactly the cards and tokens of the
+// general rules: decks of random lines mixing plain words with every byte that matters
+// (separators, quotes, braces, comment and continuation marks, CR, tabs, non-ASCII).
+TEST(CardReader, FastPathGivesTheTokensOfTheGeneralRules) {
+    std::mt19937 rng(42);  // fixed: the run is repeatable
+    const std::string plain = "RCLVrclv0123456789nkKuUmM.-_ab";
+    const std::string special = " \t\r\n;$\\{}'\"=(),/+*.\f\v\xc2\xb5";
+    int fast_lines = 0;
+    for (int it = 0; it < 4000; ++it) {
+        std::string deck = "title\n";
+        for (int line = 0, n = 1 + static_cast<int>(rng() % 8); line < n; ++line) {
+            std::string l = std::string(1, "RCLVX.*+ ;\n"[rng() % 11]);
+            for (int k = 0, m = static_cast<int>(rng() % 14); k < m; ++k)
+                l += rng() % 6 ? (rng() % 3 ? plain[rng() % plain.size()] : ' ')
+                               : special[rng() % special.size()];
+            deck += l + (rng() % 4 ? "\n" : "\r\n");
+        }
+        if (rng() % 3) deck += ".end\n";
+        SourceFile f("deck.cir", deck);
+        std::string fast = token_dump(f, true);
+        ASSERT_EQ(fast, token_dump(f, false)) << "deck:\n" << deck;
+        fast_lines += static_cast<int>(std::count(fast.begin(), fast.end(), '\n'));
+    }
+    EXPECT_GT(fast_lines, 10000);  // the decks really hold many cards
+    // And on every deck of the project.
+    for (const auto& path : test::netlist_files()) {
+        if (!test::is_top_deck(path)) continue;
+        SourceFile f(path.string(), test::read_bytes(path));
+        EXPECT_EQ(token_dump(f, true), token_dump(f, false)) << path;
+    }
 }
 
 }  // namespace
