@@ -60,13 +60,13 @@ Decimal to_decimal(double value, int precision) {
         n /= 10;
         ++e;
     }
-    while (n % 10 == 0) n /= 10;  // no trailing zeros (n >= low > 0 here)
+    // No trailing zeros (u >= low > 0 here): scaled values are mostly short, such as 5e4.
+    auto u = static_cast<unsigned long long>(n);
+    while (u % 10000 == 0) u /= 10000;
+    while (u % 10 == 0) u /= 10;
     char buf[24];
     char* p = buf + sizeof buf;
-    do {
-        *--p = static_cast<char>('0' + n % 10);
-        n /= 10;
-    } while (n > 0);
+    for (; u > 0; u /= 10) *--p = static_cast<char>('0' + u % 10);
     d.digits.assign(p, buf + sizeof buf);
     d.exponent = e;
     return d;

@@ -22,12 +22,43 @@ bool overlaps(const EditView& a, const EditView& b) {
 
 }  // namespace
 
-std::size_t EditSet::lower_bound(std::uint32_t offset) const {
+std::size_t EditSet::Segment::lower_bound(std::uint32_t offset) const {
     // Edits usually arrive in file order: check the end first.
-    if (slots_.empty() || slots_.back().offset < offset) return slots_.size();
-    auto it = std::lower_bound(slots_.begin(), slots_.end(), offset,
+    if (slots.empty() || slots.back().offset < offset) return slots.size();
+    auto it = std::lower_bound(slots.begin(), slots.end(), offset,
                                [](const Slot& x, std::uint32_t off) { return x.offset < off; });
-    return static_cast<std::size_t>(it - slots_.begin());
+    return static_cast<std::size_t>(it - slots.begin());
+}
+
+EditView EditSet::at(std::size_t i) const {
+    for (const Segment& seg : segments_) {
+        if (i < seg.slots.size()) return seg.view(i);
+        i -= seg.slots.size();
+    }
+    throw std::out_of_range("EditSet::at");
+}
+
+void EditSet::reserve(std::size_t edits, std::size_t text_bytes) {
+    if (segments_.empty()) segments_.emplace_back();
+    Segment& seg = segments_.back();
+    seg.slots.reserve(seg.slots.size() + edits);
+    seg.texts.reserve(seg.texts.size() + text_bytes);
+}
+
+void EditSet::merge_segments() {
+    if (segments_.size() < 2) return;
+    Segment all;
+    all.slots.reserve(size_);
+    for (Segment& seg : segments_) {
+        auto shift = static_cast<std::uint32_t>(all.texts.size());
+        all.texts += seg.texts;
+        for (Slot s : seg.slots) {
+            s.text_begin += shift;
+            all.slots.push_back(s);
+        }
+    }
+    segments_.clear();
+    segments_.push_back(std::move(all));
 }
 
 void EditSet::add(std::string_view original, const Edit& e) {
@@ -35,40 +66,54 @@ void EditSet::add(std::string_view original, const Edit& e) {
         throw std::logic_error(
             fmt::format("edit {} lies outside the file", describe(e.offset, e.length, e.text)));
     if (original.substr(e.offset, e.length) == e.text) return;
+    // The usual case appends to the last segment; an edit further back (rare) goes into one
+    // segment that holds everything.
+    if (segments_.size() > 1 && !segments_.back().slots.empty() &&
+        e.offset <= segments_.back().slots.back().offset)
+        merge_segments();
+    if (segments_.empty()) segments_.emplace_back();
+    Segment& seg = segments_.back();
     EditView v{e.offset, e.length, e.text};
-    std::size_t i = lower_bound(e.offset);
-    for (std::size_t j : {i, i - 1}) {
-        if (j >= slots_.size()) continue;  // also catches i - 1 when i == 0
-        EditView other = at(j);
+    std::size_t i = seg.lower_bound(e.offset);
+    auto check = [&](const EditView& other) {
         if (overlaps(other, v))
             throw std::logic_error(fmt::format("overlapping edits {} and {}",
                                                describe(other.offset, other.length, other.text),
                                                describe(e.offset, e.length, e.text)));
+    };
+    if (i < seg.slots.size()) check(seg.view(i));
+    if (i > 0) {
+        check(seg.view(i - 1));
+    } else if (segments_.size() > 1) {  // the last edit of the segment before
+        const Segment& before = segments_[segments_.size() - 2];
+        if (!before.slots.empty()) check(before.view(before.slots.size() - 1));
     }
-    Slot s{e.offset, e.length, static_cast<std::uint32_t>(texts_.size()),
+    Slot s{e.offset, e.length, static_cast<std::uint32_t>(seg.texts.size()),
            static_cast<std::uint32_t>(e.text.size())};
-    texts_ += e.text;
-    slots_.insert(slots_.begin() + static_cast<std::ptrdiff_t>(i), s);
+    seg.texts += e.text;
+    if (i == seg.slots.size())
+        seg.slots.push_back(s);
+    else
+        seg.slots.insert(seg.slots.begin() + static_cast<std::ptrdiff_t>(i), s);
+    ++size_;
 }
 
 void EditSet::append(EditSet&& later) {
     if (later.empty()) return;
-    if (empty()) {
-        *this = std::move(later);
-        return;
+    if (!empty()) {
+        EditView last = at(size_ - 1), first = later.at(0);
+        if (first.offset < last.offset || overlaps(last, first))
+            throw std::logic_error(fmt::format("overlapping edits {} and {}",
+                                               describe(last.offset, last.length, last.text),
+                                               describe(first.offset, first.length, first.text)));
     }
-    EditView last = at(size() - 1), first = later.at(0);
-    if (first.offset < last.offset || overlaps(last, first))
-        throw std::logic_error(fmt::format("overlapping edits {} and {}",
-                                           describe(last.offset, last.length, last.text),
-                                           describe(first.offset, first.length, first.text)));
-    auto shift = static_cast<std::uint32_t>(texts_.size());
-    texts_ += later.texts_;
-    slots_.reserve(slots_.size() + later.slots_.size());
-    for (Slot s : later.slots_) {
-        s.text_begin += shift;
-        slots_.push_back(s);
-    }
+    // Segments with no edits (reserved room only) are dropped; the others are moved.
+    std::erase_if(segments_, [](const Segment& seg) { return seg.slots.empty(); });
+    for (Segment& seg : later.segments_)
+        if (!seg.slots.empty()) segments_.push_back(std::move(seg));
+    size_ += later.size_;
+    later.segments_.clear();
+    later.size_ = 0;
 }
 
 std::string apply_edits(std::string_view original, const EditSet& edits) {
@@ -78,22 +123,15 @@ std::string apply_edits(std::string_view original, const EditSet& edits) {
 void apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
                  std::uint32_t end, const std::function<void(std::string_view)>& sink) {
     std::size_t pos = begin;
-    // First edit at or after `begin`.
-    std::size_t lo = 0, hi = edits.size();
-    while (lo < hi) {
-        std::size_t mid = (lo + hi) / 2;
-        if (edits.at(mid).offset < begin) lo = mid + 1;
-        else hi = mid;
-    }
-    for (std::size_t i = lo; i < edits.size(); ++i) {
-        EditView e = edits.at(i);
-        if (e.offset + e.length > end) break;
+    edits.visit_from(begin, [&](const EditView& e) {
+        if (e.offset + e.length > end) return false;
         // An insertion exactly at `end` belongs to what follows, except at the file's end.
-        if (e.offset == end && e.length == 0 && end != original.size()) break;
+        if (e.offset == end && e.length == 0 && end != original.size()) return false;
         if (e.offset > pos) sink(original.substr(pos, e.offset - pos));
         if (!e.text.empty()) sink(e.text);
         pos = e.offset + e.length;
-    }
+        return true;
+    });
     if (end > pos) sink(original.substr(pos, end - pos));
 }
 

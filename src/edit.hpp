@@ -30,32 +30,48 @@ public:
     void add(std::string_view original, const Edit& e);
 
     // Appends the edits of a set whose edits all lie after this set's (throws std::logic_error
-    // if the first of them overlaps the last of these).
+    // if the first of them overlaps the last of these). Its storage is taken over, not copied.
     void append(EditSet&& later);
 
-    // Room for that many edits and bytes of new text (untouched room costs no memory).
-    void reserve(std::size_t edits, std::size_t text_bytes) {
-        slots_.reserve(edits);
-        texts_.reserve(text_bytes);
-    }
+    // Room for that many more edits and bytes of new text (untouched room costs no memory).
+    void reserve(std::size_t edits, std::size_t text_bytes);
 
-    bool empty() const { return slots_.empty(); }
-    std::size_t size() const { return slots_.size(); }
-    EditView at(std::size_t i) const {
-        const Slot& s = slots_[i];
-        return {s.offset, s.length, std::string_view(texts_).substr(s.text_begin, s.text_size)};
+    bool empty() const { return size_ == 0; }
+    std::size_t size() const { return size_; }
+    EditView at(std::size_t i) const;
+
+    // Calls f(EditView) for every edit in offset order, starting at the first edit whose
+    // offset is at least `from`, until f returns false.
+    template <typename F>
+    void visit_from(std::uint32_t from, F&& f) const {
+        for (const Segment& seg : segments_) {
+            if (seg.slots.empty() || seg.slots.back().offset < from) continue;
+            for (std::size_t i = seg.lower_bound(from); i < seg.slots.size(); ++i)
+                if (!f(seg.view(i))) return;
+            from = 0;
+        }
     }
 
 private:
     // Edits of a large deck number in the millions: 16 bytes each plus their text, kept in
-    // one buffer, rather than a std::string per edit.
+    // one buffer per segment, rather than a std::string per edit. A set is one segment,
+    // or several when sets made for consecutive pieces of a file were appended.
     struct Slot {
         std::uint32_t offset, length, text_begin, text_size;
     };
-    std::size_t lower_bound(std::uint32_t offset) const;
+    struct Segment {
+        std::vector<Slot> slots;  // sorted by offset; all before the next segment's
+        std::string texts;
+        std::size_t lower_bound(std::uint32_t offset) const;
+        EditView view(std::size_t i) const {
+            const Slot& s = slots[i];
+            return {s.offset, s.length, std::string_view(texts).substr(s.text_begin, s.text_size)};
+        }
+    };
+    void merge_segments();
 
-    std::vector<Slot> slots_;  // sorted by offset
-    std::string texts_;
+    std::vector<Segment> segments_;
+    std::size_t size_ = 0;
 };
 
 // Hands original[begin, end), with the edits that lie inside that range applied, to `sink`

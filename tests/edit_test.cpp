@@ -58,6 +58,28 @@ TEST(EditSet, AppendJoinsLaterEdits) {
     EXPECT_THROW(c.append(std::move(d)), std::logic_error);
 }
 
+// Appended sets keep their own storage; reading, applying and adding work across them,
+// and an edit further back than the last one still lands in order.
+TEST(EditSet, AppendedSetsActAsOne) {
+    const std::string text = "R1 a 0 1k\nR2 a 0 2k\nR3 a 0 3k\n";  // values at 7, 17, 27
+    EditSet a, b, c;
+    a.reserve(10, 100);
+    a.add(text, {7, 2, "5k"});
+    b.add(text, {17, 2, "6k"});
+    c.add(text, {27, 2, "7k"});
+    a.append(std::move(b));
+    a.append(std::move(c));
+    ASSERT_EQ(a.size(), 3u);
+    EXPECT_EQ(a.at(1).text, "6k");
+    EXPECT_EQ(apply_edits(text, a), "R1 a 0 5k\nR2 a 0 6k\nR3 a 0 7k\n");
+    EXPECT_EQ(apply_edits(text, a, 10, 22), "R2 a 0 6k\nR3");
+    EXPECT_THROW(a.add(text, {28, 1, "x"}), std::logic_error);  // overlaps the last
+    a.add(text, {20, 0, "*"});                                  // before the last: merged
+    a.add(text, {0, 0, "+"});
+    EXPECT_EQ(apply_edits(text, a), "+R1 a 0 5k\nR2 a 0 6k\n*R3 a 0 7k\n");
+    EXPECT_THROW(a.add(text, {18, 1, "x"}), std::logic_error);
+}
+
 TEST(EditSet, AnEditThatChangesNothingIsNotStored) {
     EditSet edits;
     edits.add(kText, {7, 2, "1k"});
