@@ -121,25 +121,27 @@ std::string apply_edits(std::string_view original, const EditSet& edits) {
 }
 
 void apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
-                 std::uint32_t end, const std::function<void(std::string_view)>& sink) {
+                 std::uint32_t end, ByteSink& sink) {
     std::size_t pos = begin;
     edits.visit_from(begin, [&](const EditView& e) {
         if (e.offset + e.length > end) return false;
         // An insertion exactly at `end` belongs to what follows, except at the file's end.
         if (e.offset == end && e.length == 0 && end != original.size()) return false;
-        if (e.offset > pos) sink(original.substr(pos, e.offset - pos));
-        if (!e.text.empty()) sink(e.text);
+        sink.write(original.substr(pos, e.offset - pos));
+        sink.write(e.text);
         pos = e.offset + e.length;
         return true;
     });
-    if (end > pos) sink(original.substr(pos, end - pos));
+    if (end > pos) sink.write(original.substr(pos, end - pos));
 }
 
 std::string apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
                         std::uint32_t end) {
     std::string out;
     out.reserve(end - begin + (end - begin) / 8);
-    apply_edits(original, edits, begin, end, [&](std::string_view piece) { out.append(piece); });
+    StringSink sink(out);
+    apply_edits(original, edits, begin, end, sink);
+    sink.flush();
     return out;
 }
 

@@ -3,10 +3,11 @@
 #pragma once
 
 #include <cstdint>
-#include <functional>
 #include <string>
 #include <string_view>
 #include <vector>
+
+#include "byte_sink.hpp"
 
 namespace deckscale {
 
@@ -74,10 +75,10 @@ private:
     std::size_t size_ = 0;
 };
 
-// Hands original[begin, end), with the edits that lie inside that range applied, to `sink`
-// in pieces. The one place that turns edits into output; the functions below use it.
+// Writes original[begin, end), with the edits that lie inside that range applied, to `sink`.
+// The one place that turns edits into output; the functions below use it.
 void apply_edits(std::string_view original, const EditSet& edits, std::uint32_t begin,
-                 std::uint32_t end, const std::function<void(std::string_view)>& sink);
+                 std::uint32_t end, ByteSink& sink);
 
 // Copies `original`, replacing the edited ranges.
 std::string apply_edits(std::string_view original, const EditSet& edits);

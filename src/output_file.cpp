@@ -13,12 +13,48 @@
 
 namespace deckscale {
 
+namespace {
+
+// Writes blocks to a file descriptor and starts their writeback at once, so that the final
+// fsync() waits only for the last blocks instead of the whole file.
+class FileSink : public ByteSink {
+public:
+    explicit FileSink(int fd) : fd_(fd) {}
+    const std::string& error() const { return error_; }
+
+protected:
+    void take(std::string_view bytes) override {
+        std::size_t done = 0;
+        while (error_.empty() && done < bytes.size()) {
+            ssize_t n = ::write(fd_, bytes.data() + done, bytes.size() - done);
+            if (n < 0) {
+                if (errno == EINTR) continue;
+                error_ = std::strerror(errno);
+                break;
+            }
+            done += static_cast<std::size_t>(n);
+        }
+        if (!error_.empty()) return;
+        // A hint only (it fails harmlessly where unsupported): fsync() below is the guarantee.
+        ::sync_file_range(fd_, static_cast<off_t>(written_), static_cast<off_t>(done),
+                          SYNC_FILE_RANGE_WRITE);
+        written_ += done;
+    }
+
+private:
+    int fd_;
+    std::size_t written_ = 0;
+    std::string error_;
+};
+
+}  // namespace
+
 std::string write_file_atomically(const std::string& path, std::string_view content) {
-    return write_file_atomically(path, [&](const PieceSink& sink) { sink(content); });
+    return write_file_atomically(path, [&](ByteSink& sink) { sink.write(content); });
 }
 
 std::string write_file_atomically(const std::string& path,
-                                  const std::function<void(const PieceSink&)>& produce) {
+                                  const std::function<void(ByteSink&)>& produce) {
     namespace fs = std::filesystem;
     fs::path target(path);
     fs::path dir = target.parent_path().empty() ? fs::path(".") : target.parent_path();
@@ -39,33 +75,13 @@ std::string write_file_atomically(const std::string& path,
         umask(mask);
         fchmod(fd, 0666 & ~mask);
     }
-    // Pieces are gathered into 1 MiB blocks before each write().
-    std::string block;
-    block.reserve(1 << 20);
     std::string error;
-    auto flush = [&] {
-        std::size_t done = 0;
-        while (error.empty() && done < block.size()) {
-            ssize_t n = ::write(fd, block.data() + done, block.size() - done);
-            if (n < 0) {
-                if (errno == EINTR) continue;
-                error = std::strerror(errno);
-                break;
-            }
-            done += static_cast<std::size_t>(n);
-        }
-        block.clear();
-    };
-    produce([&](std::string_view piece) {
-        if (block.size() + piece.size() > block.capacity()) flush();
-        if (piece.size() >= block.capacity()) {
-            block.assign(piece);
-            flush();
-        } else {
-            block.append(piece);
-        }
-    });
-    flush();
+    {
+        FileSink sink(fd);
+        produce(sink);
+        sink.flush();
+        error = sink.error();
+    }
     if (error.empty() && ::fsync(fd) != 0) error = std::strerror(errno);
     if (::close(fd) != 0 && error.empty()) error = std::strerror(errno);
     if (error.empty() && std::rename(tmpl.c_str(), path.c_str()) != 0) error = std::strerror(errno);

@@ -72,11 +72,13 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         OutputPlan plan = plan_output(deck, std::move(result.edits), output, o.flatten);
         for (const auto& f : plan.files) {
             if (f.path.empty()) {
-                produce_output(deck, plan, f, [&](std::string_view piece) { out << piece; });
+                StreamSink sink(out);
+                produce_output(deck, plan, f, sink);
+                sink.flush();
                 out.flush();
                 continue;
             }
-            auto produce = [&](const PieceSink& sink) { produce_output(deck, plan, f, sink); };
+            auto produce = [&](ByteSink& sink) { produce_output(deck, plan, f, sink); };
             if (auto e = write_file_atomically(f.path, produce); !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;

@@ -27,9 +27,9 @@ std::string quoted_like(std::string_view original, const std::string& path) {
 }  // namespace
 
 void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
-                    const std::function<void(std::string_view)>& sink) {
+                    ByteSink& sink) {
     if (file.flattened) {
-        sink(file.content);
+        sink.write(file.content);
         return;
     }
     std::string_view text = deck.files[file.source_file].source->text();

@@ -5,6 +5,7 @@
 #include <string>
 #include <vector>
 
+#include "byte_sink.hpp"
 #include "deck.hpp"
 #include "scaler.hpp"
 
@@ -30,7 +31,7 @@ OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits, const std::
 
 // Hands the bytes of one planned file to `sink`, in pieces.
 void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
-                    const std::function<void(std::string_view)>& sink);
+                    ByteSink& sink);
 
 // The name of the copy of an included file: "<stem>-scaled<ext>".
 std::string scaled_copy_name(const std::string& original_path);

@@ -1,0 +1,81 @@
+// Where produced output goes: bytes gather in one block that is handed on when full, so a
+// writer that emits millions of small pieces pays one virtual call per block, not per piece.
+#pragma once
+
+#include <cstring>
+#include <memory>
+#include <ostream>
+#include <string>
+#include <string_view>
+
+namespace deckscale {
+
+class ByteSink {
+public:
+    explicit ByteSink(std::size_t block_bytes = 1 << 20)
+        : block_(new char[block_bytes]), pos_(block_.get()), end_(block_.get() + block_bytes) {}
+    virtual ~ByteSink() = default;
+    ByteSink(const ByteSink&) = delete;
+    ByteSink& operator=(const ByteSink&) = delete;
+
+    void write(std::string_view s) {
+        if (s.size() <= static_cast<std::size_t>(end_ - pos_)) {
+            std::memcpy(pos_, s.data(), s.size());
+            pos_ += s.size();
+        } else {
+            spill(s);
+        }
+    }
+    // Hands on what has gathered; call once at the end.
+    void flush() {
+        if (pos_ != block_.get()) take(std::string_view(block_.get(), static_cast<std::size_t>(pos_ - block_.get())));
+        pos_ = block_.get();
+    }
+
+protected:
+    // Receives the bytes in order, a block at a time.
+    virtual void take(std::string_view bytes) = 0;
+
+private:
+    void spill(std::string_view s) {
+        flush();
+        if (s.size() >= static_cast<std::size_t>(end_ - pos_)) {
+            take(s);  // larger than a block: straight through
+        } else {
+            std::memcpy(pos_, s.data(), s.size());
+            pos_ += s.size();
+        }
+    }
+
+    std::unique_ptr<char[]> block_;
+    char* pos_;
+    char* end_;
+};
+
+// Gathers everything in a string.
+class StringSink : public ByteSink {
+public:
+    explicit StringSink(std::string& out) : ByteSink(1 << 16), out_(out) {}
+
+protected:
+    void take(std::string_view bytes) override { out_.append(bytes); }
+
+private:
+    std::string& out_;
+};
+
+// Writes to a stream.
+class StreamSink : public ByteSink {
+public:
+    explicit StreamSink(std::ostream& out) : ByteSink(1 << 16), out_(out) {}
+
+protected:
+    void take(std::string_view bytes) override {
+        out_.write(bytes.data(), static_cast<std::streamsize>(bytes.size()));
+    }
+
+private:
+    std::ostream& out_;
+};
+
+}  // namespace deckscale
