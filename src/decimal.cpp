@@ -1,6 +1,8 @@
 #include "decimal.hpp"
 
+#include <bit>
 #include <charconv>
+#include <cstdint>
 #include <cmath>
 #include <cstdlib>
 
@@ -42,24 +44,24 @@ Decimal to_decimal(double value, int precision) {
     double a = std::fabs(value);
     if (precision > 12 || !std::isfinite(a) || a < 1e-280 || a > 1e280) return via_to_chars(value, precision);
     d.negative = value < 0;
-    // floor(log10(a)) or one less, from the binary exponent: a in [2^(e2-1), 2^e2).
-    int e2 = 0;
-    std::frexp(a, &e2);
-    int e = static_cast<int>(std::floor((e2 - 1) * 0.30102999566398120));
+    // floor(log10(a)) or one less, from the binary exponent (a is normal here, a in
+    // [2^k, 2^(k+1))): k * 78913 / 2^18 is k * log10(2) to within 1e-6 per unit of k.
+    int k = static_cast<int>((std::bit_cast<std::uint64_t>(a) >> 52) & 0x7ff) - 1023;
+    int e = (k * 78913) >> 18;  // an arithmetic shift: rounds towards minus infinity
     long long low = static_cast<long long>(kPow10[precision - 1]);
     long long high = static_cast<long long>(kPow10[precision]);
-    long long n = std::llround(scale_by_pow10(a, precision - 1 - e));
-    if (n >= high) {  // log10 rounded up to the next decade, or the rounding carried over
-        ++e;
-        n = std::llround(scale_by_pow10(a, precision - 1 - e));
-    } else if (n < low) {
-        --e;
-        n = std::llround(scale_by_pow10(a, precision - 1 - e));
-    }
-    if (n >= high) {  // 9.999... rounded up: one digit more, one decade up
-        n /= 10;
-        ++e;
-    }
+    // Rounded half away from zero, as llround does: a scaled value here is below 2^53, so
+    // x - trunc(x) is exact.
+    auto digits_at = [&](int exponent) {
+        double x = scale_by_pow10(a, precision - 1 - exponent);
+        auto r = static_cast<long long>(x);
+        return x - static_cast<double>(r) >= 0.5 ? r + 1 : r;
+    };
+    long long n = digits_at(e);
+    // The estimate may be a decade low (or two, in principle), and 9.99.. may round up to
+    // the next decade: step until n has exactly `precision` digits.
+    while (n >= high) n = digits_at(++e);
+    while (n < low) n = digits_at(--e);
     // No trailing zeros (u >= low > 0 here): scaled values are mostly short, such as 5e4.
     auto u = static_cast<unsigned long long>(n);
     while (u % 10000 == 0) u /= 10000;

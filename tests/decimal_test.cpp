@@ -73,5 +73,30 @@ TEST(Decimal, AgreesWithExactConversion) {
     EXPECT_LE(mismatches, total / 1000) << mismatches << " of " << total;
 }
 
+// The decade of a value comes from its binary exponent: check it over the whole range the
+// fast path takes, and at decade boundaries where rounding carries into the next decade.
+TEST(Decimal, DecadeIsRightOverTheWholeRange) {
+    std::mt19937_64 rng(99);
+    std::uniform_real_distribution<double> mant(1.0, 10.0);
+    std::uniform_int_distribution<int> expo(-279, 279);
+    for (int i = 0; i < 20000; ++i) {
+        double v = mant(rng) * std::pow(10.0, expo(rng));
+        int p = 1 + static_cast<int>(rng() % 12);
+        Decimal d = to_decimal(v, p);
+        double back = std::stod(d.digits.substr(0, 1) + "." + d.digits.substr(1) + "e" +
+                                std::to_string(d.exponent));
+        EXPECT_LE(std::fabs(back - v), std::fabs(v) * 1.01 * std::pow(10.0, 1 - p)) << v << " p=" << p;
+        EXPECT_NE(d.digits.front(), '0') << v;
+    }
+    for (int x = -270; x <= 270; x += 7) {
+        double decade = std::stod("1e" + std::to_string(x));  // the double nearest 10^x
+        EXPECT_EQ(to_decimal(decade, 9).exponent, x);
+        EXPECT_EQ(to_decimal(decade, 9).digits, "1");
+        Decimal up = to_decimal(decade * 0.99999999999, 6);  // rounds up to the decade
+        EXPECT_EQ(up.digits, "1") << x;
+        EXPECT_EQ(up.exponent, x) << x;
+    }
+}
+
 }  // namespace
 }  // namespace deckscale
