@@ -16,31 +16,44 @@ struct Stopped {
     std::uint32_t at;
 };
 
+// Tokens of the card being read, in a buffer reused from card to card (it only grows).
+struct TokenBuffer {
+    std::vector<Token> slots = std::vector<Token>(64);
+    std::size_t count = 0;
+
+    void add(const Token& t) {
+        if (count == slots.size()) slots.resize(slots.size() * 2);
+        slots[count++] = t;
+    }
+    std::span<const Token> view() const { return {slots.data(), count}; }
+};
+
 struct ReaderState {
     const SourceFile* file;
     const CardVisitor* visit;
     const char* base;
     std::uint32_t stop_at = UINT32_MAX;
-    std::vector<Token> tokens;
-    std::vector<Token> fields;
+    TokenBuffer tokens;
+    TokenBuffer fields;
 
     void push(TokenKind kind, const char* b, const char* e) {
         if (b == e) return;  // an empty title line holds no bytes, so no token
         Token t{kind, static_cast<std::uint32_t>(b - base), static_cast<std::uint32_t>(e - base)};
-        tokens.push_back(t);
-        if (is_field(kind)) fields.push_back(t);
+        tokens.add(t);
+        if (is_field(kind)) fields.add(t);
     }
     void emit(CardKind kind) {
-        if (tokens.empty()) return;
-        if (tokens.front().begin >= stop_at) throw Stopped{tokens.front().begin};
-        Card c{kind, file, tokens, fields};
+        if (tokens.count == 0) return;
+        std::uint32_t first = tokens.slots[0].begin;
+        if (first >= stop_at) throw Stopped{first};
+        Card c{kind, file, tokens.view(), fields.view()};
         try {
             (*visit)(c);
         } catch (const StopReading&) {
-            throw Stopped{tokens.front().begin};
+            throw Stopped{first};
         }
-        tokens.clear();
-        fields.clear();
+        tokens.count = 0;
+        fields.count = 0;
     }
 };
 
@@ -92,7 +105,7 @@ template <>
 struct action<g::card> {
     template <typename Input>
     static void apply(const Input&, ReaderState& st) {
-        bool dot = !st.fields.empty() && st.base[st.fields.front().begin] == '.';
+        bool dot = st.fields.count > 0 && st.base[st.fields.slots[0].begin] == '.';
         st.emit(dot ? CardKind::dot : CardKind::element);
     }
 };
