@@ -89,13 +89,15 @@ struct line_run {
 // in one step; every other line goes to the general rules. Tests read decks both ways and
 // compare every token (see reference_deck_file).
 // Byte classes of the fast path: printable ASCII except separators, quotes, braces and
-// comment or continuation marks is a word byte; ' ' and '\t' are blanks.
+// comment or continuation marks is a word byte; ' ' and '\t' are blanks. A '/' is a word
+// byte too (hierarchical names such as x1/x2/n5) unless another '/' follows it.
 struct SimpleBytes {
-    enum : unsigned char { word = 1, blank = 2, letter = 4 };
+    enum : unsigned char { word = 1, blank = 2, letter = 4, slash = 8 };
     unsigned char of[256] = {};
     constexpr SimpleBytes() {
         for (int c = '!'; c < 0x7f; ++c) of[c] = word;
-        for (unsigned char c : {';', '$', '\\', '{', '}', '\'', '"', '=', '(', ')', ',', '/'}) of[c] = 0;
+        for (unsigned char c : {';', '$', '\\', '{', '}', '\'', '"', '=', '(', ')', ','}) of[c] = 0;
+        of[static_cast<unsigned char>('/')] = word | slash;
         for (int c = 'a'; c <= 'z'; ++c) of[c] |= letter;
         for (int c = 'A'; c <= 'Z'; ++c) of[c] |= letter;
         of[static_cast<unsigned char>(' ')] = of[static_cast<unsigned char>('\t')] = blank;
@@ -114,7 +116,10 @@ struct simple_line {
         const char* e = in.end();
         if (s == e || !b.is(*s, SimpleBytes::letter)) return false;
         const char* p = s;
-        while (p < e && b.is(*p, SimpleBytes::word | SimpleBytes::blank)) ++p;
+        while (p < e && b.is(*p, SimpleBytes::word | SimpleBytes::blank)) {
+            if (b.is(*p, SimpleBytes::slash) && p + 1 < e && p[1] == '/') return false;  // a comment
+            ++p;
+        }
         if (p < e && *p == '\r' && p + 1 < e && p[1] == '\n') ++p;
         if (p + 1 >= e || *p != '\n' || !(b.is(p[1], SimpleBytes::letter) || p[1] == '.'))
             return false;

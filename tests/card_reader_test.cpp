@@ -217,7 +217,7 @@ std::string token_dump(const SourceFile& f, bool fast) {
 // (separators, quotes, braces, comment and continuation marks, CR, tabs, non-ASCII).
 TEST(CardReader, FastPathGivesTheTokensOfTheGeneralRules) {
     std::mt19937 rng(42);  // fixed: the run is repeatable
-    const std::string plain = "RCLVrclv0123456789nkKuUmM.-_ab";
+    const std::string plain = "RCLVrclv0123456789nkKuUmM.-_ab/:";
     const std::string special = " \t\r\n;$\\{}'\"=(),/+*.\f\v\xc2\xb5";
     int fast_lines = 0;
     for (int it = 0; it < 4000; ++it) {
