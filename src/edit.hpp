@@ -7,6 +7,7 @@
 #include <string_view>
 #include <vector>
 
+#include "big_buffer.hpp"
 #include "byte_sink.hpp"
 
 namespace deckscale {
@@ -61,8 +62,8 @@ private:
         std::uint32_t offset, length, text_begin, text_size;
     };
     struct Segment {
-        std::vector<Slot> slots;  // sorted by offset; all before the next segment's
-        std::string texts;
+        std::vector<Slot, BigAllocator<Slot>> slots;  // sorted by offset; before the next segment's
+        std::basic_string<char, std::char_traits<char>, BigAllocator<char>> texts;
         std::size_t lower_bound(std::uint32_t offset) const;
         EditView view(std::size_t i) const {
             const Slot& s = slots[i];

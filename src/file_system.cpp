@@ -1,5 +1,7 @@
 #include "file_system.hpp"
 
+#include "big_buffer.hpp"
+
 #include <cerrno>
 #include <filesystem>
 
@@ -26,6 +28,25 @@ std::optional<FileText> DiskFileSystem::read(const std::string& path) const {
         return std::nullopt;
     }
     std::size_t size = static_cast<std::size_t>(st.st_size);
+    if (S_ISREG(st.st_mode) && size >= kBigBufferBytes) {
+        // A large deck: read into huge pages (see big_buffer.hpp), much cheaper to touch
+        // than the 4 KiB pages of a file mapping.
+        if (void* buf = allocate_big(size)) {
+            std::shared_ptr<const void> owner(buf, [size](const void* q) {
+                release_big(const_cast<void*>(q), size);
+            });
+            std::size_t done = 0;
+            while (done < size) {
+                ssize_t n = ::read(fd, static_cast<char*>(buf) + done, size - done);
+                if (n < 0 && errno == EINTR) continue;
+                if (n <= 0) break;
+                done += static_cast<std::size_t>(n);
+            }
+            ::close(fd);
+            if (done != size) return std::nullopt;  // changed or unreadable while read
+            return FileText{owner, std::string_view(static_cast<const char*>(buf), size)};
+        }
+    }
     if (S_ISREG(st.st_mode) && size > 0) {
         // Every byte is read at least once: map all pages now, in one call, rather than
         // one page fault at a time (page faults are expensive on virtual machines).
