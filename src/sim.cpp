@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 #include <poll.h>
 #include <signal.h>
+#include <sys/syscall.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -16,6 +17,7 @@
 #include <thread>
 
 #include "sim_child.hpp"
+#include "sim_end.hpp"
 #include "sim_template.hpp"
 #include "sim_wire.hpp"
 
@@ -27,12 +29,26 @@ using Clock = std::chrono::steady_clock;
 struct Running {
     std::size_t index = 0;  // position in the job list
     pid_t pid = -1;
-    int fd = -1;        // read end; -1 once the child closed its end
+    int fd = -1;     // read end; -1 once the child closed its end
+    int pidfd = -1;  // readable once the child has exited; -1 if the kernel offers none
     wire::StreamDecoder stream;  // decodes what has been read so far
     Clock::time_point deadline;
+    bool judged = false;  // its outcome is known; only its exit is awaited
 };
 
-std::string named(const SimJob& job) { return job.label.empty() ? "the deck" : job.label; }
+// A descriptor that becomes readable when the child exits (Linux 5.3), or -1.
+int exit_descriptor(pid_t pid) {
+#ifdef SYS_pidfd_open
+    return static_cast<int>(::syscall(SYS_pidfd_open, pid, 0));
+#else
+    return -1;
+#endif
+}
+
+void close_fd(int& fd) {
+    if (fd >= 0) ::close(fd);
+    fd = -1;
+}
 
 // Cards ngspice would silently mangle are refused before any process is started.
 std::optional<std::string> invalid_cards(const SimJob& job) {
@@ -85,6 +101,7 @@ std::optional<SimOutcome> start(const SimJob& job, std::size_t index, SimTemplat
     r.index = index;
     r.pid = pid;
     r.fd = fds[0];
+    r.pidfd = exit_descriptor(pid);
     return std::nullopt;
 }
 
@@ -115,38 +132,6 @@ bool reap(pid_t pid, int& status, bool no_hang) {
         status = 0;  // ECHILD: someone else reaped it (SIGCHLD ignored); judge by the stream
         return true;
     }
-}
-
-std::string last_words(const SimOutcome& out) {
-    if (out.log.empty()) return "";
-    std::string_view last = out.log.back();
-    last.remove_prefix(std::min(last.size(), last.find_first_not_of(' ')));
-    return fmt::format("; its last line was: {}", last);
-}
-
-SimOutcome judge(const SimJob& job, Running& r, int wait_status, bool timed_out) {
-    wire::StreamState state = r.stream.state();
-    SimOutcome out = std::move(r.stream.outcome());
-    if (timed_out) {
-        out.status = SimStatus::timed_out;
-        out.plots.clear();
-        out.message = fmt::format("{} did not finish within {} ms and was stopped{}", named(job),
-                                  job.timeout.count(), last_words(out));
-    } else if (WIFSIGNALED(wait_status)) {
-        int sig = WTERMSIG(wait_status);
-        out.status = SimStatus::crashed;
-        out.plots.clear();
-        out.message = fmt::format("the simulator process for {} died from signal {} ({}){}",
-                                  named(job), sig, ::strsignal(sig), last_words(out));
-    } else if (state != wire::StreamState::complete) {
-        out.status = SimStatus::crashed;
-        out.plots.clear();
-        int code = WIFEXITED(wait_status) ? WEXITSTATUS(wait_status) : -1;
-        out.message = fmt::format(
-            "the simulator process for {} exited (code {}) with {} result data{}", named(job), code,
-            state == wire::StreamState::garbled ? "garbled" : "incomplete", last_words(out));
-    }
-    return out;
 }
 
 }  // namespace
@@ -203,8 +188,12 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
     }
     std::vector<Running> running;
     std::size_t next = 0;
+    auto busy = [&] {
+        return static_cast<std::size_t>(
+            std::count_if(running.begin(), running.end(), [](const Running& r) { return !r.judged; }));
+    };
     while (next < jobs.size() || !running.empty()) {
-        while (running.size() < parallel && next < jobs.size()) {
+        while (busy() < parallel && next < jobs.size()) {
             Running r;
             if (auto direct = start(jobs[next], next, from.running() ? &from : nullptr, r)) {
                 outcomes[next] = std::move(*direct);
@@ -215,14 +204,16 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
         }
         if (running.empty()) continue;
 
-        // Wait for data, for the nearest deadline, or briefly for a child that closed its
-        // pipe but has not exited yet.
+        // Wait for data, for an exit, for the nearest deadline, or (without exit descriptors)
+        // briefly for a child that closed its pipe but has not exited yet.
         std::vector<pollfd> fds;
         Clock::time_point wake = Clock::time_point::max();
         for (const Running& r : running) {
             if (r.fd >= 0) fds.push_back({r.fd, POLLIN, 0});
-            wake = std::min(wake,
-                            r.fd >= 0 ? r.deadline : Clock::now() + std::chrono::milliseconds(2));
+            if (r.pidfd >= 0) fds.push_back({r.pidfd, POLLIN, 0});
+            wake = std::min(wake, r.fd >= 0 || r.pidfd >= 0
+                                      ? r.deadline
+                                      : Clock::now() + std::chrono::milliseconds(2));
         }
         auto wait = std::chrono::ceil<std::chrono::milliseconds>(wake - Clock::now());
         int timeout_ms = static_cast<int>(std::clamp<long long>(wait.count(), 0, 1000));
@@ -232,9 +223,17 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
         for (Running& r : running)
             if (r.fd >= 0) drain(r);
 
-        // Finish every child that exited or ran out of time.
         for (auto it = running.begin(); it != running.end();) {
             Running& r = *it;
+            const SimJob& job = jobs[r.index];
+            // A complete stream is the verdict: judged now, the exit is awaited below.
+            if (!r.judged && r.stream.state() == wire::StreamState::complete) {
+                close_fd(r.fd);
+                outcomes[r.index] = judge_child(job.label, job.timeout, r.stream.state(),
+                                                std::move(r.stream.outcome()),
+                                                {ChildEnd::Kind::result_received, 0});
+                r.judged = true;
+            }
             int status = 0;
             bool done = reap(r.pid, status, true);
             bool late = false;
@@ -244,16 +243,20 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
                 reap(r.pid, status, false);
                 done = late = true;
             }
-            if (done && r.fd >= 0) {  // the child is gone: what it wrote is in the pipe
-                drain(r);
-                if (r.fd >= 0) ::close(r.fd);  // still open: held by a process it started
-                r.fd = -1;
-            }
             if (!done) {
                 ++it;
                 continue;
             }
-            outcomes[r.index] = judge(jobs[r.index], r, status, late);
+            if (r.fd >= 0) {  // the child is gone: what it wrote is in the pipe
+                drain(r);
+                close_fd(r.fd);  // still open: held by a process it started
+            }
+            close_fd(r.pidfd);
+            if (!r.judged) {
+                ChildEnd end{late ? ChildEnd::Kind::timed_out : ChildEnd::Kind::exited, status};
+                outcomes[r.index] = judge_child(job.label, job.timeout, r.stream.state(),
+                                                std::move(r.stream.outcome()), end);
+            }
             it = running.erase(it);
         }
     }
