@@ -8,12 +8,15 @@
 #include <string>
 #include <string_view>
 
+#include "big_buffer.hpp"
+
 namespace deckscale {
 
 class ByteSink {
 public:
-    explicit ByteSink(std::size_t block_bytes = 1 << 20)
-        : block_(new char[block_bytes]), pos_(block_.get()), end_(block_.get() + block_bytes) {}
+    // Blocks of 2 MiB and more come from huge pages where available (see big_buffer.hpp).
+    explicit ByteSink(std::size_t block_bytes = std::size_t{2} << 20)
+        : block_(new_block(block_bytes)), pos_(block_.get()), end_(block_.get() + block_bytes) {}
     virtual ~ByteSink() = default;
     ByteSink(const ByteSink&) = delete;
     ByteSink& operator=(const ByteSink&) = delete;
@@ -47,7 +50,27 @@ private:
         }
     }
 
-    std::unique_ptr<char[]> block_;
+    struct Release {
+        std::size_t bytes;
+        void operator()(char* p) const {
+            if (bytes >= (std::size_t{2} << 20) && huge_pages_available())
+                release_big(p, bytes);
+            else
+                delete[] p;
+        }
+    };
+    static std::unique_ptr<char[], Release> new_block(std::size_t bytes) {
+        char* p = nullptr;
+        if (bytes >= (std::size_t{2} << 20) && huge_pages_available()) {
+            p = static_cast<char*>(allocate_big(bytes));
+            if (!p) throw std::bad_alloc();
+        } else {
+            p = new char[bytes];
+        }
+        return std::unique_ptr<char[], Release>(p, Release{bytes});
+    }
+
+    std::unique_ptr<char[], Release> block_;
     char* pos_;
     char* end_;
 };
