@@ -80,9 +80,9 @@ std::string general_text(const Decimal& d, int precision) {
     return out;
 }
 
-void append_general_text(std::string& out, const Decimal& d, int precision) {
+void append_general_text(std::string& out, const Decimal& d, int precision, int shift) {
     if (d.negative) out += '-';
-    int x = d.digits == "0" ? 0 : d.exponent;
+    int x = d.digits == "0" ? 0 : d.exponent - shift;
     if (x < -4 || x >= precision) {
         out += d.digits[0];
         if (d.digits.size() > 1) {

@@ -20,7 +20,8 @@ Decimal to_decimal(double value, int precision);
 // Like printf("%.*g"): fixed notation unless the exponent is < -4 or >= precision; trailing
 // zeros removed; an exponent is written with its sign and at least two digits ("1.5e-07").
 std::string general_text(const Decimal& d, int precision);
-void append_general_text(std::string& out, const Decimal& d, int precision);  // the same, appended
+// The same, appended to `out`, for the value divided by 10^shift (a mantissa before a suffix).
+void append_general_text(std::string& out, const Decimal& d, int precision, int shift = 0);
 
 // Scientific notation with a bare exponent ("1.5e-7", "2E4"): `letter` is 'e' or 'E'.
 std::string scientific_text(const Decimal& d, char letter);

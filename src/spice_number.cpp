@@ -276,11 +276,7 @@ std::string respell(const SpiceNumber& original, double value, int digits) {
         const char* suffix = "t";
         for (const auto& [sx, ex] : eng)
             if (ex == exp3) suffix = sx;
-        auto mantissa = [&](int shift) {
-            Decimal m = d;
-            m.exponent -= shift;
-            append_general_text(out, m, digits);
-        };
+        auto mantissa = [&](int shift) { append_general_text(out, d, digits, shift); };
         if (std::string_view(suffix).empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
             // when the tail cannot be misread as a suffix.
