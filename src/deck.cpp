@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <atomic>
 #include <map>
+#include <system_error>
 #include <thread>
 
 #include <fmt/format.h>
@@ -167,13 +168,17 @@ private:
             std::atomic<bool>& flag;
             ~CancelOnExit() { flag = true; }
         } cancel_on_exit{cancel};
-        for (auto& p : pieces)
-            threads.emplace_back([&file, &p, index, role, &cancel] {
-                read_piece(p, file, index, role, cancel);
-            });
+        try {
+            for (auto& p : pieces)
+                threads.emplace_back([&file, &p, index, role, &cancel] {
+                    read_piece(p, file, index, role, cancel);
+                });
+        } catch (const std::system_error&) {
+            // No more threads to be had: the pieces left are read here, in order.
+        }
         std::uint32_t pos = read_cards(file, role, visit, ReadSpan{0, starts[0]});
         for (std::size_t k = 0; k < pieces.size(); ++k) {
-            threads[k].join();
+            if (k < threads.size()) threads[k].join();
             Piece& p = pieces[k];
             if (pos == p.from && p.usable && pieces_.join(*p.observer, deck_.symbols)) {
                 add_symbols(deck_.symbols, std::move(p.local.symbols));
