@@ -48,6 +48,10 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     scale->add_flag("--flatten", s.flatten, "Write one self-contained deck with every include inlined");
     scale->add_flag("--verify", s.verify,
                     "Then simulate both decks and check that they are equivalent (needs -o)");
+    scale->add_option("--threads", s.threads,
+                      "Read decks of 8 MB and more on at most this many threads (default: one per "
+                      "core; the result is the same)")
+        ->check(CLI::Range(1u, 1024u));
 
     auto* verify = app.add_subcommand("verify", "Prove a rescaled deck equivalent to its original by simulation");
     VerifyOptions& v = inv.verify;

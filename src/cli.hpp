@@ -19,6 +19,7 @@ struct ScaleOptions {
     bool leave_unscalable = false; // --leave-unscalable
     bool flatten = false;          // --flatten
     bool verify = false;           // --verify (scale, then verify the pair)
+    unsigned threads = 0;          // --threads N: large decks read on at most N threads (0: cores)
 };
 
 struct VerifyOptions {

@@ -52,6 +52,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
     settings.factors = {o.km, o.kf};
     settings.digits = o.digits;
     settings.mark_unscalable = o.leave_unscalable;
+    settings.threads = o.threads;
     settings.record_changes = o.list_changes || !o.changes_json.empty();
     try {
         ScaledDeck scaled = load_and_scale(o.deck, disk, settings);

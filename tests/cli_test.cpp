@@ -73,9 +73,12 @@ TEST(Cli, ScaleOptionsAreKept) {
     EXPECT_EQ(inv.scale.output, "out.cir");
     EXPECT_EQ(inv.scale.km_text, "1k");
     EXPECT_FALSE(inv.scale.in_place);
-    inv = parse_command_line({"scale", "-i", "d.cir"});
+    EXPECT_EQ(inv.scale.threads, 0u);  // one per core
+    inv = parse_command_line({"scale", "-i", "d.cir", "--threads", "1"});
     ASSERT_EQ(inv.what, W::scale);
     EXPECT_TRUE(inv.scale.in_place);
+    EXPECT_EQ(inv.scale.threads, 1u);
+    EXPECT_EQ(parse_command_line({"scale", "d.cir", "--threads", "0"}).what, W::usage_error);
 }
 
 // ---- the binary: scale by 1 -------------------------------------------------------------
