@@ -105,13 +105,17 @@ std::optional<SimOutcome> start(const SimJob& job, std::size_t index, SimTemplat
     return std::nullopt;
 }
 
-// Reads what is available; closes the descriptor at end of stream.
+// Reads what is available; closes the descriptor at end of stream. A vector's values are
+// read straight into the vector, everything else through a small buffer.
 void drain(Running& r) {
-    char buffer[65536];
+    char buffer[4096];
     for (;;) {
-        ssize_t n = ::read(r.fd, buffer, sizeof buffer);
+        std::span<char> room = r.stream.value_room();
+        ssize_t n = room.empty() ? ::read(r.fd, buffer, sizeof buffer)
+                                 : ::read(r.fd, room.data(), room.size());
+        if (!room.empty()) r.stream.fill_room(n > 0 ? static_cast<std::size_t>(n) : 0);
         if (n > 0) {
-            r.stream.feed(std::string_view(buffer, static_cast<std::size_t>(n)));
+            if (room.empty()) r.stream.feed(std::string_view(buffer, static_cast<std::size_t>(n)));
             continue;
         }
         if (n < 0 && errno == EINTR) continue;

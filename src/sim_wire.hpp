@@ -13,6 +13,7 @@
 #pragma once
 
 #include <cstdint>
+#include <span>
 #include <string>
 #include <string_view>
 
@@ -43,6 +44,13 @@ enum class StreamState {
 class StreamDecoder {
   public:
     void feed(std::string_view bytes);
+    // Reading straight into the vectors: while the stream is inside a vector's values,
+    // value_room() is the storage for the bytes of the values still expected (empty
+    // otherwise: then feed() the next bytes). The caller writes the next bytes of the stream
+    // to its start and calls fill_room() with their number (which may be 0) before any other
+    // call; the room beyond them is given up.
+    std::span<char> value_room();
+    void fill_room(std::size_t filled);
     StreamState state() const { return state_; }
     SimOutcome& outcome() { return out_; }
 
@@ -62,6 +70,8 @@ class StreamDecoder {
     std::size_t left_ = 0;            // payload bytes of the current frame not read yet
     std::uint32_t vectors_left_ = 0;  // vectors the open plot still expects
     std::uint32_t values_left_ = 0;   // values the current vector still expects
+    std::size_t room_from_ = 0;       // the first value of the room handed out
+    std::size_t room_skip_ = 0;       // bytes of it that were already read (a split value)
 };
 
 // Decodes the whole of `bytes` (StreamDecoder in one piece) into `out` and says how the

@@ -3,6 +3,9 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
+#include <cstring>
+#include <span>
 #include <string>
 #include <string_view>
 
@@ -92,6 +95,69 @@ TEST(SimWire, PiecesOfAnySizeDecodeLikeTheWhole) {
                     << "pieces of " << piece << ", plot " << p << ", vector " << v;
         }
     }
+}
+
+// What the parent does (sim.cpp, drain): values straight into the vectors whenever the
+// decoder offers room, everything else fed through a buffer, in reads of at most `piece` bytes.
+TEST(SimWire, ReadingIntoTheVectorsDecodesLikeFeeding) {
+    SimOutcome sample = sample_outcome();
+    sample.plots[0].vectors[1].values.assign(700, {0.25, -3e9});  // longer than one read
+    std::string bytes = encode(sample);
+    for (std::size_t piece : {1, 5, 16, 17, 100, 4096, 100000}) {
+        wire::StreamDecoder decoder;
+        std::size_t direct = 0;
+        for (std::size_t at = 0; at < bytes.size();) {
+            std::size_t n = std::min(piece, bytes.size() - at);
+            std::span<char> room = decoder.value_room();
+            if (room.empty()) {
+                decoder.feed(std::string_view(bytes).substr(at, n));
+            } else {
+                n = std::min(n, room.size());
+                std::memcpy(room.data(), bytes.data() + at, n);
+                decoder.fill_room(n);
+                direct += n;
+            }
+            at += n;
+        }
+        ASSERT_EQ(decoder.state(), wire::StreamState::complete) << "reads of " << piece;
+        // Once a read ends inside the long vector, the rest of it is read in place.
+        if (piece < 4096) EXPECT_GT(direct, 700u * 16 / 2) << "reads of " << piece;
+        const SimOutcome& got = decoder.outcome();
+        EXPECT_EQ(got.log, sample.log);
+        ASSERT_EQ(got.plots.size(), sample.plots.size());
+        for (std::size_t p = 0; p < got.plots.size(); ++p) {
+            ASSERT_EQ(got.plots[p].vectors.size(), sample.plots[p].vectors.size());
+            for (std::size_t v = 0; v < got.plots[p].vectors.size(); ++v)
+                EXPECT_EQ(got.plots[p].vectors[v].values, sample.plots[p].vectors[v].values)
+                    << "reads of " << piece << ", plot " << p << ", vector " << v;
+        }
+    }
+}
+
+TEST(SimWire, AnEmptyReadIntoTheRoomKeepsTheStream) {
+    std::string bytes = wire::plot_header_frame("ac1", "AC Analysis", 1) +
+                        wire::vector_frame_start("v(2)", VectorKind::voltage, 2);
+    wire::StreamDecoder decoder;
+    decoder.feed(bytes);
+    std::span<char> room = decoder.value_room();
+    ASSERT_EQ(room.size(), 32u);
+    decoder.fill_room(0);  // end of stream or EAGAIN
+    EXPECT_EQ(decoder.state(), wire::StreamState::truncated);
+    EXPECT_TRUE(decoder.outcome().plots[0].vectors[0].values.empty());
+    const double raw[] = {1.5, -2.0, 3e-12, 0.0};
+    room = decoder.value_room();
+    ASSERT_EQ(room.size(), 32u);
+    std::memcpy(room.data(), raw, 20);  // a value and a part of the next
+    decoder.fill_room(20);
+    room = decoder.value_room();  // for the rest of the split value
+    ASSERT_EQ(room.size(), 12u);
+    std::memcpy(room.data(), reinterpret_cast<const char*>(raw) + 20, 5);
+    decoder.fill_room(5);
+    decoder.feed(std::string_view(reinterpret_cast<const char*>(raw) + 25, 7));
+    decoder.feed(wire::result_frame(SimStatus::ok, ""));
+    ASSERT_EQ(decoder.state(), wire::StreamState::complete);
+    std::vector<std::complex<double>> want{{1.5, -2.0}, {3e-12, 0.0}};
+    EXPECT_EQ(decoder.outcome().plots[0].vectors[0].values, want);
 }
 
 TEST(SimWire, VectorFramesMustMatchTheirPlot) {
