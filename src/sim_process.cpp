@@ -44,18 +44,28 @@ bool write_new_file(const std::string& path, const std::string& text) {
     return ::close(fd) == 0 && ok;
 }
 
+// A fresh private directory (mkdtemp) in `base`, or "".
+std::string make_private_dir(const std::string& base) {
+    std::string dir = base + "/deckscale-sim-" + std::string(6, 'X');  // the mkdtemp template
+    return ::mkdtemp(dir.data()) ? dir : "";
+}
+
 }  // namespace
 
 // ngspice 39 executes ./.spiceinit when it is initialised, or else ~/.spiceinit with the
 // home directory taken from the password database, not from $HOME (seen with strace). A
 // user's file there can change how decks are read, so ngspice is initialised in a fresh
-// private directory holding an empty .spiceinit.
+// private directory holding an empty .spiceinit. It is made in memory (/dev/shm) where
+// possible: on the ext4 /tmp of the 2-core VM, making and removing it took 0.3-0.6 ms of
+// each child's start, on tmpfs 0.03 ms. Otherwise it goes to the temporary directory.
 std::string make_start_dir(const std::string& spinit) {
-    std::error_code ec;
-    std::filesystem::path base = std::filesystem::temp_directory_path(ec);
-    if (ec) base = "/tmp";
-    std::string dir = (base / ("deckscale-sim-" + std::string(6, 'X'))).string();  // for mkdtemp
-    if (!::mkdtemp(dir.data())) return "";
+    std::string dir = make_private_dir("/dev/shm");
+    if (dir.empty()) {
+        std::error_code ec;
+        std::filesystem::path base = std::filesystem::temp_directory_path(ec);
+        dir = make_private_dir(ec ? "/tmp" : base.string());
+    }
+    if (dir.empty()) return "";
     if (!write_new_file(dir + "/.spiceinit", "") ||
         (!spinit.empty() && !write_new_file(dir + "/spinit", spinit))) {
         remove_start_dir(dir);
