@@ -18,6 +18,7 @@
 
 #include "sim_child.hpp"
 #include "sim_end.hpp"
+#include "sim_head_start.hpp"
 #include "sim_template.hpp"
 #include "sim_wire.hpp"
 
@@ -68,39 +69,44 @@ SimOutcome failure(SimStatus status, std::string message) {
     return out;
 }
 
-// Starts one child, cloned from the template if one runs; returns the outcome directly when
-// no child could be started.
-std::optional<SimOutcome> start(const SimJob& job, std::size_t index, SimTemplate* from,
-                                Running& r) {
+// Starts one child: a head-started one if one waits, else cloned from the template if one
+// runs, else forked; returns the outcome directly when no child could be started.
+std::optional<SimOutcome> start(const SimJob& job, std::size_t index, SimHeadStart* head,
+                                SimTemplate* from, Running& r) {
     if (auto why = invalid_cards(job)) return failure(SimStatus::load_failed, *why);
-    int fds[2];
-    if (::pipe2(fds, O_CLOEXEC) != 0) {
-        return failure(SimStatus::crashed,
-                       fmt::format("cannot create a pipe: {}", std::strerror(errno)));
-    }
     // Clamped so that the deadline arithmetic cannot overflow.
     auto timeout = std::clamp<std::chrono::milliseconds>(job.timeout, std::chrono::milliseconds(0),
                                                          std::chrono::hours(24 * 365));
     r.deadline = Clock::now() + timeout;
-    pid_t pid = from ? from->spawn(index, fds[1]) : -1;
-    if (pid < 0) pid = ::fork();  // the direct path: no template, or it failed
+    int read_fd = -1;
+    pid_t pid = head ? head->hand_over(job, read_fd) : -1;
     if (pid < 0) {
-        int err = errno;
-        ::close(fds[0]);
+        int fds[2];
+        if (::pipe2(fds, O_CLOEXEC) != 0) {
+            return failure(SimStatus::crashed,
+                           fmt::format("cannot create a pipe: {}", std::strerror(errno)));
+        }
+        pid = from ? from->spawn(index, fds[1]) : -1;
+        if (pid < 0) pid = ::fork();  // the direct path: no template, or it failed
+        if (pid < 0) {
+            int err = errno;
+            ::close(fds[0]);
+            ::close(fds[1]);
+            return failure(SimStatus::crashed, fmt::format("cannot start a simulator process: {}",
+                                                           std::strerror(err)));
+        }
+        if (pid == 0) {
+            ::close(fds[0]);
+            run_child(job, fds[1]);  // never returns
+        }
+        ::setpgid(pid, pid);  // also done by the child; whoever is first wins the race
         ::close(fds[1]);
-        return failure(SimStatus::crashed,
-                       fmt::format("cannot start a simulator process: {}", std::strerror(err)));
+        ::fcntl(fds[0], F_SETFL, O_NONBLOCK);
+        read_fd = fds[0];
     }
-    if (pid == 0) {
-        ::close(fds[0]);
-        run_child(job, fds[1]);  // never returns
-    }
-    ::setpgid(pid, pid);  // also done by the child; whoever is first wins the race
-    ::close(fds[1]);
-    ::fcntl(fds[0], F_SETFL, O_NONBLOCK);
     r.index = index;
     r.pid = pid;
-    r.fd = fds[0];
+    r.fd = read_fd;
     r.pidfd = exit_descriptor(pid);
     return std::nullopt;
 }
@@ -175,7 +181,7 @@ namespace {
 
 // Runs the jobs, cloned from a template process (see sim_template.hpp) if `how` says so.
 std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned parallel,
-                                 SimProcesses how) {
+                                 SimProcesses how, SimHeadStart* head) {
     if (parallel == 0) parallel = std::thread::hardware_concurrency();
     parallel = std::max(parallel, 1u);
     if (how == SimProcesses::automatic)
@@ -199,7 +205,8 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
     while (next < jobs.size() || !running.empty()) {
         while (busy() < parallel && next < jobs.size()) {
             Running r;
-            if (auto direct = start(jobs[next], next, from.running() ? &from : nullptr, r)) {
+            if (auto direct =
+                    start(jobs[next], next, head, from.running() ? &from : nullptr, r)) {
                 outcomes[next] = std::move(*direct);
             } else {
                 running.push_back(std::move(r));
@@ -270,12 +277,12 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
 }  // namespace
 
 SimOutcome simulate(const SimJob& job) {
-    return std::move(run_jobs({job}, 1, SimProcesses::direct).front());
+    return std::move(run_jobs({job}, 1, SimProcesses::direct, nullptr).front());
 }
 
 std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel,
-                                     SimProcesses how) {
-    return run_jobs(jobs, parallel, how);
+                                     SimProcesses how, SimHeadStart* head_start) {
+    return run_jobs(jobs, parallel, how, head_start);
 }
 
 }  // namespace deckscale

@@ -74,9 +74,12 @@ enum class SimProcesses {
     automatic,
 };
 
+class SimHeadStart;  // sim_head_start.hpp
+
 // Runs several jobs, at most `parallel` at a time (0 = number of cores); the outcomes are in
-// the order of the jobs.
+// the order of the jobs. Processes waiting in `head_start` take the first jobs.
 std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel = 0,
-                                     SimProcesses how = SimProcesses::automatic);
+                                     SimProcesses how = SimProcesses::automatic,
+                                     SimHeadStart* head_start = nullptr);
 
 }  // namespace deckscale

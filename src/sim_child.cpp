@@ -21,6 +21,7 @@
 #include <vector>
 
 #include "sim_code_models.hpp"
+#include "sim_job_wire.hpp"
 #include "sim_process.hpp"
 #include "sim_verdict.hpp"
 #include "sim_wire.hpp"
@@ -31,18 +32,9 @@ namespace {
 // ngspice's vector types (enum vector_types in ngspice's include/ngspice/sim.h; sharedspice.h
 // only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3, SV_CURRENT = 4.
 VectorKind kind_of(int v_type) {
-    switch (v_type) {
-        case 1:
-            return VectorKind::time;
-        case 2:
-            return VectorKind::frequency;
-        case 3:
-            return VectorKind::voltage;
-        case 4:
-            return VectorKind::current;
-        default:
-            return VectorKind::other;
-    }
+    constexpr VectorKind kinds[] = {VectorKind::other, VectorKind::time, VectorKind::frequency,
+                                    VectorKind::voltage, VectorKind::current};
+    return v_type > 0 && v_type < 5 ? kinds[v_type] : VectorKind::other;
 }
 constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
 
@@ -140,16 +132,6 @@ int on_init_data(pvecinfoall info, int, void* user) {
     return 0;
 }
 
-// Some line of lines[first, last) is a substitution warning or (with `errors`) an error line.
-bool any_problem(const std::vector<PrintedLine>& lines, std::size_t first, std::size_t last,
-                 bool errors) {
-    for (std::size_t i = first; i < last; ++i) {
-        if (is_substitution_warning(lines[i].text)) return true;
-        if (errors && is_error_line(lines[i].text)) return true;
-    }
-    return false;
-}
-
 template <typename T>
 bool resolve(void* lib, const char* name, T& out) {
     out = reinterpret_cast<T>(::dlsym(lib, name));
@@ -235,24 +217,12 @@ void send_plot(Child& child, const PlotView& plot) {
     }
 }
 
-// Loads libngspice and initialises it in a private start directory (see make_start_dir), then
-// returns to the directory it was called in. Without `code_models` ngspice reads an init
-// script that loads none. Returns why it failed, or nothing; a ControlledExit during
-// initialisation is left in child.exit_requested.
-std::optional<std::string> start_ngspice(Child& child, bool code_models) {
-    int call_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+// Loads libngspice, in the environment and locale the children run in, and finds its
+// functions. Returns why it failed, or nothing.
+std::optional<std::string> load_ngspice(Child& child) {
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
     std::setlocale(LC_ALL, "C");
-    std::string script = code_models ? "" : spinit_without_code_models();
-    std::string start_dir = make_start_dir(script);
-    // ngspice 39 reads spinit from the one directory SPICE_SCRIPTS names (the start directory,
-    // which also replaces the scripts directory on its source path; decks reach ngspice with
-    // their includes inlined).
-    if (!script.empty() && !start_dir.empty()) ::setenv("SPICE_SCRIPTS", start_dir.c_str(), 1);
-    if (call_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
-        _exit(exit_setup_failed);
-
     void* lib = ::dlopen(library_name, RTLD_NOW | RTLD_LOCAL);
     if (!lib) {
         const char* why = ::dlerror();
@@ -266,12 +236,30 @@ std::optional<std::string> start_ngspice(Child& child, bool code_models) {
         !resolve(lib, "ngSpice_AllVecs", api.all_vecs)) {
         return fmt::format("{} lacks a function this program needs", library_name);
     }
+    return std::nullopt;
+}
+
+// Initialises the loaded ngspice in a private start directory (see make_start_dir), then
+// returns to the directory it was called in. Without `code_models` ngspice reads an init
+// script that loads none. A ControlledExit during initialisation is left in
+// child.exit_requested.
+void init_ngspice(Child& child, bool code_models) {
+    int call_dir = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+    std::string script = code_models ? "" : spinit_without_code_models();
+    std::string start_dir = make_start_dir(script);
+    // ngspice 39 reads spinit from the one directory SPICE_SCRIPTS names (the start directory,
+    // which also replaces the scripts directory on its source path; decks reach ngspice with
+    // their includes inlined).
+    if (!script.empty() && !start_dir.empty()) ::setenv("SPICE_SCRIPTS", start_dir.c_str(), 1);
+    if (call_dir < 0 || ::chdir(start_dir.empty() ? "/" : start_dir.c_str()) != 0)
+        _exit(exit_setup_failed);
+    Api& api = child.api;
     api.init(on_char, nullptr, on_exit_request, nullptr, on_init_data, nullptr, &child);
     remove_start_dir(start_dir);
     if (::fchdir(call_dir) != 0) _exit(exit_setup_failed);
     ::close(call_dir);
-    return std::nullopt;
 }
+
 
 // Loads and runs the job's cards in an initialised ngspice whose current directory is the
 // deck's, and reports.
@@ -325,16 +313,18 @@ std::optional<std::string> start_ngspice(Child& child, bool code_models) {
     child.finish(run_failed ? SimStatus::run_failed : SimStatus::ok, why);
 }
 
-// The direct path: a fresh child loads and initialises ngspice itself.
-[[noreturn]] void run(Child& child, const SimJob& job) {
-    // The deck's directory is checked first; ngspice is initialised elsewhere (start_ngspice).
+// A fresh child (direct or head-started) initialises ngspice itself; `load_failed` says why
+// libngspice could not be loaded. The deck's directory is checked first; ngspice is
+// initialised elsewhere (init_ngspice).
+[[noreturn]] void run(Child& child, const SimJob& job,
+                      const std::optional<std::string>& load_failed) {
     if (!job.work_dir.empty() && ::chdir(job.work_dir.c_str()) != 0) {
         child.finish(SimStatus::load_failed, fmt::format("cannot enter directory {}: {}",
                                                          job.work_dir, std::strerror(errno)));
     }
-    std::optional<std::string> failed = start_ngspice(child, needs_code_models(job.cards));
+    if (load_failed) child.finish(SimStatus::load_failed, *load_failed);
+    init_ngspice(child, needs_code_models(job.cards));
     if (child.exit_requested) child.finish_exit_request();
-    if (failed) child.finish(SimStatus::load_failed, *failed);
     run_job(child, job);
 }
 
@@ -344,7 +334,24 @@ void run_child(const SimJob& job, int fd) noexcept {
     Child child;
     child.fd = take_over_process(fd);
     try {
-        run(child, job);
+        run(child, job, load_ngspice(child));
+    } catch (const std::exception& e) {
+        child.finish(SimStatus::crashed, fmt::format("simulator process failed: {}", e.what()));
+    } catch (...) {
+        _exit(exit_internal);
+    }
+}
+
+void run_early_child(int fd, int job_fd) noexcept {
+    Child child;
+    child.fd = take_over_process(fd, job_fd);
+    try {
+        std::optional<std::string> load_failed = load_ngspice(child);
+        std::optional<std::string> message = read_to_end(4);
+        std::optional<SimJob> job = message ? wire::read_job_message(*message) : std::nullopt;
+        if (!job) _exit(0);  // never given a job (the parent says why, if it needs to)
+        ::close(4);
+        run(child, *job, load_failed);
     } catch (const std::exception& e) {
         child.finish(SimStatus::crashed, fmt::format("simulator process failed: {}", e.what()));
     } catch (...) {
@@ -361,8 +368,9 @@ int prepare_template(int keep_fd, bool code_models) noexcept {
     try {
         int fd = take_over_process(keep_fd);
         the_template.fd = -1;  // no job yet: what ngspice prints is only recorded
-        std::optional<std::string> failed = start_ngspice(the_template, code_models);
-        if (failed || the_template.exit_requested) return -1;
+        if (load_ngspice(the_template)) return -1;
+        init_ngspice(the_template, code_models);
+        if (the_template.exit_requested) return -1;
         return fd;
     } catch (...) {
         return -1;

@@ -12,6 +12,12 @@ namespace deckscale {
 // the caller's frames.
 [[noreturn]] void run_child(const SimJob& job, int fd) noexcept;
 
+// The head-start path (driven by sim_head_start.cpp): a child forked before its job is known
+// takes over the process like run_child (keeping `job_fd` as fd 4), loads libngspice, then
+// reads one job message (sim_job_wire.hpp) from `job_fd` up to its end of stream and runs it
+// like run_child. Without a whole job message it ends quietly.
+[[noreturn]] void run_early_child(int fd, int job_fd) noexcept;
+
 // The template path (driven by sim_template.cpp). prepare_template makes a freshly forked
 // child a template: it takes over the process like run_child, keeping `keep_fd` as fd 3, and
 // loads and initialises libngspice without loading any circuit, with the code models if

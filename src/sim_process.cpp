@@ -11,14 +11,18 @@
 
 namespace deckscale {
 
-int take_over_process(int fd) {
-    int pipe_fd = ::fcntl(fd, F_DUPFD, 3);
+int take_over_process(int fd, int job_fd) {
+    // Out of the way of 0-4 first, so that neither lands on the other's place.
+    int pipe_fd = ::fcntl(fd, F_DUPFD, 5);
+    int keep_fd = job_fd >= 0 ? ::fcntl(job_fd, F_DUPFD, 5) : -1;
     int null_fd = ::open("/dev/null", O_RDWR);
-    if (pipe_fd < 0 || null_fd < 0) _exit(exit_setup_failed);
+    if (pipe_fd < 0 || null_fd < 0 || (job_fd >= 0 && keep_fd < 0)) _exit(exit_setup_failed);
     for (int std_fd = 0; std_fd <= 2; ++std_fd) ::dup2(null_fd, std_fd);
-    if (pipe_fd != 3 && ::dup2(pipe_fd, 3) < 0) _exit(exit_setup_failed);
-    if (::close_range(4, ~0U, 0) != 0) {
-        for (int i = 4; i < 4096; ++i) ::close(i);
+    if (::dup2(pipe_fd, 3) < 0) _exit(exit_setup_failed);
+    if (keep_fd >= 0 && ::dup2(keep_fd, 4) < 0) _exit(exit_setup_failed);
+    int first_closed = keep_fd >= 0 ? 5 : 4;
+    if (::close_range(first_closed, ~0U, 0) != 0) {
+        for (int i = first_closed; i < 4096; ++i) ::close(i);
     }
     for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE, SIGCHLD, SIGQUIT}) ::signal(sig, SIG_DFL);
     sigset_t none;
@@ -84,16 +88,19 @@ void remove_start_dir(const std::string& dir) {
 std::optional<std::string> read_small_file(const std::string& path) {
     int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
     if (fd < 0) return std::nullopt;
+    std::optional<std::string> text = read_to_end(fd);
+    ::close(fd);
+    return text;
+}
+
+std::optional<std::string> read_to_end(int fd) {
     std::string text;
     char buffer[4096];
     for (;;) {
         ssize_t n = ::read(fd, buffer, sizeof buffer);
         if (n < 0 && errno == EINTR) continue;
-        if (n <= 0) {
-            ::close(fd);
-            if (n < 0) return std::nullopt;
-            return text;
-        }
+        if (n < 0) return std::nullopt;
+        if (n == 0) return text;
         text.append(buffer, static_cast<std::size_t>(n));
     }
 }

@@ -12,10 +12,11 @@ constexpr int exit_pipe_broken = 120;
 constexpr int exit_setup_failed = 121;
 constexpr int exit_internal = 122;
 
-// Standard streams to /dev/null, the pipe `fd` on fd 3, every other inherited descriptor
-// closed (a sibling child's pipe must not stay open here), default signal handling, death
-// with the parent, and a process group of its own. Returns 3; ends the process if it cannot.
-int take_over_process(int fd);
+// Standard streams to /dev/null, the pipe `fd` on fd 3 (and `job_fd`, if there is one, on
+// fd 4), every other inherited descriptor closed (a sibling child's pipe must not stay open
+// here), default signal handling, death with the parent, and a process group of its own.
+// Returns 3; ends the process if it cannot.
+int take_over_process(int fd, int job_fd = -1);
 
 // A fresh private directory holding an empty .spiceinit and, unless `spinit` is empty, an
 // init script "spinit" with that text, for ngspice to be initialised in; "" if none could
@@ -25,5 +26,8 @@ void remove_start_dir(const std::string& dir);
 
 // The whole file at `path`, or nothing if it cannot be read.
 std::optional<std::string> read_small_file(const std::string& path);
+
+// Everything `fd` gives up to its end (blocking), or nothing on a read error.
+std::optional<std::string> read_to_end(int fd);
 
 }  // namespace deckscale

@@ -44,6 +44,15 @@ bool is_chatter(std::string_view line) {
            contains(line, "gmin");
 }
 
+bool any_problem(const std::vector<PrintedLine>& lines, std::size_t first, std::size_t last,
+                 bool errors) {
+    for (std::size_t i = first; i < last && i < lines.size(); ++i) {
+        if (is_substitution_warning(lines[i].text)) return true;
+        if (errors && is_error_line(lines[i].text)) return true;
+    }
+    return false;
+}
+
 std::string quote_problems(const std::vector<PrintedLine>& lines, std::size_t first,
                            std::size_t last) {
     constexpr std::size_t max_quoted = 12;

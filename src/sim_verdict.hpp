@@ -26,6 +26,10 @@ bool is_substitution_warning(std::string_view line);
 // never quoted.
 bool is_chatter(std::string_view line);
 
+// Some line of lines[first, last) is a substitution warning or (with `errors`) an error line.
+bool any_problem(const std::vector<PrintedLine>& lines, std::size_t first, std::size_t last,
+                 bool errors);
+
 // Lines worth quoting from lines[first, last): every error line and substitution warning and
 // every other line ngspice sent to stderr except chatter, without immediate repetitions, at
 // most a dozen; joined with '\n'. Empty if there are none.

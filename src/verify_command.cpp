@@ -1,6 +1,8 @@
 #include "verify_command.hpp"
 
+#include <algorithm>
 #include <filesystem>
+#include <thread>
 
 #include <fmt/format.h>
 
@@ -12,6 +14,7 @@
 #include "output_file.hpp"
 #include "sim.hpp"
 #include "sim_deck.hpp"
+#include "sim_head_start.hpp"
 #include "text_util.hpp"
 #include "verify_compare.hpp"
 #include "verify_report.hpp"
@@ -60,6 +63,9 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
             return exit_bad_input;
         }
     }
+    // Every run has at least one pair: two simulator processes load libngspice while the
+    // decks are read and prepared.
+    SimHeadStart head_start(std::min(2u, std::max(1u, std::thread::hardware_concurrency())));
     std::vector<PairJob> pairs;
     try {
         Deck original = load_deck(o.original, disk);
@@ -138,7 +144,8 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
         jobs.push_back(p.original);
         jobs.push_back(p.scaled);
     }
-    std::vector<SimOutcome> outcomes = simulate_all(jobs);
+    std::vector<SimOutcome> outcomes =
+        simulate_all(jobs, 0, SimProcesses::automatic, &head_start);
     bool failed = false;
     for (std::size_t i = 0; i < jobs.size(); ++i) {
         if (outcomes[i].status == SimStatus::ok) continue;

@@ -51,6 +51,12 @@ TEST(SimVerdict, QuotingKeepsStderrProblemsOnce) {
     EXPECT_EQ(quote_problems(lines, 0, lines.size()),
               "Warning: singular matrix:  check node v1#branch\nrun simulation(s) aborted");
     EXPECT_EQ(quote_problems(lines, 0, 1), "");
+    EXPECT_TRUE(any_problem(lines, 0, lines.size(), true));    // "aborted"
+    EXPECT_FALSE(any_problem(lines, 0, lines.size(), false));  // no substitution warning
+    EXPECT_FALSE(any_problem(lines, 0, 5, true));
+    lines.push_back(strip_channel("stderr Warning: r1: resistance to low, set to 1 mOhm"));
+    EXPECT_TRUE(any_problem(lines, 0, lines.size(), false));
+    EXPECT_TRUE(any_problem(lines, 0, 99, false));  // a range past the end stops at the end
     std::vector<PrintedLine> many(20, strip_channel("stderr Error: x"));
     for (std::size_t i = 0; i < many.size(); ++i) many[i].text += std::to_string(i);
     std::string quoted = quote_problems(many, 0, many.size());

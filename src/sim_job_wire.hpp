@@ -1,0 +1,20 @@
+// A job as the parent hands it to a simulator process that was started before the job was
+// known (sim_head_start.hpp): the work directory and the cards, each a u32 length and its
+// bytes, after the number of cards (u32). Internal to the sim module.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+
+#include "sim.hpp"
+
+namespace deckscale::wire {
+
+std::string job_message(const SimJob& job);
+
+// The job in `bytes` (work_dir and cards; label and timeout stay with the parent), or nothing
+// if they are not exactly one job message.
+std::optional<SimJob> read_job_message(std::string_view bytes);
+
+}  // namespace deckscale::wire
