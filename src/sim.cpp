@@ -247,6 +247,12 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
             }
             int status = 0;
             bool done = reap(r.pid, status, true);
+            if (!done && r.judged && head) {  // its exit is awaited when `head` ends
+                head->adopt(r.pid);
+                close_fd(r.pidfd);
+                it = running.erase(it);
+                continue;
+            }
             bool late = false;
             if (!done && Clock::now() >= r.deadline) {
                 // The whole group: also a shell or other program ngspice may have started.

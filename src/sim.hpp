@@ -77,7 +77,9 @@ enum class SimProcesses {
 class SimHeadStart;  // sim_head_start.hpp
 
 // Runs several jobs, at most `parallel` at a time (0 = number of cores); the outcomes are in
-// the order of the jobs. Processes waiting in `head_start` take the first jobs.
+// the order of the jobs. Processes waiting in `head_start` take the first jobs, and with a
+// head_start the processes that sent their whole results may still be exiting on return:
+// they are reaped when it ends. Without one, every process has been reaped on return.
 std::vector<SimOutcome> simulate_all(const std::vector<SimJob>& jobs, unsigned parallel = 0,
                                      SimProcesses how = SimProcesses::automatic,
                                      SimHeadStart* head_start = nullptr);

@@ -46,6 +46,12 @@ SimHeadStart::SimHeadStart(unsigned processes) {
 
 SimHeadStart::~SimHeadStart() {
     for (Waiting& w : waiting_) stop(w);
+    for (pid_t pid : exiting_) {
+        ::kill(pid, SIGKILL);  // it only has to end; this makes sure it cannot linger
+        int status = 0;
+        while (::waitpid(pid, &status, 0) < 0 && errno == EINTR) {
+        }
+    }
 }
 
 void SimHeadStart::stop(Waiting& w) {

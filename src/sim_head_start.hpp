@@ -23,7 +23,7 @@ class SimHeadStart {
     explicit SimHeadStart(unsigned processes);
     SimHeadStart(const SimHeadStart&) = delete;
     SimHeadStart& operator=(const SimHeadStart&) = delete;
-    // Stops and reaps the processes that were never given a job.
+    // Stops and reaps the processes that were never given a job, and reaps adopted ones.
     ~SimHeadStart();
 
     // Gives `job` to a waiting process: returns its pid and sets `result_fd` to the
@@ -33,6 +33,12 @@ class SimHeadStart {
 
     std::size_t waiting() const { return waiting_.size(); }
 
+    // A job's process (any, not only a head-started one) that has sent its whole result and
+    // is exiting: it is reaped when this ends, so that the caller need not wait for its
+    // address space to be torn down (0.5-1.5 ms per process on the 2-core VM) before it
+    // compares and reports.
+    void adopt(pid_t pid) { exiting_.push_back(pid); }
+
   private:
     struct Waiting {
         pid_t pid = -1;
@@ -41,6 +47,7 @@ class SimHeadStart {
     };
     static void stop(Waiting& w);
     std::vector<Waiting> waiting_;
+    std::vector<pid_t> exiting_;
 };
 
 }  // namespace deckscale
