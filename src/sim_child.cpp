@@ -20,6 +20,7 @@
 #include <string>
 #include <vector>
 
+#include "sim_child_state.hpp"
 #include "sim_code_models.hpp"
 #include "sim_job_wire.hpp"
 #include "sim_process.hpp"
@@ -29,75 +30,12 @@
 namespace deckscale {
 namespace {
 
-// ngspice's vector types (enum vector_types in ngspice's include/ngspice/sim.h; sharedspice.h
-// only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3, SV_CURRENT = 4.
-VectorKind kind_of(int v_type) {
-    constexpr VectorKind kinds[] = {VectorKind::other, VectorKind::time, VectorKind::frequency,
-                                    VectorKind::voltage, VectorKind::current};
-    return v_type > 0 && v_type < 5 ? kinds[v_type] : VectorKind::other;
-}
-constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
+using namespace child_process;
+
 
 constexpr const char* library_name = "libngspice.so.0";
 constexpr const char* no_home = "/nonexistent/deckscale-no-home";
 
-struct Api {
-    decltype(&ngSpice_Init) init = nullptr;
-    decltype(&ngSpice_Circ) circ = nullptr;
-    decltype(&ngSpice_Command) command = nullptr;
-    decltype(&ngGet_Vec_Info) vec_info = nullptr;
-    decltype(&ngSpice_AllPlots) all_plots = nullptr;
-    decltype(&ngSpice_AllVecs) all_vecs = nullptr;
-};
-
-struct PlotRecord {  // what SendInitData said about one new plot
-    std::string type, name, title;
-};
-
-struct Child {
-    int fd = -1;
-    Api api;
-    std::vector<PrintedLine> lines;
-    std::vector<PlotRecord> records;
-    bool unreadable = false;  // some vector could not be read out of ngspice
-    bool exit_requested = false;
-    bool exit_by_quit = false;
-    int exit_status = 0;
-
-    void send(const std::string& bytes) { send(bytes.data(), bytes.size()); }
-
-    void send(const char* p, std::size_t left) {
-        while (left > 0) {
-            ssize_t n = ::write(fd, p, left);
-            if (n < 0 && errno == EINTR) continue;
-            if (n <= 0) _exit(exit_pipe_broken);
-            p += n;
-            left -= static_cast<std::size_t>(n);
-        }
-    }
-
-    [[noreturn]] void finish(SimStatus status, const std::string& message) {
-        send(wire::result_frame(status, message));
-        _exit(0);
-    }
-
-    [[noreturn]] void finish_exit_request() {
-        std::string quoted = quote_problems(lines, 0, lines.size());
-        if (quoted.empty() && exit_by_quit) {
-            for (const PrintedLine& l : lines)
-                if (l.text.find("quit") != std::string::npos) quoted = l.text;
-        }
-        if (quoted.empty()) quoted = fmt::format("ngspice asked to exit (status {})", exit_status);
-        finish(SimStatus::controlled_exit, quoted);
-    }
-
-    // Runs one API call that may end in ControlledExit; after one, ngspice is unusable.
-    template <typename F>
-    void guarded(F&& call) {
-        call();
-        if (exit_requested) finish_exit_request();
-    }
-};
 
 int on_char(char* s, int, void* user) {
     auto* child = static_cast<Child*>(user);
@@ -138,84 +76,6 @@ bool resolve(void* lib, const char* name, T& out) {
     return out != nullptr;
 }
 
-// One vector as ngspice holds it: its values are read in place when they are sent.
-struct VectorView {
-    std::string name;
-    VectorKind kind = VectorKind::other;
-    const ngcomplex_t* complex = nullptr;  // complex data, or
-    const double* real = nullptr;          // real data (imaginary part 0), or neither (empty)
-    std::uint32_t length = 0;
-};
-
-struct PlotView {
-    std::string name, analysis;
-    std::vector<VectorView> vectors;
-};
-
-static_assert(sizeof(ngcomplex_t) == 2 * sizeof(double), "ngspice's complex is two doubles");
-
-// Every plot except "const", oldest first, its vectors located in ngspice's memory (they stay
-// there: nothing runs in ngspice until they are sent).
-std::vector<PlotView> find_plots(Child& child) {
-    std::vector<std::string> names;
-    for (char** p = child.api.all_plots(); p && *p; ++p)
-        if (std::strcmp(*p, "const") != 0) names.emplace_back(*p);
-    std::vector<PlotView> plots;
-    for (auto it = names.rbegin(); it != names.rend(); ++it) {
-        PlotView plot;
-        plot.name = *it;
-        for (const PlotRecord& r : child.records)
-            if (r.type == plot.name) plot.analysis = r.name;
-        std::vector<std::string> vec_names;
-        for (char** v = child.api.all_vecs(plot.name.data()); v && *v; ++v)
-            vec_names.emplace_back(*v);
-        for (const std::string& vec_name : vec_names) {
-            std::string qualified = plot.name + "." + vec_name;
-            pvector_info info = child.api.vec_info(qualified.data());  // one static struct
-            if (!info) {  // e.g. a multi-dimensional vector; ngspice logged why
-                child.unreadable = true;
-                continue;
-            }
-            VectorView v;
-            v.name = info->v_name ? info->v_name : vec_name;
-            v.kind = kind_of(info->v_type);
-            if ((info->v_flags & vf_complex) != 0 && info->v_compdata) {
-                v.complex = info->v_compdata;
-            } else if (info->v_realdata) {
-                v.real = info->v_realdata;
-            }
-            v.length = (v.complex || v.real) && info->v_length > 0
-                           ? static_cast<std::uint32_t>(info->v_length)
-                           : 0;
-            plot.vectors.push_back(std::move(v));
-        }
-        plots.push_back(std::move(plot));
-    }
-    return plots;
-}
-
-// Sends a plot frame and its vector frames; values go from ngspice's memory to the pipe.
-void send_plot(Child& child, const PlotView& plot) {
-    child.send(wire::plot_header_frame(plot.name, plot.analysis,
-                                       static_cast<std::uint32_t>(plot.vectors.size())));
-    for (const VectorView& v : plot.vectors) {
-        child.send(wire::vector_frame_start(v.name, v.kind, v.length));
-        if (v.complex) {
-            child.send(reinterpret_cast<const char*>(v.complex), v.length * sizeof(ngcomplex_t));
-            continue;
-        }
-        double pairs[2 * 512];
-        for (std::uint32_t i = 0; i < v.length;) {
-            std::uint32_t n = std::min<std::uint32_t>(512, v.length - i);
-            for (std::uint32_t k = 0; k < n; ++k) {
-                pairs[2 * k] = v.real[i + k];
-                pairs[2 * k + 1] = 0.0;
-            }
-            child.send(reinterpret_cast<const char*>(pairs), n * 2 * sizeof(double));
-            i += n;
-        }
-    }
-}
 
 // Loads libngspice, in the environment and locale the children run in, and finds its
 // functions. Returns why it failed, or nothing.
