@@ -100,12 +100,22 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
         if (!vs) continue;
         VectorResult r{vo.name, vo.kind};
         double back = back_factor(vo, km);
+        // Magnitudes (hypot), dB and phases are costly: each is computed where it can matter.
+        // A squared magnitude (std::norm) well below the square of the largest so far cannot
+        // become the largest; any other point is judged exactly as every point would be.
+        auto below = [](double square, double best) {
+            return square < best * best * (1 - 1e-9);
+        };
         for (std::size_t k = 0; k < n && k < vo.values.size(); ++k)
-            r.peak = std::max(r.peak, std::abs(vo.values[k]));
+            if (!below(std::norm(vo.values[k]), r.peak))
+                r.peak = std::max(r.peak, std::abs(vo.values[k]));
         double floor = r.peak > 0 ? r.peak : 1e-300;
+        bool every_point = tol.db > 0 || tol.degrees > 0;
         for (std::size_t k = 0; k < n && k < vo.values.size() && k < vs->values.size(); ++k) {
             std::complex<double> a = vo.values[k], b = vs->values[k] * back;
+            if (!every_point && k > 0 && below(std::norm(b - a), r.worst * floor)) continue;
             double e = std::abs(b - a) / floor;
+            if (!every_point && !(e > r.worst || k == 0)) continue;
             bool in_range = std::abs(a) > 1e-3 * r.peak && std::abs(b) > 0;
             double db = in_range ? 20 * std::log10(std::abs(b) / std::abs(a)) : 0;
             double deg = in_range ? wrap_degrees((std::arg(b) - std::arg(a)) * 180 / std::numbers::pi) : 0;

@@ -2,6 +2,7 @@
 #include <cmath>
 #include <complex>
 #include <numbers>
+#include <random>
 #include <string>
 #include <vector>
 
@@ -314,6 +315,69 @@ TEST(CompareAc, DeviceInternalStatesAreListedNotCompared) {
     EXPECT_TRUE(c.passed());
     EXPECT_EQ(c.not_compared, std::vector<std::string>{"t1#i1"});
     ASSERT_EQ(c.vectors.size(), 2u);
+}
+
+// compare_ac skips the costly magnitude, dB and phase of points that cannot be the worst. The
+// reference is the plain loop that computes them at every point; both must agree exactly on
+// random responses with ties, zeros, huge, tiny and NaN values.
+VectorResult plain_worst(const SimVector& vo, const SimVector& vs, const SimVector& f, double km) {
+    VectorResult r{vo.name, vo.kind};
+    double back = vo.kind == VectorKind::current ? km : 1;
+    for (cd x : vo.values) r.peak = std::max(r.peak, std::abs(x));
+    double floor = r.peak > 0 ? r.peak : 1e-300;
+    for (std::size_t k = 0; k < vo.values.size(); ++k) {
+        cd a = vo.values[k], b = vs.values[k] * back;
+        double e = std::abs(b - a) / floor;
+        bool in_range = std::abs(a) > 1e-3 * r.peak && std::abs(b) > 0;
+        double db = in_range ? 20 * std::log10(std::abs(b) / std::abs(a)) : 0;
+        double deg = in_range ? (std::arg(b) - std::arg(a)) * 180 / std::numbers::pi : 0;
+        while (deg > 180) deg -= 360;
+        while (deg < -180) deg += 360;
+        if (e > r.worst || k == 0) {
+            r.worst = e;
+            r.at = f.values[k].real();
+            r.db_error = db;
+            r.deg_error = deg;
+        }
+    }
+    return r;
+}
+
+TEST(CompareAc, SkippingPointsThatCannotBeWorstChangesNothing) {
+    std::mt19937_64 random(20261202);
+    std::uniform_real_distribution<double> unit(-1, 1);
+    const double specials[] = {0.0, 1e-310, 1e-160, 1e160, 1e300, std::nan(""), 1.0};
+    for (int round = 0; round < 300; ++round) {
+        SCOPED_TRACE(round);
+        std::size_t n = 1 + random() % 40;
+        std::vector<double> f;
+        std::vector<cd> a, b;
+        for (std::size_t k = 0; k < n; ++k) {
+            f.push_back(100.0 * (k + 1));
+            cd x(unit(random), unit(random));
+            cd y = x * cd(1 + 1e-7 * unit(random), 1e-7 * unit(random));
+            if (random() % 4 == 0) y = x;                 // exact ties
+            if (random() % 5 == 0) y = a.empty() ? y : a.back() * 2.0;
+            if (random() % 9 == 0) x *= specials[random() % 7];
+            if (random() % 9 == 0) y *= specials[random() % 7];
+            a.push_back(x);
+            b.push_back(y);
+        }
+        SimPlot o{"ac1", "AC Analysis", {vec("frequency", VectorKind::frequency, reals(f)),
+                                         vec("v(1)", VectorKind::voltage, a)}};
+        SimPlot s{"ac1", "AC Analysis", {vec("frequency", VectorKind::frequency, reals(f)),
+                                         vec("v(1)", VectorKind::voltage, b)}};
+        Comparison c = compare_ac(o, s, 1.0, 1.0, Tolerances{});
+        ASSERT_EQ(c.vectors.size(), 1u);
+        VectorResult want = plain_worst(o.vectors[1], s.vectors[1], o.vectors[0], 1.0);
+        const VectorResult& got = c.vectors[0];
+        auto same = [](double x, double y) { return x == y || (std::isnan(x) && std::isnan(y)); };
+        EXPECT_TRUE(same(got.peak, want.peak)) << got.peak << " " << want.peak;
+        EXPECT_TRUE(same(got.worst, want.worst)) << got.worst << " " << want.worst;
+        EXPECT_TRUE(same(got.at, want.at)) << got.at << " " << want.at;
+        EXPECT_TRUE(same(got.db_error, want.db_error)) << got.db_error << " " << want.db_error;
+        EXPECT_TRUE(same(got.deg_error, want.deg_error)) << got.deg_error << " " << want.deg_error;
+    }
 }
 
 }  // namespace
