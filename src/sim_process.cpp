@@ -1,11 +1,14 @@
 #include "sim_process.hpp"
 
 #include <fcntl.h>
+#include <malloc.h>
+#include <sys/mman.h>
 #include <signal.h>
 #include <sys/prctl.h>
 #include <unistd.h>
 
 #include <cerrno>
+#include <cstdint>
 #include <cstdlib>
 #include <filesystem>
 
@@ -31,6 +34,20 @@ int take_over_process(int fd, int job_fd) {
     ::prctl(PR_SET_PDEATHSIG, SIGKILL);
     ::setpgid(0, 0);  // own process group, so that a timeout kills what ngspice started too
     return 3;
+}
+
+void prefault_heap(std::size_t bytes) {
+    ::mallopt(M_MMAP_THRESHOLD, static_cast<int>(bytes * 2));
+    ::mallopt(M_TRIM_THRESHOLD, static_cast<int>(bytes * 16));
+    char* block = static_cast<char*>(::malloc(bytes));
+    if (!block) return;
+#ifdef MADV_POPULATE_WRITE
+    const std::uintptr_t page = static_cast<std::uintptr_t>(::sysconf(_SC_PAGESIZE));
+    auto first = (reinterpret_cast<std::uintptr_t>(block) + page - 1) & ~(page - 1);
+    auto last = (reinterpret_cast<std::uintptr_t>(block) + bytes) & ~(page - 1);
+    if (last > first) ::madvise(reinterpret_cast<void*>(first), last - first, MADV_POPULATE_WRITE);
+#endif
+    ::free(block);  // back to malloc, mapped
 }
 
 namespace {

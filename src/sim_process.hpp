@@ -18,6 +18,12 @@ constexpr int exit_internal = 122;
 // Returns 3; ends the process if it cannot.
 int take_over_process(int fd, int job_fd = -1);
 
+// Maps `bytes` of heap in one call (MADV_POPULATE_WRITE) for malloc to hand out later,
+// instead of one page fault per page as ngspice's allocations touch them, and keeps malloc
+// from giving heap back or serving large blocks from separate mappings. For a simulator
+// process only: it changes how malloc behaves in the whole process.
+void prefault_heap(std::size_t bytes);
+
 // A fresh private directory holding an empty .spiceinit and, unless `spinit` is empty, an
 // init script "spinit" with that text, for ngspice to be initialised in; "" if none could
 // be made. See sim_process.cpp.
