@@ -80,19 +80,17 @@ std::string make_private_dir(const std::string& base) {
 // possible: on the ext4 /tmp of the 2-core VM, making and removing it took 0.3-0.6 ms of
 // each child's start, on tmpfs 0.03 ms. Otherwise it goes to the temporary directory.
 std::string make_start_dir(const std::string& spinit) {
-    std::string dir = make_private_dir("/dev/shm");
-    if (dir.empty()) {
-        std::error_code ec;
-        std::filesystem::path base = std::filesystem::temp_directory_path(ec);
-        dir = make_private_dir(ec ? "/tmp" : base.string());
+    std::error_code ec;
+    std::filesystem::path temp = std::filesystem::temp_directory_path(ec);
+    for (const std::string& base : {std::string("/dev/shm"), ec ? "/tmp" : temp.string()}) {
+        std::string dir = make_private_dir(base);
+        if (dir.empty()) continue;
+        if (write_new_file(dir + "/.spiceinit", "") &&
+            (spinit.empty() || write_new_file(dir + "/spinit", spinit)))
+            return dir;
+        remove_start_dir(dir);  // e.g. /dev/shm is full: the temporary directory may not be
     }
-    if (dir.empty()) return "";
-    if (!write_new_file(dir + "/.spiceinit", "") ||
-        (!spinit.empty() && !write_new_file(dir + "/spinit", spinit))) {
-        remove_start_dir(dir);
-        return "";
-    }
-    return dir;
+    return "";
 }
 
 void remove_start_dir(const std::string& dir) {
