@@ -71,6 +71,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
             }
         }
         OutputPlan plan = plan_output(deck, std::move(result.edits), output, o.flatten);
+        plan.parallel = o.threads != 1;
         for (const auto& f : plan.files) {
             if (f.path.empty()) {
                 StreamSink sink(out);

@@ -2,6 +2,7 @@
 
 #include <filesystem>
 #include <set>
+#include <thread>
 
 #include <fmt/format.h>
 
@@ -10,6 +11,9 @@
 namespace deckscale {
 
 namespace fs = std::filesystem;
+
+// Files at least this big are produced by two threads.
+constexpr std::uint32_t kParallelOutputBytes = 8u << 20;
 
 std::string scaled_copy_name(const std::string& original_path) {
     fs::path p(original_path);
@@ -33,7 +37,25 @@ void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& 
         return;
     }
     std::string_view text = deck.files[file.source_file].source->text();
-    apply_edits(text, plan.edits[file.source_file], 0, static_cast<std::uint32_t>(text.size()), sink);
+    const EditSet& edits = plan.edits[file.source_file];
+    auto size = static_cast<std::uint32_t>(text.size());
+    if (!plan.parallel || size < kParallelOutputBytes || edits.size() < 2) {
+        apply_edits(text, edits, 0, size, sink);
+        return;
+    }
+    // A large file: its second half (from an edit in the middle on) is produced into memory on
+    // a second thread while this one produces and writes the first half.
+    std::uint32_t mid = edits.at(edits.size() / 2).offset;
+    std::size_t second_size = size - mid;
+    edits.visit_from(mid, [&](const EditView& e) {
+        second_size = second_size + e.text.size() - e.length;
+        return true;
+    });
+    MemorySink second(second_size);
+    std::jthread producer([&] { apply_edits(text, edits, mid, size, second); });
+    apply_edits(text, edits, 0, mid, sink);
+    producer.join();
+    sink.write(second.bytes());
 }
 
 OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const std::string& output,

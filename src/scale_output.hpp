@@ -21,6 +21,7 @@ struct OutputFile {
 struct OutputPlan {
     std::vector<EditSet> edits;     // per Deck::files entry, include lines repointed
     std::vector<OutputFile> files;  // included copies first, the main deck last
+    bool parallel = true;           // a large file's second half is produced on a thread
 };
 
 // `edits` are the scaling pass's (one per Deck::files entry); `output` is the main deck's
