@@ -15,11 +15,11 @@ namespace deckscale {
 
 namespace {
 
-// Writes blocks to a file descriptor and starts their writeback at once, so that the final
-// fsync() waits only for the last blocks instead of the whole file.
+// Writes blocks to a file descriptor; for a synced file it starts their writeback at once,
+// so that the final fsync() waits only for the last blocks instead of the whole file.
 class FileSink : public ByteSink {
 public:
-    explicit FileSink(int fd) : fd_(fd) {}
+    FileSink(int fd, bool start_writeback) : fd_(fd), start_writeback_(start_writeback) {}
     const std::string& error() const { return error_; }
 
 protected:
@@ -35,26 +35,30 @@ protected:
             done += static_cast<std::size_t>(n);
         }
         if (!error_.empty()) return;
-        // A hint only (it fails harmlessly where unsupported): fsync() below is the guarantee.
-        ::sync_file_range(fd_, static_cast<off_t>(written_), static_cast<off_t>(done),
-                          SYNC_FILE_RANGE_WRITE);
+        // A hint only (it fails harmlessly where unsupported): fsync() is the guarantee.
+        if (start_writeback_)
+            ::sync_file_range(fd_, static_cast<off_t>(written_), static_cast<off_t>(done),
+                              SYNC_FILE_RANGE_WRITE);
         written_ += done;
     }
 
 private:
     int fd_;
+    bool start_writeback_;
     std::size_t written_ = 0;
     std::string error_;
 };
 
 }  // namespace
 
-std::string write_file_atomically(const std::string& path, std::string_view content) {
-    return write_file_atomically(path, [&](ByteSink& sink) { sink.write(content); });
+std::string write_file_atomically(const std::string& path, std::string_view content,
+                                  Durability durability) {
+    return write_file_atomically(path, [&](ByteSink& sink) { sink.write(content); }, durability);
 }
 
 std::string write_file_atomically(const std::string& path,
-                                  const std::function<void(ByteSink&)>& produce) {
+                                  const std::function<void(ByteSink&)>& produce,
+                                  Durability durability) {
     namespace fs = std::filesystem;
     fs::path target(path);
     fs::path dir = target.parent_path().empty() ? fs::path(".") : target.parent_path();
@@ -77,12 +81,13 @@ std::string write_file_atomically(const std::string& path,
     }
     std::string error;
     {
-        FileSink sink(fd);
+        FileSink sink(fd, durability == Durability::synced);
         produce(sink);
         sink.flush();
         error = sink.error();
     }
-    if (error.empty() && ::fsync(fd) != 0) error = std::strerror(errno);
+    if (durability == Durability::synced && error.empty() && ::fsync(fd) != 0)
+        error = std::strerror(errno);
     if (::close(fd) != 0 && error.empty()) error = std::strerror(errno);
     if (error.empty() && std::rename(tmpl.c_str(), path.c_str()) != 0) error = std::strerror(errno);
     if (!error.empty()) {

@@ -81,7 +81,11 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                 continue;
             }
             auto produce = [&](ByteSink& sink) { produce_output(deck, plan, f, sink); };
-            if (auto e = write_file_atomically(f.path, produce); !e.empty()) {
+            // Replacing the user's own deck (-i): on disk before the original goes. Other
+            // outputs can be made again from the deck, which is never touched.
+            Durability durability = o.in_place && f.path == output ? Durability::synced
+                                                                   : Durability::atomic;
+            if (auto e = write_file_atomically(f.path, produce, durability); !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;
             }
