@@ -92,7 +92,8 @@ struct line_run {
 // comment or continuation marks is a word byte; ' ' and '\t' are blanks. A '/' is a word
 // byte too (hierarchical names such as x1/x2/n5) unless another '/' follows it.
 struct SimpleBytes {
-    enum : unsigned char { word = 1, blank = 2, letter = 4, slash = 8 };
+    // `plain`: a word byte other than '/', or a blank (checked four at a time).
+    enum : unsigned char { word = 1, blank = 2, letter = 4, slash = 8, plain = 16 };
     unsigned char of[256] = {};
     constexpr SimpleBytes() {
         for (int c = '!'; c < 0x7f; ++c) of[c] = word;
@@ -101,6 +102,8 @@ struct SimpleBytes {
         for (int c = 'a'; c <= 'z'; ++c) of[c] |= letter;
         for (int c = 'A'; c <= 'Z'; ++c) of[c] |= letter;
         of[static_cast<unsigned char>(' ')] = of[static_cast<unsigned char>('\t')] = blank;
+        for (auto& c : of)
+            if ((c & (word | blank)) && !(c & slash)) c |= plain;
     }
     bool is(char c, unsigned char cls) const { return (of[static_cast<unsigned char>(c)] & cls) != 0; }
 };
@@ -116,9 +119,15 @@ struct simple_line {
         const char* e = in.end();
         if (s == e || !b.is(*s, SimpleBytes::letter)) return false;
         const char* p = s;
-        while (p < e && b.is(*p, SimpleBytes::word | SimpleBytes::blank)) {
-            if (b.is(*p, SimpleBytes::slash) && p + 1 < e && p[1] == '/') return false;  // a comment
-            ++p;
+        const unsigned char* of = b.of;
+        while (e - p >= 4 && (of[static_cast<unsigned char>(p[0])] & of[static_cast<unsigned char>(p[1])] &
+                              of[static_cast<unsigned char>(p[2])] & of[static_cast<unsigned char>(p[3])] &
+                              SimpleBytes::plain))
+            p += 4;
+        for (; p < e; ++p) {
+            unsigned char cls = b.of[static_cast<unsigned char>(*p)];
+            if (!(cls & (SimpleBytes::word | SimpleBytes::blank))) break;
+            if ((cls & SimpleBytes::slash) && p + 1 < e && p[1] == '/') return false;  // a comment
         }
         if (p < e && *p == '\r' && p + 1 < e && p[1] == '\n') ++p;
         if (p + 1 >= e || *p != '\n' || !(b.is(p[1], SimpleBytes::letter) || p[1] == '.'))
