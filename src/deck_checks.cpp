@@ -99,10 +99,20 @@ void add_keys(const Card& c, std::size_t first, std::set<std::string>& to) {
             to.insert(to_lower(c.field_text(i)));
 }
 
+// kShapes by letter ('a'..'z'), for the per-card lookup.
+const ElementShape* shape_of(char letter) {
+    static const auto table = [] {
+        std::array<const ElementShape*, 26> t{};
+        for (const auto& s : kShapes) t[static_cast<std::size_t>(s.letter - 'a')] = &s;
+        return t;
+    }();
+    return letter >= 'a' && letter <= 'z' ? table[static_cast<std::size_t>(letter - 'a')] : nullptr;
+}
+
 void check_element(const Card& c, std::vector<Diagnostic>& warnings) {
     char letter = ascii_lower(c.field_text(0)[0]);
-    for (const auto& s : kShapes) {
-        if (s.letter != letter) continue;
+    if (const ElementShape* shape = shape_of(letter)) {
+        const auto& s = *shape;
         int have = value_fields(c);
         if (have < s.min_fields)
             throw DeckError(c.file->diagnose(

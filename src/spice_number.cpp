@@ -269,15 +269,13 @@ std::string respell(const SpiceNumber& original, double value, int digits) {
     Decimal d = to_decimal(value, digits);  // rounded once; the text is cut from its digits
     std::string out;
     if (!original.suffix.empty()) {
-        static constexpr std::array<std::pair<const char*, int>, 9> eng{{{"f", -15}, {"p", -12},
-            {"n", -9}, {"u", -6}, {"m", -3}, {"", 0}, {"k", 3}, {"meg", 6}, {"g", 9}}};
+        // Suffixes by decade / 3, from femto (-15) to tera (12).
+        static constexpr std::string_view eng[] = {"f", "p", "n", "u", "m", "", "k", "meg", "g", "t"};
         int e = d.digits == "0" ? 0 : d.exponent;
         int exp3 = std::clamp((e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3, -15, 12);
-        const char* suffix = "t";
-        for (const auto& [sx, ex] : eng)
-            if (ex == exp3) suffix = sx;
+        std::string_view suffix = eng[(exp3 + 15) / 3];
         auto mantissa = [&](int shift) { append_general_text(out, d, digits, shift); };
-        if (std::string_view(suffix).empty()) {
+        if (suffix.empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only
             // when the tail cannot be misread as a suffix.
             std::string_view tail = original.tail;
