@@ -1,5 +1,6 @@
 #include "card_reader.hpp"
 
+#include <algorithm>
 #include <vector>
 
 #include "deck_errors.hpp"
@@ -25,6 +26,11 @@ struct TokenBuffer {
         if (count == slots.size()) slots.resize(slots.size() * 2);
         slots[count++] = t;
     }
+    // Room for `more` tokens, so that add_unchecked may follow.
+    void ensure(std::size_t more) {
+        if (count + more > slots.size()) slots.resize(std::max(slots.size() * 2, count + more));
+    }
+    void add_unchecked(const Token& t) { slots[count++] = t; }
     std::span<const Token> view() const { return {slots.data(), count}; }
 };
 
@@ -116,19 +122,29 @@ struct action<g::simple_card> {
     template <typename Input>
     static void apply(const Input& in, ReaderState& st) {
         using B = g::scan::SimpleBytes;
-        const auto& b = g::scan::kSimpleBytes;
+        const unsigned char* of = g::scan::kSimpleBytes.of;
+        auto cls = [of](char c) { return of[static_cast<unsigned char>(c)]; };
         const char* p = in.begin();
         const char* e = in.end();
+        // A line of n bytes holds at most n + 1 tokens (the matched line is never empty).
+        auto n = static_cast<std::size_t>(e - p);
+        st.tokens.ensure(n + 1);
+        st.fields.ensure(n + 1);
+        auto token = [&](TokenKind kind, const char* b, const char* q) {
+            return Token{kind, static_cast<std::uint32_t>(b - st.base), static_cast<std::uint32_t>(q - st.base)};
+        };
         while (p < e) {
             const char* q = p;
-            if (b.is(*p, B::blank)) {
-                while (b.is(*q, B::blank)) ++q;  // the line end stops it
-                st.push(TokenKind::whitespace, p, q);
-            } else if (b.is(*p, B::word)) {
-                while (b.is(*q, B::word)) ++q;
-                st.push(TokenKind::word, p, q);
+            if (cls(*p) & B::blank) {
+                while (cls(*q) & B::blank) ++q;  // the line end stops it
+                st.tokens.add_unchecked(token(TokenKind::whitespace, p, q));
+            } else if (cls(*p) & B::word) {
+                while (cls(*q) & B::word) ++q;
+                Token t = token(TokenKind::word, p, q);
+                st.tokens.add_unchecked(t);
+                st.fields.add_unchecked(t);
             } else {
-                st.push(TokenKind::line_end, p, e);
+                st.tokens.add_unchecked(token(TokenKind::line_end, p, e));
                 break;
             }
             p = q;
