@@ -61,7 +61,9 @@ void EditSet::merge_segments() {
     segments_.push_back(std::move(all));
 }
 
-void EditSet::add(std::string_view original, const Edit& e) {
+void EditSet::add(std::string_view original, std::uint32_t offset, std::uint32_t length,
+                  std::string_view text) {
+    const EditView e{offset, length, text};
     if (e.offset + e.length > original.size())
         throw std::logic_error(
             fmt::format("edit {} lies outside the file", describe(e.offset, e.length, e.text)));

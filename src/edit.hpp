@@ -29,7 +29,9 @@ class EditSet {
 public:
     // Adds an edit. An edit whose text equals the bytes it replaces is not stored. Throws
     // std::logic_error naming both edits if it overlaps one already stored.
-    void add(std::string_view original, const Edit& e);
+    void add(std::string_view original, const Edit& e) { add(original, e.offset, e.length, e.text); }
+    void add(std::string_view original, std::uint32_t offset, std::uint32_t length,
+             std::string_view text);
 
     // Appends the edits of a set whose edits all lie after this set's (throws std::logic_error
     // if the first of them overlaps the last of these). Its storage is taken over, not copied.

@@ -260,10 +260,10 @@ void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string tex
     bool opening = length == 0 && text == "(";  // the opening half of a wrap is not listed
     if (!opening) ++result_.change_count;
     if (!settings_.record_changes || opening) {
-        result_.edits[file_].add(file.text(), Edit{offset, length, std::move(text)});
+        result_.edits[file_].add(file.text(), offset, length, text);
         return;
     }
-    result_.edits[file_].add(file.text(), Edit{offset, length, text});
+    result_.edits[file_].add(file.text(), offset, length, text);
     std::string old_text(file.view(offset, offset + length));
     Change ch;
     ch.file = file_;
