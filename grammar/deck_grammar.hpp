@@ -82,9 +82,9 @@ struct line_run {
 };
 
 // The fast path for the bulk of a large deck, plain element lines such as "R12 n3 n4 1.5k":
-// a line that starts with a letter, holds only words of plain bytes separated by blanks
-// (' ', '\t'), ends in LF or CRLF, and is followed by a line that starts with a letter or
-// '.' (so no continuation or comment line can join it). For such a line the general rules
+// a line that starts with a letter (after blanks, if indented), holds only words of plain
+// bytes separated by blanks (' ', '\t'), ends in LF or CRLF, and is followed by a line that
+// starts, after blanks, with a letter or '.' (so no continuation or comment line can join it). For such a line the general rules
 // below give exactly: word and blank tokens, the line end, one element card. It is matched
 // in one step; every other line goes to the general rules. Tests read decks both ways and
 // compare every token (see reference_deck_file).
@@ -117,8 +117,9 @@ struct simple_line {
         const auto& b = kSimpleBytes;
         const char* s = in.current();
         const char* e = in.end();
-        if (s == e || !b.is(*s, SimpleBytes::letter)) return false;
         const char* p = s;
+        while (p < e && b.is(*p, SimpleBytes::blank)) ++p;  // an indented card
+        if (p == e || !b.is(*p, SimpleBytes::letter)) return false;
         const unsigned char* of = b.of;
         while (e - p >= 4 && (of[static_cast<unsigned char>(p[0])] & of[static_cast<unsigned char>(p[1])] &
                               of[static_cast<unsigned char>(p[2])] & of[static_cast<unsigned char>(p[3])] &
@@ -130,8 +131,10 @@ struct simple_line {
             if ((cls & SimpleBytes::slash) && p + 1 < e && p[1] == '/') return false;  // a comment
         }
         if (p < e && *p == '\r' && p + 1 < e && p[1] == '\n') ++p;
-        if (p + 1 >= e || *p != '\n' || !(b.is(p[1], SimpleBytes::letter) || p[1] == '.'))
-            return false;
+        if (p >= e || *p != '\n') return false;
+        const char* next = p + 1;  // the next line must start a card: blanks, then a letter or '.'
+        while (next < e && b.is(*next, SimpleBytes::blank)) ++next;
+        if (next >= e || !(b.is(*next, SimpleBytes::letter) || *next == '.')) return false;
         in.bump(static_cast<std::size_t>(p + 1 - s));
         return true;
     }

@@ -20,7 +20,9 @@ std::vector<std::uint32_t> piece_starts(std::string_view text, unsigned pieces) 
             std::size_t nl = text.find('\n', at);
             if (nl == std::string_view::npos || nl + 1 >= text.size()) break;
             at = nl + 1;
-            if (is_letter(text[at])) {
+            std::size_t first = at;  // cards may be indented
+            while (first < limit && (text[first] == ' ' || text[first] == '\t')) ++first;
+            if (first < text.size() && is_letter(text[first])) {
                 found = at;
                 break;
             }

@@ -31,7 +31,8 @@ struct Piece {
 };
 
 // Up to `pieces - 1` offsets that split `text` into about equal parts, each at the start of
-// a line that starts with a letter (a card, not a continuation, comment or blank line).
+// a line that starts with a letter, after blanks if indented (a card, not a continuation,
+// comment or blank line).
 std::vector<std::uint32_t> piece_starts(std::string_view text, unsigned pieces);
 
 // Reads one piece; run on a helper thread. Stops early before an include (.include, .inc,

@@ -51,7 +51,8 @@ TEST(DeckPieces, StartsAreLineStartsWithALetter) {
     ASSERT_FALSE(starts.empty());
     for (auto s : starts) {
         EXPECT_EQ(text[s - 1], '\n');
-        EXPECT_TRUE(std::isalpha(static_cast<unsigned char>(text[s]))) << s;
+        std::size_t first = text.find_first_not_of(" \t", s);  // an indented card counts
+        EXPECT_TRUE(std::isalpha(static_cast<unsigned char>(text[first]))) << s;
     }
     EXPECT_TRUE(std::is_sorted(starts.begin(), starts.end()));
     EXPECT_TRUE(piece_starts(text, 1).empty());
@@ -75,6 +76,12 @@ TEST(DeckPieces, ContextAcrossPiecesGivesTheSameResult) {
     };
     const std::string body = ladder(60);
     const Row rows[] = {
+        // An indented deck (cards after blanks), with CRLF line ends.
+        {__LINE__, [&] {
+             std::string d = "t\r\n";
+             for (char c : body) d += c == '\n' ? std::string("\r\n  ") : std::string(1, c);
+             return d + ".end\r\n";
+         }()},
         // A .subckt opened in one piece and closed in a later one.
         {__LINE__, "t\n.subckt big a b\n" + body + ".ends big\nX1 1 2 big\n.end\n"},
         // A model and a parameter declared early, used late (pieces cannot be kept).
