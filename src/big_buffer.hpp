@@ -10,8 +10,8 @@
 
 namespace deckscale {
 
-// Buffers at least this big are worth huge pages.
-inline constexpr std::size_t kBigBufferBytes = std::size_t{4} << 20;
+// Buffers at least this big (one huge page) are worth huge pages.
+inline constexpr std::size_t kBigBufferBytes = std::size_t{2} << 20;
 
 // True when the kernel gives huge pages to memory that asks for them (THP "always" or
 // "madvise"); read once.

@@ -17,7 +17,6 @@ namespace deckscale {
 
 class ByteSink {
 public:
-    // Blocks of 2 MiB and more come from huge pages where available (see big_buffer.hpp).
     explicit ByteSink(std::size_t block_bytes = std::size_t{2} << 20)
         : block_(new_block(block_bytes)), pos_(block_.get()), end_(block_.get() + block_bytes) {}
     virtual ~ByteSink() = default;
@@ -75,26 +74,15 @@ private:
         }
     }
 
+    // The block comes from BigAllocator: huge pages when it is large (see big_buffer.hpp).
     struct Release {
         std::size_t bytes;
-        void operator()(char* p) const {
-            if (bytes >= (std::size_t{2} << 20) && huge_pages_available())
-                release_big(p, bytes);
-            else
-                delete[] p;
-        }
+        void operator()(char* p) const { BigAllocator<char>{}.deallocate(p, bytes); }
     };
-    friend class MemorySink;
     static std::unique_ptr<char[], Release> new_block(std::size_t bytes) {
-        char* p = nullptr;
-        if (bytes >= (std::size_t{2} << 20) && huge_pages_available()) {
-            p = static_cast<char*>(allocate_big(bytes));
-            if (!p) throw std::bad_alloc();
-        } else {
-            p = new char[bytes];
-        }
-        return std::unique_ptr<char[], Release>(p, Release{bytes});
+        return std::unique_ptr<char[], Release>(BigAllocator<char>{}.allocate(bytes), Release{bytes});
     }
+    friend class MemorySink;
 
     std::unique_ptr<char[], Release> block_;
     char* pos_;
