@@ -129,7 +129,8 @@ private:
             }
         };
         std::vector<std::uint32_t> starts;
-        if (pieces_.start) starts = piece_starts(file.text(), piece_count(file.text().size()));
+        if (pieces_.start && pieces_.join)
+            starts = piece_starts(file.text(), piece_count(file.text().size()));
         if (starts.empty())
             read_cards(file, role, visit);
         else
