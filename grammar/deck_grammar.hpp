@@ -81,16 +81,9 @@ struct line_run {
     }
 };
 
-// The fast path for the bulk of a large deck, plain element lines such as "R12 n3 n4 1.5k":
-// a line that starts with a letter (after blanks, if indented), holds only words of plain
-// bytes separated by blanks (' ', '\t'), ends in LF or CRLF, and is followed by a line that
-// starts, after blanks, with a letter or '.' (so no continuation or comment line can join it). For such a line the general rules
-// below give exactly: word and blank tokens, the line end, one element card. It is matched
-// in one step; every other line goes to the general rules. Tests read decks both ways and
-// compare every token (see reference_deck_file).
-// Byte classes of the fast path: printable ASCII except separators, quotes, braces and
-// comment or continuation marks is a word byte; ' ' and '\t' are blanks. A '/' is a word
-// byte too (hierarchical names such as x1/x2/n5) unless another '/' follows it.
+// Byte classes of the fast path (simple_line): printable ASCII except separators, quotes,
+// braces and comment or continuation marks is a word byte; ' ' and '\t' are blanks. A '/' is
+// a word byte too (hierarchical names such as x1/x2/n5) unless another '/' follows it.
 struct SimpleBytes {
     // `plain`: a word byte other than '/', or a blank (checked four at a time).
     enum : unsigned char { word = 1, blank = 2, letter = 4, slash = 8, plain = 16 };
@@ -105,10 +98,19 @@ struct SimpleBytes {
         for (auto& c : of)
             if ((c & (word | blank)) && !(c & slash)) c |= plain;
     }
-    bool is(char c, unsigned char cls) const { return (of[static_cast<unsigned char>(c)] & cls) != 0; }
+    bool is(char c, unsigned char cls) const {
+        return (of[static_cast<unsigned char>(c)] & cls) != 0;
+    }
 };
 inline constexpr SimpleBytes kSimpleBytes{};
 
+// The fast path for the bulk of a large deck, plain element lines such as "R12 n3 n4 1.5k":
+// a line that starts with a letter (after blanks, if indented), holds only words of plain
+// bytes separated by blanks, ends in LF or CRLF, and is followed by a line that starts, after
+// blanks, with a letter or '.' (so no continuation or comment line can join it). For such a
+// line the general rules below give exactly: word and blank tokens, the line end, one element
+// card. It is matched in one step; every other line goes to the general rules. Tests read
+// decks both ways and compare every token (see reference_deck_file).
 struct simple_line {
     using rule_t = simple_line;
     using subs_t = pg::type_list<>;
