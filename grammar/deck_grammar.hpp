@@ -24,7 +24,8 @@ namespace scan {
 struct WordStops {
     bool stop[256] = {};
     constexpr WordStops() {
-        for (unsigned char c : {' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'})
+        for (unsigned char c :
+             {' ', '\t', '\f', '\v', '\r', '\n', ',', '=', '(', ')', '{', '\'', '"', ';'})
             stop[c] = true;
     }
 };
@@ -123,9 +124,8 @@ struct simple_line {
         while (p < e && b.is(*p, SimpleBytes::blank)) ++p;  // an indented card
         if (p == e || !b.is(*p, SimpleBytes::letter)) return false;
         const unsigned char* of = b.of;
-        while (e - p >= 4 && (of[static_cast<unsigned char>(p[0])] & of[static_cast<unsigned char>(p[1])] &
-                              of[static_cast<unsigned char>(p[2])] & of[static_cast<unsigned char>(p[3])] &
-                              SimpleBytes::plain))
+        auto cls = [of](const char* q) { return of[static_cast<unsigned char>(*q)]; };
+        while (e - p >= 4 && (cls(p) & cls(p + 1) & cls(p + 2) & cls(p + 3) & SimpleBytes::plain))
             p += 4;
         for (; p < e; ++p) {
             unsigned char cls = b.of[static_cast<unsigned char>(*p)];

@@ -29,13 +29,15 @@ void* allocate_big(std::size_t bytes) {
     if (!huge_pages_available()) return nullptr;
     std::size_t len = round_up(bytes);
     // Map one huge page more than needed, then cut the unaligned ends off.
-    void* raw = ::mmap(nullptr, len + kHuge, PROT_READ | PROT_WRITE, MAP_PRIVATE | MAP_ANONYMOUS, -1, 0);
+    void* raw =
+        ::mmap(nullptr, len + kHuge, PROT_READ | PROT_WRITE, MAP_PRIVATE | MAP_ANONYMOUS, -1, 0);
     if (raw == MAP_FAILED) return nullptr;
     auto start = reinterpret_cast<std::uintptr_t>(raw);
     std::uintptr_t aligned = (start + kHuge - 1) & ~(kHuge - 1);
     if (aligned > start) ::munmap(raw, aligned - start);
     std::uintptr_t end = start + len + kHuge;
-    if (end > aligned + len) ::munmap(reinterpret_cast<void*>(aligned + len), end - (aligned + len));
+    if (end > aligned + len)
+        ::munmap(reinterpret_cast<void*>(aligned + len), end - (aligned + len));
     void* p = reinterpret_cast<void*>(aligned);
     ::madvise(p, len, MADV_HUGEPAGE);  // a request: 4 KiB pages still work if it is refused
     return p;

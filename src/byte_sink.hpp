@@ -33,7 +33,8 @@ public:
     }
     // Hands on what has gathered; call once at the end.
     void flush() {
-        if (pos_ != block_.get()) take(std::string_view(block_.get(), static_cast<std::size_t>(pos_ - block_.get())));
+        if (pos_ != block_.get())
+            take(std::string_view(block_.get(), static_cast<std::size_t>(pos_ - block_.get())));
         pos_ = block_.get();
     }
 
@@ -80,7 +81,8 @@ private:
         void operator()(char* p) const { BigAllocator<char>{}.deallocate(p, bytes); }
     };
     static std::unique_ptr<char[], Release> new_block(std::size_t bytes) {
-        return std::unique_ptr<char[], Release>(BigAllocator<char>{}.allocate(bytes), Release{bytes});
+        char* p = BigAllocator<char>{}.allocate(bytes);
+        return std::unique_ptr<char[], Release>(p, Release{bytes});
     }
     friend class MemorySink;
 
@@ -95,10 +97,14 @@ class MemorySink : public ByteSink {
 public:
     explicit MemorySink(std::size_t bytes) : ByteSink(std::max<std::size_t>(bytes, 1)) {}
     // The bytes written (never flush() this sink: they stay in its block).
-    std::string_view bytes() const { return {block_.get(), static_cast<std::size_t>(pos_ - block_.get())}; }
+    std::string_view bytes() const {
+        return {block_.get(), static_cast<std::size_t>(pos_ - block_.get())};
+    }
 
 protected:
-    void take(std::string_view) override { throw std::logic_error("MemorySink: more bytes than planned"); }
+    void take(std::string_view) override {
+        throw std::logic_error("MemorySink: more bytes than planned");
+    }
 };
 
 // Gathers everything in a string.

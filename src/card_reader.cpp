@@ -131,7 +131,8 @@ struct action<g::simple_card> {
         st.tokens.ensure(n + 1);
         st.fields.ensure(n + 1);
         auto token = [&](TokenKind kind, const char* b, const char* q) {
-            return Token{kind, static_cast<std::uint32_t>(b - st.base), static_cast<std::uint32_t>(q - st.base)};
+            return Token{kind, static_cast<std::uint32_t>(b - st.base),
+                         static_cast<std::uint32_t>(q - st.base)};
         };
         while (p < e) {
             const char* q = p;

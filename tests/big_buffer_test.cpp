@@ -23,7 +23,8 @@ TEST(BigBuffer, BlocksAreAlignedAndUsable) {
     ASSERT_NE(p, nullptr);
     EXPECT_EQ(reinterpret_cast<std::uintptr_t>(p) % (std::uintptr_t{2} << 20), 0u);
     auto* bytes = static_cast<unsigned char*>(p);
-    for (std::size_t i = 0; i < kBigBufferBytes + 123; i += 4096) bytes[i] = static_cast<unsigned char>(i);
+    for (std::size_t i = 0; i < kBigBufferBytes + 123; i += 4096)
+        bytes[i] = static_cast<unsigned char>(i);
     EXPECT_EQ(bytes[4096 * 3], static_cast<unsigned char>(4096 * 3));
     release_big(p, kBigBufferBytes + 123);
 }
@@ -40,7 +41,8 @@ TEST(BigBuffer, ContainersGrowThroughTheThreshold) {
 TEST(BigBuffer, LargeDeckReadsBackByteForByte) {
     test::TempDir dir;
     std::string text;
-    for (int i = 0; text.size() < kBigBufferBytes + 4097; ++i) text += "R" + std::to_string(i) + " a b 1k\n";
+    for (int i = 0; text.size() < kBigBufferBytes + 4097; ++i)
+        text += "R" + std::to_string(i) + " a b 1k\n";
     test::write_bytes(dir.path() / "big.cir", text);
     DiskFileSystem disk;
     auto got = disk.read(dir.file("big.cir"));

@@ -85,7 +85,8 @@ TEST(Decimal, DecadeIsRightOverTheWholeRange) {
         Decimal d = to_decimal(v, p);
         double back = std::stod(d.digits.substr(0, 1) + "." + d.digits.substr(1) + "e" +
                                 std::to_string(d.exponent));
-        EXPECT_LE(std::fabs(back - v), std::fabs(v) * 1.01 * std::pow(10.0, 1 - p)) << v << " p=" << p;
+        EXPECT_LE(std::fabs(back - v), std::fabs(v) * 1.01 * std::pow(10.0, 1 - p))
+            << v << " p=" << p;
         EXPECT_NE(d.digits.front(), '0') << v;
     }
     for (int x = -270; x <= 270; x += 7) {

@@ -88,7 +88,8 @@ TEST(DeckPieces, ContextAcrossPiecesGivesTheSameResult) {
         {__LINE__, "t\n.model rm r rsh=10\n.param rv=2k\n" + body + "R9 a b rm l=1u w=1u\n"
                    "R10 a 0 rv\nR11 a 0 {rv}\n.end\n"},
         // Names used early and declared late (the whole deck is scaled again).
-        {__LINE__, "t\nR10 a 0 rv\nK1 L1 L2 0.5\n" + body + "L1 a 0 1u\nL2 b 0 1u\n.param rv=2k\n.end\n"},
+        {__LINE__, "t\nR10 a 0 rv\nK1 L1 L2 0.5\n" + body +
+                       "L1 a 0 1u\nL2 b 0 1u\n.param rv=2k\n.end\n"},
         // An include in the middle, and a .control block and continuation lines anywhere.
         {__LINE__, "t\n" + body.substr(0, body.size() / 2) + ".include inc.cir\n" +
                        body.substr(body.size() / 2) + ".end\n"},

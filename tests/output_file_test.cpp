@@ -22,7 +22,11 @@ TEST(OutputFile, WritesWholeContentInBothDurabilities) {
         std::string path = dir.file(d == Durability::synced ? "s.cir" : "a.cir");
         EXPECT_EQ(write_file_atomically(path, big, d), "");
         EXPECT_TRUE(test::read_bytes(path) == big);
-        EXPECT_EQ(write_file_atomically(path, [](ByteSink& s) { s.write("R1 a 0 "); s.write("2k\n"); }, d), "");
+        auto two_pieces = [](ByteSink& s) {
+            s.write("R1 a 0 ");
+            s.write("2k\n");
+        };
+        EXPECT_EQ(write_file_atomically(path, two_pieces, d), "");
         EXPECT_EQ(test::read_bytes(path), "R1 a 0 2k\n");
     }
     // Only the two files: no temporary file is left.

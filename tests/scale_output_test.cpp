@@ -40,7 +40,8 @@ TEST(ScaleOutput, LargeFileProducedInTwoHalvesEqualsOnePass) {
         settings.mark_unscalable = marks;
         ScaledDeck scaled = load_and_scale("big.cir", fs, settings);
         std::string whole = apply_edits(scaled.deck.top().text(), scaled.result.edits[0]);
-        OutputPlan plan = plan_output(scaled.deck, std::move(scaled.result.edits), "out.cir", false);
+        OutputPlan plan =
+            plan_output(scaled.deck, std::move(scaled.result.edits), "out.cir", false);
         plan.parallel = false;
         EXPECT_TRUE(produce(scaled.deck, plan) == whole);
         plan.parallel = true;
