@@ -63,6 +63,15 @@ Unit passive_value_unit(char letter) {
 
 void scale_passive(ScalePass& p, char letter) {
     const Card& c = p.card();
+    // The bulk of a large deck, "R1 n1 n2 1.5k": three plain words after the name and a
+    // number last. The loop below does the same for it, step by step.
+    if (letter != 'k' && c.fields.size() == 4 && c.fields[1].kind == TokenKind::word &&
+        c.fields[2].kind == TokenKind::word && c.fields[3].kind == TokenKind::word &&
+        p.is_number(c.fields[3])) {
+        warn_suffix_trap(p, c.fields[3], letter);
+        p.scale_value(c.fields[3], passive_value_unit(letter), "value");
+        return;
+    }
     std::string scope(1, letter);
     const auto& atoms = p.atoms(1);
     if (letter == 'k') {
