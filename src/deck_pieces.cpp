@@ -1,5 +1,7 @@
 #include "deck_pieces.hpp"
 
+#include <algorithm>
+
 #include "deck_checks.hpp"
 
 namespace deckscale {
