@@ -108,8 +108,7 @@ private:
             if (observer_) observer_(deck_, index, c);
             if (c.kind != CardKind::dot) return;
             if (kw == ".subckt") {
-                subckts.push_back({c.fields[0].begin, c.fields[0].size(),
-                                   c.fields.size() > 1 ? std::string(c.field_text(1)) : ""});
+                subckts.push_back(open_subckt(c));
             } else if (kw == ".ends") {
                 if (subckts.empty())
                     throw DeckError(file.diagnose(Severity::error, c.fields[0].begin,

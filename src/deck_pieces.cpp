@@ -50,8 +50,7 @@ void read_piece(Piece& p, const SourceFile& file, std::size_t index, FileRole ro
                 check_card(c, kw, p.local.warnings);
                 p.observer->observe(p.local, index, c);
                 if (kw == ".subckt")
-                    p.opened.push_back({c.fields[0].begin, c.fields[0].size(),
-                                        c.fields.size() > 1 ? std::string(c.field_text(1)) : ""});
+                    p.opened.push_back(open_subckt(c));
                 else if (kw == ".ends")
                     p.opened.pop_back();
             },

@@ -20,6 +20,12 @@ struct OpenSubckt {
     std::string name;
 };
 
+// The record of a .subckt card (its first field, and its name when it has one).
+inline OpenSubckt open_subckt(const Card& c) {
+    return {c.fields[0].begin, c.fields[0].size(),
+            c.fields.size() > 1 ? std::string(c.field_text(1)) : ""};
+}
+
 struct Piece {
     std::uint32_t from = 0;                 // a line start where a card is expected
     std::uint32_t stop_at = UINT32_MAX;     // where the next piece starts

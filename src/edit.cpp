@@ -20,6 +20,13 @@ bool overlaps(const EditView& a, const EditView& b) {
     return first.offset + first.length > second.offset;
 }
 
+// Throws the error for two overlapping edits, naming both.
+[[noreturn]] void overlap_error(const EditView& a, const EditView& b) {
+    throw std::logic_error(fmt::format("overlapping edits {} and {}",
+                                       describe(a.offset, a.length, a.text),
+                                       describe(b.offset, b.length, b.text)));
+}
+
 }  // namespace
 
 std::size_t EditSet::Segment::lower_bound(std::uint32_t offset) const {
@@ -75,13 +82,9 @@ void EditSet::add(std::string_view original, std::uint32_t offset, std::uint32_t
         merge_segments();
     if (segments_.empty()) segments_.emplace_back();
     Segment& seg = segments_.back();
-    EditView v{e.offset, e.length, e.text};
     std::size_t i = seg.lower_bound(e.offset);
     auto check = [&](const EditView& other) {
-        if (overlaps(other, v))
-            throw std::logic_error(fmt::format("overlapping edits {} and {}",
-                                               describe(other.offset, other.length, other.text),
-                                               describe(e.offset, e.length, e.text)));
+        if (overlaps(other, e)) overlap_error(other, e);
     };
     if (i < seg.slots.size()) check(seg.view(i));
     if (i > 0) {
@@ -104,10 +107,7 @@ void EditSet::append(EditSet&& later) {
     if (later.empty()) return;
     if (!empty()) {
         EditView last = at(size_ - 1), first = later.at(0);
-        if (first.offset < last.offset || overlaps(last, first))
-            throw std::logic_error(fmt::format("overlapping edits {} and {}",
-                                               describe(last.offset, last.length, last.text),
-                                               describe(first.offset, first.length, first.text)));
+        if (first.offset < last.offset || overlaps(last, first)) overlap_error(last, first);
     }
     // Segments with no edits (reserved room only) are dropped; the others are moved.
     std::erase_if(segments_, [](const Segment& seg) { return seg.slots.empty(); });
