@@ -3,7 +3,7 @@
 // (inside must<> or raise<>) may have a message.
 #pragma once
 
-#include "deck_grammar.hpp"
+#include "grammar/deck_grammar.hpp"
 
 namespace deckscale::grammar {
 

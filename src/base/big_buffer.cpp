@@ -1,4 +1,4 @@
-#include "big_buffer.hpp"
+#include "base/big_buffer.hpp"
 
 #include <cstdint>
 #include <fstream>

@@ -11,7 +11,7 @@
 #include <stdexcept>
 #include <string_view>
 
-#include "big_buffer.hpp"
+#include "base/big_buffer.hpp"
 
 namespace deckscale {
 
@@ -75,7 +75,7 @@ private:
         }
     }
 
-    // The block comes from BigAllocator: huge pages when it is large (see big_buffer.hpp).
+    // The block comes from BigAllocator: huge pages when it is large (see base/big_buffer.hpp).
     struct Release {
         std::size_t bytes;
         void operator()(char* p) const { BigAllocator<char>{}.deallocate(p, bytes); }

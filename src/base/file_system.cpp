@@ -1,6 +1,6 @@
-#include "file_system.hpp"
+#include "base/file_system.hpp"
 
-#include "big_buffer.hpp"
+#include "base/big_buffer.hpp"
 
 #include <cerrno>
 #include <filesystem>
@@ -29,7 +29,7 @@ std::optional<FileText> DiskFileSystem::read(const std::string& path) const {
     }
     std::size_t size = static_cast<std::size_t>(st.st_size);
     if (S_ISREG(st.st_mode) && size >= kBigBufferBytes) {
-        // A large deck: read into huge pages (see big_buffer.hpp), much cheaper to touch
+        // A large deck: read into huge pages (see base/big_buffer.hpp), much cheaper to touch
         // than the 4 KiB pages of a file mapping.
         if (void* buf = allocate_big(size)) {
             std::shared_ptr<const void> owner(buf, [size](const void* q) {

@@ -1,4 +1,4 @@
-#include "output_file.hpp"
+#include "base/output_file.hpp"
 
 #include <cerrno>
 #include <cstdio>

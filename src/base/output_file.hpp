@@ -5,7 +5,7 @@
 #include <string>
 #include <string_view>
 
-#include "byte_sink.hpp"
+#include "base/byte_sink.hpp"
 
 namespace deckscale {
 

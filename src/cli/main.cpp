@@ -3,10 +3,10 @@
 #include <string>
 #include <vector>
 
-#include "cli.hpp"
-#include "exit_codes.hpp"
-#include "scale_command.hpp"
-#include "verify_command.hpp"
+#include "cli/exit_codes.hpp"
+#include "cli/options.hpp"
+#include "cli/scale_command.hpp"
+#include "cli/verify_command.hpp"
 
 int main(int argc, char** argv) {
     using namespace deckscale;

@@ -1,9 +1,9 @@
-#include "cli.hpp"
+#include "cli/options.hpp"
 
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
-#include "factor.hpp"
+#include "scale/factor.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,17 +1,17 @@
-#include "scale_command.hpp"
+#include "cli/scale_command.hpp"
 
 #include <filesystem>
 
 #include <fmt/format.h>
 
-#include "change_report.hpp"
-#include "deck.hpp"
-#include "exit_codes.hpp"
-#include "expression.hpp"
-#include "output_file.hpp"
-#include "scale_output.hpp"
-#include "scaler.hpp"
-#include "verify_command.hpp"
+#include "base/output_file.hpp"
+#include "cli/exit_codes.hpp"
+#include "cli/verify_command.hpp"
+#include "deck/load.hpp"
+#include "scale/change_report.hpp"
+#include "scale/expression.hpp"
+#include "scale/rescale.hpp"
+#include "write/plan.hpp"
 
 namespace deckscale {
 namespace {

@@ -3,7 +3,7 @@
 
 #include <ostream>
 
-#include "cli.hpp"
+#include "cli/options.hpp"
 
 namespace deckscale {
 

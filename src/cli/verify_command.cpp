@@ -1,4 +1,4 @@
-#include "verify_command.hpp"
+#include "cli/verify_command.hpp"
 
 #include <algorithm>
 #include <filesystem>
@@ -6,18 +6,18 @@
 
 #include <fmt/format.h>
 
-#include "analyses.hpp"
-#include "bode_plot.hpp"
-#include "deck.hpp"
-#include "exit_codes.hpp"
-#include "factor_inference.hpp"
-#include "output_file.hpp"
-#include "sim.hpp"
-#include "sim_deck.hpp"
-#include "sim_head_start.hpp"
-#include "text_util.hpp"
-#include "verify_compare.hpp"
-#include "verify_report.hpp"
+#include "base/output_file.hpp"
+#include "base/text_util.hpp"
+#include "cli/exit_codes.hpp"
+#include "deck/analyses.hpp"
+#include "deck/load.hpp"
+#include "sim/head_start.hpp"
+#include "sim/simulate.hpp"
+#include "verify/bode_plot.hpp"
+#include "verify/compare.hpp"
+#include "verify/factor_inference.hpp"
+#include "verify/report.hpp"
+#include "verify/sim_cards.hpp"
 
 namespace deckscale {
 namespace {

@@ -4,7 +4,7 @@
 
 #include <ostream>
 
-#include "cli.hpp"
+#include "cli/options.hpp"
 
 namespace deckscale {
 

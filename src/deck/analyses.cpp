@@ -1,11 +1,11 @@
-#include "analyses.hpp"
+#include "deck/analyses.hpp"
 
 #include <algorithm>
 
 #include <fmt/format.h>
 
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
 
 namespace deckscale {
 namespace {

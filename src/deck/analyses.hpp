@@ -6,7 +6,7 @@
 #include <string>
 #include <vector>
 
-#include "deck.hpp"
+#include "deck/load.hpp"
 
 namespace deckscale {
 

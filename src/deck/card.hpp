@@ -7,7 +7,7 @@
 #include <string>
 #include <string_view>
 
-#include "source_file.hpp"
+#include "deck/source_file.hpp"
 
 namespace deckscale {
 

@@ -1,10 +1,10 @@
-#include "card_reader.hpp"
+#include "deck/card_reader.hpp"
 
 #include <algorithm>
 #include <vector>
 
-#include "deck_errors.hpp"
-#include "deck_grammar.hpp"
+#include "grammar/deck_errors.hpp"
+#include "grammar/deck_grammar.hpp"
 
 namespace deckscale {
 namespace {

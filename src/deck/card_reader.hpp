@@ -6,7 +6,7 @@
 #include <cstdint>
 #include <functional>
 
-#include "card.hpp"
+#include "deck/card.hpp"
 
 namespace deckscale {
 

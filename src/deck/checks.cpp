@@ -1,12 +1,12 @@
-#include "deck_checks.hpp"
+#include "deck/checks.hpp"
 
 #include <array>
 #include <set>
 
 #include <fmt/format.h>
 
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,12 +1,12 @@
 // The reader's work on one card that needs no other card: the names a card declares and
-// the checks of its shape. Shared by whole-file reading and reading in pieces (deck.cpp).
+// the checks of its shape. Shared by whole-file reading and reading in pieces (deck/load.cpp).
 #pragma once
 
 #include <string>
 #include <vector>
 
-#include "card.hpp"
-#include "deck.hpp"
+#include "deck/card.hpp"
+#include "deck/load.hpp"
 
 namespace deckscale {
 

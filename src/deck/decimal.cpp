@@ -1,4 +1,4 @@
-#include "decimal.hpp"
+#include "deck/decimal.hpp"
 
 #include <bit>
 #include <charconv>

@@ -1,4 +1,4 @@
-#include "diagnostic.hpp"
+#include "deck/diagnostic.hpp"
 
 #include <fmt/format.h>
 

@@ -1,4 +1,4 @@
-#include "deck.hpp"
+#include "deck/load.hpp"
 
 #include <algorithm>
 #include <atomic>
@@ -8,9 +8,9 @@
 
 #include <fmt/format.h>
 
-#include "deck_checks.hpp"
-#include "deck_pieces.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/checks.hpp"
+#include "deck/pieces.hpp"
 
 namespace deckscale {
 

@@ -10,10 +10,10 @@
 #include <string>
 #include <vector>
 
-#include "card.hpp"
-#include "card_reader.hpp"
-#include "diagnostic.hpp"
-#include "file_system.hpp"
+#include "base/file_system.hpp"
+#include "deck/card.hpp"
+#include "deck/card_reader.hpp"
+#include "deck/diagnostic.hpp"
 
 namespace deckscale {
 

@@ -1,8 +1,8 @@
-#include "deck_pieces.hpp"
+#include "deck/pieces.hpp"
 
 #include <algorithm>
 
-#include "deck_checks.hpp"
+#include "deck/checks.hpp"
 
 namespace deckscale {
 namespace {

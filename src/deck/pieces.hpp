@@ -1,4 +1,4 @@
-// Reading one large file in pieces on helper threads (see PieceReading in deck.hpp): where
+// Reading one large file in pieces on helper threads (see PieceReading in deck/load.hpp): where
 // pieces start, and what a helper thread does with one.
 #pragma once
 
@@ -9,8 +9,8 @@
 #include <string_view>
 #include <vector>
 
-#include "card_reader.hpp"
-#include "deck.hpp"
+#include "deck/card_reader.hpp"
+#include "deck/load.hpp"
 
 namespace deckscale {
 

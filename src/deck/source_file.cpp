@@ -1,4 +1,4 @@
-#include "source_file.hpp"
+#include "deck/source_file.hpp"
 
 #include <algorithm>
 

@@ -9,8 +9,8 @@
 #include <string_view>
 #include <vector>
 
-#include "diagnostic.hpp"
-#include "file_system.hpp"
+#include "base/file_system.hpp"
+#include "deck/diagnostic.hpp"
 
 namespace deckscale {
 

@@ -1,4 +1,4 @@
-#include "spice_number.hpp"
+#include "deck/spice_number.hpp"
 
 #include <array>
 #include <charconv>
@@ -10,9 +10,9 @@
 #include <fmt/format.h>
 #include <tao/pegtl.hpp>
 
-#include "decimal.hpp"
-#include "number_grammar.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/decimal.hpp"
+#include "grammar/number_grammar.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,9 +1,9 @@
-#include "change_report.hpp"
+#include "scale/change_report.hpp"
 
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
-#include "expression.hpp"
+#include "scale/expression.hpp"
 
 namespace deckscale {
 

@@ -3,9 +3,9 @@
 
 #include <string>
 
-#include "deck.hpp"
-#include "scale_output.hpp"
-#include "scaler.hpp"
+#include "deck/load.hpp"
+#include "scale/rescale.hpp"
+#include "write/plan.hpp"
 
 namespace deckscale {
 

@@ -2,11 +2,11 @@
 // cards and .control blocks (ngspice 39 manual ch. 15; shared notes "scaling-rules.md" §3-§6).
 #include <fmt/format.h>
 
-#include "expression.hpp"
-#include "rules.hpp"
-#include "scale_pass.hpp"
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/expression.hpp"
+#include "scale/pass.hpp"
+#include "scale/rules.hpp"
 
 namespace deckscale {
 namespace {

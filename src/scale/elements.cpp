@@ -1,10 +1,10 @@
 // Card handlers for R, C, L, K, controlled sources (E F G H B), lines and switches.
 #include <fmt/format.h>
 
-#include "rules.hpp"
-#include "scale_pass.hpp"
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/pass.hpp"
+#include "scale/rules.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,10 +1,10 @@
-#include "expression.hpp"
+#include "scale/expression.hpp"
 
 #include <cctype>
 
 #include <fmt/format.h>
 
-#include "text_util.hpp"
+#include "base/text_util.hpp"
 
 namespace deckscale {
 

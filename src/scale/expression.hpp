@@ -9,7 +9,7 @@
 #include <string_view>
 #include <vector>
 
-#include "units.hpp"
+#include "scale/units.hpp"
 
 namespace deckscale {
 

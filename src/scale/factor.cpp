@@ -1,10 +1,10 @@
-#include "factor.hpp"
+#include "scale/factor.hpp"
 
 #include <cmath>
 #include <numbers>
 
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
 
 namespace deckscale {
 

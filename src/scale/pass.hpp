@@ -1,5 +1,5 @@
-// Internal to the scaling pass: the state shared by its card handlers (scaler.cpp,
-// scale_elements.cpp, scale_sources.cpp, scale_dot_cards.cpp).
+// Internal to the scaling pass: the state shared by its card handlers (scale/rescale.cpp,
+// scale/elements.cpp, scale/sources.cpp, scale/dot_cards.cpp).
 #pragma once
 
 #include <map>
@@ -8,8 +8,8 @@
 #include <string>
 #include <vector>
 
-#include "scaler.hpp"
-#include "spice_number.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/rescale.hpp"
 
 namespace deckscale {
 

@@ -1,11 +1,11 @@
-#include "scaler.hpp"
+#include "scale/rescale.hpp"
 
 #include <fmt/format.h>
 
-#include "expression.hpp"
-#include "scale_pass.hpp"
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/expression.hpp"
+#include "scale/pass.hpp"
 
 namespace deckscale {
 

@@ -5,10 +5,10 @@
 #include <string>
 #include <vector>
 
-#include "deck.hpp"
-#include "diagnostic.hpp"
-#include "edit.hpp"
-#include "units.hpp"
+#include "deck/diagnostic.hpp"
+#include "deck/load.hpp"
+#include "scale/units.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 

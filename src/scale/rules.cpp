@@ -1,4 +1,4 @@
-#include "rules.hpp"
+#include "scale/rules.hpp"
 
 #include <string>
 #include <unordered_map>

@@ -8,7 +8,7 @@
 #include <span>
 #include <string_view>
 
-#include "units.hpp"
+#include "scale/units.hpp"
 
 namespace deckscale {
 

@@ -2,10 +2,10 @@
 // function (ngspice 39 manual 4.1; shared notes "scaling-rules.md" §2).
 #include <fmt/format.h>
 
-#include "rules.hpp"
-#include "scale_pass.hpp"
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/pass.hpp"
+#include "scale/rules.hpp"
 
 namespace deckscale {
 namespace {

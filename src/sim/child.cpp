@@ -1,5 +1,5 @@
 // The simulator child: one job in a fresh process, libngspice loaded with dlopen.
-#include "sim_child.hpp"
+#include "sim/child.hpp"
 
 #include <dlfcn.h>
 #include <fcntl.h>
@@ -20,12 +20,12 @@
 #include <string>
 #include <vector>
 
-#include "sim_child_state.hpp"
-#include "sim_code_models.hpp"
-#include "sim_job_wire.hpp"
-#include "sim_process.hpp"
-#include "sim_verdict.hpp"
-#include "sim_wire.hpp"
+#include "sim/child_state.hpp"
+#include "sim/code_models.hpp"
+#include "sim/job_wire.hpp"
+#include "sim/process.hpp"
+#include "sim/verdict.hpp"
+#include "sim/wire.hpp"
 
 namespace deckscale {
 namespace {

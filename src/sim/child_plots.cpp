@@ -2,7 +2,7 @@
 #include <algorithm>
 #include <cstring>
 
-#include "sim_child_state.hpp"
+#include "sim/child_state.hpp"
 
 namespace deckscale::child_process {
 namespace {

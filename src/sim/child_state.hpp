@@ -1,5 +1,5 @@
 // The state of a simulator child process and the reading of plots out of ngspice's memory.
-// Internal to sim_child.cpp and sim_child_plots.cpp; with sim_child.cpp the only files that
+// Internal to sim/child.cpp and sim/child_plots.cpp; with sim/child.cpp the only files that
 // include <ngspice/sharedspice.h>.
 #pragma once
 
@@ -14,10 +14,10 @@
 #include <string>
 #include <vector>
 
-#include "sim.hpp"
-#include "sim_process.hpp"
-#include "sim_verdict.hpp"
-#include "sim_wire.hpp"
+#include "sim/process.hpp"
+#include "sim/simulate.hpp"
+#include "sim/verdict.hpp"
+#include "sim/wire.hpp"
 
 namespace deckscale::child_process {
 

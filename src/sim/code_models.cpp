@@ -1,11 +1,11 @@
-#include "sim_code_models.hpp"
+#include "sim/code_models.hpp"
 
 #include <algorithm>
 #include <array>
 #include <cctype>
 #include <cstdlib>
 
-#include "sim_process.hpp"
+#include "sim/process.hpp"
 
 namespace deckscale {
 namespace {

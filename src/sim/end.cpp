@@ -1,4 +1,4 @@
-#include "sim_end.hpp"
+#include "sim/end.hpp"
 
 #include <fmt/format.h>
 #include <sys/wait.h>

@@ -5,8 +5,8 @@
 #include <chrono>
 #include <string>
 
-#include "sim.hpp"
-#include "sim_wire.hpp"
+#include "sim/simulate.hpp"
+#include "sim/wire.hpp"
 
 namespace deckscale {
 

@@ -1,4 +1,4 @@
-#include "sim_head_start.hpp"
+#include "sim/head_start.hpp"
 
 #include <fcntl.h>
 #include <signal.h>
@@ -9,8 +9,8 @@
 #include <cerrno>
 #include <string>
 
-#include "sim_child.hpp"
-#include "sim_job_wire.hpp"
+#include "sim/child.hpp"
+#include "sim/job_wire.hpp"
 
 namespace deckscale {
 

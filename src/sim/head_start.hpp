@@ -1,7 +1,7 @@
 // Simulator processes started before their jobs are known.
 //
 // Each one is forked at once and loads libngspice while the caller is still reading and
-// preparing the decks; simulate_all then hands it a job (sim_job_wire.hpp) over a socket of
+// preparing the decks; simulate_all then hands it a job (sim/job_wire.hpp) over a socket of
 // its own, and from there on it is an ordinary direct child: own pipe for its results, own
 // process group, the job's deadline counted from the hand-over. Jobs beyond them get
 // processes of their own as usual. The forks are also cheaper there: the caller has mapped
@@ -13,7 +13,7 @@
 
 #include <vector>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale {
 

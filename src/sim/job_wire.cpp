@@ -1,4 +1,4 @@
-#include "sim_job_wire.hpp"
+#include "sim/job_wire.hpp"
 
 #include <cstdint>
 #include <cstring>

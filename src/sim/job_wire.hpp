@@ -1,5 +1,5 @@
 // A job as the parent hands it to a simulator process that was started before the job was
-// known (sim_head_start.hpp): the work directory and the cards, each a u32 length and its
+// known (sim/head_start.hpp): the work directory and the cards, each a u32 length and its
 // bytes, after the number of cards (u32). Internal to the sim module.
 #pragma once
 
@@ -7,7 +7,7 @@
 #include <string>
 #include <string_view>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale::wire {
 

@@ -1,4 +1,4 @@
-#include "sim_process.hpp"
+#include "sim/process.hpp"
 
 #include <fcntl.h>
 #include <malloc.h>

@@ -26,7 +26,7 @@ void prefault_heap(std::size_t bytes);
 
 // A fresh private directory holding an empty .spiceinit and, unless `spinit` is empty, an
 // init script "spinit" with that text, for ngspice to be initialised in; "" if none could
-// be made. See sim_process.cpp.
+// be made. See sim/process.cpp.
 std::string make_start_dir(const std::string& spinit);
 void remove_start_dir(const std::string& dir);
 

@@ -1,5 +1,5 @@
 // The parent side of simulation: start children, read their pipes, enforce deadlines, reap.
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 #include <fcntl.h>
 #include <fmt/format.h>
@@ -16,11 +16,11 @@
 #include <optional>
 #include <thread>
 
-#include "sim_child.hpp"
-#include "sim_end.hpp"
-#include "sim_head_start.hpp"
-#include "sim_template.hpp"
-#include "sim_wire.hpp"
+#include "sim/child.hpp"
+#include "sim/end.hpp"
+#include "sim/head_start.hpp"
+#include "sim/template.hpp"
+#include "sim/wire.hpp"
 
 namespace deckscale {
 namespace {
@@ -179,7 +179,7 @@ const SimVector* SimPlot::find(const std::string& wanted) const {
 
 namespace {
 
-// Runs the jobs, cloned from a template process (see sim_template.hpp) if `how` says so.
+// Runs the jobs, cloned from a template process (see sim/template.hpp) if `how` says so.
 std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned parallel,
                                  SimProcesses how, SimHeadStart* head) {
     if (parallel == 0) parallel = std::thread::hardware_concurrency();

@@ -74,7 +74,7 @@ enum class SimProcesses {
     automatic,
 };
 
-class SimHeadStart;  // sim_head_start.hpp
+class SimHeadStart;  // sim/head_start.hpp
 
 // Runs several jobs, at most `parallel` at a time (0 = number of cores); the outcomes are in
 // the order of the jobs. Processes waiting in `head_start` take the first jobs, and with a

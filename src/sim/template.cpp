@@ -1,5 +1,5 @@
-// The template process (see sim_template.hpp): both its own loop and the caller's handle.
-#include "sim_template.hpp"
+// The template process (see sim/template.hpp): both its own loop and the caller's handle.
+#include "sim/template.hpp"
 
 #include <fcntl.h>
 #include <poll.h>
@@ -16,8 +16,8 @@
 #include <cstdint>
 #include <cstring>
 
-#include "sim_child.hpp"
-#include "sim_code_models.hpp"
+#include "sim/child.hpp"
+#include "sim/code_models.hpp"
 
 namespace deckscale {
 namespace {

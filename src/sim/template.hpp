@@ -17,7 +17,7 @@
 #include <cstddef>
 #include <vector>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale {
 

@@ -1,4 +1,4 @@
-#include "sim_verdict.hpp"
+#include "sim/verdict.hpp"
 
 #include <fmt/format.h>
 

@@ -1,4 +1,4 @@
-#include "sim_wire.hpp"
+#include "sim/wire.hpp"
 
 #include <sys/mman.h>
 #include <unistd.h>

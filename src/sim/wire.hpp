@@ -17,7 +17,7 @@
 #include <string>
 #include <string_view>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale::wire {
 

@@ -1,4 +1,4 @@
-#include "bode_plot.hpp"
+#include "verify/bode_plot.hpp"
 
 #include <cmath>
 #include <filesystem>
@@ -10,7 +10,7 @@
 
 #include <fmt/format.h>
 
-#include "output_file.hpp"
+#include "base/output_file.hpp"
 
 extern char** environ;
 

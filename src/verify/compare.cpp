@@ -1,4 +1,4 @@
-#include "verify_compare.hpp"
+#include "verify/compare.hpp"
 
 #include <algorithm>
 #include <cmath>

@@ -7,7 +7,7 @@
 #include <string>
 #include <vector>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale {
 

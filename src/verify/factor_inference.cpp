@@ -1,11 +1,11 @@
-#include "factor_inference.hpp"
+#include "verify/factor_inference.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <map>
 
-#include "spice_number.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,11 +1,11 @@
-#include "verify_report.hpp"
+#include "verify/report.hpp"
 
 #include <algorithm>
 
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
-#include "expression.hpp"
+#include "scale/expression.hpp"
 
 namespace deckscale {
 

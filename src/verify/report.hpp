@@ -5,8 +5,8 @@
 #include <string>
 #include <vector>
 
-#include "factor_inference.hpp"
-#include "verify_compare.hpp"
+#include "verify/compare.hpp"
+#include "verify/factor_inference.hpp"
 
 namespace deckscale {
 

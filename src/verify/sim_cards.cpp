@@ -1,12 +1,12 @@
-#include "sim_deck.hpp"
+#include "verify/sim_cards.hpp"
 
 #include <set>
 
 #include <fmt/format.h>
 
-#include "flatten.hpp"
-#include "scaler.hpp"
-#include "text_util.hpp"
+#include "base/text_util.hpp"
+#include "scale/rescale.hpp"
+#include "write/flatten.hpp"
 
 namespace deckscale {
 namespace {

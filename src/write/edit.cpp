@@ -1,4 +1,4 @@
-#include "edit.hpp"
+#include "write/edit.hpp"
 
 #include <algorithm>
 #include <stdexcept>

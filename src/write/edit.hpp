@@ -7,8 +7,8 @@
 #include <string_view>
 #include <vector>
 
-#include "big_buffer.hpp"
-#include "byte_sink.hpp"
+#include "base/big_buffer.hpp"
+#include "base/byte_sink.hpp"
 
 namespace deckscale {
 

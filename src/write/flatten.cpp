@@ -1,8 +1,8 @@
-#include "flatten.hpp"
+#include "write/flatten.hpp"
 
 #include <fmt/format.h>
 
-#include "text_util.hpp"
+#include "base/text_util.hpp"
 
 namespace deckscale {
 namespace {

@@ -5,8 +5,8 @@
 #include <string>
 #include <vector>
 
-#include "deck.hpp"
-#include "edit.hpp"
+#include "deck/load.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 

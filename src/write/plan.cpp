@@ -1,4 +1,4 @@
-#include "scale_output.hpp"
+#include "write/plan.hpp"
 
 #include <filesystem>
 #include <set>
@@ -6,7 +6,7 @@
 
 #include <fmt/format.h>
 
-#include "flatten.hpp"
+#include "write/flatten.hpp"
 
 namespace deckscale {
 

@@ -1,13 +1,13 @@
-// Turning a scaled deck into output files: the main deck, copies of included files that
+// Turning an edited deck into output files: the main deck, copies of included files that
 // changed (written beside the output deck, include lines repointed), or one flattened deck.
 #pragma once
 
 #include <string>
 #include <vector>
 
-#include "byte_sink.hpp"
-#include "deck.hpp"
-#include "scaler.hpp"
+#include "base/byte_sink.hpp"
+#include "deck/load.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 

@@ -1,6 +1,6 @@
 // Large buffers: huge-page blocks where available, ordinary memory otherwise; either way a
 // container using BigAllocator and a large deck read from disk behave as usual.
-#include "big_buffer.hpp"
+#include "base/big_buffer.hpp"
 
 #include <gtest/gtest.h>
 
@@ -8,8 +8,8 @@
 #include <string>
 #include <vector>
 
-#include "file_system.hpp"
-#include "test_support.hpp"
+#include "base/file_system.hpp"
+#include "support/common.hpp"
 
 namespace deckscale {
 namespace {

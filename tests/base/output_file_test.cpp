@@ -1,6 +1,6 @@
 // Atomic output files: the content arrives whole, a replaced file keeps its permissions, and
 // a failure leaves neither a partial file nor a temporary one behind.
-#include "output_file.hpp"
+#include "base/output_file.hpp"
 
 #include <gtest/gtest.h>
 
@@ -9,7 +9,7 @@
 #include <filesystem>
 #include <string>
 
-#include "test_support.hpp"
+#include "support/common.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,13 +1,13 @@
 // Tests of option parsing (parse_command_line, a pure function) and of the real binary:
 // scaling by 1 reproduces every deck byte for byte, bad input exits with 2 and writes nothing.
-#include "cli.hpp"
+#include "cli/options.hpp"
 
 #include <gtest/gtest.h>
 
 #include <cmath>
 #include <numbers>
 
-#include "test_support.hpp"
+#include "support/common.hpp"
 
 namespace deckscale {
 namespace {

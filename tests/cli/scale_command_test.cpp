@@ -6,8 +6,8 @@
 #include <cmath>
 #include <filesystem>
 
-#include "scale_test_support.hpp"
-#include "test_support.hpp"
+#include "support/common.hpp"
+#include "support/scale.hpp"
 
 namespace deckscale {
 namespace {

@@ -10,10 +10,10 @@
 #include <gtest/gtest.h>
 #include <nlohmann/json.hpp>
 
-#include "deck.hpp"
-#include "sim.hpp"
-#include "sim_deck.hpp"
-#include "test_support.hpp"
+#include "deck/load.hpp"
+#include "sim/simulate.hpp"
+#include "support/common.hpp"
+#include "verify/sim_cards.hpp"
 
 namespace deckscale {
 namespace {

@@ -4,8 +4,8 @@
 
 #include <gtest/gtest.h>
 
-#include "analyses.hpp"
-#include "deck.hpp"
+#include "deck/analyses.hpp"
+#include "deck/load.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,6 +1,6 @@
 // Tests of the lossless card reader: every byte of a file belongs to exactly one token, the
 // tokens of all cards rebuild the file, and cards get the right kind and fields.
-#include "card_reader.hpp"
+#include "deck/card_reader.hpp"
 
 #include <gtest/gtest.h>
 
@@ -9,7 +9,7 @@
 #include <string>
 #include <vector>
 
-#include "test_support.hpp"
+#include "support/common.hpp"
 
 namespace deckscale {
 namespace {

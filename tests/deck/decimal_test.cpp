@@ -7,7 +7,7 @@
 #include <random>
 #include <string>
 
-#include "decimal.hpp"
+#include "deck/decimal.hpp"
 
 namespace deckscale {
 namespace {

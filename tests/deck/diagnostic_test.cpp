@@ -1,9 +1,9 @@
 // Tests of the one diagnostic type and its rendering.
-#include "diagnostic.hpp"
+#include "deck/diagnostic.hpp"
 
 #include <gtest/gtest.h>
 
-#include "source_file.hpp"
+#include "deck/source_file.hpp"
 
 namespace deckscale {
 namespace {

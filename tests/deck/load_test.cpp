@@ -1,12 +1,12 @@
 // Tests of deck loading: includes and libraries, structural checks, and the full rendered
 // text of every class of bad input a reader can see.
-#include "deck.hpp"
+#include "deck/load.hpp"
 
 #include <gtest/gtest.h>
 
 #include <string>
 
-#include "test_support.hpp"
+#include "support/common.hpp"
 
 namespace deckscale {
 namespace {

@@ -5,11 +5,11 @@
 #include <random>
 #include <string>
 
-#include "deck_pieces.hpp"
-#include "edit.hpp"
-#include "file_system.hpp"
-#include "scaler.hpp"
-#include "test_support.hpp"
+#include "base/file_system.hpp"
+#include "deck/pieces.hpp"
+#include "scale/rescale.hpp"
+#include "support/common.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,7 +1,7 @@
 // Numbers as ngspice 39 reads them on element and dot cards (ngspice 39 manual, section
 // 2.1.4, "Values"; shared notes deck-syntax.md §2), and respell(), which rewrites a value
 // in the spelling style of the original.
-#include "spice_number.hpp"
+#include "deck/spice_number.hpp"
 
 #include <gtest/gtest.h>
 

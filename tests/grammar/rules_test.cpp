@@ -5,8 +5,8 @@
 #include <tao/pegtl.hpp>
 #include <tao/pegtl/contrib/analyze.hpp>
 
-#include "deck_grammar.hpp"
-#include "number_grammar.hpp"
+#include "grammar/deck_grammar.hpp"
+#include "grammar/number_grammar.hpp"
 
 namespace deckscale {
 namespace {

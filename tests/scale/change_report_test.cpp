@@ -3,8 +3,8 @@
 
 #include <nlohmann/json.hpp>
 
-#include "change_report.hpp"
-#include "scale_output.hpp"
+#include "scale/change_report.hpp"
+#include "write/plan.hpp"
 
 namespace deckscale {
 namespace {

@@ -2,7 +2,7 @@
 // time -> time*Kf, hertz -> hertz/Kf, i(x) -> i(x)*Km, ddt(u) -> ddt(u)/Kf).
 #include <gtest/gtest.h>
 
-#include "expression.hpp"
+#include "scale/expression.hpp"
 
 namespace deckscale {
 namespace {

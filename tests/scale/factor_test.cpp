@@ -1,5 +1,5 @@
 // Tests of scale-factor parsing: SPICE numbers, "pi", products and quotients.
-#include "factor.hpp"
+#include "scale/factor.hpp"
 
 #include <gtest/gtest.h>
 

@@ -10,8 +10,8 @@
 #include <numbers>
 #include <sstream>
 
-#include "scale_test_support.hpp"
-#include "test_support.hpp"
+#include "support/common.hpp"
+#include "support/scale.hpp"
 
 namespace deckscale {
 namespace {
@@ -50,7 +50,7 @@ TEST(ScaleReferenceTest, RlcLawsHoldOnTheRewrittenValues) {
     const Row rows[] = {{__LINE__, 100, 1}, {__LINE__, 1, 1000}, {__LINE__, 1000, 2 * pi * 1000},
                         {__LINE__, 0.02, 3.5e6}};
     for (const auto& r : rows) {
-        SCOPED_TRACE(testing::Message() << "scale_reference_test.cpp:" << r.line);
+        SCOPED_TRACE(testing::Message() << "ngspice_reference_test.cpp:" << r.line);
         auto s = test::scale_text(deck, r.km, r.kf);
         double R = value_of(s.text(), "R1"), L = value_of(s.text(), "L1"), C = value_of(s.text(), "C1");
         for (bool parallel : {false, true}) {
@@ -172,7 +172,7 @@ TEST(ScaleReferenceTest, NgspiceAgreesAtMappedFrequencies) {
          75, 2 * pi * 2.5e5},
     };
     for (const auto& c : cases) {
-        SCOPED_TRACE(testing::Message() << "scale_reference_test.cpp:" << c.line << ": " << c.deck);
+        SCOPED_TRACE(testing::Message() << "ngspice_reference_test.cpp:" << c.line << ": " << c.deck);
         std::string original = test::read_bytes(test::source_dir() + "/" + c.deck);
         // 10 digits: the rounding of 7-digit values alone moves sharp responses by ~1e-6.
         auto s = test::scale_text(original, c.km, c.kf, 10);

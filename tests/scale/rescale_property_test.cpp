@@ -7,10 +7,10 @@
 #include <string>
 #include <vector>
 
-#include "edit.hpp"
-#include "file_system.hpp"
-#include "scaler.hpp"
-#include "test_support.hpp"
+#include "base/file_system.hpp"
+#include "scale/rescale.hpp"
+#include "support/common.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 namespace {

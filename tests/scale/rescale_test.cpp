@@ -1,14 +1,14 @@
 // Tests of the scaling pass on whole cards: each row is a deck line (with the cards it needs
 // before it) and the exact line the pass must write for Km = 10, Kf = 1000 (shared notes
 // "scaling-rules.md" §1-§6 give every rule).
-#include "scaler.hpp"
+#include "scale/rescale.hpp"
 
 #include <gtest/gtest.h>
 
 #include <algorithm>
 
-#include "diagnostic.hpp"
-#include "scale_test_support.hpp"
+#include "deck/diagnostic.hpp"
+#include "support/scale.hpp"
 
 namespace deckscale {
 namespace {
@@ -117,7 +117,7 @@ std::vector<LineCase> line_cases() {
 
 TEST(ScalerTest, LinesScaleAsTheRulesSay) {
     for (const auto& c : line_cases()) {
-        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << c.line << ": " << c.in);
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.in);
         std::string deck = "line test\n" + c.before + c.in + "\n";
         if (c.before.find(".subckt") != std::string::npos) deck += ".ends\n";
         deck += ".end\n";
@@ -172,7 +172,7 @@ TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
         {__LINE__, "E1 a 0 LAPLACE {v(b)} {1/(1+s)}\n", {"2:8"}},
     };
     for (const auto& c : cases) {
-        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << c.line << ": " << c.deck);
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.deck);
         try {
             auto s = test::scale_text("refusal test\n" + c.deck + ".end\n", 10, 1000);
             std::vector<std::string> got;
@@ -241,7 +241,7 @@ TEST(ScalerTest, SpellingIsKept) {
         {__LINE__, "L1 a 0 3.3mH", 10, 1000, 7, "L1 a 0 33uH"},
     };
     for (const auto& r : rows) {
-        SCOPED_TRACE(testing::Message() << "scaler_test.cpp:" << r.line);
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << r.line);
         auto s = test::scale_text("t\n" + r.in + "\n.end\n", r.km, r.kf, r.digits);
         EXPECT_EQ(s.text(), "t\n" + r.out + "\n.end\n");
     }

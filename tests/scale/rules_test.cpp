@@ -2,13 +2,13 @@
 // uses it, and scaling that line multiplies the value by Km^a * Kf^b for the field's unit
 // (shared notes "scaling-rules.md" §0-§6). The exponents are written here independently of
 // the table, so a wrong unit in the table fails its row.
-#include "rules.hpp"
+#include "scale/rules.hpp"
 
 #include <gtest/gtest.h>
 
 #include <set>
 
-#include "scale_test_support.hpp"
+#include "support/scale.hpp"
 
 namespace deckscale {
 namespace {

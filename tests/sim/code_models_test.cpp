@@ -1,14 +1,14 @@
-// Tests of the decision to initialise ngspice without its code models (sim_code_models.hpp),
+// Tests of the decision to initialise ngspice without its code models (sim/code_models.hpp),
 // and of decks that need them, simulated by real ngspice.
-#include "sim_code_models.hpp"
+#include "sim/code_models.hpp"
 
 #include <gtest/gtest.h>
 
 #include <string>
 #include <vector>
 
-#include "sim.hpp"
-#include "sim_test_support.hpp"
+#include "sim/simulate.hpp"
+#include "support/sim.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,5 +1,5 @@
-// Tests of how the parent judges a simulator child (sim_end.hpp).
-#include "sim_end.hpp"
+// Tests of how the parent judges a simulator child (sim/end.hpp).
+#include "sim/end.hpp"
 
 #include <gtest/gtest.h>
 #include <signal.h>

@@ -1,5 +1,5 @@
-// Tests of simulator processes started before their jobs (sim_head_start.hpp).
-#include "sim_head_start.hpp"
+// Tests of simulator processes started before their jobs (sim/head_start.hpp).
+#include "sim/head_start.hpp"
 
 #include <gtest/gtest.h>
 
@@ -8,7 +8,7 @@
 #include <string>
 #include <vector>
 
-#include "sim_test_support.hpp"
+#include "support/sim.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,5 +1,5 @@
-// Tests of the job message a head-started simulator process receives (sim_job_wire.hpp).
-#include "sim_job_wire.hpp"
+// Tests of the job message a head-started simulator process receives (sim/job_wire.hpp).
+#include "sim/job_wire.hpp"
 
 #include <gtest/gtest.h>
 

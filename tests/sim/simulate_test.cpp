@@ -1,7 +1,7 @@
 // Tests of the simulator layer: real ngspice (libngspice 39) runs in child processes. The pure
-// parts have their own files: sim_wire_test.cpp (pipe encoding), sim_verdict_test.cpp.
-#include "sim.hpp"
-#include "sim_test_support.hpp"
+// parts have their own files: sim/wire_test.cpp (pipe encoding), sim/verdict_test.cpp.
+#include "sim/simulate.hpp"
+#include "support/sim.hpp"
 
 #include <fmt/format.h>
 #include <gtest/gtest.h>

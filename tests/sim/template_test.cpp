@@ -1,8 +1,8 @@
-// Tests of the template path of simulate_all (sim_template.hpp): ngspice initialised once in a
+// Tests of the template path of simulate_all (sim/template.hpp): ngspice initialised once in a
 // template process, every job in a fresh clone of it. Results must equal the direct path
 // (simulate, one freshly forked child per job), and a job that fails in any way must leave the
 // others, and the next simulate_all, unaffected.
-#include "sim_template.hpp"
+#include "sim/template.hpp"
 
 #include <gtest/gtest.h>
 #include <sys/wait.h>
@@ -15,8 +15,8 @@
 #include <string>
 #include <vector>
 
-#include "sim.hpp"
-#include "sim_test_support.hpp"
+#include "sim/simulate.hpp"
+#include "support/sim.hpp"
 
 namespace deckscale {
 namespace {

@@ -1,13 +1,13 @@
-// Tests of judging ngspice's printed lines (sim_verdict.hpp). The lines are as libngspice 39
-// printed them in the runs of sim_test.cpp.
-#include "sim_verdict.hpp"
+// Tests of judging ngspice's printed lines (sim/verdict.hpp). The lines are as libngspice 39
+// printed them in the runs of sim/simulate_test.cpp.
+#include "sim/verdict.hpp"
 
 #include <gtest/gtest.h>
 
 #include <string>
 #include <vector>
 
-#include "sim.hpp"
+#include "sim/simulate.hpp"
 
 namespace deckscale {
 namespace {

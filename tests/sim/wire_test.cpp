@@ -1,5 +1,5 @@
-// Tests of the byte stream between a simulator child and its parent (sim_wire.hpp).
-#include "sim_wire.hpp"
+// Tests of the byte stream between a simulator child and its parent (sim/wire.hpp).
+#include "sim/wire.hpp"
 
 #include <gtest/gtest.h>
 
@@ -97,7 +97,7 @@ TEST(SimWire, PiecesOfAnySizeDecodeLikeTheWhole) {
     }
 }
 
-// What the parent does (sim.cpp, drain): values straight into the vectors whenever the
+// What the parent does (sim/simulate.cpp, drain): values straight into the vectors whenever the
 // decoder offers room, everything else fed through a buffer, in reads of at most `piece` bytes.
 TEST(SimWire, ReadingIntoTheVectorsDecodesLikeFeeding) {
     SimOutcome sample = sample_outcome();

@@ -14,7 +14,7 @@
 
 #include <fmt/format.h>
 
-#include "card_reader.hpp"
+#include "deck/card_reader.hpp"
 
 namespace deckscale::test {
 

@@ -7,11 +7,11 @@
 #include <string>
 #include <vector>
 
-#include "deck.hpp"
-#include "edit.hpp"
-#include "file_system.hpp"
-#include "scaler.hpp"
-#include "spice_number.hpp"
+#include "base/file_system.hpp"
+#include "deck/load.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/rescale.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale::test {
 

@@ -8,7 +8,7 @@
 
 #include <gtest/gtest.h>
 
-#include "verify_compare.hpp"
+#include "verify/compare.hpp"
 
 namespace deckscale {
 namespace {

@@ -5,8 +5,8 @@
 
 #include <gtest/gtest.h>
 
-#include "deck.hpp"
-#include "factor_inference.hpp"
+#include "deck/load.hpp"
+#include "verify/factor_inference.hpp"
 
 namespace deckscale {
 namespace {

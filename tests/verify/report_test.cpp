@@ -4,7 +4,7 @@
 #include <gtest/gtest.h>
 #include <nlohmann/json.hpp>
 
-#include "verify_report.hpp"
+#include "verify/report.hpp"
 
 namespace deckscale {
 namespace {

@@ -5,8 +5,8 @@
 
 #include <gtest/gtest.h>
 
-#include "deck.hpp"
-#include "sim_deck.hpp"
+#include "deck/load.hpp"
+#include "verify/sim_cards.hpp"
 
 namespace deckscale {
 namespace {

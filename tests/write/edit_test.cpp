@@ -1,6 +1,6 @@
 // Tests of the edit set: sorted, conflict-checked byte-range edits and the one function that
 // applies them.
-#include "edit.hpp"
+#include "write/edit.hpp"
 
 #include <gtest/gtest.h>
 

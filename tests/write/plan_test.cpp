@@ -1,6 +1,6 @@
 // Producing output files: a large file's second half is produced on a second thread; the
 // bytes must be exactly those of one sequential pass, also when edits are insertions.
-#include "scale_output.hpp"
+#include "write/plan.hpp"
 
 #include <gtest/gtest.h>
 
@@ -8,8 +8,9 @@
 
 #include <fmt/format.h>
 
-#include "edit.hpp"
-#include "file_system.hpp"
+#include "base/file_system.hpp"
+#include "scale/rescale.hpp"
+#include "write/edit.hpp"
 
 namespace deckscale {
 namespace {
