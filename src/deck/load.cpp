@@ -119,7 +119,7 @@ private:
                 follow_include(index, c, kw == ".lib");
             } else if (kw == ".lib" && value_fields(c) == 1 && names_a_file(c)) {
                 // ".lib file" without a section: a section header inside a library, but in a
-                // deck that names an existing file it is the LTspice/PSpice include form.
+                // deck that names an existing file it is the include form some other simulators use.
                 deck_.warnings.push_back(file.diagnose(
                     Severity::warning, c.fields[1].begin, c.fields[1].size(),
                     ".lib with a file name and no section is read as .include (ngspice 39 reads "

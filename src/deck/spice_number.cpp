@@ -225,7 +225,8 @@ std::string describe(NumberProblem problem, std::string_view text) {
         case NumberProblem::rkm_style:
             return fmt::format(
                 "RKM-style value '{}' is ambiguous: ngspice 39 reads '{}' in its default mode "
-                "but the digits after the letter in LTspice mode; write it with a decimal point",
+                "but the digits after the letter in its compatibility mode (ngbehavior=lt); write it "
+                "with a decimal point",
                 text, text.substr(0, good_prefix(text)));
         case NumberProblem::non_ascii:
             return fmt::format(

@@ -177,7 +177,7 @@ TEST(Deck, IncludesAndLibrariesAreLoadedOnce) {
     EXPECT_TRUE(deck.warnings.empty()) << render(deck.warnings);
 }
 
-// ".lib file" with no section naming an existing file is the LTspice/PSpice include form:
+// ".lib file" with no section naming an existing file is the include form some other simulators use:
 // read as an include, with a warning; a ".lib name" that names no file is a section header.
 TEST(Deck, LibWithoutSectionNamingAFileIsAnInclude) {
     MemoryFileSystem fs;

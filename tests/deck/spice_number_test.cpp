@@ -154,10 +154,12 @@ TEST(SpiceNumber, RefusedForms) {
          "malformed number '0x10': ngspice 39 would silently read only '0x'"},
         {__LINE__, "4k7", P::rkm_style,
          "RKM-style value '4k7' is ambiguous: ngspice 39 reads '4k' in its default mode but the "
-         "digits after the letter in LTspice mode; write it with a decimal point"},
+         "digits after the letter in its compatibility mode (ngbehavior=lt); write it with a "
+         "decimal point"},
         {__LINE__, "4R7", P::rkm_style,
          "RKM-style value '4R7' is ambiguous: ngspice 39 reads '4R' in its default mode but the "
-         "digits after the letter in LTspice mode; write it with a decimal point"},
+         "digits after the letter in its compatibility mode (ngbehavior=lt); write it with a "
+         "decimal point"},
         {__LINE__, "2.2\xC2\xB5"
                    "F",
          P::non_ascii,
