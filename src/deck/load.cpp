@@ -68,9 +68,9 @@ public:
         }
         auto source = std::make_unique<SourceFile>(path, std::move(*text));
         const SourceFile& file = *source;
-        if (role == FileRole::deck && file.text().empty())
-            throw DeckError(Diagnostic{Severity::error, path, 0, 0, 0, "",
-                                       "empty file: a deck needs a title line and cards", {}});
+        if (role == FileRole::deck && file.text().empty())  // located at 1:1 like any other
+            throw DeckError(file.diagnose(Severity::error, 0, 0,
+                                          "empty file: a deck needs a title line and cards"));
         if (auto nul = file.text().find('\0'); nul != std::string::npos)
             throw DeckError(file.diagnose(Severity::error, static_cast<std::uint32_t>(nul), 1,
                                           "binary data (a NUL byte): this is not a SPICE deck"));

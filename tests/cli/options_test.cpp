@@ -173,7 +173,7 @@ TEST(Binary, BadInputExitsWithTwoAndWritesNothing) {
          "  .include deck.cir\n           ^~~~~~~~\n"
          "deck.cir:2:10: note: included from here\n  .include a.inc\n           ^~~~~\n"},
         {__LINE__, {{"deck.cir", ""}},
-         "deck.cir: error: empty file: a deck needs a title line and cards\n"},
+         "deck.cir:1:1: error: empty file: a deck needs a title line and cards\n  \n  ^\n"},
         {__LINE__, {{"deck.cir", std::string("\x7f" "ELF\x02\x01\x01\0\0\0", 10)}},
          "deck.cir:1:8: error: binary data (a NUL byte): this is not a SPICE deck\n"
          "  ?ELF??????\n         ^\n"},  // control bytes are shown as '?'

@@ -97,7 +97,7 @@ std::vector<BadInputRow> bad_inputs() {
          "  .lib 'parts.lib' filters\n"
          "       ^~~~~~~~~~~\n"},
         {__LINE__, "empty file", {{"proj/deck.cir", ""}},
-         "proj/deck.cir: error: empty file: a deck needs a title line and cards\n"},
+         "proj/deck.cir:1:1: error: empty file: a deck needs a title line and cards\n  \n  ^\n"},
         {__LINE__, "binary data", {{"proj/deck.cir", std::string("t\nR1 a\0 0 1\n", 11)}},
          "proj/deck.cir:2:5: error: binary data (a NUL byte): this is not a SPICE deck\n"
          "  R1 a? 0 1\n"  // control bytes are shown as '?'
