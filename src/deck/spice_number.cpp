@@ -100,18 +100,27 @@ bool parse_value_fast(std::string_view v, double& out) {
     return true;
 }
 
-double parse_value(std::string_view v) {
-    if (double fast; parse_value_fast(v, fast)) return fast;
-    std::array<char, 64> buf{};
+// Reads the mantissa-and-exponent part; false when it lies outside a double's range
+// (from_chars reports overflow and underflow alike as result_out_of_range).
+bool parse_value(std::string_view v, double& x) {
+    if (parse_value_fast(v, x)) return true;
+    // Any length: a long mantissa must not lose its exponent (no allocation when short).
+    std::array<char, 64> small{};
+    std::string large;
+    char* buf = small.data();
+    if (v.size() > small.size()) {
+        large.resize(v.size());
+        buf = large.data();
+    }
     std::size_t n = 0;
     std::size_t start = (!v.empty() && v[0] == '+') ? 1 : 0;  // from_chars takes no '+'
-    for (std::size_t i = start; i < v.size() && n < buf.size(); ++i) {
+    for (std::size_t i = start; i < v.size(); ++i) {
         char c = v[i];
         buf[n++] = (c == 'd' || c == 'D') ? 'e' : c;
     }
-    double x = 0;
-    std::from_chars(buf.data(), buf.data() + n, x);
-    return x;
+    x = 0;
+    auto r = std::from_chars(buf, buf + n, x);
+    return r.ec != std::errc::result_out_of_range;
 }
 
 // Length of the longest prefix that ngspice reads as a number, suffix and letters.
@@ -209,7 +218,13 @@ NumberParse parse_spice_number(std::string_view text) {
     n.tail = p.tail;
     n.has_exponent = p.has_exponent;
     n.exponent_letter = p.exponent_letter;
-    n.value = parse_value(p.value) * suffix_multiplier(p.suffix);
+    double mantissa = 0;
+    bool in_range = parse_value(p.value, mantissa);
+    n.value = mantissa * suffix_multiplier(p.suffix);
+    if (!in_range || !std::isfinite(n.value) || (mantissa != 0 && n.value == 0)) {
+        r.problem = NumberProblem::out_of_range;
+        return r;
+    }
     r.number = n;
     return r;
 }
@@ -228,6 +243,11 @@ std::string describe(NumberProblem problem, std::string_view text) {
                 "but the digits after the letter in its compatibility mode (ngbehavior=lt); write it "
                 "with a decimal point",
                 text, text.substr(0, good_prefix(text)));
+        case NumberProblem::out_of_range:
+            return fmt::format(
+                "number '{}' is outside the range of a double (about 2.2e-308 to 1.8e308): "
+                "ngspice 39 would read infinity or 0",
+                text);
         case NumberProblem::non_ascii:
             return fmt::format(
                 "number '{}' has a non-ASCII character after '{}': it is no SPICE scale suffix "

@@ -24,6 +24,7 @@ enum class NumberProblem {
     trailing_junk, // "1.2.3k", "1_000", "0x10": ngspice would silently read a prefix
     rkm_style,     // "4k7": ngspice 39 reads 4000 in its default mode
     non_ascii,     // "2.2µF": the micro sign is no suffix, ngspice reads 2.2
+    out_of_range,  // "1e999", "1e-999": beyond a double; ngspice reads infinity or 0
 };
 
 struct NumberParse {

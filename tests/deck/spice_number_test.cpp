@@ -66,6 +66,11 @@ TEST(SpiceNumber, AcceptedForms) {
         {__LINE__, "10V", 10, "10", "", "V"},
         {__LINE__, "1a", 1, "1", "", "a"},  // no atto in ngspice 39: a unit letter
         {__LINE__, "-4.7e-3uF", -4.7e-9, "-4.7e-3", "u", "F"},
+        // Longer than 64 characters: the exponent must not be cut off (it once was).
+        {__LINE__, "1.00000000000000000000000000000000000000000000000000000000000000001e5", 1e5,
+         "1.00000000000000000000000000000000000000000000000000000000000000001e5", "", ""},
+        {__LINE__, "1e308", 1e308, "1e308", "", ""},
+        {__LINE__, "3e-308", 3e-308, "3e-308", "", ""},
     };
     for (const auto& row : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << row.line << ": " << row.text);
@@ -166,6 +171,18 @@ TEST(SpiceNumber, RefusedForms) {
          "number '2.2\xC2\xB5"
          "F' has a non-ASCII character after '2.2': it is no SPICE scale suffix (write 'u' for "
          "micro) and ngspice 39 would ignore it"},
+        // Beyond a double: ngspice 39 reads infinity or 0 (checked with ngspice -b 39: a
+        // resistor of 1e999 reports resistance inf, one of 1e-999 is read as 0 and replaced
+        // by its 1 mOhm minimum).
+        {__LINE__, "1e999", P::out_of_range,
+         "number '1e999' is outside the range of a double (about 2.2e-308 to 1.8e308): ngspice 39 "
+         "would read infinity or 0"},
+        {__LINE__, "-1e-999", P::out_of_range,
+         "number '-1e-999' is outside the range of a double (about 2.2e-308 to 1.8e308): ngspice "
+         "39 would read infinity or 0"},
+        {__LINE__, "1e300T", P::out_of_range,
+         "number '1e300T' is outside the range of a double (about 2.2e-308 to 1.8e308): ngspice "
+         "39 would read infinity or 0"},
         {__LINE__, "abc", P::not_a_number, "'abc' is not a number"},
         {__LINE__, "", P::not_a_number, "'' is not a number"},
         {__LINE__, ".", P::not_a_number, "'.' is not a number"},
