@@ -58,13 +58,16 @@ public:
         }
         if (auto it = loaded_.find(id); it != loaded_.end()) return it->second;
 
-        auto text = fs_.read(path);
+        std::string problem;
+        auto text = fs_.read(path, &problem);
         if (!text) {
-            if (!from) throw DeckError(Diagnostic{Severity::error, path, 0, 0, 0, "",
-                                                  "cannot read the deck file", {}});
+            if (!from)
+                throw DeckError(Diagnostic{Severity::error, path, 0, 0, 0, "",
+                                           fmt::format("cannot read the deck file: {}", problem),
+                                           {}});
             throw DeckError(from->diagnose(
                 Severity::error, from_token->begin, from_token->size(),
-                fmt::format("cannot read included file '{}'", path)));
+                fmt::format("cannot read included file '{}': {}", path, problem)));
         }
         auto source = std::make_unique<SourceFile>(path, std::move(*text));
         const SourceFile& file = *source;

@@ -166,7 +166,7 @@ TEST(Binary, BadInputExitsWithTwoAndWritesNothing) {
          "deck.cir:2:8: error: unbalanced '{': the card ends before the matching '}'\n"
          "  R1 a 0 {2*(1k\n         ^\n"},
         {__LINE__, {{"deck.cir", "t\n.inc \"gone.inc\"\n"}},
-         "deck.cir:2:6: error: cannot read included file 'gone.inc'\n"
+         "deck.cir:2:6: error: cannot read included file 'gone.inc': No such file or directory\n"
          "  .inc \"gone.inc\"\n       ^~~~~~~~~~\n"},
         {__LINE__, {{"deck.cir", "t\n.include a.inc\n"}, {"a.inc", ".include deck.cir\n"}},
          "a.inc:1:10: error: include cycle: deck.cir -> a.inc -> deck.cir\n"
@@ -178,7 +178,7 @@ TEST(Binary, BadInputExitsWithTwoAndWritesNothing) {
          "deck.cir:1:8: error: binary data (a NUL byte): this is not a SPICE deck\n"
          "  ?ELF??????\n         ^\n"},  // control bytes are shown as '?'
 
-        {__LINE__, {}, "deck.cir: error: cannot read the deck file\n"},
+        {__LINE__, {}, "deck.cir: error: cannot read the deck file: No such file or directory\n"},
     };
     for (const auto& row : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << row.line);

@@ -66,7 +66,8 @@ std::vector<BadInputRow> bad_inputs() {
          "         ^\n"},
         {__LINE__, "missing include",
          {{"proj/deck.cir", "t\n.include models/missing.lib\nR1 a 0 1\n"}},
-         "proj/deck.cir:2:10: error: cannot read included file 'proj/models/missing.lib'\n"
+         "proj/deck.cir:2:10: error: cannot read included file 'proj/models/missing.lib': No "
+         "such file or directory\n"
          "  .include models/missing.lib\n"
          "           ^~~~~~~~~~~~~~~~~~\n"},
         {__LINE__, "include cycle",
@@ -103,7 +104,7 @@ std::vector<BadInputRow> bad_inputs() {
          "  R1 a? 0 1\n"  // control bytes are shown as '?'
          "      ^\n"},
         {__LINE__, "missing deck", {},
-         "proj/deck.cir: error: cannot read the deck file\n"},
+         "proj/deck.cir: error: cannot read the deck file: No such file or directory\n"},
     };
 }
 
