@@ -1,5 +1,8 @@
 #include "scale/rescale.hpp"
 
+#include <cfloat>
+#include <cmath>
+
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
@@ -208,8 +211,18 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     const NumberParse& p = number_of(t);
     if (p.number) {
         if (factor == 1) return;
-        edit(t.begin, t.size(), respell(*p.number, p.number->value * factor, settings_.digits), field,
-             unit, factor);
+        if (!std::isfinite(factor) || factor == 0)
+            fail(t, fmt::format("the factor for a value in {} is outside the range of a double "
+                                "with these Km and Kf: choose factors nearer to 1",
+                                unit.empty() ? std::string_view("this unit") : unit));
+        double scaled = p.number->value * factor;
+        if (!std::isfinite(scaled) || (scaled != 0 && std::fabs(scaled) < DBL_MIN) ||
+            (scaled == 0) != (p.number->value == 0))
+            fail(t, fmt::format("'{}' times {:.9g} is {:.9g}, outside the range of a double "
+                                "(about 2.2e-308 to 1.8e308): choose factors that keep every "
+                                "value in range",
+                                s, factor, scaled));
+        edit(t.begin, t.size(), respell(*p.number, scaled, settings_.digits), field, unit, factor);
         return;
     }
     if (p.problem != NumberProblem::not_a_number)

@@ -329,3 +329,41 @@ TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Absurd factors never write 'inf' or a value that silently became 0: the value is named.
+TEST(ScalerTest, ValuesPushedOutOfRangeAreRefusedWithTheValueNamed) {
+    struct {
+        int line;
+        std::string card;
+        double km, kf;
+        std::string rendered;
+    } rows[] = {
+        {__LINE__, "R1 a 0 1e300", 1e10, 1,
+         "deck.cir:2:8: error: '1e300' times 1e+10 is inf, outside the range of a double (about "
+         "2.2e-308 to 1.8e308): choose factors that keep every value in range\n"
+         "  R1 a 0 1e300\n         ^~~~~\n"},
+        {__LINE__, "R1 a 0 1e-300", 1e-10, 1,
+         "deck.cir:2:8: error: '1e-300' times 1e-10 is 1e-310, outside the range of a double "
+         "(about 2.2e-308 to 1.8e308): choose factors that keep every value in range\n"
+         "  R1 a 0 1e-300\n         ^~~~~~\n"},
+        {__LINE__, "C1 a 0 1p", 1e200, 1e200,
+         "deck.cir:2:8: error: the factor for a value in F is outside the range of a double with "
+         "these Km and Kf: choose factors nearer to 1\n"
+         "  C1 a 0 1p\n         ^~\n"},
+    };
+    for (const auto& row : rows) {
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << row.line);
+        try {
+            test::scale_text("t\n" + row.card + "\n.end\n", row.km, row.kf);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()), row.rendered);
+        }
+    }
+}
+
+}  // namespace
+}  // namespace deckscale
