@@ -1,5 +1,6 @@
 #include "base/output_file.hpp"
 
+#include <atomic>
 #include <cerrno>
 #include <cstdio>
 #include <cstring>
@@ -49,16 +50,55 @@ private:
     std::string error_;
 };
 
-}  // namespace
+// Temporary files not yet renamed, where a signal handler can reach them: fixed slots of
+// fixed-size paths, claimed and released with atomics (no allocation, no lock).
+constexpr int kSlots = 64;
+constexpr std::size_t kPathBytes = 4096;
+std::atomic<bool> slot_used[kSlots];
+std::atomic<bool> slot_live[kSlots];  // the path is complete and the file exists
+char slot_path[kSlots][kPathBytes];
 
-std::string write_file_atomically(const std::string& path, std::string_view content,
-                                  Durability durability) {
-    return write_file_atomically(path, [&](ByteSink& sink) { sink.write(content); }, durability);
+int claim_slot(const std::string& temporary) {
+    if (temporary.size() >= kPathBytes) return -1;
+    for (int i = 0; i < kSlots; ++i) {
+        bool expected = false;
+        if (slot_used[i].compare_exchange_strong(expected, true)) {
+            std::memcpy(slot_path[i], temporary.c_str(), temporary.size() + 1);
+            slot_live[i].store(true);
+            return i;
+        }
+    }
+    return -1;  // more than kSlots at once: still removed on errors, just not on signals
 }
 
-std::string write_file_atomically(const std::string& path,
-                                  const std::function<void(ByteSink&)>& produce,
-                                  Durability durability) {
+void release_slot(int i) {
+    if (i < 0) return;
+    slot_live[i].store(false);
+    slot_used[i].store(false);
+}
+
+}  // namespace
+
+void remove_unfinished_outputs() noexcept {
+    for (int i = 0; i < kSlots; ++i)
+        if (slot_live[i].load()) ::unlink(slot_path[i]);
+}
+
+OutputBatch::~OutputBatch() {
+    for (const auto& p : pending_) {
+        ::unlink(p.temporary.c_str());
+        release_slot(p.slot);
+    }
+}
+
+std::string OutputBatch::add(const std::string& path, std::string_view content,
+                             Durability durability) {
+    return add(path, [&](ByteSink& sink) { sink.write(content); }, durability);
+}
+
+std::string OutputBatch::add(const std::string& path,
+                             const std::function<void(ByteSink&)>& produce,
+                             Durability durability) {
     namespace fs = std::filesystem;
     fs::path target(path);
     fs::path dir = target.parent_path().empty() ? fs::path(".") : target.parent_path();
@@ -70,6 +110,13 @@ std::string write_file_atomically(const std::string& path,
     int fd = mkstemp(tmpl.data());
     if (fd < 0)
         return fmt::format("cannot create a temporary file in '{}': {}", dir.string(), std::strerror(errno));
+    pending_.push_back({path, tmpl, claim_slot(tmpl)});
+    auto drop = [&](std::string why) {
+        ::unlink(tmpl.c_str());
+        release_slot(pending_.back().slot);
+        pending_.pop_back();
+        return fmt::format("cannot write '{}': {}", path, why);
+    };
     // Keep the permissions of a file being replaced; new files get the usual 0666 & ~umask.
     struct stat st {};
     if (stat(path.c_str(), &st) == 0) {
@@ -80,21 +127,48 @@ std::string write_file_atomically(const std::string& path,
         fchmod(fd, 0666 & ~mask);
     }
     std::string error;
-    {
+    try {
         FileSink sink(fd, durability == Durability::synced);
         produce(sink);
         sink.flush();
         error = sink.error();
+    } catch (...) {
+        ::close(fd);
+        drop("");
+        throw;
     }
     if (durability == Durability::synced && error.empty() && ::fsync(fd) != 0)
         error = std::strerror(errno);
     if (::close(fd) != 0 && error.empty()) error = std::strerror(errno);
-    if (error.empty() && std::rename(tmpl.c_str(), path.c_str()) != 0) error = std::strerror(errno);
-    if (!error.empty()) {
-        ::unlink(tmpl.c_str());
-        return fmt::format("cannot write '{}': {}", path, error);
-    }
+    if (!error.empty()) return drop(error);
     return {};
+}
+
+std::string OutputBatch::commit() {
+    std::string error;
+    for (const auto& p : pending_) {
+        if (error.empty() && std::rename(p.temporary.c_str(), p.target.c_str()) != 0)
+            error = fmt::format("cannot write '{}': {}", p.target, std::strerror(errno));
+        if (!error.empty()) ::unlink(p.temporary.c_str());
+        release_slot(p.slot);
+    }
+    pending_.clear();
+    return error;
+}
+
+std::string write_file_atomically(const std::string& path, std::string_view content,
+                                  Durability durability) {
+    OutputBatch batch;
+    if (auto e = batch.add(path, content, durability); !e.empty()) return e;
+    return batch.commit();
+}
+
+std::string write_file_atomically(const std::string& path,
+                                  const std::function<void(ByteSink&)>& produce,
+                                  Durability durability) {
+    OutputBatch batch;
+    if (auto e = batch.add(path, produce, durability); !e.empty()) return e;
+    return batch.commit();
 }
 
 }  // namespace deckscale

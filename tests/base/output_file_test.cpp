@@ -7,6 +7,7 @@
 #include <sys/stat.h>
 
 #include <filesystem>
+#include <stdexcept>
 #include <string>
 
 #include "support/common.hpp"
@@ -50,6 +51,66 @@ TEST(OutputFile, MissingFolderIsAnErrorAndWritesNothing) {
     std::string e = write_file_atomically(dir.file("no/such/out.cir"), "x");
     EXPECT_NE(e.find("does not exist"), std::string::npos) << e;
     EXPECT_EQ(std::distance(std::filesystem::directory_iterator(dir.path()), {}), 0);
+}
+
+std::size_t entries(const std::filesystem::path& dir) {
+    return static_cast<std::size_t>(std::distance(std::filesystem::directory_iterator(dir), {}));
+}
+
+TEST(OutputFile, ABatchChangesNoTargetUntilItCommits) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("a.cir"), "old a\n");
+    {
+        OutputBatch batch;
+        EXPECT_EQ(batch.add(dir.file("a.cir"), "new a\n"), "");
+        EXPECT_EQ(batch.add(dir.file("b.inc"), "new b\n"), "");
+        EXPECT_EQ(test::read_bytes(dir.file("a.cir")), "old a\n");
+        EXPECT_FALSE(std::filesystem::exists(dir.file("b.inc")));
+        EXPECT_EQ(batch.commit(), "");
+    }
+    EXPECT_EQ(test::read_bytes(dir.file("a.cir")), "new a\n");
+    EXPECT_EQ(test::read_bytes(dir.file("b.inc")), "new b\n");
+    EXPECT_EQ(entries(dir.path()), 2u);
+}
+
+TEST(OutputFile, AnUncommittedBatchLeavesTheOldFilesAndNoTemporaryOne) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("a.cir"), "old a\n");
+    {
+        OutputBatch batch;
+        EXPECT_EQ(batch.add(dir.file("a.cir"), "new a\n"), "");
+        // The second file fails (its folder is missing): the run stops without committing.
+        EXPECT_NE(batch.add(dir.file("gone/b.inc"), "new b\n"), "");
+    }
+    EXPECT_EQ(test::read_bytes(dir.file("a.cir")), "old a\n");
+    EXPECT_EQ(entries(dir.path()), 1u);
+}
+
+TEST(OutputFile, AnExceptionWhileProducingLeavesNoTemporaryFile) {
+    test::TempDir dir;
+    OutputBatch batch;
+    auto failing = [](ByteSink& sink) {
+        sink.write(std::string(3 << 20, 'x'));
+        throw std::runtime_error("produce failed");
+    };
+    EXPECT_THROW(batch.add(dir.file("a.cir"), failing), std::runtime_error);
+    EXPECT_EQ(entries(dir.path()), 0u);
+    EXPECT_EQ(batch.commit(), "");
+    EXPECT_EQ(entries(dir.path()), 0u);
+}
+
+TEST(OutputFile, UnfinishedOutputsCanBeRemovedFromASignalHandler) {
+    test::TempDir dir;
+    OutputBatch batch;
+    EXPECT_EQ(batch.add(dir.file("a.cir"), "done\n"), "");
+    auto interrupted = [&](ByteSink& sink) {
+        sink.write("half a de");
+        sink.flush();
+        EXPECT_EQ(entries(dir.path()), 2u);  // both temporary files exist now
+        remove_unfinished_outputs();         // what the SIGINT handler calls
+        EXPECT_EQ(entries(dir.path()), 0u);
+    };
+    batch.add(dir.file("b.cir"), interrupted);
 }
 
 }  // namespace
