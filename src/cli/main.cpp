@@ -4,12 +4,14 @@
 #include <vector>
 
 #include "cli/exit_codes.hpp"
+#include "cli/interrupts.hpp"
 #include "cli/options.hpp"
 #include "cli/scale_command.hpp"
 #include "cli/verify_command.hpp"
 
 int main(int argc, char** argv) {
     using namespace deckscale;
+    install_interrupt_cleanup();
     std::vector<std::string> args(argv + 1, argv + argc);
     Invocation inv = parse_command_line(args);
     switch (inv.what) {

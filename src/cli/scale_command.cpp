@@ -18,6 +18,26 @@ namespace {
 
 namespace fs = std::filesystem;
 
+// Why -i must not replace `deck` ("" when it may): a symbolic link would be replaced by a
+// file (the link's target left as it was), and a file without write permission is one its
+// owner marked as not to be changed.
+std::string in_place_refusal(const std::string& deck) {
+    namespace fs = std::filesystem;
+    std::error_code ec;
+    auto st = fs::symlink_status(deck, ec);
+    if (ec || !fs::exists(st)) return {};  // reading it reports the problem
+    if (fs::is_symlink(st))
+        return fmt::format("'{}' is a symbolic link; -i would replace the link with a file: run "
+                           "-i on the file it points to, or write with -o",
+                           deck);
+    using P = fs::perms;
+    if ((st.permissions() & (P::owner_write | P::group_write | P::others_write)) == P::none)
+        return fmt::format("'{}' is read-only; -i does not replace a read-only deck: write with "
+                           "-o, or make it writable first",
+                           deck);
+    return {};
+}
+
 bool same_file(const std::string& a, const std::string& b) {
     std::error_code ec;
     return fs::exists(a, ec) && fs::exists(b, ec) && fs::equivalent(a, b, ec);
@@ -47,6 +67,12 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                            "(use -i/--in-place for that)\n", output);
         return exit_bad_input;
     }
+    if (o.in_place) {
+        if (auto why = in_place_refusal(o.deck); !why.empty()) {
+            err << "deckscale: error: " << why << "\n";
+            return exit_bad_input;
+        }
+    }
     DiskFileSystem disk;
     ScaleSettings settings;
     settings.factors = {o.km, o.kf};
@@ -72,6 +98,9 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         }
         OutputPlan plan = plan_output(deck, std::move(result.edits), output, o.flatten);
         plan.parallel = o.threads != 1;
+        // Every file is written whole before any is renamed into place: an error or an
+        // interruption leaves all the old files.
+        OutputBatch batch;
         for (const auto& f : plan.files) {
             if (f.path.empty()) {
                 StreamSink sink(out);
@@ -85,20 +114,24 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
             // outputs can be made again from the deck, which is never touched.
             Durability durability = o.in_place && f.path == output ? Durability::synced
                                                                    : Durability::atomic;
-            if (auto e = write_file_atomically(f.path, produce, durability); !e.empty()) {
+            if (auto e = batch.add(f.path, produce, durability); !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;
             }
         }
-        if (o.list_changes) (output.empty() ? err : out) << change_list_text(deck, result);
         if (!o.changes_json.empty()) {
-            if (auto e = write_file_atomically(o.changes_json,
-                                               change_list_json(deck, result, settings.factors, plan));
+            if (auto e = batch.add(o.changes_json,
+                                   change_list_json(deck, result, settings.factors, plan));
                 !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;
             }
         }
+        if (auto e = batch.commit(); !e.empty()) {
+            err << "deckscale: error: " << e << "\n";
+            return exit_bad_input;
+        }
+        if (o.list_changes) (output.empty() ? err : out) << change_list_text(deck, result);
         if (!output.empty()) {
             err << fmt::format("deckscale: {} value(s) rewritten (Km = {}, Kf = {}); wrote", 
                                result.change_count, factor_text(o.km), factor_text(o.kf));

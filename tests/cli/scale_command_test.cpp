@@ -146,3 +146,46 @@ TEST(ScaleCommandTest, RoundTripRestoresValues) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// -i replaces the user's own file: never through a symbolic link, never a read-only file.
+TEST(ScaleCommandTest, InPlaceRefusesALinkAndAReadOnlyDeck) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("d.cir"), "t\nR1 a 0 1k\n.end\n");
+    std::filesystem::create_symlink("d.cir", dir.file("link.cir"));
+    test::write_bytes(dir.file("ro.cir"), "t\nR1 a 0 1k\n.end\n");
+    std::filesystem::permissions(dir.file("ro.cir"), std::filesystem::perms::owner_read |
+                                                         std::filesystem::perms::group_read);
+    struct {
+        int line;
+        std::string deck, err;
+    } rows[] = {
+        {__LINE__, "link.cir",
+         "deckscale: error: 'link.cir' is a symbolic link; -i would replace the link with a file: "
+         "run -i on the file it points to, or write with -o\n"},
+        {__LINE__, "ro.cir",
+         "deckscale: error: 'ro.cir' is read-only; -i does not replace a read-only deck: write "
+         "with -o, or make it writable first\n"},
+    };
+    for (const auto& row : rows) {
+        SCOPED_TRACE(testing::Message() << "scale_command_test.cpp:" << row.line);
+        auto r = test::run_binary({"scale", row.deck, "--km", "10", "--kf", "1", "-i"}, dir.path());
+        EXPECT_EQ(r.exit_code, 2);
+        EXPECT_EQ(r.err, row.err);
+    }
+    EXPECT_TRUE(std::filesystem::is_symlink(dir.file("link.cir")));
+    EXPECT_EQ(test::read_bytes(dir.file("d.cir")), "t\nR1 a 0 1k\n.end\n");
+    EXPECT_EQ(test::read_bytes(dir.file("ro.cir")), "t\nR1 a 0 1k\n.end\n");
+    // A writable deck is replaced and keeps its permissions.
+    std::filesystem::permissions(dir.file("d.cir"), std::filesystem::perms(0640));
+    auto ok = test::run_binary({"scale", "d.cir", "--km", "10", "--kf", "1", "-i"}, dir.path());
+    EXPECT_EQ(ok.exit_code, 0) << ok.err;
+    EXPECT_EQ(test::read_bytes(dir.file("d.cir")), "t\nR1 a 0 10k\n.end\n");
+    EXPECT_EQ(std::filesystem::status(dir.file("d.cir")).permissions(),
+              std::filesystem::perms(0640));
+}
+
+}  // namespace
+}  // namespace deckscale
