@@ -14,6 +14,30 @@ const char* severity_word(Severity s) {
     return "error";
 }
 
+// The message with every quoted word (no blank inside: an apostrophe such as "ngspice's"
+// never pairs with a real quote across words) longer than kLongQuote shortened to its start
+// and end: a 100 MB word quoted in a message must not reach the terminal whole.
+constexpr std::size_t kLongQuote = 80;
+void append_message(std::string& out, const std::string& message) {
+    std::size_t i = 0;
+    while (i < message.size()) {
+        std::size_t open = message.find('\'', i);
+        std::size_t close = open == std::string::npos ? open : message.find('\'', open + 1);
+        if (close == std::string::npos) break;
+        std::size_t inner = close - open - 1;
+        if (inner > kLongQuote &&
+            message.find_first_of(" \t", open + 1) > close) {
+            out.append(message, i, open + 1 + 40 - i);
+            out += fmt::format("...({} bytes)...", inner);
+            out.append(message, close - 20, 21);
+        } else {
+            out.append(message, i, close + 1 - i);
+        }
+        i = close + 1;
+    }
+    if (i < message.size()) out.append(message, i, std::string::npos);
+}
+
 void render_into(std::string& out, const Diagnostic& d) {
     if (!d.file.empty()) {
         out += d.file;
@@ -23,7 +47,10 @@ void render_into(std::string& out, const Diagnostic& d) {
         }
         out += ": ";
     }
-    out += fmt::format("{}: {}\n", severity_word(d.severity), d.message);
+    out += severity_word(d.severity);
+    out += ": ";
+    append_message(out, d.message);
+    out += '\n';
     if (d.line > 0 && d.column > 0) {
         out += "  ";
         out += d.source_line;

@@ -100,5 +100,21 @@ TEST(SourceFile, LongLinesAreWindowedAndControlBytesHidden) {
     EXPECT_EQ(render(b.diagnose(Severity::error, 4, 1, "x")), "bin.cir:2:3: error: x\n  R1?? a\n    ^\n");
 }
 
+// A long quoted text in a message is shortened to its start and end with its length.
+TEST(Diagnostic, LongQuotedTextIsShortened) {
+    Diagnostic d;
+    d.file = "d.cir";
+    std::string word = std::string(50, 'a') + std::string(1000000, 'x') + std::string(20, 'z');
+    d.message = "'" + word + "' is neither a value, a parameter nor a model; 'R1' is fine";
+    EXPECT_EQ(render(d), "d.cir: error: '" + std::string(40, 'a') +
+                             "...(1000070 bytes)..." + std::string(20, 'z') +
+                             "' is neither a value, a parameter nor a model; 'R1' is fine\n");
+    d.message = "an apostrophe's lone quote stays";
+    EXPECT_EQ(render(d), "d.cir: error: an apostrophe's lone quote stays\n");
+    std::string prose = "ngspice's reader " + std::string(100, '.') + " then 'R1'";
+    d.message = prose;  // the apostrophe pairs with a quote across blanks: left alone
+    EXPECT_EQ(render(d), "d.cir: error: " + prose + "\n");
+}
+
 }  // namespace
 }  // namespace deckscale
