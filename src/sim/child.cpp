@@ -7,6 +7,7 @@
 #include <ngspice/sharedspice.h>
 #include <signal.h>
 #include <sys/prctl.h>
+#include <sys/resource.h>
 #include <unistd.h>
 
 #include <algorithm>
@@ -41,10 +42,32 @@ constexpr const char* no_home = "/nonexistent/deckscale-no-home";
 constexpr std::size_t child_heap = 448 << 10;
 
 
+// What ngspice prints is kept and sent up to kAllLines lines; after that only error lines and
+// substitution warnings (what a verdict quotes), up to kProblemLines more: a deck that prints
+// megabytes of warnings cannot exhaust memory here or in the parent.
+constexpr std::size_t kAllLines = 10000;
+constexpr std::size_t kProblemLines = 10000;
+
+bool keep_line(Child& child, const PrintedLine& line) {
+    if (child.lines.size() < kAllLines) return true;
+    if (!child.lines_capped) {
+        child.lines_capped = true;
+        PrintedLine note{fmt::format("[deckscale: ngspice printed more than {} lines; only error "
+                                     "lines and substitution warnings are kept from here]",
+                                     kAllLines),
+                         false};
+        if (child.fd >= 0) child.send(wire::log_frame(note.text));
+        child.lines.push_back(std::move(note));
+    }
+    return child.lines.size() < kAllLines + 1 + kProblemLines &&
+           (is_error_line(line.text) || is_substitution_warning(line.text));
+}
+
 int on_char(char* s, int, void* user) {
     auto* child = static_cast<Child*>(user);
     try {
         PrintedLine line = strip_channel(s ? s : "");
+        if (!keep_line(*child, line)) return 0;
         if (child->fd >= 0) child->send(wire::log_frame(line.text));  // a template only records
         child->lines.push_back(std::move(line));
     } catch (...) {
@@ -84,6 +107,11 @@ bool resolve(void* lib, const char* name, T& out) {
 // Loads libngspice, in the environment and locale the children run in, and finds its
 // functions. Returns why it failed, or nothing.
 std::optional<std::string> load_ngspice(Child& child) {
+    // A scrubbed environment: ngspice reads SPICE_* and NGSPICE_* variables (library and
+    // script folders, raw-file format, measure precision...) and the user's settings must not
+    // change a verification. Only what the simulation needs is set again.
+    ::clearenv();
+    ::setenv("PATH", "/usr/bin:/bin", 1);
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
     std::setlocale(LC_ALL, "C");
@@ -128,6 +156,13 @@ void init_ngspice(Child& child, bool code_models) {
 // Loads and runs the job's cards in an initialised ngspice whose current directory is the
 // deck's, and reports.
 [[noreturn]] void run_job(Child& child, const SimJob& job) {
+    if (job.memory_limit_mb > 0) {
+        rlim_t bytes = static_cast<rlim_t>(job.memory_limit_mb) << 20;
+        struct rlimit limit {bytes, bytes};
+        if (::setrlimit(RLIMIT_AS, &limit) != 0)
+            child.finish(SimStatus::load_failed, fmt::format("cannot set the memory limit: {}",
+                                                             std::strerror(errno)));
+    }
     char unset_dialect[] = "unset ngbehavior";  // a .spiceinit may have set one
     child.guarded([&] { child.api.command(unset_dialect); });
     // ngspice skips empty entries, so a blank title would silently make the first card

@@ -37,7 +37,8 @@ struct PlotRecord {  // what SendInitData said about one new plot
 struct Child {
     int fd = -1;
     Api api;
-    std::vector<PrintedLine> lines;
+    std::vector<PrintedLine> lines;  // bounded: see keep_line in sim/child.cpp
+    bool lines_capped = false;
     std::vector<PlotRecord> records;
     bool unreadable = false;  // some vector could not be read out of ngspice
     bool exit_requested = false;

@@ -1,5 +1,6 @@
 #include "sim/job_wire.hpp"
 
+#include <algorithm>
 #include <cstdint>
 #include <cstring>
 
@@ -36,11 +37,12 @@ bool get_string(std::string_view& bytes, std::string& s) {
 }  // namespace
 
 std::string job_message(const SimJob& job) {
-    std::size_t size = 8 + job.work_dir.size();
+    std::size_t size = 12 + job.work_dir.size();
     for (const std::string& card : job.cards) size += 4 + card.size();
     std::string out;
     out.reserve(size);
     put_string(out, job.work_dir);
+    put_u32(out, static_cast<std::size_t>(std::min<std::uint64_t>(job.memory_limit_mb, UINT32_MAX)));
     put_u32(out, job.cards.size());
     for (const std::string& card : job.cards) put_string(out, card);
     return out;
@@ -48,8 +50,10 @@ std::string job_message(const SimJob& job) {
 
 std::optional<SimJob> read_job_message(std::string_view bytes) {
     SimJob job;
-    std::uint32_t count = 0;
-    if (!get_string(bytes, job.work_dir) || !get_u32(bytes, count)) return std::nullopt;
+    std::uint32_t count = 0, memory = 0;
+    if (!get_string(bytes, job.work_dir) || !get_u32(bytes, memory) || !get_u32(bytes, count))
+        return std::nullopt;
+    job.memory_limit_mb = memory;
     if (count > bytes.size() / 4) return std::nullopt;  // each card needs its length at least
     job.cards.resize(count);
     for (std::string& card : job.cards)

@@ -10,6 +10,7 @@
 
 #include <chrono>
 #include <complex>
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -20,6 +21,7 @@ struct SimJob {
     std::vector<std::string> cards;  // [0] = title, one card per entry (no '\n'), last = ".end"
     std::string work_dir;            // the child chdir()s here: .include paths resolve as in the deck
     std::chrono::milliseconds timeout{60000};
+    std::uint64_t memory_limit_mb = 0;  // address space the child may use (RLIMIT_AS); 0 = none
 };
 
 enum class VectorKind { voltage, current, frequency, time, other };

@@ -13,14 +13,16 @@ SimJob sample_job() {
     job.label = "stays with the parent";
     job.work_dir = "/decks/with space";
     job.cards = {"title", "", "R1 in 0 1k \xff", ".ac dec 10 1 1meg", ".end"};
+    job.memory_limit_mb = 2048;
     return job;
 }
 
-TEST(SimJobWire, RoundTripKeepsDirectoryAndCards) {
+TEST(SimJobWire, RoundTripKeepsDirectoryMemoryLimitAndCards) {
     auto got = wire::read_job_message(wire::job_message(sample_job()));
     ASSERT_TRUE(got);
     EXPECT_EQ(got->work_dir, sample_job().work_dir);
     EXPECT_EQ(got->cards, sample_job().cards);
+    EXPECT_EQ(got->memory_limit_mb, 2048u);
     EXPECT_TRUE(got->label.empty());
 
     auto empty = wire::read_job_message(wire::job_message(SimJob{}));
@@ -34,8 +36,8 @@ TEST(SimJobWire, EveryTruncationAndTrailingBytesAreRefused) {
         EXPECT_FALSE(wire::read_job_message(std::string_view(bytes).substr(0, n))) << n;
     EXPECT_FALSE(wire::read_job_message(bytes + "x"));
     std::string huge_count = wire::job_message(SimJob{});
-    huge_count[4] = '\xff';  // four billion cards in eight bytes
-    huge_count[7] = '\x7f';
+    huge_count[8] = '\xff';  // four billion cards in twelve bytes
+    huge_count[11] = '\x7f';
     EXPECT_FALSE(wire::read_job_message(huge_count));
 }
 
