@@ -72,6 +72,9 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
         ->check(CLI::PositiveNumber);
     verify->add_option("--sim-timeout", v.timeout_s, "Seconds one simulation may take (default 60)")
         ->check(CLI::PositiveNumber);
+    verify->add_option("--sim-memory", v.memory_mb,
+                       "Megabytes of address space one simulation may use (default 8192; 0: no "
+                       "limit)");
 
     std::vector<std::string> reversed(args.rbegin(), args.rend());
     try {

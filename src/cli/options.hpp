@@ -1,6 +1,7 @@
 // Command-line options: a pure function from arguments to what to do.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -37,6 +38,7 @@ struct VerifyOptions {
     double tolerance_db = 0;        // 0 = not used
     double tolerance_deg = 0;       // 0 = not used
     double timeout_s = 60;
+    std::uint64_t memory_mb = 8192;  // address space per simulator process; 0 = no limit
 };
 
 struct Invocation {

@@ -122,6 +122,7 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
             j.cards = simulation_cards(d, SimDeckOptions{card, drive, drive_ac});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
+            j.memory_limit_mb = o.memory_mb;
             return j;
         };
         // An AC current drive of 1 A in the original is 1/Km A in the scaled circuit.
@@ -152,6 +153,10 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
         failed = true;
         err << fmt::format("deckscale: error: simulating {} ({}) failed: {}: {}\n", jobs[i].label,
                            pairs[i / 2].analysis, to_string(outcomes[i].status), outcomes[i].message);
+        // A process over its address-space limit usually dies of a failed allocation.
+        if (outcomes[i].status == SimStatus::crashed && o.memory_mb > 0)
+            err << fmt::format("  (each simulation may use {} MB of memory; --sim-memory MB "
+                               "changes that, 0 lifts the limit)\n", o.memory_mb);
     }
     if (failed) return exit_sim_failed;
 

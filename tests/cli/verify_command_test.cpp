@@ -1,9 +1,13 @@
 // End-to-end tests of `deckscale verify` through the real binary: each test writes its own
 // decks into a fresh temporary directory.
+#include <pwd.h>
+#include <unistd.h>
+
 #include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <complex>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -117,6 +121,8 @@ TEST(VerifyCommand, ControlBlocksNeverRun) {
         // 'quit' inside the block would end ngspice; the block is stripped, so the run is clean.
         {__LINE__, ".control\nrun\nquit\n.endc\n"},
         {__LINE__, ".control\nshell touch marker\nquit\n.endc\n"},
+        // A sourced script (written below as evil.cir) would run its own control block.
+        {__LINE__, ".control\nsource evil.cir\n.endc\n"},
     };
     for (const auto& k : cases) {
         SCOPED_TRACE(k.line);
@@ -124,6 +130,7 @@ TEST(VerifyCommand, ControlBlocksNeverRun) {
         std::string deck = kRc;
         deck.insert(deck.find(".end\n"), k.control);
         write_bytes(dir.file("o.cir"), deck);
+        write_bytes(dir.file("evil.cir"), "evil\n.control\nshell touch marker\n.endc\n.end\n");
         RunResult r = run_binary({"verify", "o.cir", "o.cir"}, dir.path());
         EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
         EXPECT_EQ(r.err, "");
@@ -151,6 +158,8 @@ TEST(VerifyCommand, SimulatorFailuresExitThreeWithNgspicesWords) {
         {__LINE__,
          "long transient\nV1 in 0 dc 0 pulse(0 1 0 1n 1n 1u 2u)\nR1 in out 1k\nC1 out 0 1n\n.tran 1p 1\n.end\n",
          {"--sim-timeout", "0.3"}, "did not finish within 300 ms and was stopped"},
+        {__LINE__, "tiny memory\nV1 in 0 dc 0 ac 1\nR1 in out 1k\nC1 out 0 1u\n.ac dec 5 10 1k\n.end\n",
+         {"--sim-memory", "1"}, "(each simulation may use 1 MB of memory; --sim-memory MB changes"},
     };
     for (const auto& k : cases) {
         SCOPED_TRACE(k.line);
@@ -316,6 +325,31 @@ TEST(VerifyCommand, DenormalisedButterworthCornerLandsAtTenMegahertz) {
     ASSERT_EQ(v->values.size(), 1u);
     double attenuation_db = -20 * std::log10(2 * std::abs(v->values[0]));
     EXPECT_NEAR(attenuation_db, 10 * std::log10(2.0), 0.01);
+}
+
+// ngspice 39 runs ~/.spiceinit at start-up, the home folder taken from the password database
+// (see sim/process.cpp). A hostile one there must change nothing: the simulator starts in a
+// private folder with an empty start-up file of its own.
+TEST(VerifyCommand, AStartUpFileInTheHomeFolderIsNotRun) {
+    const passwd* pw = ::getpwuid(::getuid());
+    ASSERT_NE(pw, nullptr);
+    fs::path init = fs::path(pw->pw_dir) / ".spiceinit";
+    struct Restore {  // the user's own file, if any, is put back whatever happens
+        fs::path path;
+        std::optional<std::string> saved;
+        ~Restore() {
+            std::error_code ec;
+            if (saved) write_bytes(path, *saved);
+            else fs::remove(path, ec);
+        }
+    } restore{init, fs::exists(init) ? std::optional(read_bytes(init)) : std::nullopt};
+    TempDir dir;
+    std::string marker = dir.file("marker");
+    write_bytes(init, "shell touch " + marker + "\nset ngbehavior=lt\nalter r1 = 1\n");
+    write_bytes(dir.file("o.cir"), kRc);
+    RunResult r = run_binary({"verify", "o.cir", "o.cir"}, dir.path());
+    EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
+    EXPECT_FALSE(fs::exists(marker));
 }
 
 }  // namespace
