@@ -137,7 +137,7 @@ AcTable run_ngspice(const std::string& deck, const std::vector<std::string>& vec
     for (const auto& v : vectors) body += " " + v;
     body += "\nquit 0\n.endc\n.end\n";
     test::write_bytes(dir.file(name + ".cir"), body);
-    std::string cmd = "ngspice -b " + test::shell_quote(dir.file(name + ".cir")) + " >" +
+    std::string cmd = test::ngspice_batch() + test::shell_quote(dir.file(name + ".cir")) + " >" +
                       test::shell_quote(dir.file(name + ".log")) + " 2>&1";
     int rc = std::system(cmd.c_str());
     EXPECT_EQ(rc, 0) << test::read_bytes(dir.file(name + ".log"));

@@ -57,6 +57,11 @@ private:
     fs::path path_;
 };
 
+// The command line of an independent ngspice referee run: batch mode, and -n so that no
+// start-up file (./.spiceinit or ~/.spiceinit) can change the run; one test puts a hostile
+// one in the home folder while others run.
+inline std::string ngspice_batch() { return "ngspice -b -n "; }
+
 inline std::string shell_quote(const std::string& s) {
     std::string out = "'";
     for (char c : s) {
