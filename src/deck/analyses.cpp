@@ -97,6 +97,16 @@ DeckAnalyses find_analyses(const Deck& deck) {
     DeckAnalyses a, control;
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         deck.visit_file(f, [&](const Card& c) {
+            if (c.kind == CardKind::control) {
+                // The analyses of .control, read (never run) as the dot cards they stand for.
+                for (const auto& t : c.tokens)
+                    if (t.kind == TokenKind::control)
+                        for (const auto& cmd : control_commands(*c.file, t)) {
+                            Card cc = cmd.as_card(*c.file);
+                            take(control, "." + to_lower(cc.field_text(0)), cc);
+                        }
+                return;
+            }
             if (c.fields.empty()) return;
             std::string kw = card_keyword(c);
             if (c.kind == CardKind::element && (kw[0] == 'v' || kw[0] == 'i')) {
@@ -106,16 +116,6 @@ DeckAnalyses find_analyses(const Deck& deck) {
                         a.ac_sources.push_back(kw);
                         break;
                     }
-                return;
-            }
-            if (c.kind == CardKind::control) {
-                // The analyses of .control, read (never run) as the dot cards they stand for.
-                for (const auto& t : c.tokens)
-                    if (t.kind == TokenKind::control)
-                        for (const auto& cmd : control_commands(*c.file, t)) {
-                            Card cc = cmd.as_card(*c.file);
-                            take(control, "." + to_lower(cc.field_text(0)), cc);
-                        }
                 return;
             }
             if (c.kind != CardKind::dot) return;

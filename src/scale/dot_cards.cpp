@@ -16,6 +16,7 @@ void scale_positional(ScalePass& p, const std::vector<Atom>& atoms, std::string_
     std::size_t n = 0;
     for (std::size_t i = skip; i < atoms.size(); ++i) {
         if (atoms[i].key) continue;
+        if (iequals(p.text(*atoms[i].value), "uic")) continue;  // .tran's flag (manual 15.3.10)
         ++n;
         auto u = find_rule(scope, fmt::format("#{}", n));
         if (!u) continue;  // words such as 'uic' or output names

@@ -32,15 +32,16 @@ struct Case {
 TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
     const Case cases[] = {
         // analyses, read like their dot cards (manual 17.5; spiceif.c:241)
-        {__LINE__, "ac dec 10 1 1k\n", "ac dec 10 1k 1meg\n"},
+        {__LINE__, "ac dec 10 1 1k\n", "ac dec 10 1000 1meg\n"},
         {__LINE__, "ac lin 11 1k 2k\n", "ac lin 11 1meg 2meg\n"},
         {__LINE__, "dc V1 0 5 0.5\n", "dc V1 0 5 0.5\n"},
         {__LINE__, "dc I1 0 1m 0.1m\n", "dc I1 0 100u 10u\n"},
         {__LINE__, "dc R1 1k 2k 100\n", "dc R1 10k 20k 1000\n"},
         {__LINE__, "dc temp 0 100 10\n", "dc temp 0 100 10\n"},
         {__LINE__, "tran 1u 2m\n", "tran 1n 2u\n"},
-        {__LINE__, "tran 1u 2m 0.5m 10n\n", "tran 1n 2u 0.5u 10p\n"},
-        {__LINE__, "noise v(out) V1 dec 10 10 100k\n", "noise v(out) V1 dec 10 10k 100meg\n"},
+        {__LINE__, "tran 1u 2m 0.5m 10n\n", "tran 1n 2u 500n 10p\n"},
+        {__LINE__, "tran 1u 2m uic\n", "tran 1n 2u uic\n"},
+        {__LINE__, "noise v(out) V1 dec 10 10 100k\n", "noise v(out) V1 dec 10 10000 100meg\n"},
         {__LINE__, "sp dec 10 1k 1meg\n", "sp dec 10 1meg 1g\n"},
         {__LINE__, "disto dec 10 1k 100k\n", "disto dec 10 1meg 100meg\n"},
         {__LINE__, "fourier 1k v(out)\n", "fourier 1meg v(out)\n"},
@@ -48,14 +49,14 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
         {__LINE__, "spec 0 20k 1k v(out)\n", "spec 0 20meg 1meg v(out)\n"},
         // continuation lines and several commands on a line
         {__LINE__, "tran 1u\n+ 2m\n", "tran 1n\n+ 2u\n"},
-        {__LINE__, "run; tran 1u 2m ; ac dec 5 1 10\n", "run; tran 1n 2u ; ac dec 5 1k 10k\n"},
+        {__LINE__, "run; tran 1u 2m ; ac dec 5 1 10\n", "run; tran 1n 2u ; ac dec 5 1000 10000\n"},
         // measurements (manual 15.4): times, frequencies, values of the measured quantity
         {__LINE__, "meas tran t1 trig v(out) val=0.1 rise=1 targ v(out) val=0.9 rise=1\n",
          "meas tran t1 trig v(out) val=0.1 rise=1 targ v(out) val=0.9 rise=1\n"},
         {__LINE__, "meas tran vf find v(out) at=1m\n", "meas tran vf find v(out) at=1u\n"},
         {__LINE__, "measure ac g avg vm(out) from=1k to=10k\n",
          "measure ac g avg vm(out) from=1meg to=10meg\n"},
-        {__LINE__, "meas tran iw when i(v1)=2m td=0.1m\n", "meas tran iw when i(v1)=200u td=0.1u\n"},
+        {__LINE__, "meas tran iw when i(v1)=2m td=0.1m\n", "meas tran iw when i(v1)=200u td=100n\n"},
         // on a DC sweep from=/to=/at= take the swept quantity's unit
         {__LINE__, "dc I1 0 1m 0.1m\nmeas dc vh find v(out) at=0.5m\n",
          "dc I1 0 100u 10u\nmeas dc vh find v(out) at=50u\n"},
@@ -83,11 +84,11 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
         {__LINE__, "tran 1u 2m\nplot v(out) xlimit 1m 2m ylimit 0 1\n",
          "tran 1n 2u\nplot v(out) xlimit 1u 2u ylimit 0 1\n"},
         {__LINE__, "ac dec 10 1 1k\nplot i(v1) xl 10 100 yl 0 1m\n",
-         "ac dec 10 1k 1meg\nplot i(v1) xl 10k 100k yl 0 100u\n"},
+         "ac dec 10 1000 1meg\nplot i(v1) xl 10000 100000 yl 0 100u\n"},
         {__LINE__, "tran 1u 2m\nwrdata f.txt v(out) xlimit 0 1m xindices 2 4\n",
          "tran 1n 2u\nwrdata f.txt v(out) xlimit 0 1u xindices 2 4\n"},
         // control flow passes; its body is rewritten command by command (manual 17.6)
-        {__LINE__, "repeat 2\n  ac dec 5 1 10\nend\n", "repeat 2\n  ac dec 5 1k 10k\nend\n"},
+        {__LINE__, "repeat 2\n  ac dec 5 1 10\nend\n", "repeat 2\n  ac dec 5 1000 10000\nend\n"},
         {__LINE__, "if $ok\n tran 1u 1m\nelse\n op\nend\n", "if $ok\n tran 1n 1u\nelse\n op\nend\n"},
         // commands with no unit-carrying number pass byte for byte
         {__LINE__,
