@@ -91,9 +91,12 @@ void ScalePass::with_command(const Card& command, std::uint32_t line_begin,
     } restore{*this, card_};
     card_ = &command;
     mark_at_ = line_begin;
-    card_marked_ = marked_line_ == line_begin;
+    card_marked_ = marked_line_ == line_begin && marked_file_ == file_;
     handler();
-    if (card_marked_) marked_line_ = line_begin;
+    if (card_marked_) {
+        marked_line_ = line_begin;
+        marked_file_ = file_;
+    }
 }
 
 namespace {
@@ -451,8 +454,10 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
     if (cmd == "if" || cmd == "while" || cmd == "dowhile")
         return refuse_literal(p, c, 1, kUseTells);
     if (cmd == "foreach") return refuse_literal(p, c, 2, kUseTells);
-    if (cmd == "compose" || cmd == "alterparam")
-        return refuse_literal(p, c, 1, kUseTells);
+    if (cmd == "compose") return refuse_literal(p, c, 1, kUseTells);
+    // alterparam: every use of a parameter is written {(p)*k}, so its new value stays as
+    // written (notes A.2, checked there with ngspice).
+    if (cmd == "alterparam") return;
     refuse_literal(p, c, 1, "a number in a command whose arguments deckscale does not know");
 }
 

@@ -107,7 +107,8 @@ private:
     bool card_marked_ = false;
     const Deck* deck_ = nullptr;
     std::optional<std::uint32_t> mark_at_;  // where a refusal's mark goes (a control command)
-    std::uint32_t marked_line_ = ~0u;       // the control line marked last
+    std::uint32_t marked_line_ = ~0u;       // the control line marked last, in marked_file_
+    std::size_t marked_file_ = 0;
     std::vector<Atom> atoms_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;

@@ -76,6 +76,8 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
         {__LINE__, "alter i1 dc = 1m\n", "alter i1 dc = 100u\n"},
         {__LINE__, "alter v1 = 2\n", "alter v1 = 2\n"},
         {__LINE__, "altermod swm ron = 10\n", "altermod swm ron = 100\n"},
+        // parameter uses are written {(p)*k}: a new value stays as written (notes A.2)
+        {__LINE__, "alterparam rv = 2k\nreset\n", "alterparam rv = 2k\nreset\n"},
         // stop when: the unit of the watched quantity
         {__LINE__, "stop when time > 1m\n", "stop when time > 1u\n"},
         {__LINE__, "stop when v(out) > 0.5\n", "stop when v(out) > 0.5\n"},
