@@ -99,12 +99,11 @@ DeckAnalyses find_analyses(const Deck& deck) {
         deck.visit_file(f, [&](const Card& c) {
             if (c.kind == CardKind::control) {
                 // The analyses of .control, read (never run) as the dot cards they stand for.
-                for (const auto& t : c.tokens)
-                    if (t.kind == TokenKind::control)
-                        for (const auto& cmd : control_commands(*c.file, t)) {
-                            Card cc = cmd.as_card(*c.file);
-                            take(control, "." + to_lower(cc.field_text(0)), cc);
-                        }
+                if (const Token* t = control_token(c))
+                    for (const auto& cmd : control_commands(*c.file, *t)) {
+                        Card cc = cmd.as_card(*c.file);
+                        take(control, "." + to_lower(cc.field_text(0)), cc);
+                    }
                 return;
             }
             if (c.fields.empty()) return;

@@ -12,8 +12,9 @@ bool ends_word(char c) {
 }
 
 class Splitter {
-public:
-    Splitter(const SourceFile& file, std::vector<ControlCommand>& out) : text_(file.text()), out_(out) {}
+  public:
+    Splitter(const SourceFile& file, std::vector<ControlCommand>& out)
+        : text_(file.text()), out_(out) {}
 
     // One physical line [begin, end) without its line end, then its line end [end, next).
     void line(std::uint32_t begin, std::uint32_t end, std::uint32_t next) {
@@ -39,7 +40,8 @@ public:
             } else if (c == ';') {
                 finish();  // the next command starts on the same line
                 line_begin_ = begin;
-            } else if (c == '$' && (j == end || is_blank(text_[j])) && (i == begin || is_blank(text_[i - 1]))) {
+            } else if (c == '$' && (j == end || is_blank(text_[j])) &&
+                       (i == begin || is_blank(text_[i - 1]))) {
                 j = end;  // "$ " comments to the line end inside .control (manual 2.3.4)
                 if (!cur_.fields.empty()) add(TokenKind::comment, i, j);
             } else if (c == '=') {
@@ -71,7 +73,7 @@ public:
         cur_ = ControlCommand{};
     }
 
-private:
+  private:
     void add(TokenKind k, std::uint32_t b, std::uint32_t e) {
         Token t{k, b, e};
         cur_.tokens.push_back(t);
@@ -85,6 +87,12 @@ private:
 };
 
 }  // namespace
+
+const Token* control_token(const Card& card) {
+    for (const auto& t : card.tokens)
+        if (t.kind == TokenKind::control) return &t;
+    return nullptr;
+}
 
 std::vector<ControlCommand> control_commands(const SourceFile& file, const Token& block) {
     std::vector<ControlCommand> out;
@@ -111,7 +119,8 @@ std::vector<ControlCommand> control_commands(const SourceFile& file, const Token
 std::size_t first_literal(std::string_view w) {
     auto digit = [](char c) { return c >= '0' && c <= '9'; };
     auto name_char = [&](char c) {
-        return digit(c) || c == '_' || c == '#' || c == '.' || (ascii_lower(c) >= 'a' && ascii_lower(c) <= 'z');
+        return digit(c) || c == '_' || c == '#' || c == '.' ||
+               (ascii_lower(c) >= 'a' && ascii_lower(c) <= 'z');
     };
     for (std::size_t i = 0; i < w.size(); ++i) {
         bool starts = digit(w[i]) || (w[i] == '.' && i + 1 < w.size() && digit(w[i + 1]));

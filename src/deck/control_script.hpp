@@ -28,6 +28,9 @@ struct ControlCommand {
     }
 };
 
+// The TokenKind::control token of a control card, or nullptr.
+const Token* control_token(const Card& card);
+
 // The commands of `block` (a TokenKind::control token of `file`), in file order, without the
 // .control and .endc lines. Empty commands (blank lines, comments, a trailing ';') are left out.
 std::vector<ControlCommand> control_commands(const SourceFile& file, const Token& block);

@@ -1,11 +1,12 @@
 // Splitting a .control block into commands and words, with spans into the file (ngspice 39
 // manual 17.4.1 ';', 17.5.10 '+' lines, 2.3.4 '$ ' comments inside .control).
-#include <string>
-#include <vector>
+#include "deck/control_script.hpp"
 
 #include <gtest/gtest.h>
 
-#include "deck/control_script.hpp"
+#include <string>
+#include <vector>
+
 #include "deck/load.hpp"
 
 namespace deckscale {
@@ -50,7 +51,8 @@ TEST(ControlScript, SplitsCommandsAndWords) {
         {__LINE__, "tran 1u\n* between\n  + 2m uic\n", {"3:1 tran|1u|2m|uic"}},
         {__LINE__, "* only a comment\nrun $ comment 1k\n", {"4:1 run"}},
         {__LINE__, "let a = $fstop\n", {"3:1 let|a|=|$fstop"}},
-        {__LINE__, "meas tran t1 trig v(out)=0.5 td=1u\n",
+        {__LINE__,
+         "meas tran t1 trig v(out)=0.5 td=1u\n",
          {"3:1 meas|tran|t1|trig|v|(|out|)|=|0.5|td|=|1u"}},
         {__LINE__, "echo \"a; b\" done\r\nrun\r\n", {"3:1 echo|\"a; b\"|done", "4:1 run"}},
         {__LINE__, "alter @r1[resistance]=2k\n", {"3:1 alter|@r1[resistance]|=|2k"}},
@@ -88,10 +90,11 @@ TEST(ControlScript, FirstLiteral) {
     };
     const auto none = std::string_view::npos;
     const Case cases[] = {
-        {__LINE__, "5*2", 0},        {__LINE__, "2*pi*frequency", 0}, {__LINE__, "v2", none},
-        {__LINE__, "out_3", none},   {__LINE__, "n#2", none},         {__LINE__, "x/1k", 2},
-        {__LINE__, ".5", 0},         {__LINE__, "a.5", none},         {__LINE__, "-1e-3", 1},
-        {__LINE__, "lin-tstart", none},
+        {__LINE__, "5*2", 0},    {__LINE__, "2*pi*frequency", 0},
+        {__LINE__, "v2", none},  {__LINE__, "out_3", none},
+        {__LINE__, "n#2", none}, {__LINE__, "x/1k", 2},
+        {__LINE__, ".5", 0},     {__LINE__, "a.5", none},
+        {__LINE__, "-1e-3", 1},  {__LINE__, "lin-tstart", none},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "control_script_test.cpp:" << c.line << ": " << c.word);

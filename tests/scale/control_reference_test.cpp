@@ -17,13 +17,13 @@ namespace deckscale {
 namespace {
 
 struct NgspiceRun {
-    std::map<std::string, double> results;            // "name = value" lines of the log
+    std::map<std::string, double> results;  // "name = value" lines of the log
     std::map<std::string, std::vector<std::vector<double>>> tables;  // wrdata files by name
 };
 
 // Runs `deck` in its own folder under `dir` and reads the wrdata files it names.
 NgspiceRun run_ngspice(const std::string& deck, const test::TempDir& dir, const std::string& name,
-                const std::vector<std::string>& files) {
+                       const std::vector<std::string>& files) {
     std::string folder = dir.file(name);
     test::write_bytes(folder + "/deck.cir", deck);
     std::string cmd = "cd " + test::shell_quote(folder) + " && ngspice -b deck.cir >run.log 2>&1";
@@ -60,7 +60,8 @@ struct Expect {
     double factor;  // scaled result = factor x original result
 };
 
-void compare_results(const NgspiceRun& a, const NgspiceRun& b, const std::vector<Expect>& expected, double tol) {
+void compare_results(const NgspiceRun& a, const NgspiceRun& b, const std::vector<Expect>& expected,
+                     double tol) {
     for (const auto& e : expected) {
         SCOPED_TRACE(e.name);
         ASSERT_TRUE(a.results.count(e.name) && b.results.count(e.name));
@@ -72,8 +73,8 @@ void compare_results(const NgspiceRun& a, const NgspiceRun& b, const std::vector
 
 // Columns of one wrdata table: scaled column = factor x original column, relative to the
 // column's largest magnitude.
-void compare_table(const NgspiceRun& a, const NgspiceRun& b, const std::string& file, const std::vector<double>& factors,
-                   double tol) {
+void compare_table(const NgspiceRun& a, const NgspiceRun& b, const std::string& file,
+                   const std::vector<double>& factors, double tol) {
     SCOPED_TRACE(file);
     const auto& ra = a.tables.at(file);
     const auto& rb = b.tables.at(file);
@@ -143,8 +144,13 @@ TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
     NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"tr.txt"});
     compare_table(a, b, "tr.txt", {1 / kf, 1, 1 / km}, 1e-6);
     compare_results(a, b,
-                    {{"trise", 1 / kf}, {"vat", 1}, {"vavg", 1}, {"tw", 1 / kf}, {"q", 1 / (km * kf)},
-                     {"tmx", 1 / kf}, {"imax", 1 / km}},
+                    {{"trise", 1 / kf},
+                     {"vat", 1},
+                     {"vavg", 1},
+                     {"tw", 1 / kf},
+                     {"q", 1 / (km * kf)},
+                     {"tmx", 1 / kf},
+                     {"imax", 1 / km}},
                     1e-5);
 }
 
@@ -152,19 +158,18 @@ TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
 // results take the swept quantity's unit.
 TEST(ControlReference, DcSweepsAndMeasurementsInTheSweptUnit) {
     const std::string parts = "I1 0 top DC 1m\nR1 top mid 1.2k\nR2 mid 0 3.3k\nR3 top 0 10k\n";
-    const std::string in_control =
-        "bias ladder, DC in .control\n" + parts +
-        ".control\n"
-        "set wr_singlescale\n"
-        "dc I1 0 2m 0.1m\n"
-        "meas dc vmid find v(mid) at=1.3m\n"
-        "meas dc iat when v(top)=5\n"
-        "wrdata dc1.txt v(top) v(mid)\n"
-        "dc R2 1k 5k 250\n"
-        "meas dc vr find v(mid) at=2.2k\n"
-        "meas dc rwhen when v(mid)=1.5\n"
-        "wrdata dc2.txt v(mid)\n"
-        ".endc\n.end\n";
+    const std::string in_control = "bias ladder, DC in .control\n" + parts +
+                                   ".control\n"
+                                   "set wr_singlescale\n"
+                                   "dc I1 0 2m 0.1m\n"
+                                   "meas dc vmid find v(mid) at=1.3m\n"
+                                   "meas dc iat when v(top)=5\n"
+                                   "wrdata dc1.txt v(top) v(mid)\n"
+                                   "dc R2 1k 5k 250\n"
+                                   "meas dc vr find v(mid) at=2.2k\n"
+                                   "meas dc rwhen when v(mid)=1.5\n"
+                                   "wrdata dc2.txt v(mid)\n"
+                                   ".endc\n.end\n";
     const std::string as_cards = "bias ladder, DC cards\n" + parts +
                                  ".meas dc vcard find v(mid) at=1.3m\n"
                                  ".meas dc icard when v(top)=5\n"

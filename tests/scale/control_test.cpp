@@ -1,12 +1,13 @@
 // Rewriting .control commands: each command form of the shared notes' table
 // ("control-and-sweeps.md" A.2, from the ngspice 39 manual ch. 17) and the refusals.
+#include "scale/sweep_unit.hpp"
+
 #include <gtest/gtest.h>
 
 #include <string>
 #include <vector>
 
 #include "deck/diagnostic.hpp"
-#include "scale/control.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -47,6 +48,7 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
         {__LINE__, "fourier 1k v(out)\n", "fourier 1meg v(out)\n"},
         {__LINE__, "four 2k v(out)\n", "four 2meg v(out)\n"},
         {__LINE__, "spec 0 20k 1k v(out)\n", "spec 0 20meg 1meg v(out)\n"},
+        {__LINE__, "optran 0 0 0 100n 10u 0\n", "optran 0 0 0 100p 10n 0\n"},
         // continuation lines and several commands on a line
         {__LINE__, "tran 1u\n+ 2m\n", "tran 1n\n+ 2u\n"},
         {__LINE__, "run; tran 1u 2m ; ac dec 5 1 10\n", "run; tran 1n 2u ; ac dec 5 1000 10000\n"},
@@ -56,13 +58,15 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
         {__LINE__, "meas tran vf find v(out) at=1m\n", "meas tran vf find v(out) at=1u\n"},
         {__LINE__, "measure ac g avg vm(out) from=1k to=10k\n",
          "measure ac g avg vm(out) from=1meg to=10meg\n"},
-        {__LINE__, "meas tran iw when i(v1)=2m td=0.1m\n", "meas tran iw when i(v1)=200u td=100n\n"},
+        {__LINE__, "meas tran iw when i(v1)=2m td=0.1m\n",
+         "meas tran iw when i(v1)=200u td=100n\n"},
         // on a DC sweep from=/to=/at= take the swept quantity's unit
         {__LINE__, "dc I1 0 1m 0.1m\nmeas dc vh find v(out) at=0.5m\n",
          "dc I1 0 100u 10u\nmeas dc vh find v(out) at=50u\n"},
         {__LINE__, "dc R1 1k 2k 100\nmeas dc vr avg v(out) from=1k to=2k\n",
          "dc R1 10k 20k 1000\nmeas dc vr avg v(out) from=10k to=20k\n"},
-        {__LINE__, "dc V1 0 5 0.5\nmeas dc vv find i(v1) at=2\n", "dc V1 0 5 0.5\nmeas dc vv find i(v1) at=2\n"},
+        {__LINE__, "dc V1 0 5 0.5\nmeas dc vv find i(v1) at=2\n",
+         "dc V1 0 5 0.5\nmeas dc vv find i(v1) at=2\n"},
         // options (manual 15.1; notes A.3), as option or as set
         {__LINE__, "option abstol=1e-12 reltol=1e-4\n", "option abstol=1e-13 reltol=1e-4\n"},
         {__LINE__, "set gmin=1e-10\n", "set gmin=1e-11\n"},
@@ -91,7 +95,8 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
          "tran 1n 2u\nwrdata f.txt v(out) xlimit 0 1u xindices 2 4\n"},
         // control flow passes; its body is rewritten command by command (manual 17.6)
         {__LINE__, "repeat 2\n  ac dec 5 1 10\nend\n", "repeat 2\n  ac dec 5 1000 10000\nend\n"},
-        {__LINE__, "if $ok\n tran 1u 1m\nelse\n op\nend\n", "if $ok\n tran 1n 1u\nelse\n op\nend\n"},
+        {__LINE__, "if $ok\n tran 1u 1m\nelse\n op\nend\n",
+         "if $ok\n tran 1n 1u\nelse\n op\nend\n"},
         // commands with no unit-carrying number pass byte for byte
         {__LINE__,
          "run\nprint v(out) v(2)\nwrdata f.txt v(out)\necho 10 points\nset wr_singlescale\n"
@@ -112,8 +117,9 @@ TEST(ControlBlock, CommandsAreRewrittenByTheRuleTable) {
 }
 
 TEST(ControlBlock, FactorsOfOneReproduceTheBlock) {
-    std::string deck = kHead + "ac dec 10 1 1k\ndc I1 0 1m 0.1m\nmeas dc vh find v(out) at=0.5m\n"
-                               "option abstol=1e-12\nalter c1 = 200n\n.endc\n.end\n";
+    std::string deck = kHead +
+                       "ac dec 10 1 1k\ndc I1 0 1m 0.1m\nmeas dc vh find v(out) at=0.5m\n"
+                       "option abstol=1e-12\nalter c1 = 200n\n.endc\n.end\n";
     auto s = test::scale_text(deck, 1, 1);
     EXPECT_EQ(s.text(), deck);
     EXPECT_TRUE(s.result.unscalable.empty());
@@ -132,7 +138,8 @@ TEST(ControlBlock, NumbersOfUnknownUnitAreRefusedAtTheirWord) {
          "value is used\n  let x = 5*2\n          ^\n"},
         {__LINE__, "ac dec 10 1 $fstop\n",
          "deck.cir:8:13: error: '$fstop' is replaced by a variable's value before 'ac' reads its "
-         "words: that value's unit is not known here\n  ac dec 10 1 $fstop\n              ^~~~~~\n"},
+         "words: that value's unit is not known here\n  ac dec 10 1 $fstop\n              "
+         "^~~~~~\n"},
         {__LINE__, "set fstop = 1meg\n",
          "deck.cir:8:13: error: 'fstop' is a variable: the unit of its value is known only where "
          "$fstop is used\n  set fstop = 1meg\n              ^~~~\n"},
