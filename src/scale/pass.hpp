@@ -109,6 +109,10 @@ private:
     std::optional<std::uint32_t> mark_at_;  // where a refusal's mark goes (a control command)
     std::uint32_t marked_line_ = ~0u;       // the control line marked last, in marked_file_
     std::size_t marked_file_ = 0;
+    // The deck's DC sweeps, looked up once per run (never while observing: dc_swept_unit).
+    bool deck_dc_read_ = false;
+    std::size_t deck_dc_found_ = 0;
+    std::optional<Unit> deck_dc_unit_;
     std::vector<Atom> atoms_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;

@@ -60,9 +60,14 @@ std::optional<Unit> ScalePass::dc_swept_unit(const Token& at, std::string_view k
         rescan_ = true;
         return std::nullopt;
     }
-    DcSweeps s = dc_sweeps(*deck_);
-    if (s.unit) return s.unit;
-    unscalable(at, s.found == 0
+    if (!deck_dc_read_) {
+        DcSweeps s = dc_sweeps(*deck_);
+        deck_dc_read_ = true;
+        deck_dc_found_ = s.found;
+        deck_dc_unit_ = s.unit;
+    }
+    if (deck_dc_unit_) return deck_dc_unit_;
+    unscalable(at, deck_dc_found_ == 0
                        ? fmt::format("{}= of a DC measurement in a deck with no DC sweep", key)
                        : fmt::format("{}= of a DC measurement: the deck's DC sweeps are not all of "
                                      "V, I or R sources or TEMP, or differ in unit",

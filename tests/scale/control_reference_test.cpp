@@ -102,18 +102,29 @@ TEST(ControlReference, AcAtMappedFrequenciesAndMeasurements) {
         "meas ac g2k find vdb(out) at=2k\n"
         "meas ac vav avg vm(out) from=500 to=5k\n"
         "wrdata ac.txt v(out) i(v1)\n"
+        // alter by the element rule table (manual 17.5.3): C / (Km Kf), R x Km
+        "alter c1 = 330n\n"
+        "alter @r2[resistance] = 1.5k\n"
+        "ac dec 30 20 200k\n"
+        "meas ac fpk2 max_at vm(out)\n"
+        "wrdata ac2.txt v(out)\n"
         ".endc\n.end\n";
     const double km = 47, kf = 2500;
     auto s = test::scale_text(deck, km, kf, 15);
     ASSERT_TRUE(s.result.unscalable.empty());
     test::TempDir dir;
-    NgspiceRun a = run_ngspice(deck, dir, "orig", {"ac.txt"});
-    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"ac.txt"});
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {"ac.txt", "ac2.txt"});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"ac.txt", "ac2.txt"});
     // f, re/im v(out), re/im i(v1): the response at Kf f equals the original's at f.
     // wrdata prints 9 significant digits: 2e-8 is the printing, not the circuit.
     compare_table(a, b, "ac.txt", {kf, 1, 1, 1 / km, 1 / km}, 2e-8);
     // Results carry 7 printed digits (measure.c:88).
-    compare_results(a, b, {{"fpk", kf}, {"vpk", 1}, {"f6", kf}, {"g2k", 1}, {"vav", 1}}, 2e-6);
+    compare_table(a, b, "ac2.txt", {kf, 1, 1}, 2e-8);
+    compare_results(a, b,
+                    {{"fpk", kf}, {"vpk", 1}, {"f6", kf}, {"g2k", 1}, {"vav", 1}, {"fpk2", kf}},
+                    2e-6);
+    // The altered circuit peaks elsewhere: the second sweep is not the first one again.
+    EXPECT_GT(std::fabs(a.results.at("fpk2") / a.results.at("fpk") - 1), 0.05);
 }
 
 TEST(ControlReference, TranAtMappedTimesAndMeasurements) {

@@ -194,6 +194,8 @@ TEST(ControlBlock, MeasOnADcCardTakesTheSweptUnitWhereverTheCardIs) {
          ".meas dc vh find v(out) at=50u\n.dc I1 0 100u 10u\n"},
         {__LINE__, ".meas dc r avg v(out) from=1k to=2k\n.dc R1 1k 2k 100\n",
          ".meas dc r avg v(out) from=10k to=20k\n.dc R1 10k 20k 1000\n"},
+        {__LINE__, ".control\nmeas dc vh find v(out) at=0.5m\n.endc\n.dc I1 0 1m 0.1m\n",
+         ".control\nmeas dc vh find v(out) at=50u\n.endc\n.dc I1 0 100u 10u\n"},
         {__LINE__, ".meas dc t find v(out) at=27\n.dc temp 0 100 10\n",
          ".meas dc t find v(out) at=27\n.dc temp 0 100 10\n"},
     };
