@@ -109,7 +109,8 @@ void scale_altermod(ScalePass& p, const Card& c) {
     std::size_t value = 0;
     if (mod.size() > 1 && mod[0] == '@' && f.size() == 4 && f[2].kind == TokenKind::equals) {
         auto open = mod.find('['), close = mod.find(']');
-        if (open != std::string::npos && close > open) par = mod.substr(open + 1, close - open - 1);
+        if (open != std::string::npos && close != std::string::npos && close > open)
+            par = mod.substr(open + 1, close - open - 1);
         mod = mod.substr(1, open == std::string::npos ? std::string::npos : open - 1);
         value = 3;
     } else if (f.size() == 5 && f[3].kind == TokenKind::equals) {
@@ -121,7 +122,12 @@ void scale_altermod(ScalePass& p, const Card& c) {
     if (type && !par.empty())
         u = find_rule("model:" + (*type == "res" ? std::string("r") : *type), par);
     if (!u || !is_number_word(c, f[value])) {
-        refuse_literal(p, c, 1, "'altermod' of a model parameter the rule table does not know");
+        std::string why = "the new value is not a plain number";
+        if (!type)
+            why = fmt::format("no model '{}' is declared in this deck", mod);
+        else if (!u)
+            why = fmt::format("parameter '{}' of a '{}' model is not in the rule table", par, *type);
+        refuse_literal(p, c, 1, why);
         return;
     }
     p.scale_value(f[value], *u, par);

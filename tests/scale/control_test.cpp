@@ -160,6 +160,9 @@ TEST(ControlBlock, NumbersOfUnknownUnitAreRefusedAtTheirWord) {
         {__LINE__, "meas dc vh find v(out) at=1\n",
          "deck.cir:8:24: error: at= of a DC measurement in a deck with no DC sweep\n"
          "  meas dc vh find v(out) at=1\n                         ^~\n"},
+        {__LINE__, "altermod swm vx = 2\n",
+         "deck.cir:8:19: error: '2' in 'altermod': parameter 'vx' of a 'sw' model is not in the "
+         "rule table\n  altermod swm vx = 2\n                    ^\n"},
         {__LINE__, "frobnicate 3\n",
          "deck.cir:8:12: error: '3' in 'frobnicate': a number in a command whose arguments "
          "deckscale does not know\n  frobnicate 3\n             ^\n"},
