@@ -126,7 +126,8 @@ void scale_altermod(ScalePass& p, const Card& c) {
         if (!type)
             why = fmt::format("no model '{}' is declared in this deck", mod);
         else if (!u)
-            why = fmt::format("parameter '{}' of a '{}' model is not in the rule table", par, *type);
+            why =
+                fmt::format("parameter '{}' of a '{}' model is not in the rule table", par, *type);
         refuse_literal(p, c, 1, why);
         return;
     }
