@@ -180,7 +180,10 @@ void scale_plot(ScalePass& p, const Card& c, const BlockState& st, std::size_t f
         }
     }
     if (!any) y_known = false;
+    // Before any analysis of its own the block plots what 'run' made from the analysis cards.
+    std::optional<Unit> x_unit = st.scale;
     bool x_known = st.scale_known && st.scale && !has_vs;
+    bool x_asked = false;
     for (std::size_t i = first; i < f.size(); ++i) {
         std::string w = f[i].kind == TokenKind::word ? to_lower(c.text(f[i])) : "";
         std::size_t n = 0;
@@ -197,8 +200,13 @@ void scale_plot(ScalePass& p, const Card& c, const BlockState& st, std::size_t f
             for (std::size_t k = 1; k <= n && i + k < f.size(); ++k) {
                 const Token& v = f[i + k];
                 if (!is_number_word(c, v)) continue;
+                if (x && !st.scale_known && !has_vs && !x_asked) {
+                    x_asked = true;
+                    x_unit = p.card_plot_scale();
+                    x_known = x_unit.has_value();
+                }
                 if (x ? x_known : y_known)
-                    p.scale_value(v, x ? *st.scale : *y, w);
+                    p.scale_value(v, x ? *x_unit : *y, w);
                 else
                     p.unscalable(v, fmt::format("'{}' of '{}': the unit of that axis is not known "
                                                 "here",

@@ -79,6 +79,9 @@ public:
     // `at`: the block's last 'dc' command, else the deck's DC sweeps. nullopt when it is not
     // known (then refused, or decided once the whole deck is read).
     std::optional<Unit> dc_swept_unit(const Token& at, std::string_view key);
+    // The x unit of the plots the deck's analysis cards make (see card_plot_scales); nullopt
+    // when they do not agree (or decided once the whole deck is read).
+    std::optional<Unit> card_plot_scale();
     std::optional<Unit> block_dc_unit;  // set by a 'dc' command of the block being read
     bool block_dc_seen = false;
 
@@ -113,6 +116,8 @@ private:
     bool deck_dc_read_ = false;
     std::size_t deck_dc_found_ = 0;
     std::optional<Unit> deck_dc_unit_;
+    bool deck_plot_read_ = false;
+    std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;

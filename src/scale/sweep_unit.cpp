@@ -47,6 +47,42 @@ DcSweeps dc_sweeps(const Deck& deck) {
     return out;
 }
 
+DcSweeps card_plot_scales(const Deck& deck) {
+    DcSweeps out;
+    bool same = true;
+    for (std::size_t f = 0; f < deck.files.size(); ++f)
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::dot) return;
+            std::string kw = card_keyword(c);
+            std::optional<Unit> u;
+            if (kw == ".tran")
+                u = Unit::second;
+            else if (kw == ".ac" || kw == ".noise" || kw == ".sp" || kw == ".disto")
+                u = Unit::hertz;
+            else if (kw == ".dc")
+                u = c.fields.size() > 1 ? swept_unit(c.field_text(1)) : std::nullopt;
+            else
+                return;
+            if (!u || (out.found > 0 && out.unit != u)) same = false;
+            if (out.found++ == 0) out.unit = u;
+        });
+    if (!same) out.unit.reset();
+    return out;
+}
+
+std::optional<Unit> ScalePass::card_plot_scale() {
+    if (observing_) {
+        // Analysis cards may follow: decide once the whole deck is read.
+        rescan_ = true;
+        return std::nullopt;
+    }
+    if (!deck_plot_read_) {
+        deck_plot_unit_ = card_plot_scales(*deck_).unit;
+        deck_plot_read_ = true;
+    }
+    return deck_plot_unit_;
+}
+
 std::optional<Unit> ScalePass::dc_swept_unit(const Token& at, std::string_view key) {
     if (block_dc_seen) {
         if (!block_dc_unit)

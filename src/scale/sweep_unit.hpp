@@ -23,4 +23,9 @@ struct DcSweeps {
 };
 DcSweeps dc_sweeps(const Deck& deck);
 
+// The x-axis unit of the plots the deck's analysis cards make (.tran s; .ac .noise .sp .disto
+// Hz; .dc the swept quantity's): what a plot limit after 'run' refers to. Set when every such
+// card agrees; `found` counts them.
+DcSweeps card_plot_scales(const Deck& deck);
+
 }  // namespace deckscale

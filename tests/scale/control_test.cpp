@@ -1,13 +1,12 @@
 // Rewriting .control commands: each command form of the shared notes' table
 // ("control-and-sweeps.md" A.2, from the ngspice 39 manual ch. 17) and the refusals.
-#include "scale/sweep_unit.hpp"
-
 #include <gtest/gtest.h>
 
 #include <string>
 #include <vector>
 
 #include "deck/diagnostic.hpp"
+#include "scale/sweep_unit.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -218,6 +217,39 @@ TEST(ControlBlock, MeasOnADcCardTakesTheSweptUnitWhereverTheCardIs) {
         ScaledDeck one = load_and_scale("deck.cir", fs, settings);
         EXPECT_EQ(apply_edits(one.deck.files[0].source->text(), one.result.edits[0]), expected);
     }
+}
+
+TEST(ControlBlock, PlotLimitsAfterRunTakeTheUnitOfTheAnalysisCards) {
+    const Case cases[] = {
+        {__LINE__, ".tran 1u 2m\n.control\nrun\nplot v(out) xlimit 1m 2m\n.endc\n",
+         ".tran 1n 2u\n.control\nrun\nplot v(out) xlimit 1u 2u\n.endc\n"},
+        {__LINE__, ".control\nrun\nplot v(out) xl 10 100\n.endc\n.ac dec 10 1 1k\n",
+         ".control\nrun\nplot v(out) xl 10000 100000\n.endc\n.ac dec 10 1000 1meg\n"},
+        {__LINE__, ".dc I1 0 1m 0.1m\n.control\nrun\nplot v(out) xl 0 0.5m\n.endc\n",
+         ".dc I1 0 100u 10u\n.control\nrun\nplot v(out) xl 0 50u\n.endc\n"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "control_test.cpp:" << c.line << ": " << c.body);
+        std::string deck = "plot\nI1 0 out DC 1m\nR1 out 0 1k\n" + c.body + ".end\n";
+        std::string expected = "plot\nI1 0 out DC 100u\nR1 out 0 10k\n" + c.expected + ".end\n";
+        auto s = test::scale_text(deck, 10, 1000);
+        EXPECT_EQ(s.text(), expected);
+        for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+        MemoryFileSystem fs;
+        fs.add("deck.cir", deck);
+        ScaleSettings settings;
+        settings.factors = {10, 1000};
+        settings.digits = 7;
+        ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+        EXPECT_EQ(apply_edits(one.deck.files[0].source->text(), one.result.edits[0]), expected);
+        EXPECT_TRUE(one.result.unscalable.empty());
+    }
+    // Two analysis cards: which plot the limit refers to is not known.
+    auto s = test::scale_text(
+        "plot\nR1 out 0 1k\n.tran 1u 2m\n.ac dec 10 1 1k\n.control\nrun\n"
+        "plot v(out) xlimit 1m 2m\n.endc\n.end\n",
+        10, 1000);
+    EXPECT_EQ(s.result.unscalable.size(), 2u);
 }
 
 TEST(ControlBlock, DcSweepsOfADeck) {
