@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
+#include "deck/control_script.hpp"
 #include "deck/spice_number.hpp"
 
 namespace deckscale {
@@ -53,12 +54,58 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
     return s;
 }
 
+// Records one analysis card (or a .control command read as one) in `a`.
+void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
+    auto w = words_of(c);
+    if (kw == ".ac" && !a.ac) {
+        std::string err;
+        a.ac = sweep_from(w, err);
+        if (!a.ac) a.problems.push_back(fmt::format(".ac card: {}", err));
+    } else if (kw == ".tran" && !a.tran) {
+        TranSpec t;
+        std::vector<double> v;
+        bool ok = true;
+        for (auto s : w) {
+            if (iequals(s, "uic")) {
+                t.uic = true;
+                continue;
+            }
+            if (auto x = number(s)) v.push_back(*x);
+            else ok = false;
+        }
+        if (!ok || v.size() < 2) {
+            a.problems.push_back(".tran card: its times must be plain numbers");
+            return;
+        }
+        t.tstep = v[0];
+        t.tstop = v[1];
+        if (v.size() > 2) t.tstart = v[2];
+        if (v.size() > 3) t.tmax = v[3];
+        a.tran = t;
+    } else if (kw == ".op") {
+        a.op = true;
+    } else if (kw == ".dc" || kw == ".noise" || kw == ".disto" || kw == ".pz" ||
+               kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
+        if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
+            a.uncompared.push_back(kw);
+    }
+}
+
 }  // namespace
 
 DeckAnalyses find_analyses(const Deck& deck) {
-    DeckAnalyses a;
+    DeckAnalyses a, control;
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         deck.visit_file(f, [&](const Card& c) {
+            if (c.kind == CardKind::control) {
+                // The analyses of .control, read (never run) as the dot cards they stand for.
+                if (const Token* t = control_token(c))
+                    for (const auto& cmd : control_commands(*c.file, *t)) {
+                        Card cc = cmd.as_card(*c.file);
+                        take(control, "." + to_lower(cc.field_text(0)), cc);
+                    }
+                return;
+            }
             if (c.fields.empty()) return;
             std::string kw = card_keyword(c);
             if (c.kind == CardKind::element && (kw[0] == 'v' || kw[0] == 'i')) {
@@ -71,41 +118,19 @@ DeckAnalyses find_analyses(const Deck& deck) {
                 return;
             }
             if (c.kind != CardKind::dot) return;
-            auto w = words_of(c);
-            if (kw == ".ac" && !a.ac) {
-                std::string err;
-                a.ac = sweep_from(w, err);
-                if (!a.ac) a.problems.push_back(fmt::format(".ac card: {}", err));
-            } else if (kw == ".tran" && !a.tran) {
-                TranSpec t;
-                std::vector<double> v;
-                bool ok = true;
-                for (auto s : w) {
-                    if (iequals(s, "uic")) {
-                        t.uic = true;
-                        continue;
-                    }
-                    if (auto x = number(s)) v.push_back(*x);
-                    else ok = false;
-                }
-                if (!ok || v.size() < 2) {
-                    a.problems.push_back(".tran card: its times must be plain numbers");
-                    return;
-                }
-                t.tstep = v[0];
-                t.tstop = v[1];
-                if (v.size() > 2) t.tstart = v[2];
-                if (v.size() > 3) t.tmax = v[3];
-                a.tran = t;
-            } else if (kw == ".op") {
-                a.op = true;
-            } else if (kw == ".dc" || kw == ".noise" || kw == ".disto" || kw == ".pz" ||
-                       kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
-                if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
-                    a.uncompared.push_back(kw);
-            }
+            take(a, kw, c);
         });
     }
+    // Analyses in .control count only for a deck with no analysis card.
+    if (!a.ac && !a.tran && !a.op && (control.ac || control.tran || control.op)) {
+        a.ac = control.ac;
+        a.tran = control.tran;
+        a.op = control.op;
+        for (auto& p : control.problems) a.problems.push_back(p);
+    }
+    for (const auto& kw : control.uncompared)
+        if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
+            a.uncompared.push_back(kw);
     return a;
 }
 

@@ -16,6 +16,7 @@ void scale_positional(ScalePass& p, const std::vector<Atom>& atoms, std::string_
     std::size_t n = 0;
     for (std::size_t i = skip; i < atoms.size(); ++i) {
         if (atoms[i].key) continue;
+        if (iequals(p.text(*atoms[i].value), "uic")) continue;  // .tran's flag (manual 15.3.10)
         ++n;
         auto u = find_rule(scope, fmt::format("#{}", n));
         if (!u) continue;  // words such as 'uic' or output names
@@ -96,6 +97,12 @@ void scale_meas(ScalePass& p) {
         }
         auto u = find_rule(scope, key);
         if (!u) u = find_rule(".meas", key);
+        bool sweep_key = key == "at" || key == "from" || key == "to" || key == "td";
+        if (!u && analysis == "dc" && sweep_key) {
+            // On a DC sweep these take the swept quantity's unit (scale/control.cpp).
+            u = p.dc_swept_unit(before, key);
+            if (!u) continue;
+        }
         if (u) {
             if (p.is_value_token(value)) p.scale_value(value, *u, key);
         } else if (key == "at" || key == "from" || key == "to" || key == "td") {
@@ -247,32 +254,6 @@ void scale_model(ScalePass& p) {
         }
         p.insert(at, added, "defaults written out", first_factor);
     }
-}
-
-void scale_control_block(ScalePass& p) {
-    const Card& c = p.card();
-    const Token& t = c.tokens.front().kind == TokenKind::control ? c.tokens.front() : c.tokens[0];
-    // Any number in the script (an analysis, an alter, a let) would need the same rules.
-    std::string_view s = c.text(t);
-    std::size_t pos = s.find('\n');
-    std::string_view body = pos == std::string_view::npos ? std::string_view{} : s.substr(pos + 1);
-    bool has_number = false;
-    std::size_t i = 0;
-    while (i < body.size() && !has_number) {
-        // Split into words at blanks and separators; skip v(...)/i(...) node names.
-        while (i < body.size() && std::string_view(" \t\r\n,=()").find(body[i]) != std::string_view::npos) ++i;
-        std::size_t j = i;
-        while (j < body.size() && std::string_view(" \t\r\n,=()").find(body[j]) == std::string_view::npos) ++j;
-        std::string_view w = body.substr(i, j - i);
-        bool after_paren = i > 0 && body[i - 1] == '(';
-        if (!w.empty() && !after_paren && !istarts_with(w, ".endc") &&
-            parse_spice_number(w).problem != NumberProblem::not_a_number)
-            has_number = true;
-        i = j;
-    }
-    if (has_number)
-        p.unscalable(t, ".control block with numbers: its commands are not rewritten; move "
-                        "analyses to dot cards or scale the script by hand");
 }
 
 }  // namespace deckscale

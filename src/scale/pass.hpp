@@ -2,6 +2,7 @@
 // scale/elements.cpp, scale/sources.cpp, scale/dot_cards.cpp).
 #pragma once
 
+#include <functional>
 #include <map>
 #include <optional>
 #include <set>
@@ -69,6 +70,21 @@ public:
     // Throws DeckError at a token.
     [[noreturn]] void fail(const Token& at, std::string why) const;
 
+    // ---- .control blocks (scale/control.cpp) ----
+    // Runs `handler` with one command of the current .control block as the current card; a
+    // refusal marks the command's line (starting at `line_begin`) once however many it has.
+    void with_command(const Card& command, std::uint32_t line_begin,
+                      const std::function<void()>& handler);
+    // The unit of the swept quantity for a from=/to=/at=/td= field of a DC measurement at
+    // `at`: the block's last 'dc' command, else the deck's DC sweeps. nullopt when it is not
+    // known (then refused, or decided once the whole deck is read).
+    std::optional<Unit> dc_swept_unit(const Token& at, std::string_view key);
+    // The x unit of the plots the deck's analysis cards make (see card_plot_scales); nullopt
+    // when they do not agree (or decided once the whole deck is read).
+    std::optional<Unit> card_plot_scale();
+    std::optional<Unit> block_dc_unit;  // set by a 'dc' command of the block being read
+    bool block_dc_seen = false;
+
     // True when a token can carry a value (number, {expr}, 'expr', parameter name).
     bool is_value_token(const Token& t) const;
     bool is_number(const Token& t) const;
@@ -92,6 +108,16 @@ private:
     std::size_t expected_bytes_ = 0;
     const Card* card_ = nullptr;
     bool card_marked_ = false;
+    const Deck* deck_ = nullptr;
+    std::optional<std::uint32_t> mark_at_;  // where a refusal's mark goes (a control command)
+    std::uint32_t marked_line_ = ~0u;       // the control line marked last, in marked_file_
+    std::size_t marked_file_ = 0;
+    // The deck's DC sweeps, looked up once per run (never while observing: dc_swept_unit).
+    bool deck_dc_read_ = false;
+    std::size_t deck_dc_found_ = 0;
+    std::optional<Unit> deck_dc_unit_;
+    bool deck_plot_read_ = false;
+    std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;

@@ -48,6 +48,7 @@ ScalePass::ScalePass(const ScaleSettings& settings, ScaleResult& result)
 void ScalePass::run(const Deck& deck) {
     observing_ = false;
     symbols_ = &deck.symbols;
+    deck_ = &deck;
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -59,6 +60,7 @@ void ScalePass::run(const Deck& deck) {
 void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) {
     observing_ = true;
     symbols_ = &so_far.symbols;
+    deck_ = &so_far;
     if (result_.edits.size() <= file) {
         result_.edits.resize(file + 1);
         // At most about one edit per value of a dense deck: reserve that much up front, so
@@ -308,7 +310,7 @@ void ScalePass::unscalable(const Token& at, std::string why) {
         for (auto& ch : why)
             if (ch == '\n' || ch == '\r') ch = ' ';  // one comment line, whatever was quoted
         // After a byte-order mark, which must stay the first bytes of the file.
-        std::uint32_t at_line = card_->begin();
+        std::uint32_t at_line = mark_at_ ? *mark_at_ : card_->begin();
         if (!card_->tokens.empty() && card_->tokens.front().kind == TokenKind::bom)
             at_line = card_->tokens.front().end;
         result_.edits[file_].add(card_->file->text(),

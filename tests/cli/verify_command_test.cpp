@@ -274,6 +274,20 @@ TEST(VerifyCommand, TransientPairWithinATenthOfAPercent) {
     EXPECT_EQ(w.exit_code, 1) << w.out;
 }
 
+TEST(VerifyCommand, AnalysisFromTheControlBlockWhenNoCardAsks) {
+    TempDir dir;
+    write_bytes(dir.file("c.cir"), "rc in control\nV1 in 0 dc 0 ac 1\nR1 in out 1k\nC1 out 0 1u\n"
+                                   ".control\nac dec 20 1 1meg\nmeas ac f3 when vdb(out)=-3\n.endc\n.end\n");
+    scale(dir, "c.cir", "c_s.cir", "10", "1000");
+    EXPECT_NE(read_bytes(dir.file("c_s.cir")).find("ac dec 20 1000 1g\n"), std::string::npos);
+    RunResult r = run_binary({"verify", "c.cir", "c_s.cir", "--json", "r.json"}, dir.path());
+    EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
+    auto j = nlohmann::json::parse(read_bytes(dir.file("r.json")));
+    ASSERT_EQ(j["analyses"].size(), 1u);
+    EXPECT_EQ(j["analyses"][0]["analysis"], "ac");
+    EXPECT_EQ(j["analyses"][0]["points"], 121);
+}
+
 TEST(VerifyCommand, PlotWritesSvgDataAndScript) {
     TempDir dir;
     write_bytes(dir.file("rc.cir"), kRc);

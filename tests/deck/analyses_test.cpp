@@ -79,6 +79,21 @@ TEST(FindAnalyses, AnalysesVerifyDoesNotMapAreNamedOnce) {
     EXPECT_FALSE(a.op);
 }
 
+TEST(FindAnalyses, ControlBlockAnalysesCountWhenNoCardAsks) {
+    // Read as the dot cards they stand for (ngspice-39.3 src/frontend/spiceif.c:241), never run.
+    auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.control\nset x = 1\nac dec 20 1 1meg\n"
+                         "tran 1u\n+ 2m\ndc V1 0 1 0.1\n.endc\n.end\n");
+    ASSERT_TRUE(a.ac);
+    EXPECT_EQ(ac_card(*a.ac), ".ac dec 20 1 1000000");
+    ASSERT_TRUE(a.tran);
+    EXPECT_EQ(tran_card(*a.tran), ".tran 9.9999999999999995e-07 0.002");
+    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc"}));
+    // A deck with an analysis card keeps only the card's.
+    auto b = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.op\n.control\nac dec 20 1 1meg\n.endc\n.end\n");
+    EXPECT_TRUE(b.op);
+    EXPECT_FALSE(b.ac);
+}
+
 TEST(ParseSweep, WordsOfTheOption) {
     std::string e;
     auto s = parse_sweep({"lin", "7", "100", "1.6k"}, e);

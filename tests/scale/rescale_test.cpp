@@ -167,7 +167,7 @@ TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
         {__LINE__, "A1 a b amp\n", {"2:1"}},
         {__LINE__, "V1 a 0 EXTERNAL\n", {"2:8"}},
         {__LINE__, "Y1 a 0 b 0 txlmod\n", {"2:1"}},
-        {__LINE__, "R1 a 0 1k\n.control\nac dec 10 1 1k\n.endc\n", {"3:1"}},
+        {__LINE__, "R1 a 0 1k\n.control\nlet x = 2*v(a)\n.endc\n", {"4:9"}},
         {__LINE__, "L1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n", {"4:7"}},
         {__LINE__, "E1 a 0 LAPLACE {v(b)} {1/(1+s)}\n", {"2:8"}},
     };

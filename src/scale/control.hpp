@@ -1,0 +1,44 @@
+// Internal to the .control handler (scale/control.cpp, scale/control_commands.cpp): what a
+// block has run so far, the word helpers and the handlers of the commands that are not read
+// as dot cards. Table of the commands: shared notes "control-and-sweeps.md" A.2, from the
+// ngspice 39 manual chapter 17.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string_view>
+
+#include "deck/card.hpp"
+#include "scale/pass.hpp"
+#include "scale/units.hpp"
+
+namespace deckscale {
+
+// What the block has run so far: the unit of the current plot's scale.
+struct BlockState {
+    std::optional<Unit> scale;  // time, frequency or the DC sweep's quantity
+    bool scale_known = false;   // false before any analysis
+};
+
+inline constexpr std::string_view kUseTells =
+    "the unit of this number is known only from how its value is used";
+
+// v, vm, vdb, i, ... : the output functions whose arguments are node or source names.
+bool is_output_function(std::string_view word);
+// The unit of v(..), i(..) and their magnitude/real/imaginary forms; none for dB and phase;
+// nullopt for anything else.
+std::optional<Unit> output_function_unit(std::string_view word);
+// The first numeric literal in fields [from, to) outside the node names of v(..), i(..).
+std::optional<Token> literal_in(const Card& c, std::size_t from, std::size_t to);
+bool is_number_word(const Card& c, const Token& t);
+// Refuses the first literal of fields [from, end) with `why`.
+void refuse_literal(ScalePass& p, const Card& c, std::size_t from, std::string_view why);
+
+void scale_set(ScalePass& p, const Card& c);
+void scale_let(ScalePass& p, const Card& c);
+void scale_alter(ScalePass& p, const Card& c);
+void scale_altermod(ScalePass& p, const Card& c);
+void scale_stop(ScalePass& p, const Card& c);
+void scale_plot(ScalePass& p, const Card& c, const BlockState& st, std::size_t first);
+
+}  // namespace deckscale

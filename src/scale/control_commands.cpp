@@ -1,0 +1,232 @@
+// Handlers of the .control commands that are not read as dot cards: set, let, alter,
+// altermod, stop and the plot family (shared notes "control-and-sweeps.md" A.2-A.4).
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <array>
+
+#include "base/text_util.hpp"
+#include "deck/control_script.hpp"
+#include "scale/control.hpp"
+#include "scale/rules.hpp"
+
+namespace deckscale {
+
+// set name = value ...: options scale as .options (notes A.3); front-end variables holding
+// counts pass; any other number is a user variable whose unit its uses tell (notes A.4).
+void scale_set(ScalePass& p, const Card& c) {
+    static const std::array<std::string_view, 12> counts = {
+        "width",   "height",      "numdgt",          "nfreqs",      "polydegree",  "fourgridsize",
+        "rndseed", "num_threads", "specwindoworder", "xbrushwidth", "ybrushwidth", "gridsize"};
+    const auto& f = c.fields;
+    std::string key;
+    for (std::size_t i = 1; i < f.size(); ++i) {
+        if (f[i].kind == TokenKind::word && i + 1 < f.size() &&
+            f[i + 1].kind == TokenKind::equals) {
+            key = to_lower(c.text(f[i]));
+            ++i;
+            continue;
+        }
+        if (f[i].kind != TokenKind::word || first_literal(c.text(f[i])) == std::string_view::npos)
+            continue;
+        if (auto u = find_rule(".options", key); u && is_number_word(c, f[i])) {
+            p.scale_value(f[i], *u, key);
+        } else if (std::find(counts.begin(), counts.end(), key) == counts.end()) {
+            p.unscalable(f[i],
+                         fmt::format("'{}' is a variable: the unit of its value is known only "
+                                     "where ${} is used",
+                                     key.empty() ? "?" : key, key));
+            return;
+        }
+    }
+}
+
+// let lin-tstart = 1m and the other special vectors of linearize and cutout (manual 17.5.40,
+// 17.5.14) are times; any other number in an expression is refused.
+void scale_let(ScalePass& p, const Card& c) {
+    const auto& f = c.fields;
+    static const std::array<std::string_view, 5> times = {"lin-tstart", "lin-tstop", "lin-tstep",
+                                                          "cut-tstart", "cut-tstop"};
+    if (f.size() == 4 && f[2].kind == TokenKind::equals && is_number_word(c, f[3]) &&
+        std::find(times.begin(), times.end(), to_lower(c.text(f[1]))) != times.end()) {
+        p.scale_value(f[3], Unit::second, to_lower(c.text(f[1])));
+        return;
+    }
+    refuse_literal(p, c, 1, kUseTells);
+}
+
+// alter dev = v | alter dev par = v | alter @dev[par] = v | alter dev v (manual 17.5.3): the
+// element rule table gives the unit.
+void scale_alter(ScalePass& p, const Card& c) {
+    const auto& f = c.fields;
+    if (f.size() < 3) return;
+    std::string dev = to_lower(c.text(f[1]));
+    std::string par;
+    std::size_t value = f.size() - 1;
+    if (dev.size() > 1 && dev[0] == '@') {
+        auto open = dev.find('['), close = dev.find(']');
+        if (open != std::string::npos && close != std::string::npos && close > open) {
+            par = dev.substr(open + 1, close - open - 1);
+            dev = dev.substr(1, open - 1);
+        }
+    } else if (f.size() == 5 && f[3].kind == TokenKind::equals) {
+        par = to_lower(c.text(f[2]));
+    }
+    bool simple = (f.size() == 4 && f[2].kind == TokenKind::equals) ||
+                  (f.size() == 5 && !par.empty()) ||
+                  (f.size() == 3 && f[2].kind == TokenKind::word);
+    if (!simple || dev.empty()) {
+        refuse_literal(p, c, 1, "a value list or expression in 'alter' is not rewritten");
+        return;
+    }
+    const Token& v = f[value];
+    if (first_literal(c.text(v)) == std::string_view::npos &&
+        c.text(v).find('$') == std::string_view::npos)
+        return;
+    char letter = dev[0];
+    if (par.empty()) par = letter == 'v' || letter == 'i' ? "dc" : "value";
+    if (par == "resistance" || par == "capacitance" || par == "inductance") par = "value";
+    auto u = find_rule(std::string(1, letter), par);
+    if (!u) {
+        p.unscalable(f[1], fmt::format("'alter' of '{}' of '{}': that parameter is not in the rule "
+                                       "table",
+                                       par, c.text(f[1])));
+        return;
+    }
+    if (*u == Unit::signal) u = letter == 'v' ? Unit::volt : Unit::ampere;
+    if (!is_number_word(c, v)) {
+        p.unscalable(v, fmt::format("'alter' value '{}' is not a number", c.text(v)));
+        return;
+    }
+    p.scale_value(v, *u, par);
+}
+
+// altermod mod par = v | altermod @mod[par] = v (manual 17.5.4): the model rule table.
+void scale_altermod(ScalePass& p, const Card& c) {
+    const auto& f = c.fields;
+    if (!literal_in(c, 1, f.size())) return;
+    std::string mod = to_lower(c.text(f[1])), par;
+    std::size_t value = 0;
+    if (mod.size() > 1 && mod[0] == '@' && f.size() == 4 && f[2].kind == TokenKind::equals) {
+        auto open = mod.find('['), close = mod.find(']');
+        if (open != std::string::npos && close != std::string::npos && close > open)
+            par = mod.substr(open + 1, close - open - 1);
+        mod = mod.substr(1, open == std::string::npos ? std::string::npos : open - 1);
+        value = 3;
+    } else if (f.size() == 5 && f[3].kind == TokenKind::equals) {
+        par = to_lower(c.text(f[2]));
+        value = 4;
+    }
+    const std::string* type = p.model_type(mod);
+    std::optional<Unit> u;
+    if (type && !par.empty())
+        u = find_rule("model:" + (*type == "res" ? std::string("r") : *type), par);
+    if (!u || !is_number_word(c, f[value])) {
+        std::string why = "the new value is not a plain number";
+        if (!type)
+            why = fmt::format("no model '{}' is declared in this deck", mod);
+        else if (!u)
+            why =
+                fmt::format("parameter '{}' of a '{}' model is not in the rule table", par, *type);
+        refuse_literal(p, c, 1, why);
+        return;
+    }
+    p.scale_value(f[value], *u, par);
+}
+
+// stop when w op val (manual 17.5.85): val takes the unit of w when w is time, frequency,
+// v(..) or i(..).
+void scale_stop(ScalePass& p, const Card& c) {
+    const auto& f = c.fields;
+    std::size_t i = 1;
+    while (i < f.size() && !iequals(c.text(f[i]), "when")) ++i;
+    if (i == f.size()) return;  // stop after n: a count
+    std::optional<Unit> u;
+    std::size_t next = i + 2;
+    std::string w = i + 1 < f.size() ? to_lower(c.text(f[i + 1])) : "";
+    if (w == "time")
+        u = Unit::second;
+    else if (w == "frequency")
+        u = Unit::hertz;
+    else if (i + 2 < f.size() && f[i + 2].kind == TokenKind::lparen) {
+        u = output_function_unit(w);
+        while (next < f.size() && f[next].kind != TokenKind::rparen) ++next;
+        ++next;
+    }
+    // one comparison word (or '=') and one number, nothing after it
+    if (u && next + 2 == f.size() && is_number_word(c, f[next + 1])) {
+        p.scale_value(f[next + 1], *u, "when");
+        return;
+    }
+    refuse_literal(p, c, 1, kUseTells);
+}
+
+// plot and its relatives: limits in the unit of the scale (x) or of the plotted vectors (y)
+// (manual 17.5.50; ngspice-39.3 src/frontend/plotting/plotit.c:73-115); xindices and
+// xcompress are counts; other numbers in the plotted expressions are refused as in 'let'.
+void scale_plot(ScalePass& p, const Card& c, const BlockState& st, std::size_t first) {
+    const auto& f = c.fields;
+    std::optional<Unit> y;
+    bool y_known = true, any = false, has_vs = false;
+    for (std::size_t i = first; i < f.size(); ++i) {
+        if (f[i].kind != TokenKind::word) continue;
+        std::string w = to_lower(c.text(f[i]));
+        if (w == "vs") has_vs = true;
+        if (i + 1 < f.size() && f[i + 1].kind == TokenKind::lparen) {
+            auto u = output_function_unit(w);
+            if (!u || (any && y != u)) y_known = false;
+            if (!any) y = u;
+            any = true;
+        }
+    }
+    if (!any) y_known = false;
+    // Before any analysis of its own the block plots what 'run' made from the analysis cards.
+    std::optional<Unit> x_unit = st.scale;
+    bool x_known = st.scale_known && st.scale && !has_vs;
+    bool x_asked = false;
+    for (std::size_t i = first; i < f.size(); ++i) {
+        std::string w = f[i].kind == TokenKind::word ? to_lower(c.text(f[i])) : "";
+        std::size_t n = 0;
+        bool x = true;
+        if (w == "xl" || w == "xlimit")
+            n = 2;
+        else if (w == "xdel" || w == "xdelta")
+            n = 1;
+        else if (w == "yl" || w == "ylimit")
+            n = 2, x = false;
+        else if (w == "ydel" || w == "ydelta")
+            n = 1, x = false;
+        if (n > 0) {
+            for (std::size_t k = 1; k <= n && i + k < f.size(); ++k) {
+                const Token& v = f[i + k];
+                if (!is_number_word(c, v)) continue;
+                if (x && !st.scale_known && !has_vs && !x_asked) {
+                    x_asked = true;
+                    x_unit = p.card_plot_scale();
+                    x_known = x_unit.has_value();
+                }
+                if (x ? x_known : y_known)
+                    p.scale_value(v, x ? *x_unit : *y, w);
+                else
+                    p.unscalable(v, fmt::format("'{}' of '{}': the unit of that axis is not known "
+                                                "here",
+                                                w, to_lower(c.field_text(0))));
+            }
+            i += n;
+            continue;
+        }
+        if (w == "xind" || w == "xindices" || w == "xcomp" || w == "xcompress") {
+            i += w.starts_with("xind") ? 2 : 1;
+            continue;
+        }
+        if (auto t = literal_in(c, i, i + 1)) {
+            p.unscalable(*t, fmt::format("'{}' in '{}': {}", c.text(*t), to_lower(c.field_text(0)),
+                                         kUseTells));
+            return;
+        }
+        if (i + 1 < f.size() && f[i + 1].kind == TokenKind::lparen && is_output_function(w))
+            while (i < f.size() && f[i].kind != TokenKind::rparen) ++i;  // node names
+    }
+}
+
+}  // namespace deckscale

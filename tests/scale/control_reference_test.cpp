@@ -1,0 +1,206 @@
+// ngspice as referee of rewritten .control blocks: the original deck and its rewrite are run
+// with `ngspice -b`; vectors written by wrdata are compared at mapped frequencies and times
+// (f' = Kf f, t' = t / Kf, V' = V, I' = I / Km) and measurement results by their unit (shared
+// notes "control-and-sweeps.md" A.2 and A.5; ngspice 39 manual 15.4 for the results).
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <complex>
+#include <map>
+#include <regex>
+#include <sstream>
+
+#include "support/common.hpp"
+#include "support/scale.hpp"
+
+namespace deckscale {
+namespace {
+
+struct NgspiceRun {
+    std::map<std::string, double> results;  // "name = value" lines of the log
+    std::map<std::string, std::vector<std::vector<double>>> tables;  // wrdata files by name
+};
+
+// Runs `deck` in its own folder under `dir` and reads the wrdata files it names.
+NgspiceRun run_ngspice(const std::string& deck, const test::TempDir& dir, const std::string& name,
+                       const std::vector<std::string>& files) {
+    std::string folder = dir.file(name);
+    test::write_bytes(folder + "/deck.cir", deck);
+    std::string cmd = "cd " + test::shell_quote(folder) + " && ngspice -b deck.cir >run.log 2>&1";
+    // Batch mode with a .control block and no output cards exits 1 ("no simulations run"):
+    // the log tells whether the commands ran.
+    (void)std::system(cmd.c_str());
+    std::string log = test::read_bytes(folder + "/run.log");
+    EXPECT_EQ(log.find("rror"), std::string::npos) << log;
+    NgspiceRun r;
+    // A measurement prints "name = value" (ngspice-39.3 src/frontend/measure.c:138).
+    static const std::regex result(R"(^\s*(\w+)\s*=\s*([-+0-9.eE]+))");
+    std::istringstream in(log);
+    std::string line;
+    std::smatch m;
+    while (std::getline(in, line))
+        if (std::regex_search(line, m, result)) r.results[m[1]] = std::stod(m[2]);
+    for (const auto& f : files) {
+        std::istringstream t(test::read_bytes(folder + "/" + f));
+        auto& rows = r.tables[f];
+        while (std::getline(t, line)) {
+            std::istringstream fields(line);
+            std::vector<double> row;
+            double x;
+            while (fields >> x) row.push_back(x);
+            if (!row.empty()) rows.push_back(row);
+        }
+        EXPECT_FALSE(rows.empty()) << f << "\n" << log;
+    }
+    return r;
+}
+
+struct Expect {
+    std::string name;
+    double factor;  // scaled result = factor x original result
+};
+
+void compare_results(const NgspiceRun& a, const NgspiceRun& b, const std::vector<Expect>& expected,
+                     double tol) {
+    for (const auto& e : expected) {
+        SCOPED_TRACE(e.name);
+        ASSERT_TRUE(a.results.count(e.name) && b.results.count(e.name));
+        double want = a.results.at(e.name) * e.factor, got = b.results.at(e.name);
+        EXPECT_LE(std::fabs(got - want), tol * std::max(std::fabs(want), 1e-30))
+            << a.results.at(e.name) << " x " << e.factor << " vs " << got;
+    }
+}
+
+// Columns of one wrdata table: scaled column = factor x original column, relative to the
+// column's largest magnitude.
+void compare_table(const NgspiceRun& a, const NgspiceRun& b, const std::string& file,
+                   const std::vector<double>& factors, double tol) {
+    SCOPED_TRACE(file);
+    const auto& ra = a.tables.at(file);
+    const auto& rb = b.tables.at(file);
+    ASSERT_EQ(ra.size(), rb.size());
+    for (std::size_t c = 0; c < factors.size(); ++c) {
+        double peak = 0, worst = 0;
+        for (const auto& row : ra) peak = std::max(peak, std::fabs(row.at(c) * factors[c]));
+        for (std::size_t r = 0; r < ra.size(); ++r)
+            worst = std::max(worst, std::fabs(rb[r].at(c) - ra[r].at(c) * factors[c]));
+        EXPECT_LE(worst, tol * peak) << "column " << c;
+    }
+}
+
+// An RLC low-pass whose only analysis is in .control.
+TEST(ControlReference, AcAtMappedFrequenciesAndMeasurements) {
+    const std::string deck =
+        "tone filter, AC in .control only\n"
+        "V1 in 0 DC 0 AC 1\nR1 in a 330\nL1 a out 15m\nC1 out 0 220n\nR2 out 0 2.2k\n"
+        ".control\n"
+        "set wr_singlescale\n"
+        "ac dec 30 20 200k\n"
+        "meas ac fpk max_at vm(out)\n"
+        "meas ac vpk max vm(out)\n"
+        "meas ac f6 when vdb(out)=-6\n"
+        "meas ac g2k find vdb(out) at=2k\n"
+        "meas ac vav avg vm(out) from=500 to=5k\n"
+        "wrdata ac.txt v(out) i(v1)\n"
+        // alter by the element rule table (manual 17.5.3): C / (Km Kf), R x Km
+        "alter c1 = 330n\n"
+        "alter @r2[resistance] = 1.5k\n"
+        "ac dec 30 20 200k\n"
+        "meas ac fpk2 max_at vm(out)\n"
+        "wrdata ac2.txt v(out)\n"
+        ".endc\n.end\n";
+    const double km = 47, kf = 2500;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    test::TempDir dir;
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {"ac.txt", "ac2.txt"});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"ac.txt", "ac2.txt"});
+    // f, re/im v(out), re/im i(v1): the response at Kf f equals the original's at f.
+    // wrdata prints 9 significant digits: 2e-8 is the printing, not the circuit.
+    compare_table(a, b, "ac.txt", {kf, 1, 1, 1 / km, 1 / km}, 2e-8);
+    // Results carry 7 printed digits (measure.c:88).
+    compare_table(a, b, "ac2.txt", {kf, 1, 1}, 2e-8);
+    compare_results(a, b,
+                    {{"fpk", kf}, {"vpk", 1}, {"f6", kf}, {"g2k", 1}, {"vav", 1}, {"fpk2", kf}},
+                    2e-6);
+    // The altered circuit peaks elsewhere: the second sweep is not the first one again.
+    EXPECT_GT(std::fabs(a.results.at("fpk2") / a.results.at("fpk") - 1), 0.05);
+}
+
+TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
+    const std::string deck =
+        "pulse shaper, TRAN in .control only\n"
+        "V1 in 0 DC 0 PULSE(0 1 50u 2u 2u 300u 800u)\n"
+        "R1 in a 220\nL1 a out 4.7m\nC1 out 0 68n\nR2 out s 1.5k\nVs s 0 DC 0\n"
+        ".control\n"
+        "set wr_singlescale\n"
+        // Absolute tolerances written so that they scale too (notes A.3).
+        "option abstol=1e-12 chgtol=1e-14\n"
+        "tran 1u 1.2m\n"
+        "meas tran trise trig v(out) val=0.1 rise=1 targ v(out) val=0.6 rise=1\n"
+        "meas tran vat find v(out) at=0.3m\n"
+        "meas tran vavg avg v(out) from=0.1m to=0.5m\n"
+        "meas tran tw when v(out)=0.3 td=0.4m\n"
+        "meas tran q integ i(vs) from=0.05m to=0.4m\n"
+        "meas tran tmx max_at v(out) from=0.05m to=0.4m\n"
+        "meas tran imax max i(vs)\n"
+        "linearize v(out) i(vs)\n"
+        "wrdata tr.txt v(out) i(vs)\n"
+        ".endc\n.end\n";
+    const double km = 8, kf = 1000;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    test::TempDir dir;
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {"tr.txt"});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"tr.txt"});
+    compare_table(a, b, "tr.txt", {1 / kf, 1, 1 / km}, 1e-6);
+    compare_results(a, b,
+                    {{"trise", 1 / kf},
+                     {"vat", 1},
+                     {"vavg", 1},
+                     {"tw", 1 / kf},
+                     {"q", 1 / (km * kf)},
+                     {"tmx", 1 / kf},
+                     {"imax", 1 / km}},
+                    1e-5);
+}
+
+// DC sweeps of a current source and of a resistor, in .control and as dot cards: at=, when
+// results take the swept quantity's unit.
+TEST(ControlReference, DcSweepsAndMeasurementsInTheSweptUnit) {
+    const std::string parts = "I1 0 top DC 1m\nR1 top mid 1.2k\nR2 mid 0 3.3k\nR3 top 0 10k\n";
+    const std::string in_control = "bias ladder, DC in .control\n" + parts +
+                                   ".control\n"
+                                   "set wr_singlescale\n"
+                                   "dc I1 0 2m 0.1m\n"
+                                   "meas dc vmid find v(mid) at=1.3m\n"
+                                   "meas dc iat when v(top)=5\n"
+                                   "wrdata dc1.txt v(top) v(mid)\n"
+                                   "dc R2 1k 5k 250\n"
+                                   "meas dc vr find v(mid) at=2.2k\n"
+                                   "meas dc rwhen when v(mid)=1.5\n"
+                                   "wrdata dc2.txt v(mid)\n"
+                                   ".endc\n.end\n";
+    const std::string as_cards = "bias ladder, DC cards\n" + parts +
+                                 ".meas dc vcard find v(mid) at=1.3m\n"
+                                 ".meas dc icard when v(top)=5\n"
+                                 ".dc I1 0 2m 0.1m\n.end\n";
+    const double km = 8, kf = 1000;
+    test::TempDir dir;
+    auto s = test::scale_text(in_control, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    NgspiceRun a = run_ngspice(in_control, dir, "orig", {"dc1.txt", "dc2.txt"});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"dc1.txt", "dc2.txt"});
+    compare_table(a, b, "dc1.txt", {1 / km, 1, 1}, 2e-8);
+    compare_table(a, b, "dc2.txt", {km, 1}, 2e-8);
+    compare_results(a, b, {{"vmid", 1}, {"iat", 1 / km}, {"vr", 1}, {"rwhen", km}}, 2e-6);
+
+    auto t = test::scale_text(as_cards, km, kf, 15);
+    ASSERT_TRUE(t.result.unscalable.empty());
+    NgspiceRun c = run_ngspice(as_cards, dir, "cards_orig", {});
+    NgspiceRun d = run_ngspice(t.text(), dir, "cards_scaled", {});
+    compare_results(c, d, {{"vcard", 1}, {"icard", 1 / km}}, 2e-6);
+}
+
+}  // namespace
+}  // namespace deckscale
