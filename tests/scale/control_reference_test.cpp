@@ -26,7 +26,8 @@ NgspiceRun run_ngspice(const std::string& deck, const test::TempDir& dir, const 
                        const std::vector<std::string>& files) {
     std::string folder = dir.file(name);
     test::write_bytes(folder + "/deck.cir", deck);
-    std::string cmd = "cd " + test::shell_quote(folder) + " && ngspice -b deck.cir >run.log 2>&1";
+    std::string cmd = "cd " + test::shell_quote(folder) + " && " + test::ngspice_batch() +
+                      "deck.cir >run.log 2>&1";
     // Batch mode with a .control block and no output cards exits 1 ("no simulations run"):
     // the log tells whether the commands ran.
     (void)std::system(cmd.c_str());
