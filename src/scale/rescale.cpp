@@ -89,6 +89,7 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     if (gmin_used_ && piece.gmin_used_ && *gmin_used_ != *piece.gmin_used_) rescan_ = true;
     if (!gmin_used_) gmin_used_ = piece.gmin_used_;
     rescan_ = rescan_ || piece.rescan_;
+    tolerances_.merge(piece.tolerances_);
     missed_params_.merge(piece.missed_params_);
     missed_models_.merge(piece.missed_models_);
     missed_inductors_.merge(piece.missed_inductors_);
@@ -249,6 +250,11 @@ void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double 
     edit(begin, end - begin, std::move(text), field, unit, out_factor);
 }
 
+void ScalePass::replace(const Token& t, std::string text, std::string_view field, Unit unit) {
+    edit(t.begin, t.size(), std::move(text), field, unit_name(unit),
+         factor_of(unit, settings_.factors));
+}
+
 void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view field, double factor) {
     edit(offset, 0, std::move(text), field, "", factor);
 }
@@ -315,6 +321,7 @@ ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     ScaleResult result;
     ScalePass pass(settings, result);
     pass.run(deck);
+    pass.finish(deck);
     return result;
 }
 
@@ -355,6 +362,7 @@ ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
     // A name used before it was declared: the answers given then may be wrong, so scale
     // the (now complete) deck again from scratch.
     if (pass.relied_on_missing(out.deck.symbols)) out.result = scale_deck(out.deck, settings);
+    if (!pass.relied_on_missing(out.deck.symbols)) pass.finish(out.deck);  // scale_deck did
     out.result.edits.resize(out.deck.files.size());
     return out;
 }
