@@ -2,10 +2,12 @@
 #include <string>
 #include <vector>
 
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include "deck/analyses.hpp"
 #include "deck/load.hpp"
+#include "deck/sweep_steps.hpp"
 
 namespace deckscale {
 namespace {
@@ -83,9 +85,23 @@ TEST(ParseSweep, WordsOfTheOption) {
     std::string e;
     auto s = parse_sweep({"lin", "7", "100", "1.6k"}, e);
     ASSERT_TRUE(s) << e;
-    EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1600");
+    EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1.6k");  // as written
     EXPECT_FALSE(parse_sweep({"dec", "x", "1", "2"}, e));
     EXPECT_EQ(e, "the point count and frequencies must be plain numbers (parameters are not evaluated)");
+}
+
+TEST(MapAnalyses, TheMappedSweepStepsLikeTheOriginal) {
+    // Issue 10 §3: ngspice 39 steps `dec 1 6283.18531 62831.8531` forever and `dec 1000` of
+    // those 9-digit values through 1000 points instead of 1001 (acan.c:89).
+    std::string e;
+    for (const char* n : {"1", "1000"}) {
+        auto s = parse_sweep({"dec", n, "1", "10"}, e);
+        ASSERT_TRUE(s) << e;
+        AcSweep m = map_sweep(*s, 2 * 3.141592653589793 * 1000);
+        EXPECT_EQ(ac_card(m), fmt::format(".ac dec {} 6283.18530717959 62831.8530717959", n));
+        EXPECT_EQ(ac_points("dec", m.points, m.fstart, m.fstop).values.size(),
+                  ac_points("dec", s->points, s->fstart, s->fstop).values.size());
+    }
 }
 
 TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {
