@@ -127,7 +127,10 @@ AcSweep map_sweep(const AcSweep& s, double kf) {
     std::string f1 = s.fstart_text.empty() ? fmt::format("{}", s.fstart) : s.fstart_text;
     std::string f2 = s.fstop_text.empty() ? fmt::format("{}", s.fstop) : s.fstop_text;
     SweepRewrite w = rewrite_sweep(SweepKind::ac, {s.type, n, f1, f2}, kf);
-    if (!w.refusal.empty()) return m;  // ngspice cannot step the original either
+    if (!w.refusal.empty()) {  // ngspice cannot step the original either
+        m.points_text = m.fstart_text = m.fstop_text = "";
+        return m;
+    }
     m.points_text = w.fields[1];
     m.fstart_text = w.fields[2];
     m.fstop_text = w.fields[3];

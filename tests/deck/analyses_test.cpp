@@ -104,6 +104,14 @@ TEST(MapAnalyses, TheMappedSweepStepsLikeTheOriginal) {
     }
 }
 
+TEST(MapAnalyses, ASweepNgspiceCannotStepIsMappedByValue) {
+    // dec 1 over half a decade: no step in ngspice 39 (acan.c:89, 0 steps), so no texts to keep.
+    std::string e;
+    auto s = parse_sweep({"dec", "1", "1", "5"}, e);
+    ASSERT_TRUE(s) << e;
+    EXPECT_EQ(ac_card(map_sweep(*s, 1000)), ".ac dec 1 1000 5000");
+}
+
 TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {
     AcSweep s{"dec", 20, 0.1, 10};
     EXPECT_EQ(ac_card(map_sweep(s, 1e6)), ".ac dec 20 100000 10000000");
