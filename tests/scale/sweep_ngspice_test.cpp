@@ -215,6 +215,20 @@ struct Table {
     std::vector<std::vector<double>> rows;
 };
 
+Table read_table(const std::string& path) {
+    Table t;
+    std::istringstream f(test::read_bytes(path));
+    std::string line;
+    while (std::getline(f, line)) {
+        std::istringstream row(line);
+        std::vector<double> v;
+        double x;
+        while (row >> x) v.push_back(x);
+        if (!v.empty()) t.rows.push_back(v);
+    }
+    return t;
+}
+
 // Runs the deck's analysis cards as control-block commands, one wrdata file per card.
 std::vector<Table> run(const std::string& text, const Batch& b, const test::TempDir& dir,
                        const std::string& name) {
@@ -236,6 +250,10 @@ std::vector<Table> run(const std::string& text, const Batch& b, const test::Temp
         if (c.noise) commands += "setplot previous\n";
         commands +=
             fmt::format("wrdata {} {}\n", dir.file(fmt::format("{}{}.txt", name, k)), c.vectors);
+        // linearize: (int)((tstop - tstart) / tstep + 1.5) points (ngspice-39.3 linear.c:85)
+        if (c.tran)
+            commands += fmt::format("linearize v(out)\nwrdata {} v(out)\n",
+                                    dir.file(fmt::format("{}{}L.txt", name, k)));
         ++k;
     }
     EXPECT_EQ(k, b.cards.size());
@@ -247,24 +265,15 @@ std::vector<Table> run(const std::string& text, const Batch& b, const test::Temp
     EXPECT_EQ(rc, 0) << "ngspice failed or timed out on " << name << ":\n"
                      << body << test::read_bytes(dir.file(name + ".log"));
     std::vector<Table> out;
-    for (std::size_t i = 0; i < b.cards.size(); ++i) {
-        Table t;
-        std::istringstream f(test::read_bytes(dir.file(fmt::format("{}{}.txt", name, i))));
-        while (std::getline(f, line)) {
-            std::istringstream row(line);
-            std::vector<double> v;
-            double x;
-            while (row >> x) v.push_back(x);
-            if (!v.empty()) t.rows.push_back(v);
-        }
-        out.push_back(t);
-    }
+    for (std::size_t i = 0; i < b.cards.size(); ++i)
+        out.push_back(read_table(dir.file(fmt::format("{}{}.txt", name, i))));
     return out;
 }
 
 struct Tally {
     std::size_t cards = 0, points = 0;
-    double worst = 0, worst_tran = 0;
+    double worst = 0, worst_tran = 0, worst_linear_v = 0;
+    std::size_t linearized = 0;
 };
 
 void check_batch(const Batch& b, Tally& tally, int line) {
@@ -295,6 +304,24 @@ void check_batch(const Batch& b, Tally& tally, int line) {
             EXPECT_LE(err, 1e-8) << "point " << k << ": " << got << " vs " << want;
             ++tally.points;
         }
+        if (b.cards[i].tran) {
+            // The linearized grid keeps its count; its values follow the circuit.
+            Table lo = read_table(dir.file(fmt::format("o{}L.txt", i)));
+            Table ls = read_table(dir.file(fmt::format("s{}L.txt", i)));
+            ASSERT_FALSE(lo.rows.empty());
+            ASSERT_EQ(ls.rows.size(), lo.rows.size()) << "linearize point count";
+            double peak = 0;
+            for (const auto& row : lo.rows) peak = std::max(peak, std::fabs(row[1]));
+            for (std::size_t k = 0; k < lo.rows.size(); ++k) {
+                EXPECT_LE(std::fabs(ls.rows[k][0] - lo.rows[k][0] * b.factors[i]),
+                          1e-8 * b.floors[i]);
+                double dv = std::fabs(ls.rows[k][1] - lo.rows[k][1]) / peak;
+                tally.worst_linear_v = std::max(tally.worst_linear_v, dv);
+                // With ABSTOL and CHGTOL written scaled; without them ~7e-6 (issue 10 §3).
+                EXPECT_LE(dv, 1e-8) << "linearized v(out) at " << k;
+            }
+            ++tally.linearized;
+        }
         if (b.cards[i].tran || b.cards[i].noise || r.empty()) continue;
         // The swept circuit answers alike: voltages are invariant under scaling (AC magnitude;
         // DC v(b) = I1 R2 and v(c) = 1 mA x R3 of a nested level).
@@ -316,8 +343,11 @@ TEST(SweepNgspice, RandomCardsStepLikeTheOriginalTimesTheFactor) {
     for (int i = 0; i < 8; ++i) check_batch(dc_batch(rng, 12), tally, __LINE__);
     for (int i = 0; i < 6; ++i) check_batch(tran_batch(rng, 8, i), tally, __LINE__);
     RecordProperty("cards", static_cast<int>(tally.cards));
-    std::printf("sweeps: %zu cards, %zu points, worst %.2g (tran %.2g of tstop)\n", tally.cards,
-                tally.points, tally.worst, tally.worst_tran);
+    std::printf(
+        "sweeps: %zu cards, %zu points, worst %.2g (tran %.2g of tstop); %zu linearized, "
+        "worst v %.2g of peak\n",
+        tally.cards, tally.points, tally.worst, tally.worst_tran, tally.linearized,
+        tally.worst_linear_v);
     EXPECT_GE(tally.cards, 300u);
 }
 
