@@ -55,11 +55,10 @@ void note_tolerances(ScalePass& p, const std::string& kw) {
     } else if (kw == ".end" && p.file_index() == 0 && !s.end) {
         s.end = ToleranceScan::Place{0, c.begin(), line_end_of(c)};
     } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
-        for (const auto& a : p.atoms(1)) {
-            if (!a.key) continue;
-            std::string key = to_lower(p.text(*a.key));
-            if (key == "abstol") s.abstol = true;
-            if (key == "chgtol") s.chgtol = true;
+        for (std::size_t i = 1; i + 1 < c.fields.size(); ++i) {
+            if (c.fields[i + 1].kind != TokenKind::equals) continue;
+            if (iequals(c.field_text(i), "abstol")) s.abstol = true;
+            if (iequals(c.field_text(i), "chgtol")) s.chgtol = true;
         }
     }
 }
