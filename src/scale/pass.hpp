@@ -64,6 +64,7 @@ public:
     const std::string* model_type(const std::string& name) const;  // nullptr if no such model
     bool is_inductor(const std::string& name) const;
     double gmin() const;
+    double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
 
@@ -106,6 +107,7 @@ private:
     // Lookups that found nothing, and the gmin that was used (for relied_on_missing).
     mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_;
     mutable std::optional<double> gmin_used_;
+    mutable std::optional<double> reltol_used_;
     bool observing_ = false;  // inside observe(): the deck is not complete yet
     bool rescan_ = false;     // a decision was left to a scan of the complete deck
     std::size_t file_ = 0;

@@ -75,6 +75,7 @@ bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
         if (s.models.count(n)) return true;
     for (const auto& n : missed_inductors_)
         if (s.inductors.count(n)) return true;
+    if (reltol_used_ && *reltol_used_ != s.reltol) return true;
     return gmin_used_ && *gmin_used_ != s.gmin;
 }
 
@@ -86,8 +87,11 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     for (const auto& n : piece.missed_inductors_)
         if (before.inductors.count(n)) return false;
     if (piece.gmin_used_ && before.gmin_set) return false;  // it may have used the default
+    if (piece.reltol_used_ && before.reltol_set) return false;
     if (gmin_used_ && piece.gmin_used_ && *gmin_used_ != *piece.gmin_used_) rescan_ = true;
     if (!gmin_used_) gmin_used_ = piece.gmin_used_;
+    if (reltol_used_ && piece.reltol_used_ && *reltol_used_ != *piece.reltol_used_) rescan_ = true;
+    if (!reltol_used_) reltol_used_ = piece.reltol_used_;
     rescan_ = rescan_ || piece.rescan_;
     tolerances_.merge(piece.tolerances_);
     missed_params_.merge(piece.missed_params_);
@@ -124,6 +128,11 @@ bool ScalePass::is_inductor(const std::string& name) const {
 double ScalePass::gmin() const {
     gmin_used_ = symbols_->gmin;
     return symbols_->gmin;
+}
+
+double ScalePass::reltol() const {
+    reltol_used_ = symbols_->reltol;
+    return symbols_->reltol;
 }
 
 void ScalePass::visit(const Card& c) {

@@ -24,8 +24,9 @@ bool scale_sweep_exactly(ScalePass& p, SweepKind kind, const std::vector<Atom>& 
     if (factor == 1) return true;  // nothing moves: the card stays as written
     std::vector<std::string> texts;
     for (const Token* t : fields) texts.push_back(p.text(*t));
-    SweepRewrite w =
-        rewrite_sweep(kind, std::vector<std::string_view>(texts.begin(), texts.end()), factor);
+    double reltol = frequencies ? p.reltol() : 1e-3;  // only frequency sweeps stop by reltol
+    SweepRewrite w = rewrite_sweep(kind, std::vector<std::string_view>(texts.begin(), texts.end()),
+                                   factor, reltol);
     if (!w.refusal.empty()) {
         p.unscalable(*fields[first_scaled], w.refusal);
         return true;

@@ -277,6 +277,8 @@ TEST(ScalerTest, OnePassEqualsTwoPasses) {
          ".options gmin=1e-9\n.end\n"},
         // A keyed value naming a parameter declared further down.
         {__LINE__, "t\nR3 b 0 r=rv2\nC3 b 0 c={cv}\n.param rv2=1k cv=1n\n.end\n"},
+        // A sweep before the .options reltol it steps with.
+        {__LINE__, "t\nV1 a 0 ac 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.end\n"},
     };
     for (const auto& r : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << r.line);

@@ -38,6 +38,13 @@ TEST(SweepCards, SweepsAreWrittenSoNgspiceStepsExactly) {
          ".dc I1 6.21098626716604e-12 1.90833618657864e-13 -31.210986267166f R1 801meg 1.602g "
          "200250000\n"
          ".end\n"},
+        // The deck's reltol widens the stop test f <= fstop (1 + delta reltol) (acan.c:229):
+        // 4 sits on its edge. ngspice 39.3 steps the original and this card through 3 points,
+        // and "0.142857142857143 0.357142857142857" (no nudge) through 2.
+        {__LINE__, 1, 1.0 / 7,
+         "t\nV1 a 0 ac 1\nR1 a 0 1k\n.options reltol=0.3\n.ac oct 1 1 2.5\n.end\n",
+         "t\nV1 a 0 ac 1\nR1 a 0 1k\n.options reltol=0.3\n.ac oct 1 0.142857142857143 "
+         "0.357142857142858\n.end\n"},
         // Voltage and temperature sweeps do not move.
         {__LINE__, 7, 1000, "t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1.3 0.1 TEMP -40 85 5\n.end\n",
          "t\nV1 a 0 1\nR1 a 0 7k\n.dc V1 0 1.3 0.1 TEMP -40 85 5\n.end\n"},
@@ -57,6 +64,18 @@ TEST(SweepCards, SweepsAreWrittenSoNgspiceStepsExactly) {
                         ngspice_read("-31.210986267166f"))
                   .values.size(),
               200u);
+}
+
+TEST(SweepCards, AReltolSetAfterTheSweepCountsInOnePass) {
+    // load_and_scale meets the sweep before the .options: it scales the deck again.
+    MemoryFileSystem fs;
+    fs.add("deck.cir", "t\nV1 a 0 ac 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.end\n");
+    ScaleSettings settings;
+    settings.factors = {1, 1.0 / 7};
+    ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+    EXPECT_EQ(apply_edits(one.deck.top().text(), one.result.edits[0]),
+              "t\nV1 a 0 ac 1\n.ac oct 1 0.142857142857143 0.357142857142858\n"
+              ".options reltol=0.3\n.end\n");
 }
 
 TEST(SweepCards, ASweepNgspiceCannotStepIsReportedAtItsCard) {
