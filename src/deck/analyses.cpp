@@ -111,6 +111,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
             }
         });
     }
+    if (a.ac) a.ac->reltol = deck.symbols.reltol;
     return a;
 }
 
@@ -126,7 +127,7 @@ AcSweep map_sweep(const AcSweep& s, double kf) {
     std::string n = s.points_text.empty() ? std::to_string(s.points) : s.points_text;
     std::string f1 = s.fstart_text.empty() ? fmt::format("{}", s.fstart) : s.fstart_text;
     std::string f2 = s.fstop_text.empty() ? fmt::format("{}", s.fstop) : s.fstop_text;
-    SweepRewrite w = rewrite_sweep(SweepKind::ac, {s.type, n, f1, f2}, kf);
+    SweepRewrite w = rewrite_sweep(SweepKind::ac, {s.type, n, f1, f2}, kf, s.reltol);
     if (!w.refusal.empty()) {  // ngspice cannot step the original either
         m.points_text = m.fstart_text = m.fstop_text = "";
         return m;

@@ -18,6 +18,7 @@ struct AcSweep {
     // The fields as written ("10", "1k"), when known: the cards are written from these, so
     // ngspice reads what the deck says and steps the mapped sweep exactly (deck/sweep_rewrite).
     std::string points_text, fstart_text, fstop_text;
+    double reltol = 1e-3;  // the deck's .options reltol: the stop test of the sweep uses it
 };
 
 struct TranSpec {

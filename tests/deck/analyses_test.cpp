@@ -112,6 +112,15 @@ TEST(MapAnalyses, ASweepNgspiceCannotStepIsMappedByValue) {
     EXPECT_EQ(ac_card(map_sweep(*s, 1000)), ".ac dec 1 1000 5000");
 }
 
+TEST(MapAnalyses, TheDecksReltolStepsTheMappedSweep) {
+    // acan.c:229: f <= fstop (1 + delta reltol); with reltol 0.3 ngspice 39.3 steps
+    // `oct 1 1 2.5` through 3 points, and "0.142857142857143 0.357142857142857" through 2.
+    auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.end\n");
+    ASSERT_TRUE(a.ac);
+    EXPECT_EQ(a.ac->reltol, 0.3);
+    EXPECT_EQ(ac_card(map_sweep(*a.ac, 1.0 / 7)), ".ac oct 1 0.142857142857143 0.357142857142858");
+}
+
 TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {
     AcSweep s{"dec", 20, 0.1, 10};
     EXPECT_EQ(ac_card(map_sweep(s, 1e6)), ".ac dec 20 100000 10000000");
