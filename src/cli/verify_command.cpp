@@ -103,6 +103,7 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
                 err << "deckscale: error: --sweep: " << e << "\n";
                 return exit_bad_input;
             }
+            sweep->reltol = original.symbols.reltol;  // the deck's stop test
         }
         std::string drive = to_lower(o.drive);
         if (!drive.empty() && std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end()) {

@@ -7,6 +7,8 @@
 #include "base/text_util.hpp"
 #include "deck/control_script.hpp"
 #include "deck/spice_number.hpp"
+#include "deck/sweep_rewrite.hpp"
+#include "deck/sweep_steps.hpp"
 
 namespace deckscale {
 namespace {
@@ -51,6 +53,9 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
     s.points = static_cast<long>(*n);
     s.fstart = *f1;
     s.fstop = *f2;
+    s.points_text = w[1];
+    s.fstart_text = w[2];
+    s.fstop_text = w[3];
     return s;
 }
 
@@ -131,6 +136,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
     for (const auto& kw : control.uncompared)
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
+    if (a.ac) a.ac->reltol = deck.symbols.reltol;
     return a;
 }
 
@@ -143,6 +149,19 @@ AcSweep map_sweep(const AcSweep& s, double kf) {
     AcSweep m = s;
     m.fstart = s.fstart * kf;
     m.fstop = s.fstop * kf;
+    std::string n = s.points_text.empty() ? std::to_string(s.points) : s.points_text;
+    std::string f1 = s.fstart_text.empty() ? fmt::format("{}", s.fstart) : s.fstart_text;
+    std::string f2 = s.fstop_text.empty() ? fmt::format("{}", s.fstop) : s.fstop_text;
+    SweepRewrite w = rewrite_sweep(SweepKind::ac, {s.type, n, f1, f2}, kf, s.reltol);
+    if (!w.refusal.empty()) {  // ngspice cannot step the original either
+        m.points_text = m.fstart_text = m.fstop_text = "";
+        return m;
+    }
+    m.points_text = w.fields[1];
+    m.fstart_text = w.fields[2];
+    m.fstop_text = w.fields[3];
+    m.fstart = ngspice_read(m.fstart_text);
+    m.fstop = ngspice_read(m.fstop_text);
     return m;
 }
 
@@ -151,6 +170,8 @@ TranSpec map_tran(const TranSpec& t, double kf) {
 }
 
 std::string ac_card(const AcSweep& s) {
+    if (!s.fstart_text.empty() && !s.fstop_text.empty() && !s.points_text.empty())
+        return fmt::format(".ac {} {} {} {}", s.type, s.points_text, s.fstart_text, s.fstop_text);
     return fmt::format(".ac {} {} {:.17g} {:.17g}", s.type, s.points, s.fstart, s.fstop);
 }
 

@@ -15,6 +15,10 @@ struct AcSweep {
     long points = 0;
     double fstart = 0;
     double fstop = 0;
+    // The fields as written ("10", "1k"), when known: the cards are written from these, so
+    // ngspice reads what the deck says and steps the mapped sweep exactly (deck/sweep_rewrite).
+    std::string points_text, fstart_text, fstop_text;
+    double reltol = 1e-3;  // the deck's .options reltol: the stop test of the sweep uses it
 };
 
 struct TranSpec {
@@ -37,7 +41,8 @@ DeckAnalyses find_analyses(const Deck& deck);
 // A sweep from the words of --sweep (dec|oct|lin N F1 F2); nullopt with `error` set otherwise.
 std::optional<AcSweep> parse_sweep(const std::vector<std::string>& words, std::string& error);
 
-// The mapped analyses of the scaled deck: frequencies x Kf, times / Kf.
+// The mapped analyses of the scaled deck: frequencies x Kf, times / Kf. A mapped sweep's
+// texts make ngspice 39 step through the same number of points, each Kf times the original's.
 AcSweep map_sweep(const AcSweep& s, double kf);
 TranSpec map_tran(const TranSpec& t, double kf);
 

@@ -175,6 +175,12 @@ void gather_symbols(const Card& c, DeckSymbols& s) {
                     s.gmin = n.number->value;
                     s.gmin_set = true;
                 }
+        for (std::size_t i = 1; i + 2 < c.fields.size(); ++i)
+            if (c.fields[i + 1].kind == TokenKind::equals && iequals(c.field_text(i), "reltol"))
+                if (auto n = parse_spice_number(c.field_text(i + 2)); n.number) {
+                    s.reltol = n.number->value;
+                    s.reltol_set = true;
+                }
     }
 }
 

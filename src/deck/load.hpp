@@ -37,6 +37,8 @@ struct DeckSymbols {
     std::set<std::string> coupled_inductors;    // inductors named by a K card
     double gmin = 1e-12;                        // .options gmin, else ngspice's default
     bool gmin_set = false;                      // a .options card set gmin
+    double reltol = 1e-3;                       // .options reltol, else ngspice's default
+    bool reltol_set = false;
 };
 
 struct Deck {

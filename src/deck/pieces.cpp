@@ -70,6 +70,10 @@ void add_symbols(DeckSymbols& to, DeckSymbols&& later) {
         to.gmin = later.gmin;
         to.gmin_set = true;
     }
+    if (later.reltol_set) {
+        to.reltol = later.reltol;
+        to.reltol_set = true;
+    }
 }
 
 }  // namespace deckscale

@@ -287,12 +287,26 @@ void append_cased(std::string& out, std::string_view lower_suffix, std::string_v
 }  // namespace
 
 std::string respell(const SpiceNumber& original, double value, int digits) {
-    Decimal d = to_decimal(value, digits);  // rounded once; the text is cut from its digits
+    return respell(original, to_decimal(value, digits), digits);  // rounded once
+}
+
+std::string respell(const SpiceNumber& original, const Decimal& d, int digits) {
     std::string out;
     if (!original.suffix.empty()) {
         // Suffixes by decade / 3, from femto (-15) to tera (12).
         static constexpr std::string_view eng[] = {"f", "p", "n", "u", "m", "", "k", "meg", "g", "t"};
         int e = d.digits == "0" ? 0 : d.exponent;
+        if (e < -15 || e >= 15) {
+            // Beyond femto and tera: plain scientific notation. Exponent and suffix together
+            // read differently in the control language ("1e3k" is 1e3 there; ngspice-39.3
+            // src/frontend/parser/numparse.c), and "0.00318f" hides the magnitude.
+            out = scientific_text(d, 'e');
+            // A tail after an exponent must not start like a suffix ("3e-18F" is femto).
+            std::string_view tail = original.tail;
+            if (tail.empty() || !std::strchr("tTgGkKmMuUnNpPfFeEdD", tail[0])) out += tail;
+            return out;
+        }
+        digits = std::max(digits, 3);  // a mantissa in [1, 1000) never takes an exponent
         int exp3 = std::clamp((e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3, -15, 12);
         std::string_view suffix = eng[(exp3 + 15) / 3];
         auto mantissa = [&](int shift) { append_general_text(out, d, digits, shift); };

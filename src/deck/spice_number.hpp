@@ -6,6 +6,8 @@
 #include <string>
 #include <string_view>
 
+#include "deck/decimal.hpp"
+
 namespace deckscale {
 
 struct SpiceNumber {
@@ -48,8 +50,12 @@ double suffix_multiplier(std::string_view suffix);
 //    becomes "47nF";
 //  - a number written with an exponent keeps exponent form, with the exponent letter's case;
 //  - a plain number stays plain where %g would keep it plain (e.g. "1000", "0.5");
-//  - the unit tail is kept as written.
+//  - a value below femto or from 1e15 on is written in plain scientific notation
+//    ("3.18309886e-18"), its unit tail kept only where it cannot read as a suffix;
+//  - the unit tail is otherwise kept as written.
 std::string respell(const SpiceNumber& original, double value, int digits);
+// The same for a value already rounded to `digits` significant digits.
+std::string respell(const SpiceNumber& original, const Decimal& d, int digits);
 
 // Shortest plain spelling of a value with `digits` significant digits ("1.591549e-07").
 std::string format_plain(double value, int digits);

@@ -230,6 +230,8 @@ void scale_control_block(ScalePass& p) {
     const Card& block = p.card();
     const Token* t = control_token(block);
     if (!t) return;
+    // A `tran` command or an abstol/chgtol setting anywhere in the block (scale/tran_tolerances).
+    note_control_tolerances(p, block.text(*t));
     BlockState st;
     p.block_dc_seen = false;
     p.block_dc_unit.reset();

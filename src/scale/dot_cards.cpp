@@ -31,6 +31,9 @@ void scale_sweep(ScalePass& p, const std::vector<Atom>& atoms, std::string_view 
         if (atoms[i].key) continue;
         std::string w = to_lower(p.text(*atoms[i].value));
         if (w != "dec" && w != "oct" && w != "lin") continue;
+        if (scope == ".noise" &&
+            scale_sweep_exactly(p, SweepKind::noise, atoms, i, 4, Unit::hertz, {"fstart", "fstop"}))
+            return;
         const char* names[] = {"points", "fstart", "fstop", "summary"};
         for (std::size_t k = 0; k < 4 && i + 1 + k < atoms.size(); ++k) {
             const Atom& a = atoms[i + 1 + k];
@@ -116,8 +119,23 @@ void scale_meas(ScalePass& p) {
 void scale_dot_card(ScalePass& p, const std::string& kw) {
     const Card& c = p.card();
     const auto& atoms = p.atoms(1);
-    if (kw == ".ac" || kw == ".disto" || kw == ".sp") {
+    note_tolerances(p, kw);
+    // A .tran of plain-number times (tstep tstop [tstart [tmax]]) and words such as 'uic'.
+    std::size_t times = 0;
+    while (kw == ".tran" && times < std::min<std::size_t>(atoms.size(), 4) && !atoms[times].key &&
+           p.is_number(*atoms[times].value))
+        ++times;
+    for (std::size_t i = times; i < atoms.size() && times >= 2; ++i)
+        if (atoms[i].key || p.is_value_token(*atoms[i].value)) times = 0;
+    if (kw == ".ac" &&
+        scale_sweep_exactly(p, SweepKind::ac, atoms, 0, 4, Unit::hertz, {"#3", "#4"})) {
+        // fstart and fstop written together
+    } else if (kw == ".ac" || kw == ".disto" || kw == ".sp") {
         scale_positional(p, atoms, kw);
+    } else if (kw == ".tran" && times >= 2 &&
+               scale_sweep_exactly(p, SweepKind::tran, atoms, 0, times, Unit::second,
+                                   {"#1", "#2", "#3", "#4"})) {
+        // the times written together
     } else if (kw == ".tran") {
         scale_positional(p, atoms, ".tran");
     } else if (kw == ".four") {
@@ -139,6 +157,9 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
                                                           "and TEMP have a known unit", p.text(*atoms[i].value)));
                 continue;
             }
+            if (scale_sweep_exactly(p, SweepKind::dc, atoms, i + 1, 3, u,
+                                    {"sweep 1", "sweep 2", "sweep 3"}))
+                continue;
             for (std::size_t k = 1; k <= 3; ++k)
                 p.scale_value(*atoms[i + k].value, u, fmt::format("sweep {}", k));
         }

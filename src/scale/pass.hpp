@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "deck/spice_number.hpp"
+#include "deck/sweep_rewrite.hpp"
 #include "scale/rescale.hpp"
 
 namespace deckscale {
@@ -23,6 +24,19 @@ struct Atom {
 
 // Atoms from fields[first...]; '(', ')' and ',' separate like blanks, as in ngspice.
 void atoms_of(const Card& card, std::size_t first, std::vector<Atom>& out);
+
+// What the transient tolerances need to know of the whole deck (scale/tran_tolerances.cpp).
+struct ToleranceScan {
+    struct Place {
+        std::size_t file = 0;
+        std::uint32_t offset = 0;  // of the top file's .end card; else the end of the file
+        std::string eol = "\n";
+    };
+    std::optional<Place> tran;            // the first transient analysis
+    std::optional<Place> end;             // the top file's .end card
+    bool abstol = false, chgtol = false;  // set by the deck
+    void merge(const ToleranceScan& later);
+};
 
 class ScalePass {
 public:
@@ -51,6 +65,7 @@ public:
     const std::string* model_type(const std::string& name) const;  // nullptr if no such model
     bool is_inductor(const std::string& name) const;
     double gmin() const;
+    double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
 
@@ -62,6 +77,12 @@ public:
     // multiply by out_factor. `delimited` is true for {..} / '..' tokens (kept as such).
     void scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
                           std::string_view field, std::string_view unit);
+    // Replaces a value token by a text worked out elsewhere (the numbers of a sweep).
+    void replace(const Token& t, std::string text, std::string_view field, Unit unit);
+    ToleranceScan& tolerances() { return tolerances_; }
+    std::size_t file_index() const { return file_; }
+    // After the whole deck: writes the default transient tolerances scaled if it needs them.
+    void finish(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
     // Records an item that cannot be scaled exactly.
@@ -102,6 +123,7 @@ private:
     // Lookups that found nothing, and the gmin that was used (for relied_on_missing).
     mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_;
     mutable std::optional<double> gmin_used_;
+    mutable std::optional<double> reltol_used_;
     bool observing_ = false;  // inside observe(): the deck is not complete yet
     bool rescan_ = false;     // a decision was left to a scan of the complete deck
     std::size_t file_ = 0;
@@ -123,6 +145,7 @@ private:
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};
     mutable const Card* cached_card_ = nullptr;
+    ToleranceScan tolerances_;
 };
 
 // Card handlers, one per family.
@@ -133,5 +156,16 @@ void scale_line_or_switch(ScalePass& p, char letter);  // T O U S W
 void scale_dot_card(ScalePass& p, const std::string& keyword);
 void scale_model(ScalePass& p);
 void scale_control_block(ScalePass& p);
+// The numbers of one sweep rewritten together so that ngspice steps exactly
+// (scale/sweep_cards.cpp): atoms[at, at + count) are the fields deck/sweep_rewrite takes,
+// `names` the change-list names of the scaled ones (fstart, fstop of a frequency sweep; all of
+// a DC level or a transient). False when they are not all positional plain numbers: the
+// caller scales them one by one then.
+bool scale_sweep_exactly(ScalePass& p, SweepKind kind, const std::vector<Atom>& atoms,
+                         std::size_t at, std::size_t count, Unit unit,
+                         const std::vector<std::string>& names);
+// Records what a card tells about the transient tolerances (scale/tran_tolerances.cpp).
+void note_tolerances(ScalePass& p, const std::string& keyword);
+void note_control_tolerances(ScalePass& p, std::string_view body);
 
 }  // namespace deckscale

@@ -80,6 +80,7 @@ bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
         if (s.models.count(n)) return true;
     for (const auto& n : missed_inductors_)
         if (s.inductors.count(n)) return true;
+    if (reltol_used_ && *reltol_used_ != s.reltol) return true;
     return gmin_used_ && *gmin_used_ != s.gmin;
 }
 
@@ -91,9 +92,13 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     for (const auto& n : piece.missed_inductors_)
         if (before.inductors.count(n)) return false;
     if (piece.gmin_used_ && before.gmin_set) return false;  // it may have used the default
+    if (piece.reltol_used_ && before.reltol_set) return false;
     if (gmin_used_ && piece.gmin_used_ && *gmin_used_ != *piece.gmin_used_) rescan_ = true;
     if (!gmin_used_) gmin_used_ = piece.gmin_used_;
+    if (reltol_used_ && piece.reltol_used_ && *reltol_used_ != *piece.reltol_used_) rescan_ = true;
+    if (!reltol_used_) reltol_used_ = piece.reltol_used_;
     rescan_ = rescan_ || piece.rescan_;
+    tolerances_.merge(piece.tolerances_);
     missed_params_.merge(piece.missed_params_);
     missed_models_.merge(piece.missed_models_);
     missed_inductors_.merge(piece.missed_inductors_);
@@ -128,6 +133,11 @@ bool ScalePass::is_inductor(const std::string& name) const {
 double ScalePass::gmin() const {
     gmin_used_ = symbols_->gmin;
     return symbols_->gmin;
+}
+
+double ScalePass::reltol() const {
+    reltol_used_ = symbols_->reltol;
+    return symbols_->reltol;
 }
 
 void ScalePass::visit(const Card& c) {
@@ -264,6 +274,11 @@ void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double 
     edit(begin, end - begin, std::move(text), field, unit, out_factor);
 }
 
+void ScalePass::replace(const Token& t, std::string text, std::string_view field, Unit unit) {
+    edit(t.begin, t.size(), std::move(text), field, unit_name(unit),
+         factor_of(unit, settings_.factors));
+}
+
 void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view field, double factor) {
     edit(offset, 0, std::move(text), field, "", factor);
 }
@@ -330,6 +345,7 @@ ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     ScaleResult result;
     ScalePass pass(settings, result);
     pass.run(deck);
+    pass.finish(deck);
     return result;
 }
 
@@ -370,6 +386,7 @@ ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
     // A name used before it was declared: the answers given then may be wrong, so scale
     // the (now complete) deck again from scratch.
     if (pass.relied_on_missing(out.deck.symbols)) out.result = scale_deck(out.deck, settings);
+    if (!pass.relied_on_missing(out.deck.symbols)) pass.finish(out.deck);  // scale_deck did
     out.result.edits.resize(out.deck.files.size());
     return out;
 }

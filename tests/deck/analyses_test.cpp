@@ -2,10 +2,12 @@
 #include <string>
 #include <vector>
 
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include "deck/analyses.hpp"
 #include "deck/load.hpp"
+#include "deck/sweep_steps.hpp"
 
 namespace deckscale {
 namespace {
@@ -84,7 +86,7 @@ TEST(FindAnalyses, ControlBlockAnalysesCountWhenNoCardAsks) {
     auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.control\nset x = 1\nac dec 20 1 1meg\n"
                          "tran 1u\n+ 2m\ndc V1 0 1 0.1\n.endc\n.end\n");
     ASSERT_TRUE(a.ac);
-    EXPECT_EQ(ac_card(*a.ac), ".ac dec 20 1 1000000");
+    EXPECT_EQ(ac_card(*a.ac), ".ac dec 20 1 1meg");  // the texts as written
     ASSERT_TRUE(a.tran);
     EXPECT_EQ(tran_card(*a.tran), ".tran 9.9999999999999995e-07 0.002");
     EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc"}));
@@ -98,9 +100,40 @@ TEST(ParseSweep, WordsOfTheOption) {
     std::string e;
     auto s = parse_sweep({"lin", "7", "100", "1.6k"}, e);
     ASSERT_TRUE(s) << e;
-    EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1600");
+    EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1.6k");  // as written
     EXPECT_FALSE(parse_sweep({"dec", "x", "1", "2"}, e));
     EXPECT_EQ(e, "the point count and frequencies must be plain numbers (parameters are not evaluated)");
+}
+
+TEST(MapAnalyses, TheMappedSweepStepsLikeTheOriginal) {
+    // Issue 10 §3: ngspice 39 steps `dec 1 6283.18531 62831.8531` forever and `dec 1000` of
+    // those 9-digit values through 1000 points instead of 1001 (acan.c:89).
+    std::string e;
+    for (const char* n : {"1", "1000"}) {
+        auto s = parse_sweep({"dec", n, "1", "10"}, e);
+        ASSERT_TRUE(s) << e;
+        AcSweep m = map_sweep(*s, 2 * 3.141592653589793 * 1000);
+        EXPECT_EQ(ac_card(m), fmt::format(".ac dec {} 6283.18530717959 62831.8530717959", n));
+        EXPECT_EQ(ac_points("dec", m.points, m.fstart, m.fstop).values.size(),
+                  ac_points("dec", s->points, s->fstart, s->fstop).values.size());
+    }
+}
+
+TEST(MapAnalyses, ASweepNgspiceCannotStepIsMappedByValue) {
+    // dec 1 over half a decade: no step in ngspice 39 (acan.c:89, 0 steps), so no texts to keep.
+    std::string e;
+    auto s = parse_sweep({"dec", "1", "1", "5"}, e);
+    ASSERT_TRUE(s) << e;
+    EXPECT_EQ(ac_card(map_sweep(*s, 1000)), ".ac dec 1 1000 5000");
+}
+
+TEST(MapAnalyses, TheDecksReltolStepsTheMappedSweep) {
+    // acan.c:229: f <= fstop (1 + delta reltol); with reltol 0.3 ngspice 39.3 steps
+    // `oct 1 1 2.5` through 3 points, and "0.142857142857143 0.357142857142857" through 2.
+    auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.end\n");
+    ASSERT_TRUE(a.ac);
+    EXPECT_EQ(a.ac->reltol, 0.3);
+    EXPECT_EQ(ac_card(map_sweep(*a.ac, 1.0 / 7)), ".ac oct 1 0.142857142857143 0.357142857142858");
 }
 
 TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {

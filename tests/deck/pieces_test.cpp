@@ -105,6 +105,12 @@ TEST(DeckPieces, ContextAcrossPiecesGivesTheSameResult) {
         {__LINE__, "t\n" + body + ".ends\n" + body + ".end\n"},
         {__LINE__, "t\n" + body + "R5 a b\n" + body + "C1 a 0 {x\n.end\n"},
         {__LINE__, "t\n" + body + ".subckt open a\n" + body + ".end\n"},
+        // A transient in one piece, the tolerances or .end in others (scale/tran_tolerances).
+        {__LINE__, "t\n.tran 1u 1m\n" + body + ".options abstol=1p\n" + body + ".end\n"},
+        {__LINE__, "t\n" + body + ".tran 1u 1m\n" + body + ".ac dec 1000 1 10\n.end\n"},
+        // The reltol the sweeps step with, set before or after them.
+        {__LINE__, "t\n.options reltol=0.3\n" + body + ".ac oct 1 1 2.5\n.end\n"},
+        {__LINE__, "t\n.ac oct 1 1 2.5\n" + body + ".options reltol=0.3\n.end\n"},
     };
     for (const auto& r : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << r.line);

@@ -244,6 +244,12 @@ TEST(SpiceNumber, RespellKeepsTheStyle) {
         {__LINE__, "1k", 1e-3, "1"},
         {__LINE__, "1kF", 1e-3, "0.001kF"},  // a bare "1F" would read as femto
         {__LINE__, "1kOhm", 1e-3, "1Ohm"},
+        // beyond femto and tera: scientific notation, never exponent and suffix together
+        {__LINE__, "1f", 3.18309886e-3, "3.183099e-18"},
+        {__LINE__, "20fF", 1e-4, "2e-18"},  // "2e-18F" would read as femto
+        {__LINE__, "2fOhm", 1e-4, "2e-19Ohm"},
+        {__LINE__, "5T", 2000, "1e16"},
+        {__LINE__, "60k", 1, "60k"},
         // exponent form keeps exponent form and the letter's case
         {__LINE__, "1e-14", 2, "2e-14"},
         {__LINE__, "2.65E3", 2, "5.3E3"},
@@ -278,6 +284,23 @@ TEST(SpiceNumber, RespellWithFactorOneIsStableForTheTable) {
         auto back = parse_spice_number(respell(*p.number, p.number->value, 7));
         ASSERT_TRUE(back.number.has_value());
         EXPECT_DOUBLE_EQ(back.number->value, p.number->value);
+    }
+}
+
+TEST(SpiceNumber, RespellNeverWritesExponentAndSuffix) {
+    // With 1 or 2 digits a %g-style mantissa of 60 would be "6e+01": before a suffix that reads
+    // as 60e3 in dot cards but as 60 in the control language (ngspice-39.3
+    // src/frontend/parser/numparse.c: exponent or suffix, not both).
+    const RespellRow rows[] = {
+        {__LINE__, "10k", 6, "60k"},
+        {__LINE__, "1u", 470, "500u"},
+        {__LINE__, "2MEG", 40, "80MEG"},
+    };
+    for (const auto& row : rows) {
+        SCOPED_TRACE(testing::Message() << "row at line " << row.line << ": " << row.original);
+        auto p = parse_spice_number(row.original);
+        ASSERT_TRUE(p.number.has_value());
+        EXPECT_EQ(respell(*p.number, p.number->value * row.factor, 1), row.expected);
     }
 }
 

@@ -222,7 +222,8 @@ TEST(ControlBlock, MeasOnADcCardTakesTheSweptUnitWhereverTheCardIs) {
 TEST(ControlBlock, PlotLimitsAfterRunTakeTheUnitOfTheAnalysisCards) {
     const Case cases[] = {
         {__LINE__, ".tran 1u 2m\n.control\nrun\nplot v(out) xlimit 1m 2m\n.endc\n",
-         ".tran 1n 2u\n.control\nrun\nplot v(out) xlimit 1u 2u\n.endc\n"},
+         ".tran 1n 2u\n.control\nrun\nplot v(out) xlimit 1u 2u\n.endc\n"
+         ".options abstol=1e-13 chgtol=1e-18\n"},  // scale/tran_tolerances
         {__LINE__, ".control\nrun\nplot v(out) xl 10 100\n.endc\n.ac dec 10 1 1k\n",
          ".control\nrun\nplot v(out) xl 10000 100000\n.endc\n.ac dec 10 1000 1meg\n"},
         {__LINE__, ".dc I1 0 1m 0.1m\n.control\nrun\nplot v(out) xl 0 0.5m\n.endc\n",

@@ -73,9 +73,9 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", "T2 a 0 t 0 Z0=50 F=1meg NL=0.25 IC=1,2m,3,4m",
          "T2 a 0 t 0 Z0=500 F=1g NL=0.25 IC=1,200u,3,400u"},
         {__LINE__, "", ".model lt ltra r=0.1 l=1u g=1m c=1p len=1",
-         ".model lt ltra r=1 l=10n g=100u c=0.1f len=1"},
+         ".model lt ltra r=1 l=10n g=100u c=1e-16 len=1"},
         {__LINE__, "", ".model ur urc k=2 fmax=1g rperl=1k cperl=1p",
-         ".model ur urc k=2 fmax=1t rperl=10k cperl=0.1f"},
+         ".model ur urc k=2 fmax=1t rperl=10k cperl=1e-16"},
         // Defaults written out: URC FMAX 1G, RPERL 1k, CPERL 1e-15; switch RON 1, ROFF 1/GMIN.
         {__LINE__, "", ".model ud urc k=2", ".model ud urc k=2 fmax=1e+12 rperl=10000 cperl=1e-19"},
         {__LINE__, "", ".model swm sw vt=1 vh=0.1", ".model swm sw vt=1 vh=0.1 ron=10 roff=1e+13"},
@@ -104,7 +104,7 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", ".options gmin=1e-12 abstol=1e-12 chgtol=1e-14 rshunt=1e9 scale=1e-6",
          ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e10 scale=1e-6"},
         {__LINE__, "", ".options rseries=1m cshunt=1p reltol=1e-4 method=gear",
-         ".options rseries=10m cshunt=0.1f reltol=1e-4 method=gear"},
+         ".options rseries=10m cshunt=1e-16 reltol=1e-4 method=gear"},
         // ---- parameters and expressions: wrapped, never evaluated ----
         {__LINE__, ".param rv=1k\n", "R1 in a {rv*2}", "R1 in a {(rv*2)*10}"},
         {__LINE__, ".param rv=1k\n", "R2 a 0 'rv/2'", "R2 a 0 '(rv/2)*10'"},
@@ -277,6 +277,8 @@ TEST(ScalerTest, OnePassEqualsTwoPasses) {
          ".options gmin=1e-9\n.end\n"},
         // A keyed value naming a parameter declared further down.
         {__LINE__, "t\nR3 b 0 r=rv2\nC3 b 0 c={cv}\n.param rv2=1k cv=1n\n.end\n"},
+        // A sweep before the .options reltol it steps with.
+        {__LINE__, "t\nV1 a 0 ac 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.end\n"},
     };
     for (const auto& r : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << r.line);
@@ -309,8 +311,8 @@ TEST(ScalerTest, SuffixTrapsGetANote) {
               "it is scaled as such\n  R1 a 0 2.2M\n         ^~~~\n"
               "deck.cir:3:8: note: '1F' is 1 femtofarad in SPICE ('F' is femto); it is scaled as "
               "such\n  C1 a 0 1F\n         ^~\n");
-    // No atto suffix in ngspice 39: below 1f the mantissa goes under 1.
-    EXPECT_EQ(s.text(), "t\nR1 a 0 4.4m\nC1 a 0 0.5F\nC2 a 0 5uF\nR2 a 0 2MEG\n.end\n");
+    // No atto suffix in ngspice 39: below 1f the value is written with an exponent (issue 10 §5).
+    EXPECT_EQ(s.text(), "t\nR1 a 0 4.4m\nC1 a 0 5e-16\nC2 a 0 5uF\nR2 a 0 2MEG\n.end\n");
 }
 
 }  // namespace

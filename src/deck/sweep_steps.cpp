@@ -1,0 +1,188 @@
+#include "deck/sweep_steps.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <cstdint>
+#include <cstring>
+#include <limits>
+#include <optional>
+
+#include "base/text_util.hpp"
+#include "deck/decimal.hpp"
+#include "deck/spice_number.hpp"
+
+namespace deckscale {
+
+double ngspice_read(std::string_view s) {
+    // INPevaluate (ngspice-39.3 src/spicelib/parser/inpeval.c): digits accumulate as
+    // (10 * m + c) - '0' in double (l. 69, 113); the value is (sign * m) * pow(10, e) with e =
+    // suffix + exponent - decimals (l. 198).
+    std::size_t i = 0, n = s.size();
+    double sign = 1;
+    if (i < n && (s[i] == '+' || s[i] == '-')) sign = s[i++] == '-' ? -1 : 1;
+    auto digit = [&](std::size_t k) { return k < n && s[k] >= '0' && s[k] <= '9'; };
+    if (!(digit(i) || (i < n && s[i] == '.'))) return std::nan("");
+    double m = 0;
+    int e = 0;
+    for (; digit(i); ++i) m = (10 * m + s[i]) - '0';
+    if (i < n && s[i] == '.')
+        for (++i; digit(i); ++i) {
+            m = (10 * m + s[i]) - '0';
+            --e;
+        }
+    if (i < n && std::strchr("eEdD", s[i])) {
+        ++i;
+        int esign = 1;
+        if (i < n && (s[i] == '+' || s[i] == '-')) esign = s[i++] == '-' ? -1 : 1;
+        int x = 0;
+        for (; digit(i) && x < 100000; ++i) x = 10 * x + (s[i] - '0');
+        e += esign * x;
+    }
+    if (i < n) {
+        switch (ascii_lower(s[i])) {
+            case 't':
+                e += 12;
+                break;
+            case 'g':
+                e += 9;
+                break;
+            case 'k':
+                e += 3;
+                break;
+            case 'u':
+                e -= 6;
+                break;
+            case 'n':
+                e -= 9;
+                break;
+            case 'p':
+                e -= 12;
+                break;
+            case 'f':
+                e -= 15;
+                break;
+            case 'm':
+                if (i + 2 < n && ascii_lower(s[i + 1]) == 'e' && ascii_lower(s[i + 2]) == 'g') {
+                    e += 6;
+                } else if (i + 2 < n && ascii_lower(s[i + 1]) == 'i' &&
+                           ascii_lower(s[i + 2]) == 'l') {
+                    e -= 6;
+                    m *= 25.4;
+                } else {
+                    e -= 3;
+                }
+                break;
+            default:
+                break;
+        }
+    }
+    return (sign * m) * std::pow(10.0, static_cast<double>(e));
+}
+
+namespace {
+
+// Integer fields are read as floor(0.5 + value) (ngspice-39.3 src/spicelib/parser/inpgval.c:31).
+long count_field(double v) { return static_cast<long>(std::floor(0.5 + v)); }
+
+// Pushes a point; false (and `endless` set) once the limit is passed.
+bool push(SweepPoints& p, double v) {
+    p.values.push_back(v);
+    if (p.values.size() > kSweepPointLimit) {
+        p.endless = true;
+        return false;
+    }
+    return true;
+}
+
+bool almost_equal_ulps(double a, double b, std::int64_t max_ulps) {
+    if (a == b) return true;
+    std::int64_t ia = 0, ib = 0;
+    std::memcpy(&ia, &a, sizeof a);
+    std::memcpy(&ib, &b, sizeof b);
+    if ((ia < 0) != (ib < 0)) return false;
+    return std::llabs(ia - ib) <= max_ulps;
+}
+
+// DBL_EPSILON * 1e3, the absolute stop tolerance of a DC level (dctrcurv.c:218).
+const double kDcTolerance = std::numeric_limits<double>::epsilon() * 1e3;
+
+}  // namespace
+
+SweepPoints ac_points(std::string_view type, double points, double fstart, double fstop,
+                      double reltol) {
+    // acan.c:78-112 (setup), 226-256 (stop test), 346-382 (next frequency).
+    SweepPoints p;
+    long n = std::max(count_field(points), 1L);
+    bool log_sweep = type != "lin";
+    double delta = 0;
+    if (type == "dec") {
+        if (fstart <= 0) return p;
+        double steps = std::floor(std::fabs(std::log10(fstop / fstart)) * static_cast<double>(n));
+        delta = std::exp(std::log(fstop / fstart) / steps);
+    } else if (type == "oct") {
+        if (fstart <= 0) return p;
+        delta = std::exp(std::log(2.0) / static_cast<double>(n));
+    } else {
+        delta = n - 1 > 1 ? (fstop - fstart) / static_cast<double>(n - 1) : 0;
+    }
+    double tol = log_sweep ? delta * fstop * reltol : delta * reltol;
+    for (double f = fstart; f <= fstop + tol;) {
+        if (!push(p, f)) break;
+        if (log_sweep) {
+            f *= delta;
+            if (delta == 1) break;
+        } else {
+            f += delta;
+            if (delta == 0) break;
+        }
+    }
+    return p;
+}
+
+SweepPoints noise_points(std::string_view type, double points, double fstart, double fstop,
+                         double reltol) {
+    // noisean.c:49-73, 108-128 (setup), 226-243, 302-318 (stepping).
+    SweepPoints p;
+    long n = count_field(points);
+    if (n < 1) return p;
+    bool lin = type == "lin";
+    if (almost_equal_ulps(fstart, fstop, 3) || (n == 1 && lin)) {
+        fstop = fstart;
+        if (!lin) n = 1;
+    }
+    double delta = 0;
+    if (type == "dec")
+        delta = std::exp(std::log(10.0) / static_cast<double>(n));
+    else if (type == "oct")
+        delta = std::exp(std::log(2.0) / static_cast<double>(n));
+    else
+        delta = n == 1 ? 0 : (fstop - fstart) / static_cast<double>(n - 1);
+    double tol = lin ? delta * reltol : delta * fstop * reltol;
+    for (double f = fstart; f <= fstop + tol;) {
+        if (!push(p, f)) break;
+        if (lin)
+            f += delta;
+        else
+            f *= delta;
+        if (n == 1 && lin) break;
+    }
+    return p;
+}
+
+SweepPoints dc_points(double start, double stop, double step) {
+    // dctrcurv.c:215-268 (stop test, absolute), 453-466 (value += step).
+    SweepPoints p;
+    double sign = std::copysign(1.0, step);
+    for (double v = start; !(sign * (v - stop) > kDcTolerance); v += step)
+        if (!push(p, v)) break;
+    return p;
+}
+
+long linearize_points(double tstep, double tstop, double tstart) {
+    // linear.c:85-108: refused unless (tstop - tstart) * tstep > 0 and tstop - tstart >= tstep.
+    if (!((tstop - tstart) * tstep > 0) || tstop - tstart < tstep) return 0;
+    return static_cast<long>((tstop - tstart) / tstep + 1.5);
+}
+
+}  // namespace deckscale

@@ -1,0 +1,37 @@
+// How ngspice 39 reads the numbers of a sweep and which points it steps through (.ac, .noise,
+// .dc, linearize after .tran): the model deck/sweep_rewrite checks its texts against.
+// Sources: ngspice-39.3 src/spicelib/parser/inpeval.c (numbers), src/spicelib/analysis/acan.c,
+// noisean.c, dctrcurv.c (stepping), src/frontend/linear.c (linearize).
+#pragma once
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace deckscale {
+
+// The double ngspice 39 makes of a number on a dot card (INPevaluate): the mantissa is
+// accumulated digit by digit in double and multiplied by a power of ten, so it is not
+// correctly rounded; exact for at most 15 significant digits. NaN when `text` is no number.
+double ngspice_read(std::string_view text);
+
+// The points of one sweep; `endless` when ngspice's loop would never stop (then `values`
+// holds the first kSweepPointLimit + 1 of them).
+struct SweepPoints {
+    std::vector<double> values;
+    bool endless = false;
+};
+inline constexpr std::size_t kSweepPointLimit = 1 << 22;
+
+// `type` is "dec", "oct" or "lin" (lower case); `points` as read (rounded like ngspice's
+// integer fields); empty when ngspice rejects the sweep (fstart <= 0 on a log sweep ...).
+SweepPoints ac_points(std::string_view type, double points, double fstart, double fstop,
+                      double reltol = 1e-3);
+SweepPoints noise_points(std::string_view type, double points, double fstart, double fstop,
+                         double reltol = 1e-3);
+// One level of a .dc sweep.
+SweepPoints dc_points(double start, double stop, double step);
+// Number of points `linearize` makes of a transient; 0 when it refuses the times.
+long linearize_points(double tstep, double tstop, double tstart);
+
+}  // namespace deckscale

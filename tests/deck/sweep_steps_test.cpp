@@ -1,0 +1,108 @@
+// The model of ngspice 39's number reader and sweep stepping, against point counts that
+// ngspice 39.3 itself produced (`ngspice -b`, the swept vector's length; rows named like
+// "ac061" are cards of the shared sweep checks run with seed 39, the others were run for
+// this test). Formulas: ngspice-39.3 src/spicelib/parser/inpeval.c, acan.c, noisean.c,
+// dctrcurv.c, src/frontend/linear.c.
+#include "deck/sweep_steps.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <string>
+
+namespace deckscale {
+namespace {
+
+TEST(SweepSteps, ReadsNumbersLikeNgspice) {
+    struct Row {
+        int line;
+        const char* text;
+        double value;
+    };
+    const Row rows[] = {
+        {__LINE__, "1", 1},
+        {__LINE__, "0.1", 0.1},
+        {__LINE__, "2.2e7", 2.2e7},
+        // mantissa times a power of ten, rounded twice: `ac lin 1 470m 470m` and `2mil` in
+        // ngspice 39.3 print 4.70000000000000029e-01 (not 0.47) and 5.07999999999999947e-05.
+        {__LINE__, "470m", 470 * 1e-3},
+        {__LINE__, "1meg", 1e6},
+        {__LINE__, "1MEGHz", 1e6},
+        {__LINE__, "2mil", 2 * 25.4 * 1e-6},
+        {__LINE__, "-25n", -25 * 1e-9},
+        {__LINE__, "1e3k", 1e6},  // exponent and suffix add on dot cards (inpeval.c:198)
+        // `ac lin 1 X X` run in ngspice 39.3, frequency printed with 18 digits: not the
+        // correctly rounded double (847.5863032002954 and 29.319129045484303).
+        {__LINE__, "847.58630320029545", 847.5863032002953},
+        {__LINE__, "29.319129045484303", 29.319129045484306},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "sweep_steps_test.cpp:" << r.line << ": " << r.text);
+        EXPECT_EQ(ngspice_read(r.text), r.value);
+    }
+    EXPECT_TRUE(std::isnan(ngspice_read("abc")));
+}
+
+struct CountRow {
+    int line;
+    const char* kind;  // "ac", "noise", "dc"
+    const char* type;  // dec|oct|lin; unused for dc
+    const char* a;     // points (ac, noise) or start (dc)
+    const char* b;     // fstart or stop
+    const char* c;     // fstop or step
+    long count;        // points ngspice 39.3 steps through; -1: it never stops
+};
+
+TEST(SweepSteps, CountsThePointsNgspiceSteps) {
+    const CountRow rows[] = {
+        {__LINE__, "ac", "dec", "10", "220", "2.2e7", 51},             // ac000
+        {__LINE__, "ac", "dec", "1", "295309.709", "2953097.09", -1},  // ac061, 9 digits
+        {__LINE__, "ac", "dec", "1000", "209.85570888284781", "20985.570888284776", 2000},  // ac135
+        {__LINE__, "ac", "dec", "20", "8026338.23", "80263382.3", 20},                      // ac207
+        {__LINE__, "ac", "dec", "1", "29530970.943744056", "2953097094.3744054", 2},  // acal405
+        {__LINE__, "ac", "dec", "3000", "1", "10", 3002},        // points past fstop within reltol
+        {__LINE__, "ac", "lin", "11", "150", "1.5e6", 11},       // ac001
+        {__LINE__, "ac", "lin", "2", "1k", "2k", 1},             // delta 0 below 3 points
+        {__LINE__, "ac", "oct", "20", "470m", "3.76", 61},       // ac003
+        {__LINE__, "ac", "oct", "10", "884000", "3.18e8", 85},   // ac007
+        {__LINE__, "noise", "oct", "20", "1k", "32000", 101},    // noise240
+        {__LINE__, "noise", "dec", "1", "525000", "5.34e7", 3},  // noise241
+        {__LINE__, "noise", "lin", "266", "7.13", "7660", 266},  // noise242
+        {__LINE__, "noise", "oct", "5", "9370", "4.9e7", 62},    // noise243
+        {__LINE__, "noise", "lin", "2", "1k", "2k", 2},
+        {__LINE__, "dc", "", "4.975e-06", "0", "-25n", 200},                  // dc000
+        {__LINE__, "dc", "", "6.21103208e-12", "0", "-3.12112165e-14", 207},  // dc000, 9 digits
+        {__LINE__, "dc", "", "719.01907009949275", "11836.16007702242", "55.309159238422524",
+         201},                                                                              // dc001
+        {__LINE__, "dc", "", "4.04768524e-11", "-4.04768524e-12", "-1.49914268e-13", 299},  // dc005
+        {__LINE__, "dc", "", "2638937.8290154263", "49197340.955216162", "188495.55921538759",
+         247},                                      // dc009
+        {__LINE__, "dc", "", "0", "1", "-0.1", 0},  // a step of the wrong sign: no point
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "sweep_steps_test.cpp:" << r.line << ": " << r.kind
+                                        << " " << r.type << " " << r.a << " " << r.b << " " << r.c);
+        std::string kind = r.kind;
+        double a = ngspice_read(r.a), b = ngspice_read(r.b), c = ngspice_read(r.c);
+        SweepPoints p = kind == "ac"      ? ac_points(r.type, a, b, c)
+                        : kind == "noise" ? noise_points(r.type, a, b, c)
+                                          : dc_points(a, b, c);
+        if (r.count < 0) {
+            EXPECT_TRUE(p.endless);
+        } else {
+            EXPECT_FALSE(p.endless);
+            EXPECT_EQ(static_cast<long>(p.values.size()), r.count);
+        }
+    }
+}
+
+TEST(SweepSteps, LinearizeCountsLikeNgspice) {
+    // `tran 1u 1m` then `linearize`: length(time) = 1001 in ngspice 39.3; linear.c:85-108.
+    EXPECT_EQ(linearize_points(1e-6, 1e-3, 0), 1001);
+    EXPECT_EQ(linearize_points(2e-6, 3e-3, 1e-3), 1001);
+    EXPECT_EQ(linearize_points(1e-3, 1e-6, 0), 0);  // tstop - tstart < tstep: refused
+    EXPECT_EQ(linearize_points(0, 1e-3, 0), 0);
+}
+
+}  // namespace
+}  // namespace deckscale
