@@ -259,7 +259,7 @@ std::vector<Table> run(const std::string& text, const Batch& b, const test::Temp
     EXPECT_EQ(k, b.cards.size());
     body += ".control\nset wr_singlescale\nset numdgt=17\n" + commands + "quit 0\n.endc\n.end\n";
     test::write_bytes(dir.file(name + ".cir"), body);
-    std::string cmd = "timeout 30 ngspice -b " + test::shell_quote(dir.file(name + ".cir")) + " >" +
+    std::string cmd = "timeout 30 " + test::ngspice_batch() + test::shell_quote(dir.file(name + ".cir")) + " >" +
                       test::shell_quote(dir.file(name + ".log")) + " 2>&1";
     int rc = std::system(cmd.c_str());
     EXPECT_EQ(rc, 0) << "ngspice failed or timed out on " << name << ":\n"
