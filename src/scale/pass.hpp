@@ -3,6 +3,7 @@
 #pragma once
 
 #include <map>
+#include <memory>
 #include <optional>
 #include <set>
 #include <string>
@@ -12,6 +13,8 @@
 #include "scale/rescale.hpp"
 
 namespace deckscale {
+
+struct CodeModelUses;
 
 // One value-bearing item of a card: positional (key == nullptr) or key=value.
 struct Atom {
@@ -50,6 +53,8 @@ public:
     const std::string* model_type(const std::string& name) const;  // nullptr if no such model
     bool is_inductor(const std::string& name) const;
     double gmin() const;
+    // The deck's A devices by model (null when it has no code-model models).
+    const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
 
@@ -93,6 +98,7 @@ private:
     const Card* card_ = nullptr;
     bool card_marked_ = false;
     std::vector<Atom> atoms_;
+    std::shared_ptr<const CodeModelUses> code_model_uses_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};
@@ -107,5 +113,7 @@ void scale_line_or_switch(ScalePass& p, char letter);  // T O U S W
 void scale_dot_card(ScalePass& p, const std::string& keyword);
 void scale_model(ScalePass& p);
 void scale_control_block(ScalePass& p);
+void scale_code_model_instance(ScalePass& p);  // A
+bool scale_code_model(ScalePass& p);           // .model of a code-model type (false: not one)
 
 }  // namespace deckscale

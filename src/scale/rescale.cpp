@@ -4,6 +4,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/codemodels.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
 
@@ -45,6 +46,7 @@ ScalePass::ScalePass(const ScaleSettings& settings, ScaleResult& result)
 void ScalePass::run(const Deck& deck) {
     observing_ = false;
     symbols_ = &deck.symbols;
+    code_model_uses_ = collect_code_model_uses(deck);
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -133,8 +135,13 @@ void ScalePass::visit(const Card& c) {
         return;
     }
     if (c.fields.empty()) return;
+    if (observing_ && is_code_model_card(c)) {
+        rescan_ = true;  // its factors depend on A devices anywhere in the deck
+        return;
+    }
     if (c.kind == CardKind::dot) {
         std::string kw = card_keyword(c);
+        if (kw == ".model" && scale_code_model(*this)) return;
         if (kw == ".model")
             scale_model(*this);
         else
@@ -153,9 +160,7 @@ void ScalePass::visit(const Card& c) {
             unscalable(c.fields[0], "semiconductor devices are not scaled by this version "
                                     "(their area/m factors and model cards need their own rules)");
             break;
-        case 'a':
-            unscalable(c.fields[0], "XSPICE code-model devices have model-specific units");
-            break;
+        case 'a': scale_code_model_instance(*this); break;
         case 'y': case 'p':
             unscalable(c.fields[0], "ngspice 39 KSPICE lines (TXL/CPL) do not stay equivalent "
                                     "under scaling; use an LTRA line (O element) instead");
