@@ -84,8 +84,13 @@ std::vector<std::string_view> connection_items(const Card& card) {
 }
 
 bool read_ports(const std::vector<std::string_view>& items, const std::vector<PortSpec>& specs,
-                InstancePorts& out, std::string& why) {
+                InstancePorts& out, std::string& why, std::vector<PortNode>* nodes) {
     out.clear();
+    auto take = [&](std::size_t at, const std::string& type) {
+        if (!nodes) return;
+        for (std::size_t j = at; j < at + nodes_of(type); ++j)
+            nodes->push_back({to_lower(items[j]), type});
+    };
     std::size_t i = 0, n = items.size();
     auto nodes_fit = [&](std::size_t count) {
         for (std::size_t j = i; j < i + count; ++j)
@@ -133,6 +138,7 @@ bool read_ports(const std::vector<std::string_view>& items, const std::vector<Po
                     return false;
                 }
                 types.push_back(type);
+                take(i, type);
                 i += nodes_of(type);
             }
             if (i >= n) {
@@ -147,6 +153,7 @@ bool read_ports(const std::vector<std::string_view>& items, const std::vector<Po
                 return false;
             }
             types.push_back(type);
+            take(i, type);
             i += nodes_of(type);
         }
         out.push_back(std::move(types));

@@ -34,9 +34,16 @@ using InstancePorts = std::vector<std::vector<std::string>>;
 // '[' and ']', with '(', ')' and ',' read as blanks, as ngspice does.
 std::vector<std::string_view> connection_items(const Card& card);
 
+// A node an instance connects (lower case) and the type of the port it belongs to.
+struct PortNode {
+    std::string node;
+    std::string type;
+};
+
 // Reads the items against the model's ports. Returns false with `why` set when they do not fit.
+// With `nodes`, also lists every node connected (a %vnam source name counts as one).
 bool read_ports(const std::vector<std::string_view>& items, const std::vector<PortSpec>& specs,
-                InstancePorts& out, std::string& why);
+                InstancePorts& out, std::string& why, std::vector<PortNode>* nodes = nullptr);
 
 // The factor of what a port of this type carries: the quantity the block reads on an input,
 // the one it drives on an output (Table 12.1: %i reads a current and drives one, %g reads a

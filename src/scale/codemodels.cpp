@@ -118,6 +118,33 @@ std::size_t elements_of(const CodeModelParam& r, const GivenParam* g,
     return vector_elements(specs, ports, port);
 }
 
+bool is_digital(std::string_view type) { return type == "d" || type == "real" || type == "int"; }
+
+// The digital nodes an A device connects (models with unread ports are all digital).
+std::vector<std::string> digital_nodes(const Card& c, const std::vector<PortSpec>& specs) {
+    std::vector<std::string> out;
+    auto items = connection_items(c);
+    if (specs.empty()) {
+        for (auto item : items) {
+            if (item == "[" || item == "]" || item.front() == '%' || iequals(item, "null"))
+                continue;
+            if (item.front() == '~') item.remove_prefix(1);
+            if (!item.empty()) out.push_back(to_lower(item));
+        }
+        return out;
+    }
+    InstancePorts ports;
+    std::string why;
+    std::vector<PortNode> nodes;
+    if (!read_ports(items, specs, ports, why, &nodes)) return out;
+    for (auto& n : nodes)
+        if (is_digital(n.type)) {
+            if (!n.node.empty() && n.node.front() == '~') n.node.erase(0, 1);
+            out.push_back(std::move(n.node));
+        }
+    return out;
+}
+
 }  // namespace
 
 std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck) {
@@ -129,7 +156,14 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck) {
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
             if (c.kind != CardKind::element || c.fields.size() < 2) return;
-            if (ascii_lower(c.field_text(0)[0]) != 'a') return;
+            char letter = ascii_lower(c.field_text(0)[0]);
+            if (letter != 'a' && letter != 'x') {  // subcircuit calls may pass digital nodes on
+                for (std::size_t i = 1; i < c.fields.size(); ++i)
+                    if (c.fields[i].kind == TokenKind::word)
+                        uses->analog_nodes.insert(to_lower(c.field_text(i)));
+                return;
+            }
+            if (letter != 'a') return;
             std::string model = to_lower(c.field_text(c.fields.size() - 1));
             auto it = deck.symbols.models.find(model);
             if (it == deck.symbols.models.end()) return;
@@ -137,7 +171,10 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck) {
             if (!t) return;
             CodeModelUse use{std::string(c.field_text(0)), {}};
             std::string why;
-            if (!read_ports(connection_items(c), port_specs(*t), use.ports, why)) return;
+            std::vector<PortNode> nodes;
+            if (!read_ports(connection_items(c), port_specs(*t), use.ports, why, &nodes)) return;
+            for (const auto& n : nodes)
+                if (!is_digital(n.type) && n.type != "vnam") uses->analog_nodes.insert(n.node);
             uses->by_model[model].push_back(std::move(use));
         });
     return uses;
@@ -187,6 +224,18 @@ void scale_code_model_instance(ScalePass& p) {
                 break;
             }
     }
+    // ngspice joins a digital port to analog elements through a bridge of its own, with
+    // 1 ns delays the deck does not show (manual §12.6, src/xspice/evt/evtcheck_nodes.c).
+    if (const CodeModelUses* all = p.code_model_uses(); all && differs(p.factors().kf, 1))
+        for (const auto& node : digital_nodes(c, specs))
+            if (all->analog_nodes.count(node)) {
+                p.unscalable(c.fields[0],
+                             fmt::format("digital node '{}' also connects analog elements: ngspice "
+                                         "bridges it with default 1 ns delays that are not in the "
+                                         "deck; write the adc_bridge/dac_bridge out",
+                                         node));
+                break;
+            }
     if (*type == "lcouple" && differs(p.factors().km * p.factors().kf, 1))
         p.note(c.fields[0],
                "the magnetic loop is scaled with num_turns x Km: its currents (the "

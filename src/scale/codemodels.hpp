@@ -4,6 +4,7 @@
 
 #include <map>
 #include <memory>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -23,6 +24,9 @@ struct CodeModelUse {
 };
 struct CodeModelUses {
     std::map<std::string, std::vector<CodeModelUse>> by_model;
+    // Words of the deck's other element cards (every one that may be a node) and the nodes
+    // of analog code-model ports: a digital port on one of them gets an automatic bridge.
+    std::set<std::string> analog_nodes;
 };
 
 // Reads the deck's A devices; null when the deck declares no model of a code-model type.

@@ -75,6 +75,18 @@ TEST(CodeModelPortsTest, ReadsPortTypesAsNgspiceDoes) {
     }
 }
 
+TEST(CodeModelPortsTest, ListsTheNodesOfEachPort) {
+    std::vector<std::string> owned = items_of("a1 [%v in %I ni %vd A 0] %i(o1) m");
+    std::vector<std::string_view> items(owned.begin(), owned.end());
+    InstancePorts ports;
+    std::string why;
+    std::vector<PortNode> nodes;
+    ASSERT_TRUE(read_ports(items, port_specs(*find_code_model("summer")), ports, why, &nodes));
+    std::string listed;
+    for (const auto& n : nodes) listed += n.node + ":" + n.type + " ";
+    EXPECT_EQ(listed, "in:v ni:i a:vd 0:vd o1:i ");
+}
+
 TEST(CodeModelPortsTest, PortFactorsFollowTable12_1) {
     // What the block reads on an input, what it drives on an output: %v/%vd a voltage, %i/%id a
     // current, %g reads a voltage and drives a current (VCCS), %h the reverse (CCVS), %vnam

@@ -157,6 +157,11 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
         {__LINE__, "a1 [%vd(a 0)] %vd(o 0) m\n.model m spice2poly(coef=[0 1])\n",
          "spice2poly coefficients depend on the powers"},
         {__LINE__, "a1 x o m\n.model m lmeter\n", "lmeter returns gain*1e12 H"},
+        // A digital port on an analog node: ngspice inserts a bridge with 1 ns delays (§12.6).
+        {__LINE__, "R1 y 0 1k\na1 x ~y inv\n.model inv d_inverter\n",
+         "digital node 'y' also connects analog elements"},
+        {__LINE__, "V1 x 0 1\na1 %v(c) x osc\n.model osc d_osc(cntl_array=[0] freq_array=[1k])\n",
+         "digital node 'x' also connects analog elements"},
         // Clamps inside models: the scaled value would be cut (xtradev/pswitch/cfunc.mod,
         // xtradev/aswitch/cfunc.mod, analog/oneshot/cfunc.mod, xtradev/sidiode/cfunc.mod).
         {__LINE__, "a1 (c 0) (o 0) m\n.model m pswitch(r_on=1)\n",
