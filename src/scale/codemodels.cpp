@@ -9,114 +9,11 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/codemodel_card.hpp"
 #include "scale/pass.hpp"
 
 namespace deckscale {
 namespace {
-
-// One name=value of a code-model .model card: a scalar or the elements of a [ ] vector.
-struct GivenParam {
-    const Token* key = nullptr;
-    const CodeModelParam* rule = nullptr;
-    std::vector<Token> elements;
-};
-
-bool differs(double a, double b) {
-    return std::fabs(a - b) > 1e-12 * std::max(std::fabs(a), std::fabs(b));
-}
-
-// The name=value pairs after ".model name type", each checked against the table.
-std::vector<GivenParam> read_params(ScalePass& p, std::string_view type) {
-    const Card& c = p.card();
-    const auto& f = c.fields;
-    std::vector<GivenParam> out;
-    std::size_t i = 3;
-    while (i < f.size()) {
-        TokenKind k = f[i].kind;
-        if (k == TokenKind::lparen || k == TokenKind::rparen || k == TokenKind::comma) {
-            ++i;
-            continue;
-        }
-        if (k != TokenKind::word || i + 1 >= f.size() || f[i + 1].kind != TokenKind::equals)
-            p.fail(f[i], fmt::format("expected name=value on a '{}' model, found '{}'", type,
-                                     c.field_text(i)));
-        GivenParam g;
-        g.key = &f[i];
-        std::string name = to_lower(c.field_text(i));
-        g.rule = find_code_model_param(type, name);
-        if (!g.rule)
-            p.fail(f[i], fmt::format("code model '{}' has no parameter '{}' (ngspice 39 would "
-                                     "ignore it without a word)",
-                                     type, c.field_text(i)));
-        i += 2;
-        if (i >= f.size() || f[i].kind == TokenKind::rparen)
-            p.fail(*g.key, fmt::format("'{}=' has no value", c.text(*g.key)));
-        std::string_view first = c.field_text(i);
-        if (f[i].kind != TokenKind::word || first.empty() || first.front() != '[') {
-            g.elements.push_back(f[i++]);
-            out.push_back(std::move(g));
-            continue;
-        }
-        bool closed = false;
-        for (bool head = true; i < f.size() && !closed; ++i, head = false) {
-            const Token& t = f[i];
-            if (t.kind == TokenKind::comma) continue;
-            if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
-                g.elements.push_back(t);
-                continue;
-            }
-            if (t.kind != TokenKind::word) break;
-            std::string_view s = c.text(t);
-            std::uint32_t lead = head && s.front() == '[' ? 1 : 0;
-            closed = s.size() > lead && s.back() == ']';
-            Token e{TokenKind::word, t.begin + lead, t.end - (closed ? 1 : 0)};
-            if (e.size() > 0) g.elements.push_back(e);
-        }
-        if (!closed)
-            p.fail(*g.key, fmt::format("the vector of '{}' has no closing ']'", c.text(*g.key)));
-        out.push_back(std::move(g));
-    }
-    return out;
-}
-
-std::optional<bool> boolean_of(std::string_view s) {
-    std::string w = to_lower(s);
-    if (w == "true" || w == "t" || w == "1" || w == "yes") return true;
-    if (w == "false" || w == "f" || w == "0" || w == "no") return false;
-    return std::nullopt;
-}
-
-std::string clamp_problem(const CodeModelParam& r, double value, double scaled, int digits) {
-    if (r.floor && (value < r.floor || scaled < r.floor))
-        return fmt::format(
-            "{}={} would become {}, below the {} model's floor of {} (it clamps "
-            "the value there)",
-            r.name, format_plain(value, digits), format_plain(scaled, digits), r.type,
-            format_plain(r.floor, digits));
-    if (r.ceiling && (value > r.ceiling || scaled > r.ceiling))
-        return fmt::format(
-            "{}={} would become {}, above the {} model's ceiling of {} (it clamps "
-            "the value there)",
-            r.name, format_plain(value, digits), format_plain(scaled, digits), r.type,
-            format_plain(r.ceiling, digits));
-    if (r.keep_from && value < r.keep_from && scaled >= r.keep_from)
-        return fmt::format("{}={} would become {}, which the {} model reads as 'no limit'", r.name,
-                           format_plain(value, digits), format_plain(scaled, digits), r.type);
-    return {};
-}
-
-// Elements of a parameter: as given, else one per element of the port it is tied to.
-std::size_t elements_of(const CodeModelParam& r, const GivenParam* g,
-                        const std::vector<PortSpec>& specs, const InstancePorts* ports) {
-    if (g) return g->elements.size();
-    std::string_view f = r.factor;
-    std::size_t at = f.find("[]");
-    if (at == std::string_view::npos) return 1;
-    std::size_t start = f.find_last_of("*/", at);
-    std::string_view port = f.substr(start == std::string_view::npos ? 0 : start + 1,
-                                     at - (start == std::string_view::npos ? 0 : start + 1));
-    return vector_elements(specs, ports, port);
-}
 
 bool is_digital(std::string_view type) { return type == "d" || type == "real" || type == "int"; }
 
@@ -147,14 +44,15 @@ std::vector<std::string> digital_nodes(const Card& c, const std::vector<PortSpec
 
 }  // namespace
 
-std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck) {
+std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, ScaleFactors f) {
     bool any = false;
     for (const auto& [name, type] : deck.symbols.models)
         if (find_code_model(type)) any = true;
     if (!any) return nullptr;
     auto uses = std::make_shared<CodeModelUses>();
-    for (std::size_t f = 0; f < deck.files.size(); ++f)
-        deck.visit_file(f, [&](const Card& c) {
+    std::set<std::string> taken;  // names given to copies
+    for (std::size_t f_index = 0; f_index < deck.files.size(); ++f_index)
+        deck.visit_file(f_index, [&](const Card& c) {
             if (c.kind != CardKind::element || c.fields.size() < 2) return;
             char letter = ascii_lower(c.field_text(0)[0]);
             if (letter != 'a' && letter != 'x') {  // subcircuit calls may pass digital nodes on
@@ -169,13 +67,27 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck) {
             if (it == deck.symbols.models.end()) return;
             const CodeModelType* t = find_code_model(it->second);
             if (!t) return;
-            CodeModelUse use{std::string(c.field_text(0)), {}};
+            auto specs = port_specs(*t);
+            InstancePorts ports;
             std::string why;
             std::vector<PortNode> nodes;
-            if (!read_ports(connection_items(c), port_specs(*t), use.ports, why, &nodes)) return;
+            if (!read_ports(connection_items(c), specs, ports, why, &nodes)) return;
             for (const auto& n : nodes)
                 if (!is_digital(n.type) && n.type != "vnam") uses->analog_nodes.insert(n.node);
-            uses->by_model[model].push_back(std::move(use));
+            CodeModelUses::Model& m = uses->by_model[model];
+            std::size_t g = 0;
+            while (g < m.groups.size() && !same_factors(*t, specs, m.groups[g].ports, ports, f))
+                ++g;
+            if (g == m.groups.size()) {
+                std::string suffix;
+                for (int k = 2; !m.groups.empty() && suffix.empty(); ++k) {
+                    std::string name = fmt::format("{}_{}", model, k);
+                    if (!deck.symbols.models.count(name) && taken.insert(name).second)
+                        suffix = fmt::format("_{}", k);
+                }
+                m.groups.push_back({std::move(ports), suffix});
+            }
+            m.group_of[{f_index, c.begin()}] = g;
         });
     return uses;
 }
@@ -236,6 +148,16 @@ void scale_code_model_instance(ScalePass& p) {
                                          node));
                 break;
             }
+    // An instance whose port types give its model other factors uses a copy of the model.
+    if (const CodeModelUses* all = p.code_model_uses()) {
+        auto it = all->by_model.find(model);
+        if (it != all->by_model.end()) {
+            auto g = it->second.group_of.find({p.file(), c.begin()});
+            if (g != it->second.group_of.end() && g->second > 0)
+                p.insert(c.fields.back().end, it->second.groups[g->second].suffix,
+                         "model copy for these port types", 1);
+        }
+    }
     if (*type == "lcouple" && differs(p.factors().km * p.factors().kf, 1))
         p.note(c.fields[0],
                "the magnetic loop is scaled with num_turns x Km: its currents (the "
@@ -246,118 +168,29 @@ void scale_code_model_instance(ScalePass& p) {
 bool scale_code_model(ScalePass& p) {
     const Card& c = p.card();
     if (c.fields.size() < 3) return false;
-    std::string type = to_lower(c.field_text(2));
-    const CodeModelType* t = find_code_model(type);
+    const CodeModelType* t = find_code_model(to_lower(c.field_text(2)));
     if (!t) return false;
-    std::string model = to_lower(c.field_text(1));
-    auto specs = port_specs(*t);
-    std::vector<GivenParam> given = read_params(p, type);
-    auto given_of = [&](std::string_view name) -> const GivenParam* {
-        const GivenParam* last = nullptr;
-        for (const auto& g : given)
-            if (g.rule->name == name) last = &g;
-        return last;
-    };
-    const std::vector<CodeModelUse>* uses = nullptr;
+    ModelCard m;
+    if (!read_model_card(p, *t, m)) return true;
+    const CodeModelUses::Model* uses = nullptr;
     if (const CodeModelUses* all = p.code_model_uses()) {
-        auto it = all->by_model.find(model);
+        auto it = all->by_model.find(to_lower(c.field_text(1)));
         if (it != all->by_model.end()) uses = &it->second;
     }
-    const InstancePorts* ports = uses && !uses->empty() ? &uses->front().ports : nullptr;
-    ScaleFactors f = p.factors();
-    // One .model serves all its instances: their port types must give it the same factors.
-    if (uses)
-        for (const auto& use : *uses)
-            for (const auto& r : code_model_params()) {
-                if (r.type != type) continue;
-                std::size_t n = std::max(elements_of(r, given_of(r.name), specs, ports),
-                                         elements_of(r, given_of(r.name), specs, &use.ports));
-                for (std::size_t k = 0; k < n; ++k)
-                    if (differs(eval_factor(r.factor, specs, ports, f, k, n),
-                                eval_factor(r.factor, specs, &use.ports, f, k, n))) {
-                        p.unscalable(
-                            c.fields[1],
-                            fmt::format(
-                                "model '{}' serves {} and {}, whose port types give '{}' different "
-                                "factors: give each its own .model card",
-                                c.field_text(1), uses->front().instance, use.instance, r.name));
-                        return true;
-                    }
-            }
-    bool fraction = t->fraction;
-    if (const GivenParam* g = given_of("fraction"); g && !g->elements.empty()) {
-        auto b = boolean_of(c.text(g->elements.front()));
-        if (!b) {
-            p.unscalable(g->elements.front(),
-                         "fraction is not a true/false literal: whether the "
-                         "model's ranges are absolute is not known");
-            return true;
-        }
-        fraction = *b;
+    if (!uses || uses->groups.empty()) {
+        apply_plan(p, plan_card(p, m, nullptr));
+        return true;
     }
-    for (const auto& g : given) {
-        const CodeModelParam& r = *g.rule;
-        if (r.factor == "1" || (r.when == "nofraction" && fraction)) continue;
-        std::size_t n = g.elements.size();
-        for (std::size_t k = 0; k < n; ++k) {
-            const Token& e = g.elements[k];
-            double factor = eval_factor(r.factor, specs, ports, f, k, n);
-            if (e.kind == TokenKind::word && p.is_number(e)) {
-                double v = p.number_of(e).number->value;
-                if (r.keep_from && v >= r.keep_from) continue;
-                std::string problem = clamp_problem(r, v, v * factor, p.digits());
-                if (!problem.empty()) {
-                    p.unscalable(e, problem);
-                    continue;
-                }
-            }
-            p.scale_by(e, factor, r.name, r.factor);
-        }
-    }
-    // Defaults that carry a unit are written out scaled (codemodel-rules.md pitfall 7).
-    std::string added;
-    double first_factor = 1;
-    for (const auto& r : code_model_params()) {
-        if (r.type != type || r.fallback.empty() || given_of(r.name)) continue;
-        if (r.when == "nofraction" && fraction) continue;
-        if (r.when == "midpoint" && given_of("out_low") && given_of("out_high")) continue;
-        if (r.when == "mode2") {
-            const GivenParam* mode = given_of("mode");
-            if (!mode || mode->elements.empty() || p.text(mode->elements.front()) != "2") continue;
-        }
-        std::size_t n = elements_of(r, nullptr, specs, ports);
-        double value = parse_spice_number(r.fallback).number->value;
-        std::vector<std::string> texts;
-        bool changed = false;
-        for (std::size_t k = 0; k < n; ++k) {
-            double factor = eval_factor(r.factor, specs, ports, f, k, n);
-            if (differs(factor, 1)) {
-                changed = true;
-                first_factor = factor;
-            }
-            std::string problem = clamp_problem(r, value, value * factor, p.digits());
-            if (!problem.empty() && differs(factor, 1)) {
-                p.unscalable(c.fields[1], "default " + problem);
-                changed = false;
-                break;
-            }
-            texts.push_back(format_plain(value * factor, p.digits()));
-        }
-        if (!changed) continue;
-        std::string joined = texts.front();
-        for (std::size_t k = 1; k < texts.size(); ++k) joined += " " + texts[k];
-        bool vector = r.factor.find("[]") != std::string_view::npos;
-        added += vector ? fmt::format(" {}=[{}]", r.name, joined)
-                        : fmt::format(" {}={}", r.name, joined);
-    }
-    if (!added.empty()) {
-        const Token* last = &c.fields.back();
-        std::uint32_t at = last->kind == TokenKind::rparen ? last->begin : last->end;
-        char before = at > 0 ? c.file->text()[at - 1] : '(';
-        if (last->kind == TokenKind::rparen && (before == '(' || before == ' ' || before == '\t'))
-            added = added.substr(1);
-        if (c.fields.size() == 3) added = "(" + added.substr(1) + ")";  // ".model m gain"
-        p.insert(at, added, "defaults written out", first_factor);
+    apply_plan(p, plan_card(p, m, &uses->groups.front().ports));
+    // Instances whose port types give other factors get a copy of the card each, named
+    // <name><suffix> (the instances are renamed to match, see scale_code_model_instance).
+    std::string copies;
+    for (std::size_t g = 1; g < uses->groups.size(); ++g)
+        copies += cloned_card(p, plan_card(p, m, &uses->groups[g].ports),
+                              std::string(c.field_text(1)) + uses->groups[g].suffix);
+    if (!copies.empty()) {
+        if (c.file->text()[c.end() - 1] != '\n') copies.insert(0, "\n");
+        p.insert(c.end(), copies, "copy for other port types", 1);
     }
     return true;
 }

@@ -16,21 +16,26 @@ namespace deckscale {
 
 class ScalePass;
 
-// The A devices of a deck by model name (lower case), with the port types each one gives
-// its connections: a model's factors depend on them.
-struct CodeModelUse {
-    std::string instance;
-    InstancePorts ports;
-};
+// The A devices of a deck by model name (lower case), grouped by the factors their port types
+// give the model: the first group is served by the model's own card, every other group by a
+// copy of it named <name><suffix>.
 struct CodeModelUses {
-    std::map<std::string, std::vector<CodeModelUse>> by_model;
+    struct Group {
+        InstancePorts ports;  // the port types of its first instance
+        std::string suffix;   // "" for the first group, then "_2", "_3", ...
+    };
+    struct Model {
+        std::vector<Group> groups;
+        std::map<std::pair<std::size_t, std::uint32_t>, std::size_t> group_of;  // (file, card)
+    };
+    std::map<std::string, Model> by_model;
     // Words of the deck's other element cards (every one that may be a node) and the nodes
     // of analog code-model ports: a digital port on one of them gets an automatic bridge.
     std::set<std::string> analog_nodes;
 };
 
 // Reads the deck's A devices; null when the deck declares no model of a code-model type.
-std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck);
+std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, ScaleFactors f);
 
 // True for an A device and for a .model card of a code-model type: they are scaled only
 // once the whole deck is known (a model's factors depend on instances anywhere in it).

@@ -57,6 +57,7 @@ public:
     const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
+    std::size_t file() const { return file_; }  // index of the current card's file
 
     // Scales one value token by the unit's factor; validates numbers either way.
     void scale_value(const Token& t, Unit unit, std::string_view field);

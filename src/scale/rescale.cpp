@@ -46,7 +46,7 @@ ScalePass::ScalePass(const ScaleSettings& settings, ScaleResult& result)
 void ScalePass::run(const Deck& deck) {
     observing_ = false;
     symbols_ = &deck.symbols;
-    code_model_uses_ = collect_code_model_uses(deck);
+    code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {

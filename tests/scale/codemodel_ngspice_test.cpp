@@ -279,6 +279,17 @@ TEST(CodeModelNgspiceTest, ScaledOneshotAgrees) {
     check({__LINE__, deck, ".tran 1u 2m 0 1u", volts({"v(o4)"}), 1e-3});
 }
 
+TEST(CodeModelNgspiceTest, ModelCopiesForOtherPortTypesAgree) {
+    // One gain model used v->v, v->i and i->v: the tool writes a copy per signature.
+    const std::string deck =
+        "shared model\n.options reltol=1e-9 abstol=1e-12 chgtol=1e-14\n"
+        "Vin in 0 dc 0.3 ac 1\nIin 0 ni dc 0.5m ac 1m\n"
+        "a1 %v(in) %v(o1) g\na2 %v(in) %i(o2) g\na3 %i(ni) %v(o3) g\n"
+        ".model g gain(in_offset=0.1 gain=2.5 out_offset=-0.2)\n"
+        "R1 o1 0 1k\nR2 o2 0 1k\nC2 o2 0 100n\nR3 o3 0 1k\n.end\n";
+    check({__LINE__, deck, ".ac dec 10 10 100k", volts({"v(o1)", "v(o2)", "v(o3)"}), 1e-6});
+}
+
 TEST(CodeModelNgspiceTest, DefaultsWrittenOutKeepTheResponse) {
     // Every unit-bearing value left to its default: the tool must write it out scaled.
     const std::string deck =

@@ -116,20 +116,25 @@ TEST(CodeModelsTest, UnknownParameterIsAnErrorWithItsLocation) {
     }
 }
 
-TEST(CodeModelsTest, ModelSharedByDifferentPortTypesIsRefused) {
-    const std::string cards = "a1 %v(x) %v(o1) g\na2 %v(x) %i(o2) g\n.model g gain(gain=2)\n";
-    auto s = test::scale_text("t\n" + cards + ".end\n", 7, 1);
-    ASSERT_EQ(s.result.unscalable.size(), 1u);
-    EXPECT_EQ(render(s.result.unscalable[0]),
-              "deck.cir:4:8: error: model 'g' serves a1 and a2, whose port types give 'gain' "
-              "different factors: give each its own .model card\n"
-              "  .model g gain(gain=2)\n"
-              "         ^\n");
-    // The same port types, or port types that give the same factors, are fine.
-    auto same = test::scale_text(
-        "t\na1 %v(x) %i(o1) g\na2 %g(x) %id(o2 0) g\n.model g gain(gain=2)\n.end\n", 2, 1);
-    EXPECT_TRUE(same.result.unscalable.empty());
-    EXPECT_NE(same.text().find("gain(gain=1)"), std::string::npos) << same.text();
+TEST(CodeModelsTest, ModelSharedByDifferentPortTypesGetsACopyPerSignature) {
+    // codemodel-rules.md §1: a .model used by instances with different port-type signatures
+    // needs one copy per signature; each copy follows its card, the instances are renamed.
+    const std::string deck =
+        "t\na1 %v(x) %v(o1) G\na2 %v(x) %i(o2) g\na3 %i(y) %i(o3) g\na4 %g(x) %id(o4 0) g\n"
+        ".model G gain(gain=2 out_offset={p}) ; shared\nR1 o1 0 1k\n.end\n";
+    auto s = test::scale_text(deck, 7, 1);
+    EXPECT_TRUE(s.result.unscalable.empty());
+    EXPECT_EQ(s.text(),
+              "t\na1 %v(x) %v(o1) G\na2 %v(x) %i(o2) g_2\na3 %i(y) %i(o3) g_3\n"
+              "a4 %g(x) %id(o4 0) g_2\n.model G gain(gain=2 out_offset={p}) ; shared\n"
+              ".model G_2 gain(gain=0.2857143 out_offset={(p)/7}) ; shared\n"
+              ".model G_3 gain(gain=2 out_offset={(p)/7}) ; shared\nR1 o1 0 7k\n.end\n");
+    // A name already taken is skipped.
+    auto t = test::scale_text("t\na1 x o1 g\na2 x %i(o2) g\n.model g gain\n.model g_2 gain\n.end\n",
+                              7, 1);
+    EXPECT_NE(t.text().find("a2 x %i(o2) g_3\n"), std::string::npos) << t.text();
+    EXPECT_NE(t.text().find(".model g gain\n.model g_3 gain(gain=0.1428571)\n"), std::string::npos)
+        << t.text();
 }
 
 TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
