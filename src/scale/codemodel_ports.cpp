@@ -171,6 +171,7 @@ double port_factor(std::string_view type, PortDir dir, ScaleFactors f) {
         current = type == "i" || type == "id" || type == "vnam" || type == "h" || type == "hd";
     else if (dir == PortDir::out)
         current = type == "i" || type == "id" || type == "g" || type == "gd";
+    if (type == "reali") current = true;  // a real net that ends in a current (codemodels.cpp)
     return current ? 1 / f.km : 1;
 }
 

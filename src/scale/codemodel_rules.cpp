@@ -51,9 +51,9 @@ constexpr CodeModelType kTypes[] = {
     {"bidi_bridge", ""},
     {"d_osc", "cntl_in:in:v out:out:d"},
     {"d_pwm", "cntl_in:in:v out:out:d"},
-    {"d_to_real", ""},
-    {"real_gain", ""},
-    {"real_delay", ""},
+    {"d_to_real", "in:in:d enable:in:d out:out:real"},
+    {"real_gain", "in:in:real out:out:real"},
+    {"real_delay", "in:in:real clk:in:d out:out:real"},
     {"real_to_v", "in:in:real out:out:v"},
     {"d_and", ""}, {"d_nand", ""}, {"d_or", ""}, {"d_nor", ""}, {"d_xor", ""}, {"d_xnor", ""},
     {"d_buffer", ""}, {"d_inverter", ""}, {"d_open_c", ""}, {"d_open_e", ""}, {"d_tristate", ""},
@@ -211,13 +211,13 @@ constexpr CodeModelParam kParams[] = {
     {"d_pwm", "cntl_array", "cntl_in", ""}, {"d_pwm", "dc_array", "1", ""},
     {"d_pwm", "frequency", "Kf", "1e6"}, {"d_pwm", "init_phase", "1", ""},
     {"d_pwm", "rise_delay", "1/Kf", "1e-9"}, {"d_pwm", "fall_delay", "1/Kf", "1e-9"},
-    // ---- real nets §12.3.5-8: values kept, real_to_v must drive a voltage (refusals) ----
-    {"d_to_real", "zero", "1", ""}, {"d_to_real", "one", "1", ""},
+    // ---- real nets §12.3.5-8: values take the factor of the real_to_v output they drive ----
+    {"d_to_real", "zero", "out", ""}, {"d_to_real", "one", "out", ""},
     {"d_to_real", "delay", "1/Kf", "1e-9"},
     {"real_delay", "delay", "1/Kf", "1e-9"},
-    {"real_gain", "in_offset", "1", ""}, {"real_gain", "gain", "1", ""},
-    {"real_gain", "out_offset", "1", ""}, {"real_gain", "delay", "1/Kf", "1e-9"},
-    {"real_gain", "ic", "1", ""},
+    {"real_gain", "in_offset", "in", ""}, {"real_gain", "gain", "1", ""},
+    {"real_gain", "out_offset", "out", ""}, {"real_gain", "delay", "1/Kf", "1e-9"},
+    {"real_gain", "ic", "out", ""},
     {"real_to_v", "gain", "1", ""}, {"real_to_v", "transition_time", "1/Kf", "1e-9"},
     // ---- gates §12.4.1-9: delays 1 ns; loads are stored but read by no model ----
     {"d_and", "rise_delay", "1/Kf", "1e-9"}, {"d_and", "fall_delay", "1/Kf", "1e-9"},
@@ -325,9 +325,6 @@ constexpr CodeModelRefusal kRefusals[] = {
      "table2d reads its axes from its data file, which is not rewritten: inputs must be voltages"},
     {"table3d", "inx*iny*inz",
      "table3d reads its axes from its data file, which is not rewritten: inputs must be voltages"},
-    {"real_to_v", "out",
-     "real_to_v drives a current here: the real values on its input net would have to be scaled "
-     "by 1/Km, and this version keeps real nets as they are"},
     {"d_source", "Kf",
      "d_source reads its times from its input file, which is not rewritten: scale the file's "
      "time column by 1/Kf"},

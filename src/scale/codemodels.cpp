@@ -5,7 +5,9 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
+#include <functional>
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
@@ -42,6 +44,52 @@ std::vector<std::string> digital_nodes(const Card& c, const std::vector<PortSpec
     return out;
 }
 
+// Real nets (xtraevt, notes §4): real_gain and real_delay join their input and output nets
+// (gain stays 1, so both carry one unit); a net takes the factor of the real_to_v outputs it
+// drives. Their real ports are typed "reali" when that factor is 1/Km, "realx" when the net
+// drives outputs of both kinds, else "real".
+template <class SeenList>
+void type_real_nets(SeenList& seen, ScaleFactors f) {
+    std::map<std::string, std::string> parent;
+    std::function<std::string(const std::string&)> root = [&](const std::string& n) {
+        auto it = parent.find(n);
+        if (it == parent.end() || it->second == n) return n;
+        return it->second = root(it->second);
+    };
+    auto real_nodes = [](const auto& s) {
+        std::vector<std::string> out;
+        for (const auto& n : s.nodes)
+            if (n.type == "real") out.push_back(n.node);
+        return out;
+    };
+    for (const auto& s : seen)
+        if (s.type->type == "real_gain" || s.type->type == "real_delay") {
+            auto r = real_nodes(s);
+            if (r.size() == 2) parent[root(r[0])] = root(r[1]);
+        }
+    std::map<std::string, std::set<double>> drives;
+    for (const auto& s : seen)
+        if (s.type->type == "real_to_v" && s.ports.size() == 2 && !s.ports[1].empty()) {
+            auto r = real_nodes(s);
+            if (!r.empty()) drives[root(r[0])].insert(port_factor(s.ports[1][0], PortDir::out, f));
+        }
+    for (auto& s : seen) {
+        std::size_t at = 0;
+        for (auto& port : s.ports)
+            for (auto& type : port) {
+                if (type == "null") continue;
+                if (type == "real" && at < s.nodes.size()) {
+                    const auto& d = drives[root(s.nodes[at].node)];
+                    if (d.size() > 1)
+                        type = "realx";
+                    else if (d.size() == 1 && *d.begin() != 1)
+                        type = "reali";
+                }
+                at += type == "vd" || type == "id" || type == "gd" || type == "hd" ? 2 : 1;
+            }
+    }
+}
+
 }  // namespace
 
 std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, ScaleFactors f) {
@@ -50,7 +98,15 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
         if (find_code_model(type)) any = true;
     if (!any) return nullptr;
     auto uses = std::make_shared<CodeModelUses>();
-    std::set<std::string> taken;  // names given to copies
+    struct Seen {
+        std::pair<std::size_t, std::uint32_t> at;
+        std::string model;
+        const CodeModelType* type;
+        std::vector<PortSpec> specs;
+        InstancePorts ports;
+        std::vector<PortNode> nodes;
+    };
+    std::vector<Seen> seen;
     for (std::size_t f_index = 0; f_index < deck.files.size(); ++f_index)
         deck.visit_file(f_index, [&](const Card& c) {
             if (c.kind != CardKind::element || c.fields.size() < 2) return;
@@ -62,33 +118,43 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
                 return;
             }
             if (letter != 'a') return;
-            std::string model = to_lower(c.field_text(c.fields.size() - 1));
-            auto it = deck.symbols.models.find(model);
+            Seen s{{f_index, c.begin()},
+                   to_lower(c.field_text(c.fields.size() - 1)),
+                   nullptr,
+                   {},
+                   {},
+                   {}};
+            auto it = deck.symbols.models.find(s.model);
             if (it == deck.symbols.models.end()) return;
-            const CodeModelType* t = find_code_model(it->second);
-            if (!t) return;
-            auto specs = port_specs(*t);
-            InstancePorts ports;
+            s.type = find_code_model(it->second);
+            if (!s.type) return;
+            s.specs = port_specs(*s.type);
             std::string why;
-            std::vector<PortNode> nodes;
-            if (!read_ports(connection_items(c), specs, ports, why, &nodes)) return;
-            for (const auto& n : nodes)
+            if (!read_ports(connection_items(c), s.specs, s.ports, why, &s.nodes)) return;
+            for (const auto& n : s.nodes)
                 if (!is_digital(n.type) && n.type != "vnam") uses->analog_nodes.insert(n.node);
-            CodeModelUses::Model& m = uses->by_model[model];
-            std::size_t g = 0;
-            while (g < m.groups.size() && !same_factors(*t, specs, m.groups[g].ports, ports, f))
-                ++g;
-            if (g == m.groups.size()) {
-                std::string suffix;
-                for (int k = 2; !m.groups.empty() && suffix.empty(); ++k) {
-                    std::string name = fmt::format("{}_{}", model, k);
-                    if (!deck.symbols.models.count(name) && taken.insert(name).second)
-                        suffix = fmt::format("_{}", k);
-                }
-                m.groups.push_back({std::move(ports), suffix});
-            }
-            m.group_of[{f_index, c.begin()}] = g;
+            seen.push_back(std::move(s));
         });
+    type_real_nets(seen, f);
+    std::set<std::string> taken;  // names given to copies
+    for (auto& s : seen) {
+        CodeModelUses::Model& m = uses->by_model[s.model];
+        std::size_t g = 0;
+        while (g < m.groups.size() &&
+               !same_factors(*s.type, s.specs, m.groups[g].ports, s.ports, f))
+            ++g;
+        if (g == m.groups.size()) {
+            std::string suffix;
+            for (int k = 2; !m.groups.empty() && suffix.empty(); ++k) {
+                std::string name = fmt::format("{}_{}", s.model, k);
+                if (!deck.symbols.models.count(name) && taken.insert(name).second)
+                    suffix = fmt::format("_{}", k);
+            }
+            m.groups.push_back({s.ports, suffix});
+        }
+        m.group_of[s.at] = g;
+        uses->ports_of[s.at] = std::move(s.ports);
+    }
     return uses;
 }
 
@@ -127,6 +193,18 @@ void scale_code_model_instance(ScalePass& p) {
                                               *type, why));
         return;
     }
+    if (const CodeModelUses* all = p.code_model_uses()) {
+        auto it = all->ports_of.find({p.file(), c.begin()});
+        if (it != all->ports_of.end()) ports = it->second;  // real nets typed
+    }
+    for (const auto& port : ports)
+        if (std::find(port.begin(), port.end(), "realx") != port.end()) {
+            p.unscalable(c.fields[0],
+                         "a real net here drives real_to_v outputs of different "
+                         "quantities (a voltage and a current): its values cannot "
+                         "take both factors");
+            break;
+        }
     std::size_t n = vector_elements(specs, &ports);
     for (const auto& r : code_model_refusals()) {
         if (r.type != *type) continue;

@@ -29,6 +29,8 @@ struct CodeModelUses {
         std::map<std::pair<std::size_t, std::uint32_t>, std::size_t> group_of;  // (file, card)
     };
     std::map<std::string, Model> by_model;
+    // Port types of each A device by (file, card offset), real ports typed by their net.
+    std::map<std::pair<std::size_t, std::uint32_t>, InstancePorts> ports_of;
     // Words of the deck's other element cards (every one that may be a node) and the nodes
     // of analog code-model ports: a digital port on one of them gets an automatic bridge.
     std::set<std::string> analog_nodes;

@@ -256,6 +256,9 @@ TEST(CodeModelNgspiceTest, ScaledDigitalAndFileDrivenBlocksAgree) {
     // adc_bridge -> d_inverter -> d_dff clocked by d_osc -> dac_bridge with v and i outputs
     check({__LINE__, "digital_chain.cir", ".tran 0.2u 2m 0 0.2u",
            volts({"v(aout1)", "v(aout2)", "v(ad2)", "v(aclk)"}), 1e-3});
+    // d_pwm, d_fdiv and a real path ending in a current: the real values take 1/Km (§4)
+    check({__LINE__, "digital_real.cir", ".tran 0.2u 2m 0 0.2u",
+           volts({"v(oi)", "v(apw)", "v(apwd)"}), 1e-3});
     // filesource: the file stays, timescale/timeoffset and the amplitudes are rewritten
     const std::string data =
         "# time ch1 ch2\n0 0.0 0.0\n0.1 0.5 0.2\n0.2 1.0 0.8\n0.4 -0.5 1.0\n"

@@ -278,14 +278,20 @@ std::vector<ParamCase> param_cases() {
         add(__LINE__, t, "fall_delay", "a1 c q m1", 0, -1);
     }
     add(__LINE__, "d_osc", "duty_cycle", "a1 c q m1", 0, 0);
-    // ---- real nets: values kept, delays ÷Kf ----
-    add(__LINE__, "d_to_real", "zero", "a1 d null r m1", 0, 0);
-    add(__LINE__, "d_to_real", "one", "a1 d null r m1", 0, 0);
+    // ---- real nets: values take the factor of the real_to_v output they drive (§4) ----
+    const std::string to_v = "\nav r %v(o) rv\n.model rv real_to_v",
+                      to_i = "\nav r %i(o) rv\n.model rv real_to_v";
+    add(__LINE__, "d_to_real", "zero", "a1 d null r m1" + to_v, 0, 0);
+    add(__LINE__, "d_to_real", "zero", "a1 d null r m1" + to_i, -1, 0);
+    add(__LINE__, "d_to_real", "one", "a1 d null r m1" + to_i, -1, 0);
     add(__LINE__, "d_to_real", "delay", "a1 d null r m1", 0, -1);
-    add(__LINE__, "real_delay", "delay", "a1 r k o m1", 0, -1);
-    for (std::string p : {"in_offset", "gain", "out_offset", "ic"})
-        add(__LINE__, "real_gain", p, "a1 r o m1", 0, 0);
-    add(__LINE__, "real_gain", "delay", "a1 r o m1", 0, -1);
+    add(__LINE__, "real_delay", "delay", "a1 q k r m1" + to_i, 0, -1);
+    // the net before a real_gain carries the same unit as the one after it
+    for (std::string p : {"in_offset", "out_offset", "ic"})
+        add(__LINE__, "real_gain", p, "a1 q r m1" + to_i, -1, 0);
+    add(__LINE__, "real_gain", "in_offset", "a1 q r m1" + to_v, 0, 0);
+    add(__LINE__, "real_gain", "gain", "a1 q r m1" + to_i, 0, 0);
+    add(__LINE__, "real_gain", "delay", "a1 q r m1", 0, -1);
     add(__LINE__, "real_to_v", "gain", "a1 r %v(o) m1", 0, 0);
     add(__LINE__, "real_to_v", "transition_time", "a1 r %v(o) m1", 0, -1);
     // ---- digital models: every *_delay ÷Kf, every load ÷(Km Kf) ----
