@@ -44,19 +44,28 @@ std::vector<std::string> digital_nodes(const Card& c, const std::vector<PortSpec
     return out;
 }
 
+// An A device as the pre-scan read it.
+struct SeenDevice {
+    std::pair<std::size_t, std::uint32_t> at;  // (file, card offset)
+    std::string model;
+    const CodeModelType* type = nullptr;
+    std::vector<PortSpec> specs;
+    InstancePorts ports;
+    std::vector<PortNode> nodes;
+};
+
 // Real nets (xtraevt, notes §4): real_gain and real_delay join their input and output nets
 // (gain stays 1, so both carry one unit); a net takes the factor of the real_to_v outputs it
 // drives. Their real ports are typed "reali" when that factor is 1/Km, "realx" when the net
 // drives outputs of both kinds, else "real".
-template <class SeenList>
-void type_real_nets(SeenList& seen, ScaleFactors f) {
+void type_real_nets(std::vector<SeenDevice>& seen, ScaleFactors f) {
     std::map<std::string, std::string> parent;
     std::function<std::string(const std::string&)> root = [&](const std::string& n) {
         auto it = parent.find(n);
         if (it == parent.end() || it->second == n) return n;
         return it->second = root(it->second);
     };
-    auto real_nodes = [](const auto& s) {
+    auto real_nodes = [](const SeenDevice& s) {
         std::vector<std::string> out;
         for (const auto& n : s.nodes)
             if (n.type == "real") out.push_back(n.node);
@@ -98,15 +107,7 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
         if (find_code_model(type)) any = true;
     if (!any) return nullptr;
     auto uses = std::make_shared<CodeModelUses>();
-    struct Seen {
-        std::pair<std::size_t, std::uint32_t> at;
-        std::string model;
-        const CodeModelType* type;
-        std::vector<PortSpec> specs;
-        InstancePorts ports;
-        std::vector<PortNode> nodes;
-    };
-    std::vector<Seen> seen;
+    std::vector<SeenDevice> seen;
     for (std::size_t f_index = 0; f_index < deck.files.size(); ++f_index)
         deck.visit_file(f_index, [&](const Card& c) {
             if (c.kind != CardKind::element || c.fields.size() < 2) return;
@@ -118,12 +119,9 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
                 return;
             }
             if (letter != 'a') return;
-            Seen s{{f_index, c.begin()},
-                   to_lower(c.field_text(c.fields.size() - 1)),
-                   nullptr,
-                   {},
-                   {},
-                   {}};
+            SeenDevice s;
+            s.at = {f_index, c.begin()};
+            s.model = to_lower(c.field_text(c.fields.size() - 1));
             auto it = deck.symbols.models.find(s.model);
             if (it == deck.symbols.models.end()) return;
             s.type = find_code_model(it->second);
