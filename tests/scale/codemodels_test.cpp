@@ -116,6 +116,50 @@ TEST(CodeModelsTest, UnknownParameterIsAnErrorWithItsLocation) {
     }
 }
 
+TEST(CodeModelsTest, MalformedParametersAreErrorsWithTheirLocation) {
+    struct Row {
+        int line;
+        std::string model, rendered;
+    };
+    const Row rows[] = {
+        {__LINE__, ".model g gain(gain 2)\n",
+         "deck.cir:3:15: error: expected name=value on a 'gain' model, found 'gain'\n"
+         "  .model g gain(gain 2)\n"
+         "                ^~~~\n"},
+        {__LINE__, ".model g gain(gain=)\n",
+         "deck.cir:3:15: error: 'gain=' has no value\n"
+         "  .model g gain(gain=)\n"
+         "                ^~~~\n"},
+        {__LINE__, ".model g pwl(x_array=[0 1 y_array=[0 1])\n",
+         "deck.cir:3:14: error: the vector of 'x_array' has no closing ']'\n"
+         "  .model g pwl(x_array=[0 1 y_array=[0 1])\n"
+         "               ^~~~~~~\n"},
+        {__LINE__, ".model g gain(gain=true)\n",
+         "deck.cir:3:20: error: bare name 'true' in a value of a dot card: ngspice 39 reads it "
+         "as 0; write {true}\n"
+         "  .model g gain(gain=true)\n"
+         "                     ^~~~\n"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "codemodels_test.cpp:" << r.line);
+        try {
+            test::scale_text("t\na1 x %i(o) g\n" + r.model + ".end\n", 2, 1);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()), r.rendered);
+        }
+    }
+    // fraction given as an expression: whether ranges are absolute is not known.
+    auto s = test::scale_text(
+        "t\na1 x %i(o) l\n.model l limit(fraction={f} out_upper_limit=1)\n.end\n", 2, 1);
+    ASSERT_EQ(s.result.unscalable.size(), 1u);
+    EXPECT_EQ(render(s.result.unscalable[0]),
+              "deck.cir:3:25: error: fraction is not a true/false literal: whether the model's "
+              "ranges are absolute is not known\n"
+              "  .model l limit(fraction={f} out_upper_limit=1)\n"
+              "                          ^~~\n");
+}
+
 TEST(CodeModelsTest, ModelSharedByDifferentPortTypesGetsACopyPerSignature) {
     // codemodel-rules.md §1: a .model used by instances with different port-type signatures
     // needs one copy per signature; each copy follows its card, the instances are renamed.
