@@ -114,8 +114,11 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
             char letter = ascii_lower(c.field_text(0)[0]);
             if (letter != 'a' && letter != 'x') {  // subcircuit calls may pass digital nodes on
                 for (std::size_t i = 1; i < c.fields.size(); ++i)
-                    if (c.fields[i].kind == TokenKind::word)
+                    if (c.fields[i].kind == TokenKind::word) {
                         uses->analog_nodes.insert(to_lower(c.field_text(i)));
+                        if (letter != 'v')
+                            uses->loop_breaking_nodes.insert(to_lower(c.field_text(i)));
+                    }
                 return;
             }
             if (letter != 'a') return;
@@ -233,6 +236,27 @@ void scale_code_model_instance(ScalePass& p) {
                 p.insert(c.fields.back().end, it->second.groups[g->second].suffix,
                          "model copy for these port types", 1);
         }
+    }
+    // Magnetic loops (notes §5, with n = Km): mmf nodes keep their voltage and the flux, the
+    // loop's current, scales by 1/(Km Kf); a resistor, capacitor, inductor, current source or
+    // controlled source on an mmf node would need factors of its own.
+    if (const CodeModelUses* all = p.code_model_uses();
+        all && (*type == "lcouple" || *type == "core") &&
+        differs(p.factors().km * p.factors().kf, 1)) {
+        std::vector<PortNode> nodes;
+        InstancePorts read;
+        if (read_ports(connection_items(c), specs, read, why, &nodes))
+            for (std::size_t i = *type == "lcouple" ? 2 : 0; i < nodes.size(); ++i) {
+                const std::string& node = nodes[i].node;
+                if (node != "0" && node != "gnd" && all->loop_breaking_nodes.count(node)) {
+                    p.unscalable(c.fields[0],
+                                 fmt::format("magnetic loop node '{}' also connects an element "
+                                             "other than a voltage source: its flux scales by "
+                                             "1/(Km*Kf), which that element's rule does not follow",
+                                             node));
+                    break;
+                }
+            }
     }
     if (*type == "lcouple" && differs(p.factors().km * p.factors().kf, 1))
         p.note(c.fields[0],

@@ -34,6 +34,9 @@ struct CodeModelUses {
     // Words of the deck's other element cards (every one that may be a node) and the nodes
     // of analog code-model ports: a digital port on one of them gets an automatic bridge.
     std::set<std::string> analog_nodes;
+    // Words of element cards other than V, X and A sources: such an element on a magnetic loop
+    // (between lcouple and core) would relate its flux and mmf by a fixed value.
+    std::set<std::string> loop_breaking_nodes;
 };
 
 // Reads the deck's A devices; null when the deck declares no model of a code-model type.

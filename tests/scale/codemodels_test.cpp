@@ -213,6 +213,11 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
          "digital node 'y' also connects analog elements"},
         {__LINE__, "V1 x 0 1\na1 %v(c) x osc\n.model osc d_osc(cntl_array=[0] freq_array=[1k])\n",
          "digital node 'x' also connects analog elements"},
+        // A resistor on a magnetic loop's mmf node (codemodel-rules.md §5).
+        {__LINE__, "a1 (p 0) (m 0) w\n.model w lcouple(num_turns=10)\nR1 m 0 1k\n",
+         "magnetic loop node 'm' also connects an element other than a voltage source"},
+        {__LINE__, "a2 (m n) c\n.model c core(area=1 length=1)\nRx n 0 1k\n",
+         "magnetic loop node 'n' also connects an element"},
         // Clamps inside models: the scaled value would be cut (xtradev/pswitch/cfunc.mod,
         // xtradev/aswitch/cfunc.mod, analog/oneshot/cfunc.mod, xtradev/sidiode/cfunc.mod).
         {__LINE__, "a1 (c 0) (o 0) m\n.model m pswitch(r_on=1)\n",
