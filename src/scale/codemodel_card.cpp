@@ -185,6 +185,23 @@ CardPlan plan_card(ScalePass& p, const ModelCard& m, const InstancePorts* ports)
             plan.values.push_back({e, factor, &r});
         }
     }
+    // aswitch refuses a control span below 1e-12 ("delta less than 1e-12",
+    // xtradev/aswitch/cfunc.mod): a current control makes the span Km times smaller.
+    if (m.model->type == "aswitch") {
+        auto value_of = [&](std::string_view name, double fallback) -> std::optional<double> {
+            const GivenParam* g = m.given_of(name);
+            if (!g) return fallback;
+            if (g->elements.empty() || !p.is_number(g->elements.front())) return std::nullopt;
+            return p.number_of(g->elements.front()).number->value;
+        };
+        auto on = value_of("cntl_on", 1), off = value_of("cntl_off", 0);
+        double fc = eval_factor("cntl_in", m.specs, ports, f, 0, 1);
+        if (on && off && std::fabs(*on - *off) >= 1e-12 && std::fabs(*on - *off) * fc < 1e-12)
+            p.unscalable(p.card().fields[1],
+                         fmt::format("cntl_on - cntl_off would become {}, below the 1e-12 the "
+                                     "aswitch model accepts",
+                                     format_plain(std::fabs(*on - *off) * fc, p.digits())));
+    }
     // Defaults that carry a unit are written out scaled (codemodel-rules.md pitfall 7).
     for (const auto& r : code_model_params()) {
         if (r.type != m.model->type || r.fallback.empty() || m.given_of(r.name)) continue;

@@ -226,6 +226,8 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
          "r_off=1e+12 would become 7e+12, above"},
         {__LINE__, "a1 x (o 0) m\n.model m aswitch(r_on=1e-4 r_off=1e6)\n",
          "r_on=0.0001 would become 0.0007, below the aswitch model's floor of 0.001"},
+        {__LINE__, "a1 %i(c) (o 0) m\n.model m aswitch(cntl_off=0 cntl_on=5e-12)\n",
+         "cntl_on - cntl_off would become 7.142857e-13, below the 1e-12 the aswitch model accepts"},
         {__LINE__, "a1 k c r o m\n.model m oneshot(cntl_array=[0] pw_array=[1u] rise_time=1e-12)\n",
          "rise_time=1e-12 would become 3.333333e-13, below the oneshot model's floor of 1e-12"},
         {__LINE__, "a1 (d 0) m\n.model m sidiode(ilimit=2e28)\n",
