@@ -135,12 +135,14 @@ void ScalePass::visit(const Card& c) {
         return;
     }
     if (c.fields.empty()) return;
-    if (observing_ && is_code_model_card(c)) {
-        rescan_ = true;  // its factors depend on A devices anywhere in the deck
-        return;
-    }
     if (c.kind == CardKind::dot) {
         std::string kw = card_keyword(c);
+        // A code model's factors depend on A devices anywhere in the deck: while reading,
+        // leave it to the pass over the complete deck.
+        if (kw == ".model" && observing_ && is_code_model_card(c)) {
+            rescan_ = true;
+            return;
+        }
         if (kw == ".model" && scale_code_model(*this)) return;
         if (kw == ".model")
             scale_model(*this);
@@ -160,7 +162,10 @@ void ScalePass::visit(const Card& c) {
             unscalable(c.fields[0], "semiconductor devices are not scaled by this version "
                                     "(their area/m factors and model cards need their own rules)");
             break;
-        case 'a': scale_code_model_instance(*this); break;
+        case 'a':
+            if (observing_) rescan_ = true;  // as a code-model .model card above
+            else scale_code_model_instance(*this);
+            break;
         case 'y': case 'p':
             unscalable(c.fields[0], "ngspice 39 KSPICE lines (TXL/CPL) do not stay equivalent "
                                     "under scaling; use an LTRA line (O element) instead");
