@@ -169,7 +169,10 @@ bool is_code_model_card(const Card& c) {
 
 void scale_code_model_instance(ScalePass& p) {
     const Card& c = p.card();
-    if (c.fields.size() < 2) return;
+    if (c.fields.size() < 2) {
+        p.unscalable(c.fields[0], "XSPICE A device without connections and model");
+        return;
+    }
     std::string model = to_lower(c.field_text(c.fields.size() - 1));
     const std::string* type = p.model_type(model);
     if (!type) {

@@ -188,6 +188,13 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
     };
     const Row rows[] = {
         {__LINE__, "a1 %v(x) %i(o) m\n.model m slew\n", "slew's output follows its input 1:1"},
+        {__LINE__, "a1\n.model m gain\n", "XSPICE A device without connections and model"},
+        {__LINE__, "a1 x o nomodel\n.model m gain\n",
+         "XSPICE A device whose model 'nomodel' is not"},
+        {__LINE__, "a1 x o m\n.model m d\n",
+         "XSPICE model type 'd' is not one of ngspice 39's code models"},
+        {__LINE__, "a1 x o p m\n.model m gain\n",
+         "cannot read the connections of this 'gain' device"},
         {__LINE__, "a1 %i(x) %v(o) c m\n.model m delay(delay=1u)\n", "delay passes its input"},
         {__LINE__, "a1 x o %i(c) m\n.model m delay(delay=1u)\n", "delay clamps its control input"},
         {__LINE__, "a1 x %i(u) l %v(o) m\n.model m climit\n", "climit uses cntl_upper directly"},
