@@ -4,6 +4,7 @@
 
 #include <functional>
 #include <map>
+#include <memory>
 #include <optional>
 #include <set>
 #include <string>
@@ -14,6 +15,8 @@
 #include "scale/rescale.hpp"
 
 namespace deckscale {
+
+struct CodeModelUses;
 
 // One value-bearing item of a card: positional (key == nullptr) or key=value.
 struct Atom {
@@ -66,8 +69,11 @@ public:
     bool is_inductor(const std::string& name) const;
     double gmin() const;
     double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
+    // The deck's A devices by model (null when it has no code-model models).
+    const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
+    std::size_t file() const { return file_; }  // index of the current card's file
 
     // Scales one value token by the unit's factor; validates numbers either way.
     void scale_value(const Token& t, Unit unit, std::string_view field);
@@ -141,6 +147,7 @@ private:
     bool deck_plot_read_ = false;
     std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;
+    std::shared_ptr<const CodeModelUses> code_model_uses_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};
@@ -167,5 +174,7 @@ bool scale_sweep_exactly(ScalePass& p, SweepKind kind, const std::vector<Atom>& 
 // Records what a card tells about the transient tolerances (scale/tran_tolerances.cpp).
 void note_tolerances(ScalePass& p, const std::string& keyword);
 void note_control_tolerances(ScalePass& p, std::string_view body);
+void scale_code_model_instance(ScalePass& p);  // A
+bool scale_code_model(ScalePass& p);           // .model of a code-model type (false: not one)
 
 }  // namespace deckscale

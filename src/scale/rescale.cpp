@@ -7,6 +7,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/codemodels.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
 
@@ -49,6 +50,7 @@ void ScalePass::run(const Deck& deck) {
     observing_ = false;
     symbols_ = &deck.symbols;
     deck_ = &deck;
+    code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -150,6 +152,13 @@ void ScalePass::visit(const Card& c) {
     if (c.fields.empty()) return;
     if (c.kind == CardKind::dot) {
         std::string kw = card_keyword(c);
+        // A code model's factors depend on A devices anywhere in the deck: while reading,
+        // leave it to the pass over the complete deck.
+        if (kw == ".model" && observing_ && is_code_model_card(c)) {
+            rescan_ = true;
+            return;
+        }
+        if (kw == ".model" && scale_code_model(*this)) return;
         if (kw == ".model")
             scale_model(*this);
         else
@@ -169,7 +178,8 @@ void ScalePass::visit(const Card& c) {
                                     "(their area/m factors and model cards need their own rules)");
             break;
         case 'a':
-            unscalable(c.fields[0], "XSPICE code-model devices have model-specific units");
+            if (observing_) rescan_ = true;  // as a code-model .model card above
+            else scale_code_model_instance(*this);
             break;
         case 'y': case 'p':
             unscalable(c.fields[0], "ngspice 39 KSPICE lines (TXL/CPL) do not stay equivalent "
