@@ -1,0 +1,146 @@
+#include "verify/pair.hpp"
+
+#include <algorithm>
+#include <filesystem>
+
+#include <fmt/format.h>
+
+#include "base/text_util.hpp"
+#include "deck/analyses.hpp"
+#include "deck/load.hpp"
+#include "sim/head_start.hpp"
+#include "verify/compare.hpp"
+#include "verify/factor_inference.hpp"
+#include "verify/sim_cards.hpp"
+
+namespace deckscale {
+namespace {
+
+namespace fs = std::filesystem;
+
+struct PairJob {
+    std::string analysis;  // "ac", "op", "tran"
+    SimJob original, scaled;
+};
+
+const SimPlot* plot_of(const SimOutcome& o, const std::string& analysis) {
+    for (const auto& p : o.plots)
+        if (istarts_with(p.name, analysis)) return &p;
+    return nullptr;
+}
+
+PairVerification refuse(std::string problem) {
+    PairVerification v;
+    v.outcome = PairVerification::Outcome::bad_input;
+    v.problems.push_back(std::move(problem));
+    return v;
+}
+
+}  // namespace
+
+PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
+                             SimHeadStart* head_start) {
+    PairVerification result;
+    VerifyReport& report = result.report;
+    report.original = o.original;
+    report.scaled = o.scaled;
+    report.tolerances = o.tolerances;
+    std::vector<PairJob> pairs;
+    {
+        Deck original = load_deck(o.original, files);
+        Deck scaled = load_deck(o.scaled, files);
+        auto vo = element_values(original), vs = element_values(scaled);
+        if (o.factors_given) {
+            report.km = o.km;
+            report.kf = o.kf;
+        } else {
+            auto inf = infer_factors(vo, vs);
+            if (!inf.ok) return refuse("cannot infer the factors: " + inf.message);
+            report.km = inf.km;
+            report.kf = inf.kf;
+            report.factors_inferred = true;
+            report.resistor_pairs = inf.resistor_pairs;
+            report.reactive_pairs = inf.reactive_pairs;
+            if (!inf.message.empty()) report.notes.push_back(inf.message);
+        }
+        // Values are written with 7 significant digits by default: 1e-5 is well above that.
+        report.mismatches = check_ratios(vo, vs, report.km, report.kf, 1e-5);
+
+        DeckAnalyses an = find_analyses(original);
+        for (const auto& p : an.problems) report.notes.push_back(p + " (not compared)");
+        for (const auto& kw : an.uncompared)
+            report.notes.push_back(fmt::format("the original's {} analysis is not compared (verify maps "
+                                               ".ac, .op and .tran)", kw));
+        std::optional<AcSweep> sweep = an.ac;
+        if (!o.sweep.empty()) {
+            std::string e;
+            sweep = parse_sweep(o.sweep, e);
+            if (!sweep) return refuse("--sweep: " + e);
+            sweep->reltol = original.symbols.reltol;  // the deck's stop test
+        }
+        std::string drive = to_lower(o.drive);
+        if (!drive.empty() && std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end())
+            return refuse(fmt::format("--drive {}: no independent source of that name in {}",
+                                      o.drive, o.original));
+        if (sweep && drive.empty() && an.ac_sources.empty())
+            return refuse(fmt::format("no source of {} has an AC value, so an AC sweep "
+                                      "shows nothing; name the source that drives the circuit with "
+                                      "--drive NAME (it gets AC 1)", o.original));
+        auto job = [&](const Deck& d, const std::string& path, const std::string& card, double drive_ac) {
+            SimJob j;
+            j.label = path;
+            j.cards = simulation_cards(d, SimDeckOptions{card, drive, drive_ac});
+            j.work_dir = fs::absolute(path).parent_path().string();
+            j.timeout = o.timeout;
+            j.memory_limit_mb = o.memory_mb;
+            return j;
+        };
+        // An AC current drive of 1 A in the original is 1/Km A in the scaled circuit.
+        double scaled_drive = !drive.empty() && drive[0] == 'i' ? 1 / report.km : 1;
+        if (sweep)
+            pairs.push_back({"ac", job(original, o.original, ac_card(*sweep), 1),
+                             job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)), scaled_drive)});
+        if (an.op || (!sweep && !an.tran))
+            pairs.push_back({"op", job(original, o.original, ".op", 1), job(scaled, o.scaled, ".op", scaled_drive)});
+        if (an.tran)
+            pairs.push_back({"tran", job(original, o.original, tran_card(*an.tran), 1),
+                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)), scaled_drive)});
+    }
+
+    std::vector<SimJob> jobs;
+    for (const auto& p : pairs) {
+        jobs.push_back(p.original);
+        jobs.push_back(p.scaled);
+    }
+    result.outcomes = simulate_all(jobs, 0, SimProcesses::automatic, head_start);
+    const auto& outcomes = result.outcomes;
+    for (std::size_t i = 0; i < jobs.size(); ++i) {
+        if (outcomes[i].status == SimStatus::ok) continue;
+        result.outcome = PairVerification::Outcome::sim_failed;
+        result.failures.push_back(
+            {jobs[i].label, pairs[i / 2].analysis, outcomes[i].status, outcomes[i].message});
+    }
+    if (!result.failures.empty()) return result;
+
+    for (std::size_t i = 0; i < pairs.size(); ++i) {
+        const std::string& a = pairs[i].analysis;
+        const SimPlot* po = plot_of(outcomes[2 * i], a);
+        const SimPlot* ps = plot_of(outcomes[2 * i + 1], a);
+        if (!po || !ps) {
+            result.outcome = PairVerification::Outcome::sim_failed;
+            result.problems.push_back(fmt::format("the simulator produced no {} plot", a));
+            return result;
+        }
+        if (a == "ac") {
+            report.comparisons.push_back(compare_ac(*po, *ps, report.km, report.kf, report.tolerances));
+            result.ac_run = 2 * i;
+        } else if (a == "op") {
+            report.comparisons.push_back(compare_op(*po, *ps, report.km, report.tolerances));
+        } else {
+            report.comparisons.push_back(compare_tran(*po, *ps, report.km, report.kf, report.tolerances));
+        }
+    }
+    return result;
+}
+
+}  // namespace deckscale
