@@ -309,6 +309,13 @@ std::string respell(const SpiceNumber& original, const Decimal& d, int digits) {
         digits = std::max(digits, 3);  // a mantissa in [1, 1000) never takes an exponent
         int exp3 = std::clamp((e >= 0 ? e / 3 : -((-e + 2) / 3)) * 3, -15, 12);
         std::string_view suffix = eng[(exp3 + 15) / 3];
+        if (suffix == "m" && original.tail.size() >= 2 &&
+            (istarts_with(original.tail, "il") || istarts_with(original.tail, "eg"))) {
+            // "m" before a tail "il..." or "eg..." would read as MIL or MEG: micro instead
+            // ("2020nil" x 1e3 is "2020uil", not "2.02mil").
+            exp3 -= 3;
+            suffix = "u";
+        }
         auto mantissa = [&](int shift) { append_general_text(out, d, digits, shift); };
         if (suffix.empty()) {
             // 1..999 without a suffix would lose the style; keep a suffix-free mantissa only

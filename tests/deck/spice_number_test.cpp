@@ -259,6 +259,11 @@ TEST(SpiceNumber, RespellKeepsTheStyle) {
         {__LINE__, "0.5", 2, "1"},
         {__LINE__, "3.14", 0.5, "1.57"},
         {__LINE__, "10V", 3, "30V"},
+        // milli before a tail that starts like the rest of MIL or MEG would read as them
+        // (found by the number fuzz target): micro instead
+        {__LINE__, "2020nil", 1e4, "20200uil"},
+        {__LINE__, "5nEGG", 1e6, "5000uEGG"},
+        {__LINE__, "5nF", 1e6, "5mF"},
     };
     for (const auto& row : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << row.line << ": " << row.original
