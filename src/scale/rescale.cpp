@@ -214,7 +214,10 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     }
     if (p.problem != NumberProblem::not_a_number)
         fail(t, describe(p.problem, s));
-    if (card_->kind == CardKind::dot)
+    // ngspice 39 reads a parameter name in a .meas value (tried: `when v(a)=thr` with
+    // `.param thr=0.5` measured the same time as `=0.5`); other dot cards read it as 0.
+    std::string keyword = card_keyword(*card_);
+    if (card_->kind == CardKind::dot && keyword != ".meas" && keyword != ".measure")
         fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 reads it as 0; "
                             "write {{{}}}", s, s));
     if (!is_param(to_lower(s)) && observing_) {

@@ -329,3 +329,80 @@ TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Issue 10 §4: valid decks that were refused. Each form was read by ngspice 39 in its own
+// run (`.tran … uic`: manual §15.3.10; `.meas … =thr`: t1 measured the same as with `=0.5`;
+// `R = (…)`: a time-varying resistance), so each is scaled now.
+TEST(ScalerTest, ValidFormsOnceRefusedAreScaled) {
+    const LineCase cases[] = {
+        {__LINE__, "", ".tran 10u 2m uic", ".tran 10n 2u uic"},
+        {__LINE__, "", ".TRAN 10u 2m 0 UIC", ".TRAN 10n 2u 0 UIC"},
+        {__LINE__, ".param thr=0.5\n", ".meas tran t1 when v(a)=thr",
+         ".meas tran t1 when v(a)=thr"},
+        {__LINE__, ".param tset=4m\n", ".meas tran v1 find v(a) at=tset",
+         ".meas tran v1 find v(a) at={(tset)/1000}"},
+        {__LINE__, ".param Rload=1k\n", "R4 out2 OUT R = (time<12ms ? {Rload} : {2*Rload})",
+         "R4 out2 OUT R = ((((time*1000)<12ms ? {Rload} : {2*Rload}))*10)"},
+        {__LINE__, "", "R5 a b r=(2k) tc1=0.01", "R5 a b r=(((2k))*10) tc1=0.01"},
+        {__LINE__, "", "C1 a 0 C=(1n+time*1u)", "C1 a 0 C=(((1n+(time*1000)*1u))/10000)"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.in);
+        try {
+            auto s = test::scale_text("t\n" + c.before + c.in + "\n.end\n", 10, 1000);
+            std::size_t n =
+                1 + static_cast<std::size_t>(std::count(c.before.begin(), c.before.end(), '\n'));
+            std::size_t start = 0;
+            for (std::size_t i = 0; i < n; ++i) start = s.text().find('\n', start) + 1;
+            EXPECT_EQ(s.text().substr(start, s.text().find('\n', start) - start), c.out);
+            for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+// What ngspice 39 itself misreads stays refused, saying why: a bare name in an analysis is
+// read as 0 (`.ac … fstart fstop` stops with "AC startfreq <= 0"), and `pi` is unknown to its
+// parameter evaluator ("Undefined parameter [pi]"); both tried with `ngspice -b`.
+TEST(ScalerTest, WhatNgspiceMisreadsIsRefusedWithTheReason) {
+    struct Case {
+        int line;
+        std::string cards;
+        std::string rendered;
+    };
+    const Case cases[] = {
+        {__LINE__, ".param f1=10 f2=1k\n.ac dec 10 f1 f2\n",
+         "deck.cir:3:12: error: bare name 'f1' in a value of a dot card: ngspice 39 reads it as 0; "
+         "write {f1}\n  .ac dec 10 f1 f2\n             ^~\n"},
+        {__LINE__, ".param ts=1m\n.tran 1u ts\n",
+         "deck.cir:3:10: error: bare name 'ts' in a value of a dot card: ngspice 39 reads it as 0; "
+         "write {ts}\n  .tran 1u ts\n           ^~\n"},
+        {__LINE__, ".param fc=1k c={1/(2*pi*fc*1k)}\n",
+         "deck.cir:2:16: error: 'pi' is not known to ngspice 39 in .param and {...} expressions (it "
+         "stops with \"Undefined parameter [pi]\"); write the number or define .param pi=...\n"
+         "  .param fc=1k c={1/(2*pi*fc*1k)}\n                 ^~~~~~~~~~~~~~~~\n"},
+        {__LINE__, "C1 a 0 {1/(2*PI*1k*1k)}\n",
+         "deck.cir:2:8: error: 'pi' is not known to ngspice 39 in .param and {...} expressions (it "
+         "stops with \"Undefined parameter [pi]\"); write the number or define .param pi=...\n"
+         "  C1 a 0 {1/(2*PI*1k*1k)}\n         ^~~~~~~~~~~~~~~~\n"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line);
+        try {
+            test::scale_text("t\n" + c.cards + ".end\n", 10, 1000);
+            ADD_FAILURE() << "not refused";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()), c.rendered);
+        }
+    }
+    // A deck that defines pi itself is read by ngspice 39 (tried) and scaled.
+    auto s = test::scale_text("t\n.param pi=3.14159265358979\nC1 a 0 {1/(2*pi*1k)}\n.end\n", 10, 1);
+    EXPECT_EQ(s.text(), "t\n.param pi=3.14159265358979\nC1 a 0 {(1/(2*pi*1k))/10}\n.end\n");
+}
+
+}  // namespace
+}  // namespace deckscale
