@@ -5,6 +5,7 @@
 #include <map>
 
 #include "base/text_util.hpp"
+#include "deck/param_eval.hpp"
 #include "deck/spice_number.hpp"
 
 namespace deckscale {
@@ -25,12 +26,52 @@ double predicted_ratio(char letter, double km, double kf) {
     return 1;
 }
 
+// Top-level `.param name=value` definitions of every file (those inside a .subckt are the
+// subcircuit's own and are left out).
+ParamTable deck_params(const Deck& deck) {
+    ParamTable table;
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        int depth = 0;
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::dot) return;
+            std::string kw = card_keyword(c);
+            if (kw == ".subckt") ++depth;
+            if (kw == ".ends" && depth > 0) --depth;
+            if (kw != ".param" || depth > 0) return;
+            const auto& fl = c.fields;
+            for (std::size_t i = 1; i + 2 < fl.size(); ++i)
+                if (fl[i].kind == TokenKind::word && fl[i + 1].kind == TokenKind::equals &&
+                    fl[i + 2].kind != TokenKind::equals)
+                    table.define(to_lower(c.field_text(i)), std::string(c.field_text(i + 2)));
+        });
+    }
+    return table;
+}
+
+// A literal number, a `{…}`/`'…'` expression or a bare parameter name, evaluated with the
+// deck's parameters; inside a .subckt only literals (its parameters vary per instance).
+std::optional<double> literal_or_param_value(std::string_view text, const ParamTable& params,
+                                             bool in_subckt) {
+    auto p = parse_spice_number(text);
+    if (p.number) return p.number->value;
+    if (in_subckt || p.problem != NumberProblem::not_a_number) return std::nullopt;
+    if (text.front() == '{' || text.front() == '\'') return params.evaluate(text);
+    return params.value(to_lower(text));
+}
+
 }  // namespace
 
 std::vector<ElementValue> element_values(const Deck& deck) {
     std::vector<ElementValue> out;
+    ParamTable params = deck_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        int depth = 0;  // inside a .subckt, parameters may be the instance's own
         deck.visit_file(f, [&](const Card& c) {
+            if (c.kind == CardKind::dot) {
+                std::string kw = card_keyword(c);
+                if (kw == ".subckt") ++depth;
+                if (kw == ".ends" && depth > 0) --depth;
+            }
             if (c.kind != CardKind::element || c.fields.empty()) return;
             std::string name = card_keyword(c);
             char letter = name[0];
@@ -38,7 +79,8 @@ std::vector<ElementValue> element_values(const Deck& deck) {
             int positional = 0;
             const auto& fl = c.fields;
             for (std::size_t i = 1; i < fl.size(); ++i) {
-                if (fl[i].kind != TokenKind::word) continue;
+                bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
+                if (fl[i].kind != TokenKind::word && !expression) continue;
                 std::string_view w = c.field_text(i);
                 bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
                 std::string_view value_text;
@@ -55,11 +97,11 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 } else {
                     continue;
                 }
-                auto p = parse_spice_number(value_text);
-                if (!p.number) return;
+                auto value = literal_or_param_value(value_text, params, depth > 0);
+                if (!value) return;
                 auto pos = c.file->position(c.fields[0].begin);
-                out.push_back({name, letter, p.number->value, c.file->path(), pos.line,
-                               std::string(value_text)});
+                out.push_back(
+                    {name, letter, *value, c.file->path(), pos.line, std::string(value_text)});
                 return;
             }
         });

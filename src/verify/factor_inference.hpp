@@ -19,7 +19,9 @@ struct ElementValue {
     std::string text;  // the value as written
 };
 
-// R, C and L elements with a literal value, from every file of the deck.
+// R, C and L elements with a value that is a literal, a `{…}`/`'…'` expression or a bare parameter
+// name evaluated with the deck's top-level .param definitions (deck/param_eval), from every file.
+// Values inside a .subckt count only as literals; values that do not evaluate are left out.
 std::vector<ElementValue> element_values(const Deck& deck);
 
 struct RatioMismatch {
