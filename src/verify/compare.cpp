@@ -34,8 +34,23 @@ void note_internal_states(const SimPlot& o, Comparison& c) {
         if (internal_state(v)) c.not_compared.push_back(v.name);
 }
 
+// ngspice 39 reads `G1 0 out cur='…'` (and VALUE=, TABLE) as a unit VCCS driven by an
+// internal node `g1_int1` whose voltage is the current in amperes (tried: `listing expand`
+// shows `g1 0 out g1_int1 0 1` and `bg1 g1_int1 0 v=…`). That node scales like a current.
+bool current_as_voltage(const SimVector& v) {
+    const std::string& n = v.name;
+    auto at = n.rfind("_int");
+    if (v.kind != VectorKind::voltage || n.empty() || n[0] != 'g' || at == std::string::npos ||
+        at + 4 == n.size())
+        return false;
+    return std::all_of(n.begin() + static_cast<std::ptrdiff_t>(at + 4), n.end(),
+                       [](char c) { return c >= '0' && c <= '9'; });
+}
+
 // Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents.
-double back_factor(const SimVector& v, double km) { return v.kind == VectorKind::current ? km : 1; }
+double back_factor(const SimVector& v, double km) {
+    return v.kind == VectorKind::current || current_as_voltage(v) ? km : 1;
+}
 
 const SimVector* scale_vector(const SimPlot& p) {
     for (const auto& v : p.vectors)

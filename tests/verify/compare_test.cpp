@@ -69,6 +69,33 @@ TEST(CompareAc, CurrentsAreMultipliedByKmAndFrequenciesByKf) {
     EXPECT_FALSE(d.passed());
 }
 
+// The internal node of a G source with an expression carries its current as a voltage
+// (ngspice 39 `listing expand`: `g1 0 iout g1_int1 0 1`), so it is compared times Km; an
+// E source's `e1_int1` and ordinary nodes stay voltages.
+TEST(CompareAc, InternalNodeOfAnExpressionGSourceIsACurrent) {
+    struct Case {
+        int line;
+        std::string name;
+        double scaled_by;  // the scaled deck's value / the original's
+        bool passes;
+    };
+    const double km = 50, kf = 1e3;
+    const Case cases[] = {
+        {__LINE__, "g1_int1", 1 / km, true},   {__LINE__, "gload_int12", 1 / km, true},
+        {__LINE__, "g1_int1", 1, false},       {__LINE__, "e1_int1", 1, true},
+        {__LINE__, "g1_intx", 1, true},        {__LINE__, "gate", 1, true},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "compare_test.cpp:" << c.line << ": " << c.name);
+        SimPlot original = ac_plot(kFreqs, 1000);
+        SimPlot scaled = ac_plot(times(kFreqs, kf), 1000 * kf, 1e-3 / km);
+        original.vectors.push_back(vec(c.name, VectorKind::voltage, reals({2e-3, 2e-3, 2e-3, 2e-3})));
+        double x = 2e-3 * c.scaled_by;
+        scaled.vectors.push_back(vec(c.name, VectorKind::voltage, reals({x, x, x, x})));
+        EXPECT_EQ(compare_ac(original, scaled, km, kf, Tolerances{}).passed(), c.passes);
+    }
+}
+
 TEST(CompareAc, FrequencyGridMismatchIsAProblem) {
     struct Case {
         int line;
