@@ -4,6 +4,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/after_end.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
 
@@ -130,6 +131,10 @@ void ScalePass::visit(const Card& c) {
     card_marked_ = false;
     if (c.kind == CardKind::control) {
         scale_control_block(*this);
+        return;
+    }
+    if (c.kind == CardKind::after_end) {
+        check_after_end(*this);
         return;
     }
     if (c.fields.empty()) return;
