@@ -399,6 +399,26 @@ TEST(ScalerTest, WhatNgspiceMisreadsIsRefusedWithTheReason) {
             EXPECT_EQ(render(e.diagnostic()), c.rendered);
         }
     }
+    // A C or L model name after the value stops ngspice 39 ("unknown parameter (cmod)",
+    // tried); before the value it is read, and so is an R model after the value.
+    for (const std::string card : {"C1 out 0 1n cmod", "L1 out 0 l=1m lmod"}) {
+        SCOPED_TRACE(card);
+        try {
+            test::scale_text("t\n.model cmod c(tc1=0)\n.model lmod l(tc1=0)\n" + card + "\n.end\n",
+                             10, 1000);
+            ADD_FAILURE() << "not refused";
+        } catch (const DeckError& e) {
+            EXPECT_NE(render(e.diagnostic()).find("as an unknown parameter and stops; write the "
+                                                  "model name before the value"),
+                      std::string::npos)
+                << render(e.diagnostic());
+        }
+    }
+    auto m = test::scale_text(
+        "t\n.model cmod c(tc1=0)\n.model rmod r(tc1=0)\nC1 a 0 cmod 1n\nR1 a 0 1k rmod\n.end\n", 10,
+        1000);
+    EXPECT_EQ(m.text(),
+              "t\n.model cmod c(tc1=0)\n.model rmod r(tc1=0)\nC1 a 0 cmod 100f\nR1 a 0 10k rmod\n.end\n");
     // A deck that defines pi itself is read by ngspice 39 (tried) and scaled.
     auto s = test::scale_text("t\n.param pi=3.14159265358979\nC1 a 0 {1/(2*pi*1k)}\n.end\n", 10, 1);
     EXPECT_EQ(s.text(), "t\n.param pi=3.14159265358979\nC1 a 0 {(1/(2*pi*1k))/10}\n.end\n");
