@@ -169,6 +169,7 @@ void gather_symbols(const Card& c, DeckSymbols& s) {
     } else if (kw == ".model" && c.fields.size() > 2) {
         s.models[to_lower(c.field_text(1))] = to_lower(c.field_text(2));
     } else if (kw == ".options" || kw == ".option" || kw == ".opt") {
+        add_keys(c, 1, s.options);
         for (std::size_t i = 1; i + 2 < c.fields.size(); ++i)
             if (c.fields[i + 1].kind == TokenKind::equals && iequals(c.field_text(i), "gmin"))
                 if (auto n = parse_spice_number(c.field_text(i + 2)); n.number) {

@@ -37,6 +37,7 @@ struct DeckSymbols {
     std::set<std::string> coupled_inductors;    // inductors named by a K card
     double gmin = 1e-12;                        // .options gmin, else ngspice's default
     bool gmin_set = false;                      // a .options card set gmin
+    std::set<std::string> options;              // keys set by .options cards
 };
 
 struct Deck {

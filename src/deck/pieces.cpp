@@ -67,6 +67,7 @@ void add_symbols(DeckSymbols& to, DeckSymbols&& later) {
     for (auto& [name, type] : later.models) to.models[name] = std::move(type);  // later wins
     to.inductors.merge(later.inductors);
     to.coupled_inductors.merge(later.coupled_inductors);
+    to.options.merge(later.options);
     if (later.gmin_set) {
         to.gmin = later.gmin;
         to.gmin_set = true;

@@ -6,6 +6,7 @@
 #include "deck/spice_number.hpp"
 #include "scale/expression.hpp"
 #include "scale/numparam_names.hpp"
+#include "scale/tolerances.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
 
@@ -121,6 +122,7 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
         scale_positional(p, atoms, kw);
     } else if (kw == ".tran") {
         scale_positional(p, atoms, ".tran");
+        write_solver_tolerances(p);
     } else if (kw == ".four") {
         if (!atoms.empty() && !atoms[0].key) p.scale_value(*atoms[0].value, Unit::hertz, "freq");
     } else if (kw == ".pss") {

@@ -50,6 +50,7 @@ public:
     const std::string* model_type(const std::string& name) const;  // nullptr if no such model
     bool is_inductor(const std::string& name) const;
     double gmin() const;
+    bool option_given(const std::string& key) const;  // a .options card sets it
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
 
@@ -84,7 +85,8 @@ private:
     ScaleResult& result_;
     const DeckSymbols* symbols_ = nullptr;
     // Lookups that found nothing, and the gmin that was used (for relied_on_missing).
-    mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_;
+    mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_,
+        missed_options_;
     mutable std::optional<double> gmin_used_;
     bool observing_ = false;  // inside observe(): the deck is not complete yet
     bool rescan_ = false;     // a decision was left to a scan of the complete deck

@@ -76,6 +76,8 @@ bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
         if (s.models.count(n)) return true;
     for (const auto& n : missed_inductors_)
         if (s.inductors.count(n)) return true;
+    for (const auto& n : missed_options_)
+        if (s.options.count(n)) return true;
     return gmin_used_ && *gmin_used_ != s.gmin;
 }
 
@@ -86,6 +88,8 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
         if (before.models.count(n)) return false;
     for (const auto& n : piece.missed_inductors_)
         if (before.inductors.count(n)) return false;
+    for (const auto& n : piece.missed_options_)
+        if (before.options.count(n)) return false;
     if (piece.gmin_used_ && before.gmin_set) return false;  // it may have used the default
     if (gmin_used_ && piece.gmin_used_ && *gmin_used_ != *piece.gmin_used_) rescan_ = true;
     if (!gmin_used_) gmin_used_ = piece.gmin_used_;
@@ -93,6 +97,7 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     missed_params_.merge(piece.missed_params_);
     missed_models_.merge(piece.missed_models_);
     missed_inductors_.merge(piece.missed_inductors_);
+    missed_options_.merge(piece.missed_options_);
     if (result_.edits.size() < r.edits.size()) result_.edits.resize(r.edits.size());
     for (std::size_t f = 0; f < r.edits.size(); ++f) result_.edits[f].append(std::move(r.edits[f]));
     for (auto& c : r.changes) result_.changes.push_back(std::move(c));
@@ -118,6 +123,12 @@ const std::string* ScalePass::model_type(const std::string& name) const {
 bool ScalePass::is_inductor(const std::string& name) const {
     if (symbols_->inductors.count(name)) return true;
     missed_inductors_.insert(name);
+    return false;
+}
+
+bool ScalePass::option_given(const std::string& key) const {
+    if (symbols_->options.count(key)) return true;
+    missed_options_.insert(key);
     return false;
 }
 
