@@ -230,12 +230,23 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     }
     if (p.problem != NumberProblem::not_a_number)
         fail(t, describe(p.problem, s));
-    // ngspice 39 reads a parameter name in a .meas value (tried: `when v(a)=thr` with
-    // `.param thr=0.5` measured the same time as `=0.5`); other dot cards read it as 0.
+    // ngspice 39 substitutes parameter names in .meas, .ic and .nodeset values (tried: `when
+    // v(a)=thr` with `.param thr=0.5` measured the same time as `=0.5`; `.ic v(b)=vinit` set
+    // v(b); an unknown name there stops it with "Undefined parameter"). The analyses read a
+    // name as 0 (`.tran 10u ts`: "TSTOP is invalid"); .four, .temp and .options do not take
+    // it either ("bad fundamental freq", "Could not set temperature", "bad type").
     std::string keyword = card_keyword(*card_);
-    if (card_->kind == CardKind::dot && keyword != ".meas" && keyword != ".measure")
-        fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 reads it as 0; "
-                            "write {{{}}}", s, s));
+    if (card_->kind == CardKind::dot && keyword != ".meas" && keyword != ".measure" &&
+        keyword != ".ic" && keyword != ".nodeset") {
+        bool analysis = keyword == ".ac" || keyword == ".tran" || keyword == ".noise" ||
+                        keyword == ".disto" || keyword == ".sp" || keyword == ".sens" ||
+                        keyword == ".pss";
+        // .four reads no {expr} either (tried: "bad fundamental freq {f0}").
+        std::string fix = keyword == ".four" ? "the number" : fmt::format("{{{}}}", s);
+        fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 {}; write {}", s,
+                            analysis ? "reads it as 0" : "does not read a parameter name there",
+                            fix));
+    }
     if (!is_param(to_lower(s)) && observing_) {
         // While reading: the parameter may be declared further down; decide at the end.
         rescan_ = true;

@@ -347,6 +347,9 @@ TEST(ScalerTest, ValidFormsOnceRefusedAreScaled) {
         {__LINE__, ".param Rload=1k\n", "R4 out2 OUT R = (time<12ms ? {Rload} : {2*Rload})",
          "R4 out2 OUT R = ((((time*1000)<12ms ? {Rload} : {2*Rload}))*10)"},
         {__LINE__, "", "R5 a b r=(2k) tc1=0.01", "R5 a b r=(((2k))*10) tc1=0.01"},
+        // .ic and .nodeset take parameter names too (tried: `.ic v(b)=vinit` set v(b)).
+        {__LINE__, ".param vinit=0.7\n", ".ic v(b)=vinit", ".ic v(b)=vinit"},
+        {__LINE__, ".param vn=0.3\n", ".nodeset v(b)=vn", ".nodeset v(b)=vn"},
         {__LINE__, "", "C1 a 0 C=(1n+time*1u)", "C1 a 0 C=(((1n+(time*1000)*1u))/10000)"},
     };
     for (const auto& c : cases) {
@@ -381,6 +384,12 @@ TEST(ScalerTest, WhatNgspiceMisreadsIsRefusedWithTheReason) {
         {__LINE__, ".param ts=1m\n.tran 1u ts\n",
          "deck.cir:3:10: error: bare name 'ts' in a value of a dot card: ngspice 39 reads it as 0; "
          "write {ts}\n  .tran 1u ts\n           ^~\n"},
+        {__LINE__, ".param f0=1k\n.four f0 v(a)\n",
+         "deck.cir:3:7: error: bare name 'f0' in a value of a dot card: ngspice 39 does not read a "
+         "parameter name there; write the number\n  .four f0 v(a)\n        ^~\n"},
+        {__LINE__, ".param tt=85\n.temp tt\n",
+         "deck.cir:3:7: error: bare name 'tt' in a value of a dot card: ngspice 39 does not read a "
+         "parameter name there; write {tt}\n  .temp tt\n        ^~\n"},
         {__LINE__, ".param fc=1k c={1/(2*pi*fc*1k)}\n",
          "deck.cir:2:16: error: 'pi' is not known to ngspice 39 in .param and {...} expressions (it "
          "stops with \"Undefined parameter [pi]\"); write the number or define .param pi=...\n"
