@@ -59,6 +59,16 @@ std::optional<double> literal_or_param_value(std::string_view text, const ParamT
     return params.value(to_lower(text));
 }
 
+// Elements by name and occurrence ("r1", 0), so that the n-th R1 of one deck (in another
+// .subckt, or in another .if branch) is paired with the n-th R1 of the other.
+std::map<std::pair<std::string, int>, const ElementValue*> by_occurrence(
+    const std::vector<ElementValue>& values) {
+    std::map<std::pair<std::string, int>, const ElementValue*> out;
+    std::map<std::string, int> seen;
+    for (const auto& e : values) out[{e.name, seen[e.name]++}] = &e;
+    return out;
+}
+
 }  // namespace
 
 std::vector<ElementValue> element_values(const Deck& deck) {
@@ -86,18 +96,24 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 std::string_view value_text;
                 if (keyed) {
                     std::string key = to_lower(w);
-                    if (key.size() == 1 && key[0] == letter && i + 2 < fl.size())
+                    bool value_key = (key.size() == 1 && key[0] == letter) ||
+                                     key == (letter == 'r'   ? "resistance"
+                                             : letter == 'c' ? "capacitance"
+                                                             : "inductance");
+                    if (value_key && i + 2 < fl.size())
                         value_text = c.field_text(i + 2);
                     else {
                         i += 2;
                         continue;
                     }
-                } else if (++positional == 3) {
+                } else if (++positional >= 3) {
                     value_text = w;
                 } else {
                     continue;
                 }
                 auto value = literal_or_param_value(value_text, params, depth > 0);
+                // `C1 a b cmod 1n`: a model name may come before the value.
+                if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
                 if (!value) return;
                 auto pos = c.file->position(c.fields[0].begin);
                 out.push_back(
@@ -112,12 +128,12 @@ std::vector<ElementValue> element_values(const Deck& deck) {
 FactorInference infer_factors(const std::vector<ElementValue>& original,
                               const std::vector<ElementValue>& scaled) {
     FactorInference r;
-    std::map<std::string, const ElementValue*> by_name;
-    for (const auto& e : scaled) by_name[e.name] = &e;
+    auto by_name = by_occurrence(scaled);
+    std::map<std::string, int> seen;
     std::vector<double> km_est;
     std::vector<std::pair<char, double>> reactive;  // letter, ratio
     for (const auto& e : original) {
-        auto it = by_name.find(e.name);
+        auto it = by_name.find({e.name, seen[e.name]++});
         if (it == by_name.end() || e.value == 0 || it->second->value == 0) continue;
         double ratio = it->second->value / e.value;
         if (!(ratio > 0)) continue;
@@ -158,10 +174,10 @@ std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& origina
                                         const std::vector<ElementValue>& scaled, double km,
                                         double kf, double tolerance) {
     std::vector<RatioMismatch> out;
-    std::map<std::string, const ElementValue*> by_name;
-    for (const auto& e : scaled) by_name[e.name] = &e;
+    auto by_name = by_occurrence(scaled);
+    std::map<std::string, int> seen;
     for (const auto& e : original) {
-        auto it = by_name.find(e.name);
+        auto it = by_name.find({e.name, seen[e.name]++});
         if (it == by_name.end()) continue;
         double expected = e.value * predicted_ratio(e.letter, km, kf);
         double dev = expected == 0 ? (it->second->value == 0 ? 0 : 1) : it->second->value / expected - 1;

@@ -3,6 +3,7 @@
 #include <string>
 #include <vector>
 
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include "deck/load.hpp"
@@ -65,6 +66,11 @@ TEST(ElementValues, ExpressionValuesAreEvaluatedWithTheDecksParameters) {
         {__LINE__, ".param c0=1n k=2\nC1 a 0 c={c0*k}\nL1 a 0 l={sqrt(4)*1u}\n",
          {{"c1", 2e-9}, {"l1", 2e-6}}},
         {__LINE__, ".param c0=1n\n.param c0=3n\nC1 a 0 {c0}\n", {{"c1", 3e-9}}},
+        // Long keys, and a C or L model named before the value.
+        {__LINE__, "R1 a 0 resistance = 2k\nC1 a 0 capacitance=3n\nL1 a 0 inductance=4m\n",
+         {{"r1", 2e3}, {"c1", 3e-9}, {"l1", 4e-3}}},
+        {__LINE__, ".model cm c(tc1=0)\nC1 a 0 cm 5n\nR1 a 0 1k rm\nR2 a 0 rm\n",
+         {{"c1", 5e-9}, {"r1", 1e3}}},
         // Inside a .subckt a name may be the instance's own parameter: left out.
         {__LINE__, ".param rr=5\n.subckt blk p q rr=1k\nRx p q {rr}\nR2 p q 3\n.ends\n",
          {{"r2", 3}}},
@@ -83,6 +89,23 @@ TEST(ElementValues, ExpressionValuesAreEvaluatedWithTheDecksParameters) {
             EXPECT_NEAR(got[i].second, c.values[i].second, 1e-12 * c.values[i].second);
         }
     }
+}
+
+// The same name twice (in two .subckt bodies, or in two .if branches): the n-th of one deck
+// is paired with the n-th of the other.
+TEST(InferFactors, RepeatedNamesArePairedInOrder) {
+    const std::string body = "t\n.subckt a p q\nR1 p q {}\nC1 q 0 {}\n.ends\n"
+                             ".subckt b p q\nR1 p q {}\nC1 q 0 {}\n.ends\n.end\n";
+    auto deck = [&](const char* r1, const char* c1, const char* r2, const char* c2) {
+        return fmt::format(fmt::runtime(body), r1, c1, r2, c2);
+    };
+    auto original = values_of("o.cir", deck("1k", "1n", "10k", "3n"));
+    auto scaled = values_of("s.cir", deck("50k", "20f", "500k", "60f"));
+    auto r = infer_factors(original, scaled);
+    ASSERT_TRUE(r.ok) << r.message;
+    EXPECT_NEAR(r.km, 50, 1e-9);
+    EXPECT_NEAR(r.kf, 1000, 1e-6);
+    EXPECT_TRUE(check_ratios(original, scaled, r.km, r.kf, 1e-9).empty());
 }
 
 TEST(InferFactors, FromParameterisedValuesOfBothDecks) {
