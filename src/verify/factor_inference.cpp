@@ -170,6 +170,14 @@ FactorInference infer_factors(const std::vector<ElementValue>& original,
     return r;
 }
 
+std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckAnalyses& scaled) {
+    if (original.ac && scaled.ac && original.ac->fstop > 0 && scaled.ac->fstop > 0)
+        return scaled.ac->fstop / original.ac->fstop;
+    if (original.tran && scaled.tran && original.tran->tstop > 0 && scaled.tran->tstop > 0)
+        return original.tran->tstop / scaled.tran->tstop;
+    return std::nullopt;
+}
+
 std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& original,
                                         const std::vector<ElementValue>& scaled, double km,
                                         double kf, double tolerance) {

@@ -155,6 +155,9 @@ TEST(Corpus, VerifyInfersFactorsFromExpressionValues) {
     const Case cases[] = {
         {__LINE__, "sallen_key_params.cir", "50", "1k", "Km = 50, Kf = 1000"},
         {__LINE__, "func_and_quotes.cir", "2k", "10", "Km = 2000, Kf = 10"},
+        // No capacitor or inductor: Kf from the decks' own analyses.
+        {__LINE__, "sources_all_functions.cir", "50", "1k", "Km = 50, Kf = 1000"},
+        {__LINE__, "vol_and_current_switch.cir", "50", "1k", "Km = 50, Kf = 1000"},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "corpus_test.cpp:" << c.line << ": " << c.deck);

@@ -1,5 +1,6 @@
 // Km and Kf read off a pair of decks, and the element whose ratio disagrees.
 #include <cmath>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -106,6 +107,32 @@ TEST(InferFactors, RepeatedNamesArePairedInOrder) {
     EXPECT_NEAR(r.km, 50, 1e-9);
     EXPECT_NEAR(r.kf, 1000, 1e-6);
     EXPECT_TRUE(check_ratios(original, scaled, r.km, r.kf, 1e-9).empty());
+}
+
+// Without capacitors or inductors Kf comes from the decks' own analyses.
+TEST(InferFactors, KfFromTheAnalysesOfBothDecks) {
+    struct Case {
+        int line;
+        std::string original, scaled;  // analysis cards
+        std::optional<double> kf;
+    };
+    const Case cases[] = {
+        {__LINE__, ".ac dec 10 1 1k\n", ".ac dec 10 1000 1meg\n", 1000},
+        {__LINE__, ".tran 1u 1m\n", ".tran 1n 1u\n", 1000},
+        {__LINE__, ".ac lin 10 1k 2k\n.tran 1u 1m\n", ".ac lin 10 500 1k\n.tran 1u 1m\n", 0.5},
+        {__LINE__, ".ac dec 10 1 1k\n", ".tran 1n 1u\n", std::nullopt},
+        {__LINE__, ".op\n", ".op\n", std::nullopt},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "factor_inference_test.cpp:" << c.line);
+        MemoryFileSystem fs;
+        fs.add("o.cir", "o\nR1 a 0 1\n" + c.original + ".end\n");
+        fs.add("s.cir", "s\nR1 a 0 1\n" + c.scaled + ".end\n");
+        auto kf = kf_from_analyses(find_analyses(load_deck("o.cir", fs)),
+                                   find_analyses(load_deck("s.cir", fs)));
+        ASSERT_EQ(kf.has_value(), c.kf.has_value());
+        if (kf) EXPECT_NEAR(*kf, *c.kf, 1e-12 * *c.kf);
+    }
 }
 
 TEST(InferFactors, FromParameterisedValuesOfBothDecks) {
