@@ -68,7 +68,7 @@ std::set<std::string> corpus_decks() {
 }
 
 struct Outcome {
-    RunResult scaled, verified, by_one;
+    RunResult scaled, verified, inferred, by_one;
     bool by_one_same = false;
     bool wrote_output = false;
 };
@@ -84,6 +84,9 @@ Outcome run_row(const Row& r) {
     // Transients to 1e-6 of each peak, like AC (the default allows 1e-3).
     o.verified = run_binary({"verify", deck, dir.file("scaled.cir"), "--km", r.km, "--kf", r.kf,
                              "--tran-tolerance", "1e-6"},
+                            corpus_dir());
+    // Without factors they are read off the two decks (issue 10 section 5).
+    o.inferred = run_binary({"verify", deck, dir.file("scaled.cir"), "--tran-tolerance", "1e-6"},
                             corpus_dir());
     // Factors of 1 give the deck back byte for byte (written beside it: include paths stay).
     o.by_one = run_binary({"scale", deck, "--km", "1", "--kf", "1"}, corpus_dir());
@@ -123,6 +126,7 @@ TEST(Corpus, EveryDeckScalesAndVerifiesOrIsRefusedAsTheManifestSays) {
             ASSERT_EQ(o.scaled.exit_code, exit_ok) << o.scaled.err;
             EXPECT_EQ(o.verified.exit_code, exit_ok) << o.verified.out << o.verified.err;
             EXPECT_NE(o.verified.out.find("\nPASS: "), std::string::npos) << o.verified.out;
+            EXPECT_EQ(o.inferred.exit_code, exit_ok) << o.inferred.out << o.inferred.err;
             EXPECT_EQ(o.by_one.exit_code, exit_ok) << o.by_one.err;
             EXPECT_TRUE(o.by_one_same) << "factors of 1 changed the deck";
             verified += o.verified.exit_code == exit_ok;
