@@ -90,8 +90,9 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
                           : std::nullopt;
             if (kf) {
                 report.kf = *kf;
-                report.notes.push_back("no matched capacitors or inductors: Kf read off the "
-                                       "decks' .ac or .tran cards");
+                report.notes.push_back(
+                    "no matched capacitors or inductors: Kf read off the "
+                    "decks' .ac or .tran cards");
             } else if (!inf.message.empty()) {
                 report.notes.push_back(inf.message);
             }

@@ -16,18 +16,19 @@ void check_after_end(ScalePass& p) {
             std::size_t first = text.find_first_not_of(" \t\r", line);
             if (first < next) {
                 std::string_view rest = text.substr(first, next - first);
-                bool comment = rest[0] == '*' || rest[0] == ';' || rest[0] == '$' ||
-                               rest.substr(0, 2) == "//";
+                bool comment =
+                    rest[0] == '*' || rest[0] == ';' || rest[0] == '$' || rest.substr(0, 2) == "//";
                 if (!comment) {
                     std::size_t end = next;
-                    while (end > first && (text[end - 1] == '\r' || text[end - 1] == ' ' ||
-                                           text[end - 1] == '\t'))
+                    while (end > first &&
+                           (text[end - 1] == '\r' || text[end - 1] == ' ' || text[end - 1] == '\t'))
                         --end;
                     Token at{TokenKind::after_end, static_cast<std::uint32_t>(t.begin + first),
                              static_cast<std::uint32_t>(t.begin + end)};
-                    p.unscalable(at, "card after .end: the ngspice 39 program reads it as part of "
-                                     "the circuit, and it would stay unscaled; move it before "
-                                     ".end or delete it");
+                    p.unscalable(at,
+                                 "card after .end: the ngspice 39 program reads it as part of "
+                                 "the circuit, and it would stay unscaled; move it before "
+                                 ".end or delete it");
                     return;
                 }
             }

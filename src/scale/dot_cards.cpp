@@ -6,9 +6,9 @@
 #include "deck/spice_number.hpp"
 #include "scale/expression.hpp"
 #include "scale/numparam_names.hpp"
-#include "scale/tolerances.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
+#include "scale/tolerances.hpp"
 
 namespace deckscale {
 namespace {

@@ -148,10 +148,11 @@ void scale_passive(ScalePass& p, char letter) {
             // stops (tried: `C1 out 0 1n cmod` and `C1 out 0 c=1n cmod` fail, `C1 out 0 cmod 1n`
             // works; R takes either order).
             if ((letter == 'c' || letter == 'l') && has_value)
-                p.fail(t, fmt::format("ngspice 39 reads the model name '{}' after the value of '{}' "
-                                      "as an unknown parameter and stops; write the model name "
-                                      "before the value",
-                                      p.text(t), c.field_text(0)));
+                p.fail(t,
+                       fmt::format("ngspice 39 reads the model name '{}' after the value of '{}' "
+                                   "as an unknown parameter and stops; write the model name "
+                                   "before the value",
+                                   p.text(t), c.field_text(0)));
             if (letter == 'l' && type != "l")
                 p.unscalable(t, fmt::format("inductor model '{}' of type '{}'", p.text(t), type));
         } else if (has_value && p.is_number(t)) {

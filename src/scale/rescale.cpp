@@ -243,9 +243,9 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
                         keyword == ".pss";
         // .four reads no {expr} either (tried: "bad fundamental freq {f0}").
         std::string fix = keyword == ".four" ? "the number" : fmt::format("{{{}}}", s);
-        fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 {}; write {}", s,
-                            analysis ? "reads it as 0" : "does not read a parameter name there",
-                            fix));
+        fail(t,
+             fmt::format("bare name '{}' in a value of a dot card: ngspice 39 {}; write {}", s,
+                         analysis ? "reads it as 0" : "does not read a parameter name there", fix));
     }
     if (!is_param(to_lower(s)) && observing_) {
         // While reading: the parameter may be declared further down; decide at the end.

@@ -30,7 +30,8 @@ void write_solver_tolerances(ScalePass& p) {
     for (const auto& t : c.tokens)
         if (t.kind == TokenKind::line_end) eol = std::string(c.text(t));
     std::uint32_t at = c.end();
-    if (!c.tokens.empty() && c.tokens.back().kind == TokenKind::line_end) at = c.tokens.back().begin;
+    if (!c.tokens.empty() && c.tokens.back().kind == TokenKind::line_end)
+        at = c.tokens.back().begin;
     p.insert(at, eol + ".options" + options, "solver tolerances written out", first_factor);
 }
 
