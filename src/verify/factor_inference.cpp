@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <map>
+#include <set>
 
 #include "base/text_util.hpp"
 #include "deck/param_eval.hpp"
@@ -49,14 +50,25 @@ ParamTable deck_params(const Deck& deck) {
 }
 
 // A literal number, a `{…}`/`'…'` expression or a bare parameter name, evaluated with the
-// deck's parameters; inside a .subckt only literals (its parameters vary per instance).
+// deck's parameters. Names in `local` (the parameters of the enclosing .subckt cards and the
+// .param cards inside them) vary per instance: a value that uses one gives nothing.
 std::optional<double> literal_or_param_value(std::string_view text, const ParamTable& params,
-                                             bool in_subckt) {
+                                             const std::set<std::string>& local) {
     auto p = parse_spice_number(text);
     if (p.number) return p.number->value;
-    if (in_subckt || p.problem != NumberProblem::not_a_number) return std::nullopt;
-    if (text.front() == '{' || text.front() == '\'') return params.evaluate(text);
-    return params.value(to_lower(text));
+    if (p.problem != NumberProblem::not_a_number) return std::nullopt;
+    if (text.front() == '{' || text.front() == '\'') text = text.substr(1, text.size() - 2);
+    return evaluate_param_expression(text, [&](const std::string& name) -> std::optional<double> {
+        if (local.count(name)) return std::nullopt;
+        return params.value(name);
+    });
+}
+
+// Keys of `key=value` pairs of a card (lower case).
+void add_keys(const Card& c, std::set<std::string>& to) {
+    for (std::size_t i = 1; i + 1 < c.fields.size(); ++i)
+        if (c.fields[i].kind == TokenKind::word && c.fields[i + 1].kind == TokenKind::equals)
+            to.insert(to_lower(c.field_text(i)));
 }
 
 // Elements by name and occurrence ("r1", 0), so that the n-th R1 of one deck (in another
@@ -75,12 +87,17 @@ std::vector<ElementValue> element_values(const Deck& deck) {
     std::vector<ElementValue> out;
     ParamTable params = deck_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
-        int depth = 0;  // inside a .subckt, parameters may be the instance's own
+        // Parameters of the enclosing .subckt cards, one set per open .subckt.
+        std::vector<std::set<std::string>> open;
+        std::set<std::string> local;
         deck.visit_file(f, [&](const Card& c) {
             if (c.kind == CardKind::dot) {
                 std::string kw = card_keyword(c);
-                if (kw == ".subckt") ++depth;
-                if (kw == ".ends" && depth > 0) --depth;
+                if (kw == ".subckt") open.emplace_back();
+                if (kw == ".ends" && !open.empty()) open.pop_back();
+                if ((kw == ".subckt" || kw == ".param") && !open.empty()) add_keys(c, open.back());
+                local.clear();
+                for (const auto& names : open) local.insert(names.begin(), names.end());
             }
             if (c.kind != CardKind::element || c.fields.empty()) return;
             std::string name = card_keyword(c);
@@ -111,7 +128,7 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 } else {
                     continue;
                 }
-                auto value = literal_or_param_value(value_text, params, depth > 0);
+                auto value = literal_or_param_value(value_text, params, local);
                 // `C1 a b cmod 1n`: a model name may come before the value.
                 if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
                 if (!value) return;

@@ -23,7 +23,8 @@ struct ElementValue {
 
 // R, C and L elements with a value that is a literal, a `{…}`/`'…'` expression or a bare parameter
 // name evaluated with the deck's top-level .param definitions (deck/param_eval), from every file.
-// Values inside a .subckt count only as literals; values that do not evaluate are left out.
+// Inside a .subckt a value that uses one of the subcircuit's own parameters is left out (it
+// varies per instance), as is any value that does not evaluate.
 std::vector<ElementValue> element_values(const Deck& deck);
 
 struct RatioMismatch {

@@ -72,9 +72,14 @@ TEST(ElementValues, ExpressionValuesAreEvaluatedWithTheDecksParameters) {
          {{"r1", 2e3}, {"c1", 3e-9}, {"l1", 4e-3}}},
         {__LINE__, ".model cm c(tc1=0)\nC1 a 0 cm 5n\nR1 a 0 1k rm\nR2 a 0 rm\n",
          {{"c1", 5e-9}, {"r1", 1e3}}},
-        // Inside a .subckt a name may be the instance's own parameter: left out.
+        // Inside a .subckt a name may be the instance's own parameter: left out; the deck's
+        // own parameters are evaluated there too.
         {__LINE__, ".param rr=5\n.subckt blk p q rr=1k\nRx p q {rr}\nR2 p q 3\n.ends\n",
          {{"r2", 3}}},
+        {__LINE__,
+         ".param cg=2n\n.subckt blk p q params: rr=1k\n.param rh={rr/2}\nRx p q {rr*2}\n"
+         "Ry p q rh\nCx q 0 {cg}\n.ends\nCz q 0 {rr}\n",
+         {{"cx", 2e-9}}},
         // What ngspice 39 cannot evaluate gives no value: pi, unknown names, cycles.
         {__LINE__, ".param w={2*pi}\nR1 a 0 {w}\nR2 a 0 {nope}\n.param x={y} y={x}\nR3 a 0 {x}\n",
          {}},
