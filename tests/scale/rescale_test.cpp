@@ -351,6 +351,9 @@ TEST(ScalerTest, ValidFormsOnceRefusedAreScaled) {
         {__LINE__, ".param vinit=0.7\n", ".ic v(b)=vinit", ".ic v(b)=vinit"},
         {__LINE__, ".param vn=0.3\n", ".nodeset v(b)=vn", ".nodeset v(b)=vn"},
         {__LINE__, "", "C1 a 0 C=(1n+time*1u)", "C1 a 0 C=(((1n+(time*1000)*1u))/10000)"},
+        // A behavioural charge (ngspice 39 manual 3.3.9; read by ngspice 39, tried).
+        {__LINE__, "", "C2 a 0 Q='1u*v(a) + 0.1u*v(a)*v(a)'",
+         "C2 a 0 Q='(1u*v(a) + 0.1u*v(a)*v(a))/10000'"},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.in);
