@@ -6,6 +6,8 @@
 
 #include <fmt/format.h>
 
+#include "verify/helper_vectors.hpp"
+
 namespace deckscale {
 
 bool Comparison::passed() const {
@@ -19,32 +21,22 @@ namespace {
 
 // Node voltages and branch currents ("x#branch": voltage sources, inductors, E and H
 // sources) are compared. Other '#' vectors are internal states of devices such as
-// transmission lines ("t1#i1"), in the device's own normalisation, not port currents.
-bool internal_state(const SimVector& v) {
+// transmission lines ("t1#i1"), in the device's own normalisation, not port currents; so are
+// the states of the helpers ngspice makes for behavioural L and C (verify/helper_vectors).
+bool internal_state(const SimVector& v, const SimPlot& p) {
     auto hash = v.name.find('#');
-    return hash != std::string::npos && v.name.compare(hash, std::string::npos, "#branch") != 0;
+    return (hash != std::string::npos && v.name.compare(hash, std::string::npos, "#branch") != 0) ||
+           translation_state(v, p);
 }
 
-bool compared(const SimVector& v) {
-    return (v.kind == VectorKind::voltage || v.kind == VectorKind::current) && !internal_state(v);
+bool compared(const SimVector& v, const SimPlot& p) {
+    return (v.kind == VectorKind::voltage || v.kind == VectorKind::current) &&
+           !internal_state(v, p);
 }
 
 void note_internal_states(const SimPlot& o, Comparison& c) {
     for (const auto& v : o.vectors)
-        if (internal_state(v)) c.not_compared.push_back(v.name);
-}
-
-// ngspice 39 reads `G1 0 out cur='…'` (and VALUE=, TABLE) as a unit VCCS driven by an
-// internal node `g1_int1` whose voltage is the current in amperes (tried: `listing expand`
-// shows `g1 0 out g1_int1 0 1` and `bg1 g1_int1 0 v=…`). That node scales like a current.
-bool current_as_voltage(const SimVector& v) {
-    const std::string& n = v.name;
-    auto at = n.rfind("_int");
-    if (v.kind != VectorKind::voltage || n.empty() || n[0] != 'g' || at == std::string::npos ||
-        at + 4 == n.size())
-        return false;
-    return std::all_of(n.begin() + static_cast<std::ptrdiff_t>(at + 4), n.end(),
-                       [](char c) { return c >= '0' && c <= '9'; });
+        if (internal_state(v, o)) c.not_compared.push_back(v.name);
 }
 
 // Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents.
@@ -66,10 +58,10 @@ void sort_worst_first(Comparison& c) {
 // Vectors of the original that the scaled deck lacks, and the other way round.
 void match_names(const SimPlot& o, const SimPlot& s, Comparison& c) {
     for (const auto& v : o.vectors)
-        if (compared(v) && !s.find(v.name))
+        if (compared(v, o) && !s.find(v.name))
             c.problems.push_back(fmt::format("'{}' exists in the original but not in the scaled deck", v.name));
     for (const auto& v : s.vectors)
-        if (compared(v) && !o.find(v.name))
+        if (compared(v, s) && !o.find(v.name))
             c.problems.push_back(fmt::format("'{}' exists in the scaled deck but not in the original", v.name));
 }
 
@@ -110,7 +102,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
     match_names(o, s, c);
     note_internal_states(o, c);
     for (const auto& vo : o.vectors) {
-        if (!compared(vo)) continue;
+        if (!compared(vo, o)) continue;
         const SimVector* vs = s.find(vo.name);
         if (!vs) continue;
         VectorResult r{vo.name, vo.kind};
@@ -167,13 +159,13 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     double vmax = 0, imax = 0;
     for (const SimPlot* p : {&o, &s})
         for (const auto& v : p->vectors)
-            if (compared(v) && !v.values.empty()) {
+            if (compared(v, *p) && !v.values.empty()) {
                 double x = std::abs(v.values[0]) * (p == &s ? back_factor(v, km) : 1);
                 double& m = v.kind == VectorKind::current ? imax : vmax;
                 m = std::max(m, x);
             }
     for (const auto& vo : o.vectors) {
-        if (!compared(vo) || vo.values.empty()) continue;
+        if (!compared(vo, o) || vo.values.empty()) continue;
         const SimVector* vs = s.find(vo.name);
         if (!vs || vs->values.empty()) continue;
         VectorResult r{vo.name, vo.kind};
@@ -214,7 +206,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
                                          "time, not {:.6g} s .. {:.6g} s",
                                          tmap.front(), tmap.back(), c.first, c.last));
     for (const auto& vo : o.vectors) {
-        if (!compared(vo)) continue;
+        if (!compared(vo, o)) continue;
         const SimVector* vs = s.find(vo.name);
         if (!vs) continue;
         VectorResult r{vo.name, vo.kind};
