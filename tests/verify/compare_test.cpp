@@ -69,69 +69,6 @@ TEST(CompareAc, CurrentsAreMultipliedByKmAndFrequenciesByKf) {
     EXPECT_FALSE(d.passed());
 }
 
-// The internal node of a G source with an expression carries its current as a voltage
-// (ngspice 39 `listing expand`: `g1 0 iout g1_int1 0 1`), so it is compared times Km; an
-// E source's `e1_int1` and ordinary nodes stay voltages.
-TEST(CompareAc, InternalNodeOfAnExpressionGSourceIsACurrent) {
-    struct Case {
-        int line;
-        std::string name;
-        double scaled_by;  // the scaled deck's value / the original's
-        bool passes;
-    };
-    const double km = 50, kf = 1e3;
-    const Case cases[] = {
-        {__LINE__, "g1_int1", 1 / km, true},   {__LINE__, "gload_int12", 1 / km, true},
-        {__LINE__, "g1_int1", 1, false},       {__LINE__, "e1_int1", 1, true},
-        {__LINE__, "g1_intx", 1, true},        {__LINE__, "gate", 1, true},
-    };
-    for (const auto& c : cases) {
-        SCOPED_TRACE(testing::Message() << "compare_test.cpp:" << c.line << ": " << c.name);
-        SimPlot original = ac_plot(kFreqs, 1000);
-        SimPlot scaled = ac_plot(times(kFreqs, kf), 1000 * kf, 1e-3 / km);
-        original.vectors.push_back(vec(c.name, VectorKind::voltage, reals({2e-3, 2e-3, 2e-3, 2e-3})));
-        double x = 2e-3 * c.scaled_by;
-        scaled.vectors.push_back(vec(c.name, VectorKind::voltage, reals({x, x, x, x})));
-        EXPECT_EQ(compare_ac(original, scaled, km, kf, Tolerances{}).passed(), c.passes);
-    }
-}
-
-// The helpers ngspice 39 makes for `C1 a 0 Q='…'` and `L1 a b L='…'` (`listing expand`:
-// `lc1 c1_int1 0 1` carries the charge, `l1_int2` holds 1 H times di/dt): not compared, and
-// listed; `c1_int1` (dQ/dt) is a current. A user's inductor named lc… without a c…_int1 node
-// is compared as usual.
-TEST(CompareAc, HelperStatesOfBehaviouralCapacitorsAndInductors) {
-    struct Case {
-        int line;
-        std::vector<std::pair<std::string, VectorKind>> extra;  // added to both plots
-        double scaled_by;                                        // scaled / original value
-        bool passes;
-        std::vector<std::string> not_compared;
-    };
-    const double km = 50, kf = 1e3;
-    const auto V = VectorKind::voltage, I = VectorKind::current;
-    const Case cases[] = {
-        {__LINE__, {{"c1_int1", V}}, 1 / km, true, {}},
-        {__LINE__, {{"c1_int1", V}}, 1, false, {}},
-        {__LINE__, {{"l1_int2", V}}, 20, true, {"l1_int2"}},
-        {__LINE__, {{"c1_int1", V}, {"lc1#branch", I}}, 1 / km, true, {"lc1#branch"}},
-        {__LINE__, {{"lcoil#branch", I}}, 1, false, {}},
-    };
-    for (const auto& c : cases) {
-        SCOPED_TRACE(testing::Message() << "compare_test.cpp:" << c.line);
-        SimPlot original = ac_plot(kFreqs, 1000);
-        SimPlot scaled = ac_plot(times(kFreqs, kf), 1000 * kf, 1e-3 / km);
-        for (const auto& [name, kind] : c.extra) {
-            double x = 2e-3 * c.scaled_by;
-            original.vectors.push_back(vec(name, kind, reals({2e-3, 2e-3, 2e-3, 2e-3})));
-            scaled.vectors.push_back(vec(name, kind, reals({x, x, x, x})));
-        }
-        Comparison r = compare_ac(original, scaled, km, kf, Tolerances{});
-        EXPECT_EQ(r.passed(), c.passes);
-        EXPECT_EQ(r.not_compared, c.not_compared);
-    }
-}
-
 TEST(CompareAc, FrequencyGridMismatchIsAProblem) {
     struct Case {
         int line;
