@@ -10,6 +10,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/checks.hpp"
+#include "deck/include_cycles.hpp"
 #include "deck/pieces.hpp"
 
 namespace deckscale {
@@ -47,15 +48,7 @@ public:
     std::size_t load(const std::string& path, FileRole role, const SourceFile* from,
                      const Token* from_token) {
         std::string id = fs_.identity(path);
-        auto on_stack = std::find(stack_ids_.begin(), stack_ids_.end(), id);
-        if (on_stack != stack_ids_.end()) {
-            std::string chain;
-            for (auto it = on_stack; it != stack_ids_.end(); ++it)
-                chain += stack_paths_[it - stack_ids_.begin()] + " -> ";
-            chain += path;
-            throw DeckError(from->diagnose(Severity::error, from_token->begin, from_token->size(),
-                                           fmt::format("include cycle: {}", chain)));
-        }
+        // A file is read once; cycles are looked for in the (file, section) graph at the end.
         if (auto it = loaded_.find(id); it != loaded_.end()) return it->second;
 
         std::string problem;
@@ -81,8 +74,6 @@ public:
         std::size_t index = deck_.files.size();
         deck_.files.push_back(DeckFile{std::move(source), role});
         loaded_[id] = index;
-        stack_ids_.push_back(id);
-        stack_paths_.push_back(path);
         try {
             check_file(index);
         } catch (DeckError& e) {
@@ -94,8 +85,6 @@ public:
             }
             throw;
         }
-        stack_ids_.pop_back();
-        stack_paths_.pop_back();
         return index;
     }
 
@@ -104,6 +93,7 @@ private:
         const SourceFile& file = *deck_.files[index].source;
         FileRole role = deck_.files[index].role;
         std::vector<OpenSubckt> subckts;
+        std::string section;  // the .lib section the card sits in
         CardVisitor visit = [&](const Card& c) {
             gather_symbols(c, deck_.symbols);
             std::string kw = c.kind == CardKind::dot ? card_keyword(c) : std::string();
@@ -119,15 +109,19 @@ private:
                 subckts.pop_back();
             } else if (kw == ".include" || kw == ".inc" ||
                        (kw == ".lib" && value_fields(c) >= 2)) {
-                follow_include(index, c, kw == ".lib");
-            } else if (kw == ".lib" && value_fields(c) == 1 && names_a_file(c)) {
+                follow_include(index, c, kw == ".lib", section);
+            } else if (kw == ".endl") {
+                section.clear();
+            } else if (kw == ".lib" && value_fields(c) == 1 && !names_a_file(c)) {
+                section = to_lower(c.field_text(1));
+            } else if (kw == ".lib" && value_fields(c) == 1) {
                 // ".lib file" without a section: a section header inside a library, but in a
                 // deck that names an existing file it is the include form some other simulators use.
                 deck_.warnings.push_back(file.diagnose(
                     Severity::warning, c.fields[1].begin, c.fields[1].size(),
                     ".lib with a file name and no section is read as .include (ngspice 39 reads "
                     "it so only with 'set ngbehavior=lt' or 'ps')"));
-                follow_include(index, c, false);
+                follow_include(index, c, false, section);
             }
         };
         std::vector<std::uint32_t> starts;
@@ -202,7 +196,7 @@ private:
         return fs_.read(join_path(directory_of(c.file->path()), name)).has_value();
     }
 
-    void follow_include(std::size_t index, const Card& c, bool is_lib) {
+    void follow_include(std::size_t index, const Card& c, bool is_lib, const std::string& section) {
         const Token& path_token = c.fields[1];
         std::string name = unquote(c.text(path_token));
         std::string path = join_path(directory_of(c.file->path()), name);
@@ -217,14 +211,53 @@ private:
                 }
         }
         ref.target_file = load(path, FileRole::include, c.file, &path_token);
+        edges_.push_back(IncludeEdge{index, section, ref.target_file, to_lower(ref.section)});
+        edge_paths_.push_back(path);
         deck_.includes.push_back(ref);
     }
 
+public:
+    // Throws for the first include cycle: the same (file, section) twice on one chain.
+    void check_cycles(const std::string& top_path) const {
+        auto chain = first_include_cycle(edges_);
+        if (chain.empty()) return;
+        auto label = [&](std::size_t edge) {
+            const std::string& path = edge == SIZE_MAX ? top_path : edge_paths_[edge];
+            const std::string& sec = edge == SIZE_MAX ? std::string() : edges_[edge].to_section;
+            return sec.empty() ? path : fmt::format("{} ({})", path, sec);
+        };
+        const IncludeEdge& last = edges_[chain.back()];
+        // The chain starts where the closing edge's target was first entered.
+        std::size_t start = 0;
+        std::size_t entered = SIZE_MAX;  // the edge that entered the node (SIZE_MAX: the top)
+        if (!(last.to_file == 0 && last.to_section.empty()))
+            for (std::size_t k = 0; k < chain.size(); ++k)
+                if (edges_[chain[k]].to_file == last.to_file &&
+                    edges_[chain[k]].to_section == last.to_section) {
+                    start = k + 1;
+                    entered = chain[k];
+                    break;
+                }
+        std::string text = label(entered);
+        for (std::size_t k = start; k < chain.size(); ++k) text += " -> " + label(chain[k]);
+        auto at = [&](std::size_t edge, Severity sev, std::string message) {
+            const IncludeRef& ref = deck_.includes[edge];
+            return deck_.files[ref.from_file].source->diagnose(sev, ref.path_token.begin,
+                                                               ref.path_token.size(), message);
+        };
+        Diagnostic d = at(chain.back(), Severity::error, fmt::format("include cycle: {}", text));
+        for (std::size_t k = chain.size() - 1; k-- > 0;)
+            d.notes.push_back(at(chain[k], Severity::note, "included from here"));
+        throw DeckError(std::move(d));
+    }
+
+private:
     const FileSystem& fs_;
     const DeckObserver& observer_;
     const PieceReading& pieces_;
     Deck deck_;
-    std::vector<std::string> stack_ids_, stack_paths_;
+    std::vector<IncludeEdge> edges_;  // one per entry of deck_.includes, in the same order
+    std::vector<std::string> edge_paths_;
     std::map<std::string, std::size_t> loaded_;
 };
 
@@ -238,6 +271,7 @@ Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver
                const PieceReading& pieces) {
     Loader loader(fs, observer, pieces);
     loader.load(path, FileRole::deck, nullptr, nullptr);
+    loader.check_cycles(path);
     return loader.take();
 }
 

@@ -43,8 +43,9 @@ void read_piece(Piece& p, const SourceFile& file, std::size_t index, FileRole ro
             [&](const Card& c) {
                 if (cancel.load(std::memory_order_relaxed)) throw StopReading{};
                 std::string kw = c.kind == CardKind::dot ? card_keyword(c) : std::string();
-                // Both depend on what comes before the piece: left to the main thread.
-                if (kw == ".include" || kw == ".inc" || kw == ".lib") throw StopReading{};
+                // These depend on what comes before the piece: left to the main thread.
+                if (kw == ".include" || kw == ".inc" || kw == ".lib" || kw == ".endl")
+                    throw StopReading{};
                 if (kw == ".ends" && p.opened.empty()) throw StopReading{};
                 gather_symbols(c, p.local.symbols);
                 check_card(c, kw, p.local.warnings);

@@ -7,14 +7,25 @@
 
 namespace deckscale {
 
+namespace {
+
+// One change per line: a line break inside an inserted text (a card of its own) is shown as \n.
+std::string one_line(const std::string& s) {
+    std::string out;
+    for (char ch : s) out += ch == '\n' ? "\\n" : ch == '\r' ? "\\r" : std::string(1, ch);
+    return out;
+}
+
+}  // namespace
+
 std::string change_list_text(const Deck& deck, const ScaleResult& result) {
     std::string out;
     for (const auto& c : result.changes) {
         const SourceFile& f = *deck.files[c.file].source;
         auto pos = f.position(c.offset);
         out += fmt::format("{}:{}:{}  {}  {}  {} -> {}  x{}{}\n", f.path(), pos.line, pos.column,
-                           c.element, c.field, c.old_text.empty() ? "(none)" : c.old_text,
-                           c.new_text, factor_text(c.factor),
+                           c.element, c.field, c.old_text.empty() ? "(none)" : one_line(c.old_text),
+                           one_line(c.new_text), factor_text(c.factor),
                            c.unit.empty() || c.unit == "-" ? "" : " [" + c.unit + "]");
     }
     return out;

@@ -5,18 +5,25 @@
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
 #include "scale/expression.hpp"
+#include "scale/numparam_names.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
 
 namespace deckscale {
 namespace {
 
+// Words an analysis card takes among its values (ngspice 39 manual §15.3.10 `.tran … <uic>`;
+// the `.pss` card ends in `<uic>` too): keywords, never parameter names.
+bool analysis_keyword(std::string_view scope, std::string_view word) {
+    return (scope == ".tran" || scope == ".pss") && iequals(word, "uic");
+}
+
 void scale_positional(ScalePass& p, const std::vector<Atom>& atoms, std::string_view scope,
                       std::size_t skip = 0) {
     std::size_t n = 0;
     for (std::size_t i = skip; i < atoms.size(); ++i) {
         if (atoms[i].key) continue;
-        if (iequals(p.text(*atoms[i].value), "uic")) continue;  // .tran's flag (manual 15.3.10)
+        if (analysis_keyword(scope, p.text(*atoms[i].value))) continue;
         ++n;
         auto u = find_rule(scope, fmt::format("#{}", n));
         if (!u) continue;  // words such as 'uic' or output names
@@ -189,6 +196,9 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
                     }
                 p.scale_value(c.fields[i + 1], current ? Unit::ampere : Unit::volt, "value");
             }
+    } else if (kw == ".param") {
+        for (std::size_t i = 2; i < c.fields.size(); ++i)
+            if (c.fields[i - 1].kind == TokenKind::equals) check_numparam_names(p, c.fields[i]);
     } else if (kw == ".temp") {
         for (const auto& a : atoms)
             if (!a.key) p.scale_value(*a.value, Unit::none, "value");

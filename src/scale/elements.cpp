@@ -3,6 +3,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/numparam_names.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
 
@@ -25,6 +26,30 @@ void scale_keyed(ScalePass& p, const Atom& a, std::string_view scope) {
         return;
     }
     p.scale_value(*a.value, *unit, key);
+}
+
+// `R = (expr)`, `C=(…)`, `L = (…)`: a behavioural value in plain parentheses, blanks around
+// '=' or not (ngspice 39 reads `R4 a b R = (time<12ms ? {r} : {2*r})` as a resistance that
+// changes with time). Scaled as an expression; returns the index of the closing ')' field,
+// or 0 when the key is not followed by '(' or the parentheses do not close.
+std::size_t scale_parenthesised(ScalePass& p, const Atom& a, std::string_view scope) {
+    const auto& fl = p.card().fields;
+    std::size_t open = a.field + 2;
+    if (a.value || open >= fl.size() || fl[a.field + 1].kind != TokenKind::equals ||
+        fl[open].kind != TokenKind::lparen)
+        return 0;
+    int depth = 0;
+    for (std::size_t i = open; i < fl.size(); ++i) {
+        if (fl[i].kind == TokenKind::lparen) ++depth;
+        if (fl[i].kind != TokenKind::rparen || --depth != 0) continue;
+        std::string key = to_lower(p.text(*a.key));
+        auto unit = find_rule(scope, key);
+        if (!unit) return 0;
+        p.scale_expression(fl[open].begin, fl[i].end, factor_of(*unit, p.factors()), key,
+                           unit_name(*unit));
+        return i;
+    }
+    return 0;
 }
 
 // Degree of the k-th coefficient (0-based) of an nd-dimensional SPICE POLY: the terms are
@@ -90,12 +115,15 @@ void scale_passive(ScalePass& p, char letter) {
     // Two nodes, then the value (or a model name), then key=value parameters.
     std::size_t positional = 0;
     bool has_value = false;
+    std::size_t inside_until = 0;  // fields of a parenthesised value, already scaled
     for (const auto& a : atoms) {
+        if (a.field <= inside_until) continue;
         if (a.key) {
             std::string key = to_lower(p.text(*a.key));
-            if (key == scope || key == "r" || key == "c" || key == "l" || key == "resistance" ||
-                key == "capacitance" || key == "inductance")
-                has_value = true;
+            bool value_key = key == scope || key == "r" || key == "c" || key == "l" ||
+                             key == "resistance" || key == "capacitance" || key == "inductance";
+            if (value_key) has_value = true;
+            if (value_key && (inside_until = scale_parenthesised(p, a, scope)) != 0) continue;
             scale_keyed(p, a, scope);
             continue;
         }
@@ -106,6 +134,7 @@ void scale_passive(ScalePass& p, char letter) {
         if (!has_value && p.is_value_token(t)) {
             has_value = true;
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace) {
+                check_numparam_names(p, t);
                 p.scale_expression(t.begin, t.end, factor_of(value_unit, p.factors()), "value",
                                    unit_name(value_unit));
             } else {
@@ -115,6 +144,15 @@ void scale_passive(ScalePass& p, char letter) {
         } else if (const std::string* model = p.model_type(to_lower(p.text(t)))) {
             // A model-based element: its model card is scaled (see scale_model).
             const std::string& type = *model;
+            // ngspice 39 reads a C or L model name after the value as an unknown parameter and
+            // stops (tried: `C1 out 0 1n cmod` and `C1 out 0 c=1n cmod` fail, `C1 out 0 cmod 1n`
+            // works; R takes either order).
+            if ((letter == 'c' || letter == 'l') && has_value)
+                p.fail(t,
+                       fmt::format("ngspice 39 reads the model name '{}' after the value of '{}' "
+                                   "as an unknown parameter and stops; write the model name "
+                                   "before the value",
+                                   p.text(t), c.field_text(0)));
             if (letter == 'l' && type != "l")
                 p.unscalable(t, fmt::format("inductor model '{}' of type '{}'", p.text(t), type));
         } else if (has_value && p.is_number(t)) {

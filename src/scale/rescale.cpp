@@ -8,6 +8,7 @@
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
 #include "scale/codemodels.hpp"
+#include "scale/after_end.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
 
@@ -132,6 +133,7 @@ bool ScalePass::is_inductor(const std::string& name) const {
     return false;
 }
 
+
 double ScalePass::gmin() const {
     gmin_used_ = symbols_->gmin;
     return symbols_->gmin;
@@ -147,6 +149,10 @@ void ScalePass::visit(const Card& c) {
     card_marked_ = false;
     if (c.kind == CardKind::control) {
         scale_control_block(*this);
+        return;
+    }
+    if (c.kind == CardKind::after_end) {
+        check_after_end(*this);
         return;
     }
     if (c.fields.empty()) return;
@@ -249,9 +255,23 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     }
     if (p.problem != NumberProblem::not_a_number)
         fail(t, describe(p.problem, s));
-    if (card_->kind == CardKind::dot)
-        fail(t, fmt::format("bare name '{}' in a value of a dot card: ngspice 39 reads it as 0; "
-                            "write {{{}}}", s, s));
+    // ngspice 39 substitutes parameter names in .meas, .ic and .nodeset values (tried: `when
+    // v(a)=thr` with `.param thr=0.5` measured the same time as `=0.5`; `.ic v(b)=vinit` set
+    // v(b); an unknown name there stops it with "Undefined parameter"). The analyses read a
+    // name as 0 (`.tran 10u ts`: "TSTOP is invalid"); .four, .temp and .options do not take
+    // it either ("bad fundamental freq", "Could not set temperature", "bad type").
+    std::string keyword = card_keyword(*card_);
+    if (card_->kind == CardKind::dot && keyword != ".meas" && keyword != ".measure" &&
+        keyword != ".ic" && keyword != ".nodeset") {
+        bool analysis = keyword == ".ac" || keyword == ".tran" || keyword == ".noise" ||
+                        keyword == ".disto" || keyword == ".sp" || keyword == ".sens" ||
+                        keyword == ".pss";
+        // .four reads no {expr} either (tried: "bad fundamental freq {f0}").
+        std::string fix = keyword == ".four" ? "the number" : fmt::format("{{{}}}", s);
+        fail(t,
+             fmt::format("bare name '{}' in a value of a dot card: ngspice 39 {}; write {}", s,
+                         analysis ? "reads it as 0" : "does not read a parameter name there", fix));
+    }
     if (!is_param(to_lower(s)) && observing_) {
         // While reading: the parameter may be declared further down; decide at the end.
         rescan_ = true;

@@ -19,6 +19,8 @@ constexpr FieldRule kRules[] = {
     {"c", "ic", U::volt}, {"c", "m", U::none}, {"c", "scale", U::none}, {"c", "tc1", U::none},
     {"c", "tc2", U::none}, {"c", "temp", U::none}, {"c", "dtemp", U::none}, {"c", "l", U::none},
     {"c", "w", U::none},
+    // behavioural charge Q='expr' (3.3.9; notes §4): coulomb scales like farad
+    {"c", "q", U::farad},
     // ---- inductor (3.3.10) ----
     {"l", "value", U::henry}, {"l", "l", U::henry}, {"l", "inductance", U::henry},
     {"l", "ic", U::ampere}, {"l", "m", U::none}, {"l", "scale", U::none}, {"l", "nt", U::none},

@@ -65,7 +65,10 @@ bool needs_code_models(const std::vector<std::string>& cards) {
         if (first == std::string::npos || card[first] == '*') continue;
         char c = card[first];
         if (c == 'a' || c == 'u') return true;
-        if (has_word(card, "poly") || has_word(card, "laplace") || has_word(card, "freq"))
+        // TABLE too: ngspice 39 turns `E2 tab 0 TABLE {v(in)} = (…)` into a code-model
+        // device (tried: "ae2 %v(e2_int2) %v(e2_int1) xfer_e2" fails without them).
+        if (has_word(card, "poly") || has_word(card, "laplace") || has_word(card, "freq") ||
+            has_word(card, "table"))
             return true;
         if (card.compare(first, 6, ".model") == 0 && !builtin_type(model_type(card.substr(first))))
             return true;

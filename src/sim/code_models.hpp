@@ -11,8 +11,9 @@
 namespace deckscale {
 
 // True unless the cards certainly use no code model. Conservative: an 'A' (XSPICE) or 'U'
-// element, the word POLY (translated to the spice2poly model), LAPLACE or FREQ (translated by
-// compatibility modes), or a .model of a type ngspice does not build in each count as use.
+// element, the word POLY (translated to the spice2poly model), TABLE (E/G tables become code-
+// model devices), LAPLACE or FREQ (translated by compatibility modes), or a .model of a type
+// ngspice does not build in each count as use.
 // A wrong "false" makes ngspice reject the deck (unknown device or model), never pass it.
 bool needs_code_models(const std::vector<std::string>& cards);
 

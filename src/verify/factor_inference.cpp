@@ -3,8 +3,10 @@
 #include <algorithm>
 #include <cmath>
 #include <map>
+#include <set>
 
 #include "base/text_util.hpp"
+#include "deck/param_eval.hpp"
 #include "deck/spice_number.hpp"
 
 namespace deckscale {
@@ -25,12 +27,78 @@ double predicted_ratio(char letter, double km, double kf) {
     return 1;
 }
 
+// Top-level `.param name=value` definitions of every file (those inside a .subckt are the
+// subcircuit's own and are left out).
+ParamTable deck_params(const Deck& deck) {
+    ParamTable table;
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        int depth = 0;
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::dot) return;
+            std::string kw = card_keyword(c);
+            if (kw == ".subckt") ++depth;
+            if (kw == ".ends" && depth > 0) --depth;
+            if (kw != ".param" || depth > 0) return;
+            const auto& fl = c.fields;
+            for (std::size_t i = 1; i + 2 < fl.size(); ++i)
+                if (fl[i].kind == TokenKind::word && fl[i + 1].kind == TokenKind::equals &&
+                    fl[i + 2].kind != TokenKind::equals)
+                    table.define(to_lower(c.field_text(i)), std::string(c.field_text(i + 2)));
+        });
+    }
+    return table;
+}
+
+// A literal number, a `{…}`/`'…'` expression or a bare parameter name, evaluated with the
+// deck's parameters. Names in `local` (the parameters of the enclosing .subckt cards and the
+// .param cards inside them) vary per instance: a value that uses one gives nothing.
+std::optional<double> literal_or_param_value(std::string_view text, const ParamTable& params,
+                                             const std::set<std::string>& local) {
+    auto p = parse_spice_number(text);
+    if (p.number) return p.number->value;
+    if (p.problem != NumberProblem::not_a_number) return std::nullopt;
+    if (text.front() == '{' || text.front() == '\'') text = text.substr(1, text.size() - 2);
+    return evaluate_param_expression(text, [&](const std::string& name) -> std::optional<double> {
+        if (local.count(name)) return std::nullopt;
+        return params.value(name);
+    });
+}
+
+// Keys of `key=value` pairs of a card (lower case).
+void add_keys(const Card& c, std::set<std::string>& to) {
+    for (std::size_t i = 1; i + 1 < c.fields.size(); ++i)
+        if (c.fields[i].kind == TokenKind::word && c.fields[i + 1].kind == TokenKind::equals)
+            to.insert(to_lower(c.field_text(i)));
+}
+
+// Elements by name and occurrence ("r1", 0), so that the n-th R1 of one deck (in another
+// .subckt, or in another .if branch) is paired with the n-th R1 of the other.
+std::map<std::pair<std::string, int>, const ElementValue*> by_occurrence(
+    const std::vector<ElementValue>& values) {
+    std::map<std::pair<std::string, int>, const ElementValue*> out;
+    std::map<std::string, int> seen;
+    for (const auto& e : values) out[{e.name, seen[e.name]++}] = &e;
+    return out;
+}
+
 }  // namespace
 
 std::vector<ElementValue> element_values(const Deck& deck) {
     std::vector<ElementValue> out;
+    ParamTable params = deck_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        // Parameters of the enclosing .subckt cards, one set per open .subckt.
+        std::vector<std::set<std::string>> open;
+        std::set<std::string> local;
         deck.visit_file(f, [&](const Card& c) {
+            if (c.kind == CardKind::dot) {
+                std::string kw = card_keyword(c);
+                if (kw == ".subckt") open.emplace_back();
+                if (kw == ".ends" && !open.empty()) open.pop_back();
+                if ((kw == ".subckt" || kw == ".param") && !open.empty()) add_keys(c, open.back());
+                local.clear();
+                for (const auto& names : open) local.insert(names.begin(), names.end());
+            }
             if (c.kind != CardKind::element || c.fields.empty()) return;
             std::string name = card_keyword(c);
             char letter = name[0];
@@ -38,28 +106,35 @@ std::vector<ElementValue> element_values(const Deck& deck) {
             int positional = 0;
             const auto& fl = c.fields;
             for (std::size_t i = 1; i < fl.size(); ++i) {
-                if (fl[i].kind != TokenKind::word) continue;
+                bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
+                if (fl[i].kind != TokenKind::word && !expression) continue;
                 std::string_view w = c.field_text(i);
                 bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
                 std::string_view value_text;
                 if (keyed) {
                     std::string key = to_lower(w);
-                    if (key.size() == 1 && key[0] == letter && i + 2 < fl.size())
+                    bool value_key = (key.size() == 1 && key[0] == letter) ||
+                                     key == (letter == 'r'   ? "resistance"
+                                             : letter == 'c' ? "capacitance"
+                                                             : "inductance");
+                    if (value_key && i + 2 < fl.size())
                         value_text = c.field_text(i + 2);
                     else {
                         i += 2;
                         continue;
                     }
-                } else if (++positional == 3) {
+                } else if (++positional >= 3) {
                     value_text = w;
                 } else {
                     continue;
                 }
-                auto p = parse_spice_number(value_text);
-                if (!p.number) return;
+                auto value = literal_or_param_value(value_text, params, local);
+                // `C1 a b cmod 1n`: a model name may come before the value.
+                if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
+                if (!value) return;
                 auto pos = c.file->position(c.fields[0].begin);
-                out.push_back({name, letter, p.number->value, c.file->path(), pos.line,
-                               std::string(value_text)});
+                out.push_back(
+                    {name, letter, *value, c.file->path(), pos.line, std::string(value_text)});
                 return;
             }
         });
@@ -70,12 +145,12 @@ std::vector<ElementValue> element_values(const Deck& deck) {
 FactorInference infer_factors(const std::vector<ElementValue>& original,
                               const std::vector<ElementValue>& scaled) {
     FactorInference r;
-    std::map<std::string, const ElementValue*> by_name;
-    for (const auto& e : scaled) by_name[e.name] = &e;
+    auto by_name = by_occurrence(scaled);
+    std::map<std::string, int> seen;
     std::vector<double> km_est;
     std::vector<std::pair<char, double>> reactive;  // letter, ratio
     for (const auto& e : original) {
-        auto it = by_name.find(e.name);
+        auto it = by_name.find({e.name, seen[e.name]++});
         if (it == by_name.end() || e.value == 0 || it->second->value == 0) continue;
         double ratio = it->second->value / e.value;
         if (!(ratio > 0)) continue;
@@ -112,14 +187,22 @@ FactorInference infer_factors(const std::vector<ElementValue>& original,
     return r;
 }
 
+std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckAnalyses& scaled) {
+    if (original.ac && scaled.ac && original.ac->fstop > 0 && scaled.ac->fstop > 0)
+        return scaled.ac->fstop / original.ac->fstop;
+    if (original.tran && scaled.tran && original.tran->tstop > 0 && scaled.tran->tstop > 0)
+        return original.tran->tstop / scaled.tran->tstop;
+    return std::nullopt;
+}
+
 std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& original,
                                         const std::vector<ElementValue>& scaled, double km,
                                         double kf, double tolerance) {
     std::vector<RatioMismatch> out;
-    std::map<std::string, const ElementValue*> by_name;
-    for (const auto& e : scaled) by_name[e.name] = &e;
+    auto by_name = by_occurrence(scaled);
+    std::map<std::string, int> seen;
     for (const auto& e : original) {
-        auto it = by_name.find(e.name);
+        auto it = by_name.find({e.name, seen[e.name]++});
         if (it == by_name.end()) continue;
         double expected = e.value * predicted_ratio(e.letter, km, kf);
         double dev = expected == 0 ? (it->second->value == 0 ? 0 : 1) : it->second->value / expected - 1;

@@ -3,9 +3,11 @@
 // with the factors is reported: in a hand-scaled deck that is the likely typo.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
+#include "deck/analyses.hpp"
 #include "deck/load.hpp"
 
 namespace deckscale {
@@ -19,7 +21,10 @@ struct ElementValue {
     std::string text;  // the value as written
 };
 
-// R, C and L elements with a literal value, from every file of the deck.
+// R, C and L elements with a value that is a literal, a `{…}`/`'…'` expression or a bare parameter
+// name evaluated with the deck's top-level .param definitions (deck/param_eval), from every file.
+// Inside a .subckt a value that uses one of the subcircuit's own parameters is left out (it
+// varies per instance), as is any value that does not evaluate.
 std::vector<ElementValue> element_values(const Deck& deck);
 
 struct RatioMismatch {
@@ -38,6 +43,11 @@ struct FactorInference {
 
 FactorInference infer_factors(const std::vector<ElementValue>& original,
                               const std::vector<ElementValue>& scaled);
+
+// Kf read off the decks' own analyses, for decks without matched capacitors or inductors:
+// the scaled .ac stop frequency over the original's, else the original .tran stop time over
+// the scaled one's. Nothing when the two decks have neither analysis in common.
+std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckAnalyses& scaled);
 
 // Pairs whose ratio is off by more than `tolerance` (relative) from what km, kf predict.
 std::vector<RatioMismatch> check_ratios(const std::vector<ElementValue>& original,

@@ -61,7 +61,17 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             report.factors_inferred = true;
             report.resistor_pairs = inf.resistor_pairs;
             report.reactive_pairs = inf.reactive_pairs;
-            if (!inf.message.empty()) report.notes.push_back(inf.message);
+            auto kf = inf.reactive_pairs == 0
+                          ? kf_from_analyses(find_analyses(original), find_analyses(scaled))
+                          : std::nullopt;
+            if (kf) {
+                report.kf = *kf;
+                report.notes.push_back(
+                    "no matched capacitors or inductors: Kf read off the "
+                    "decks' .ac or .tran cards");
+            } else if (!inf.message.empty()) {
+                report.notes.push_back(inf.message);
+            }
         }
         // Values are written with 7 significant digits by default: 1e-5 is well above that.
         report.mismatches = check_ratios(vo, vs, report.km, report.kf, 1e-5);

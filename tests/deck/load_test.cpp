@@ -83,6 +83,20 @@ std::vector<BadInputRow> bad_inputs() {
          "proj/deck.cir:2:10: note: included from here\n"
          "  .include b.inc\n"
          "           ^~~~~\n"},
+        {__LINE__, "a library section that pulls itself through another section",
+         {{"proj/deck.cir", "t\n.lib 'models.lib' mos\n"},
+          {"proj/models.lib", ".lib MOS\n.lib 'models.lib' res\n.endl\n"
+                              ".lib RES\n.lib 'models.lib' mos\n.endl\n"}},
+         "proj/models.lib:5:6: error: include cycle: proj/models.lib (mos) -> proj/models.lib (res) "
+         "-> proj/models.lib (mos)\n"
+         "  .lib 'models.lib' mos\n"
+         "       ^~~~~~~~~~~~\n"
+         "proj/models.lib:2:6: note: included from here\n"
+         "  .lib 'models.lib' res\n"
+         "       ^~~~~~~~~~~~\n"
+         "proj/deck.cir:2:6: note: included from here\n"
+         "  .lib 'models.lib' mos\n"
+         "       ^~~~~~~~~~~~\n"},
         {__LINE__, "a deck that includes itself", {{"proj/deck.cir", "t\n.include ./deck.cir\n"}},
          "proj/deck.cir:2:10: error: include cycle: proj/deck.cir -> proj/./deck.cir\n"
          "  .include ./deck.cir\n"
@@ -214,6 +228,48 @@ TEST(Deck, EveryNetlistDeckLoads) {
                 EXPECT_EQ(r.fault, "");
                 EXPECT_TRUE(r.rebuilt == f.source->text()) << f.source->path();
             }
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+// Issue 10 §4: a library that pulls another section of its own file is no include cycle; a
+// cycle is the same (file, section) pair twice on one chain (ngspice 39 manual §2.8 reads only
+// the named section of a `.lib file section`).
+TEST(Deck, LibrarySectionsOfTheirOwnFileAreNoCycle) {
+    struct Case {
+        int line;
+        std::vector<std::pair<std::string, std::string>> files;  // [0] is the deck
+        std::size_t loaded;                                       // files read
+    };
+    const Case cases[] = {
+        {__LINE__,
+         {{"deck.cir", "t\n.lib 'models.lib' MOS\n.end\n"},
+          {"models.lib", ".lib RES\n.model rm r(r=1)\n.endl RES\n"
+                         ".lib MOS\n.lib 'models.lib' RES\n.model cm c(c=1)\n.endl MOS\n"}},
+         2},
+        // The other section refers back, but from a section nobody asked for.
+        {__LINE__,
+         {{"deck.cir", "t\n.lib models.lib mos\n.end\n"},
+          {"models.lib", ".lib mos\n.lib models.lib res\n.endl\n"
+                         ".lib spare\n.lib models.lib mos\n.endl\n.lib res\n.endl\n"}},
+         2},
+        // Two sections of one library pull a second library, which pulls a third section
+        // of the first back.
+        {__LINE__,
+         {{"deck.cir", "t\n.lib a.lib x\n.lib a.lib y\n.end\n"},
+          {"a.lib", ".lib x\n.lib b.lib z\n.endl\n.lib y\n.lib b.lib z\n.endl\n.lib w\n.endl\n"},
+          {"b.lib", ".lib z\n.lib a.lib w\n.endl\n"}},
+         3},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "load_test.cpp:" << c.line);
+        MemoryFileSystem fs;
+        for (const auto& [path, text] : c.files) fs.add(path, text);
+        try {
+            Deck d = load_deck(c.files[0].first, fs);
+            EXPECT_EQ(d.files.size(), c.loaded);
         } catch (const DeckError& e) {
             ADD_FAILURE() << render(e.diagnostic());
         }

@@ -33,6 +33,15 @@ TEST(ChangeReport, OneLinePerRewrittenValue) {
               "deck.cir:3:8  C1  value  {c0} -> {(c0)/100}  x0.01 [F]\n");
 }
 
+// A card written out on a line of its own (the solver tolerances before .end) stays on one
+// line of the list.
+TEST(ChangeReport, InsertedCardStaysOnOneLine) {
+    ScaleRun r = run_scale_in_memory("t\r\n.tran 1u 1m\r\n.end\r\n", 10, 1);
+    EXPECT_EQ(change_list_text(r.deck, r.result),
+              "deck.cir:3:1  .options  abstol, chgtol (defaults written out for the transient)  "
+              "(none) -> .options abstol=1e-13 chgtol=1e-15  x1\n");
+}
+
 TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
     ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nD1 a 0 dm\n.model dm d\n.end\n", 50, 2);
     auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {50, 2}, r.plan));

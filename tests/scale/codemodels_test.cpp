@@ -135,8 +135,8 @@ TEST(CodeModelsTest, MalformedParametersAreErrorsWithTheirLocation) {
          "  .model g pwl(x_array=[0 1 y_array=[0 1])\n"
          "               ^~~~~~~\n"},
         {__LINE__, ".model g gain(gain=true)\n",
-         "deck.cir:3:20: error: bare name 'true' in a value of a dot card: ngspice 39 reads it "
-         "as 0; write {true}\n"
+         "deck.cir:3:20: error: bare name 'true' in a value of a dot card: ngspice 39 does not "
+         "read a parameter name there; write {true}\n"
          "  .model g gain(gain=true)\n"
          "                     ^~~~\n"},
     };

@@ -367,5 +367,77 @@ TEST(ScalerTest, ValuesPushedOutOfRangeAreRefusedWithTheValueNamed) {
     }
 }
 
+// Issue 10 §4: valid decks that were refused. Each form was read by ngspice 39 in its own
+// run (`.tran … uic`: manual §15.3.10; `.meas … =thr`: t1 measured the same as with `=0.5`;
+// `R = (…)`: a time-varying resistance), so each is scaled now.
+TEST(ScalerTest, ValidFormsOnceRefusedAreScaled) {
+    const LineCase cases[] = {
+        {__LINE__, "", ".tran 10u 2m uic", ".tran 10n 2u uic"},
+        {__LINE__, "", ".TRAN 10u 2m 0 UIC", ".TRAN 10n 2u 0 UIC"},
+        {__LINE__, ".param thr=0.5\n", ".meas tran t1 when v(a)=thr",
+         ".meas tran t1 when v(a)=thr"},
+        {__LINE__, ".param tset=4m\n", ".meas tran v1 find v(a) at=tset",
+         ".meas tran v1 find v(a) at={(tset)/1000}"},
+        {__LINE__, ".param Rload=1k\n", "R4 out2 OUT R = (time<12ms ? {Rload} : {2*Rload})",
+         "R4 out2 OUT R = ((((time*1000)<12ms ? {Rload} : {2*Rload}))*10)"},
+        {__LINE__, "", "R5 a b r=(2k) tc1=0.01", "R5 a b r=(((2k))*10) tc1=0.01"},
+        // .ic and .nodeset take parameter names too (tried: `.ic v(b)=vinit` set v(b)).
+        {__LINE__, ".param vinit=0.7\n", ".ic v(b)=vinit", ".ic v(b)=vinit"},
+        {__LINE__, ".param vn=0.3\n", ".nodeset v(b)=vn", ".nodeset v(b)=vn"},
+        {__LINE__, "", "C1 a 0 C=(1n+time*1u)", "C1 a 0 C=(((1n+(time*1000)*1u))/10000)"},
+        // A behavioural charge (ngspice 39 manual 3.3.9; read by ngspice 39, tried).
+        {__LINE__, "", "C2 a 0 Q='1u*v(a) + 0.1u*v(a)*v(a)'",
+         "C2 a 0 Q='(1u*v(a) + 0.1u*v(a)*v(a))/10000'"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.in);
+        try {
+            auto s = test::scale_text("t\n" + c.before + c.in + "\n.end\n", 10, 1000);
+            std::size_t n =
+                1 + static_cast<std::size_t>(std::count(c.before.begin(), c.before.end(), '\n'));
+            std::size_t start = 0;
+            for (std::size_t i = 0; i < n; ++i) start = s.text().find('\n', start) + 1;
+            EXPECT_EQ(s.text().substr(start, s.text().find('\n', start) - start), c.out);
+            for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+// A bare name in other dot cards stays refused, saying what ngspice 39 does with it (tried with
+// `ngspice -b`): the analyses read it as 0 (`.ac … fstart fstop` stops with "AC startfreq <=
+// 0"), .four and .temp do not take it.
+TEST(ScalerTest, BareNamesInOtherDotCardsAreRefusedWithWhatNgspiceDoes) {
+    struct Case {
+        int line;
+        std::string cards;
+        std::string rendered;
+    };
+    const Case cases[] = {
+        {__LINE__, ".param f1=10 f2=1k\n.ac dec 10 f1 f2\n",
+         "deck.cir:3:12: error: bare name 'f1' in a value of a dot card: ngspice 39 reads it as 0; "
+         "write {f1}\n  .ac dec 10 f1 f2\n             ^~\n"},
+        {__LINE__, ".param ts=1m\n.tran 1u ts\n",
+         "deck.cir:3:10: error: bare name 'ts' in a value of a dot card: ngspice 39 reads it as 0; "
+         "write {ts}\n  .tran 1u ts\n           ^~\n"},
+        {__LINE__, ".param f0=1k\n.four f0 v(a)\n",
+         "deck.cir:3:7: error: bare name 'f0' in a value of a dot card: ngspice 39 does not read a "
+         "parameter name there; write the number\n  .four f0 v(a)\n        ^~\n"},
+        {__LINE__, ".param tt=85\n.temp tt\n",
+         "deck.cir:3:7: error: bare name 'tt' in a value of a dot card: ngspice 39 does not read a "
+         "parameter name there; write {tt}\n  .temp tt\n        ^~\n"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line);
+        try {
+            test::scale_text("t\n" + c.cards + ".end\n", 10, 1000);
+            ADD_FAILURE() << "not refused";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()), c.rendered);
+        }
+    }
+}
+
 }  // namespace
 }  // namespace deckscale

@@ -41,7 +41,7 @@ std::vector<FieldCase> field_cases() {
         keyed(__LINE__, "r", "R1 a 0 5", k, 0, 0);
     add(__LINE__, "r", "noisy", "R1 a 0 5 noisy=0", "0", 0, 0);
     add(__LINE__, "c", "value", "C1 a 0 3.17", "3.17", -1, -1);
-    for (auto k : {"c", "capacitance"}) keyed(__LINE__, "c", "C1 a 0", k, -1, -1);
+    for (auto k : {"c", "capacitance", "q"}) keyed(__LINE__, "c", "C1 a 0", k, -1, -1);
     for (auto k : {"ic", "m", "scale", "tc1", "tc2", "temp", "dtemp", "l", "w"})
         keyed(__LINE__, "c", "C1 a 0 5", k, 0, 0);
     add(__LINE__, "l", "value", "L1 a 0 3.17", "3.17", 1, -1);

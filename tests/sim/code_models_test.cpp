@@ -31,6 +31,8 @@ TEST(SimCodeModels, OnlyDecksThatCertainlyUseNoneGoWithout) {
         {__LINE__, {"poly", "E1 out 0 POLY(1) in 0 0 2", ".end"}, true},
         {__LINE__, {"poly", "G1 out 0 poly (2) a 0 b 0 0 1 1", ".end"}, true},
         {__LINE__, {"laplace", "E1 out 0 LAPLACE {v(in)} = {1/(1+s)}", ".end"}, true},
+        {__LINE__, {"table", "E2 tab 0 TABLE {v(in)} = (-1, -1) (1, 1)", ".end"}, true},
+        {__LINE__, {"table", "G2 0 t TABLE {v(a)} = (0 0) (1 1m)", ".end"}, true},
         {__LINE__, {"freq", "G1 out 0 FREQ {v(in)} = (0 0 0) (1k -3 -45)", ".end"}, true},
         {__LINE__, {"model type", "R1 a 0 1k", ".model sw1 aswitch(cntl_off=0)", ".end"}, true},
         {__LINE__, {"model type", ".model f1 filesource(file=\"x\")", ".end"}, true},

@@ -132,11 +132,20 @@ inline ReadBack read_back(const SourceFile& file, FileRole role) {
 }
 
 // Every deck file under netlists/, sorted. Top-level decks end in ".cir"; anything else
-// (".lib", ".inc", ".mod") is an included file without a title line.
+// (".lib", ".inc", ".mod") is an included file without a title line. netlists/corpus/ is
+// left out: some of its decks are refused on purpose, and tests/cli/corpus_test.cpp checks
+// each against its manifest.
 inline std::vector<fs::path> netlist_files() {
     std::vector<fs::path> files;
-    for (const auto& e : fs::recursive_directory_iterator(fs::path(source_dir()) / "netlists"))
-        if (e.is_regular_file()) files.push_back(e.path());
+    const fs::path root = fs::path(source_dir()) / "netlists";
+    for (auto it = fs::recursive_directory_iterator(root); it != fs::recursive_directory_iterator();
+         ++it) {
+        if (it->is_directory() && it->path() == root / "corpus") {
+            it.disable_recursion_pending();
+            continue;
+        }
+        if (it->is_regular_file()) files.push_back(it->path());
+    }
     std::sort(files.begin(), files.end());
     return files;
 }
