@@ -17,6 +17,8 @@
 namespace deckscale {
 
 struct CodeModelUses;
+struct MosModel;
+using MosModels = std::map<std::string, MosModel>;
 
 // One value-bearing item of a card: positional (key == nullptr) or key=value.
 struct Atom {
@@ -38,6 +40,7 @@ struct ToleranceScan {
     std::optional<Place> tran;            // the first transient analysis
     std::optional<Place> end;             // the top file's .end card
     bool abstol = false, chgtol = false;  // set by the deck
+    bool junctions = false;               // a D, Q, J, Z or M device (GMIN across its junctions)
     void merge(const ToleranceScan& later);
 };
 
@@ -71,6 +74,8 @@ public:
     double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
     // The deck's A devices by model (null when it has no code-model models).
     const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
+    // The deck's MOS models (null unless Kf != 1; scale/semiconductors.cpp).
+    const MosModels* mos_models() const { return mos_models_.get(); }
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
     std::size_t file() const { return file_; }  // index of the current card's file
@@ -148,6 +153,7 @@ private:
     std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;
     std::shared_ptr<const CodeModelUses> code_model_uses_;
+    std::shared_ptr<const MosModels> mos_models_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};

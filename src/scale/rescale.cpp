@@ -10,6 +10,7 @@
 #include "scale/codemodels.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
+#include "scale/semiconductors.hpp"
 
 namespace deckscale {
 
@@ -51,6 +52,7 @@ void ScalePass::run(const Deck& deck) {
     symbols_ = &deck.symbols;
     deck_ = &deck;
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
+    if (settings_.factors.kf != 1) mos_models_ = collect_mos_models(deck);
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -173,9 +175,11 @@ void ScalePass::visit(const Card& c) {
         case 'e': case 'f': case 'g': case 'h': case 'b': scale_controlled(*this, letter); break;
         case 't': case 'o': case 'u': case 's': case 'w': scale_line_or_switch(*this, letter); break;
         case 'x': break;  // subcircuit definitions are scaled in place
-        case 'd': case 'q': case 'j': case 'z': case 'm':
-            unscalable(c.fields[0], "semiconductor devices are not scaled by this version "
-                                    "(their area/m factors and model cards need their own rules)");
+        case 'd': case 'q': case 'j': case 'z': scale_semiconductor(*this, letter); break;
+        case 'm':
+            // Whether a MOSFET follows Kf depends on its model card, wherever that is.
+            if (observing_ && settings_.factors.kf != 1) rescan_ = true;
+            else scale_semiconductor(*this, letter);
             break;
         case 'a':
             if (observing_) rescan_ = true;  // as a code-model .model card above
