@@ -40,7 +40,9 @@ struct ToleranceScan {
     std::optional<Place> tran;            // the first transient analysis
     std::optional<Place> end;             // the top file's .end card
     bool abstol = false, chgtol = false;  // set by the deck
-    bool junctions = false;               // a D, Q, J, Z or M device (GMIN across its junctions)
+    // Junction devices, by how ngspice 39 applies their m to the GMIN across their junctions
+    // (scale/semiconductors.cpp): multiplied by m (Q, J, BSIM) or not (D, Z, MOS levels 1-3).
+    bool gmin_times_m = false, gmin_apart = false;
     void merge(const ToleranceScan& later);
 };
 
@@ -74,8 +76,8 @@ public:
     double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
     // The deck's A devices by model (null when it has no code-model models).
     const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
-    // The deck's MOS models (null unless Kf != 1; scale/semiconductors.cpp).
-    const MosModels* mos_models() const { return mos_models_.get(); }
+    // The deck's MOS models, collected on first use (scale/semiconductors.cpp).
+    const MosModels& mos_models();
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
     std::size_t file() const { return file_; }  // index of the current card's file
@@ -94,6 +96,8 @@ public:
     std::size_t file_index() const { return file_; }
     // After the whole deck: writes the default transient tolerances scaled if it needs them.
     void finish(const Deck& deck);
+    // The notes finish() adds where GMIN cannot follow exactly (scale/semiconductors.cpp).
+    void note_gmin(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
     // Records an item that cannot be scaled exactly.

@@ -52,7 +52,7 @@ void ScalePass::run(const Deck& deck) {
     symbols_ = &deck.symbols;
     deck_ = &deck;
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
-    if (settings_.factors.kf != 1) mos_models_ = collect_mos_models(deck);
+    mos_models_.reset();
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -177,8 +177,9 @@ void ScalePass::visit(const Card& c) {
         case 'x': break;  // subcircuit definitions are scaled in place
         case 'd': case 'q': case 'j': case 'z': scale_semiconductor(*this, letter); break;
         case 'm':
-            // Whether a MOSFET follows Kf depends on its model card, wherever that is.
-            if (observing_ && settings_.factors.kf != 1) rescan_ = true;
+            // Whether a MOSFET follows Kf, and how its m acts on GMIN, depends on its model
+            // card, wherever that is.
+            if (observing_ && (settings_.factors.kf != 1 || settings_.factors.km != 1)) rescan_ = true;
             else scale_semiconductor(*this, letter);
             break;
         case 'a':
@@ -194,6 +195,11 @@ void ScalePass::visit(const Card& c) {
             break;
         default: break;  // the reader has already warned about unknown element types
     }
+}
+
+const MosModels& ScalePass::mos_models() {
+    if (!mos_models_) mos_models_ = collect_mos_models(*deck_);
+    return *mos_models_;
 }
 
 const NumberParse& ScalePass::number_of(const Token& t) const {

@@ -145,20 +145,33 @@ std::shared_ptr<const MosModels> collect_mos_models(const Deck& deck) {
 
 void scale_semiconductor(ScalePass& p, char letter) {
     const Card& c = p.card();
-    p.tolerances().junctions = true;
     ScaleFactors f = p.factors();
-    if (letter == 'm' && f.kf != 1 && c.fields.size() > 5) {
+    if (f.km == 1 && f.kf == 1) return;
+    // How ngspice 39 applies m to the GMIN across the device's junctions (ngspice 39.3 runs,
+    // a junction reverse-biased through 1 MOhm, Km = 10, reltol 1e-9: with m = 1/Km the
+    // leakage followed exactly with GMIN unchanged for Q, J, BSIM3 and BSIM4, with GMIN / Km
+    // for D, Z and MOS levels 1-3; VDMOS followed neither, 0.9 % off with GMIN / Km).
+    ToleranceScan& t = p.tolerances();
+    if (letter == 'd' || letter == 'z') t.gmin_apart = true;
+    if (letter == 'q' || letter == 'j') t.gmin_times_m = true;
+    if (letter == 'm' && c.fields.size() > 5) {
         std::string model = to_lower(c.field_text(5));
-        const MosModels* models = p.mos_models();
-        auto it = models ? models->find(model) : MosModels::const_iterator{};
-        if (!models || it == models->end()) {
+        const MosModels& models = p.mos_models();
+        auto it = models.find(model);
+        if (it != models.end()) {
+            const MosModel& m = it->second;
+            bool plain = m.type != "vdmos" && m.level >= 1 && m.level <= 3;
+            t.gmin_apart = t.gmin_apart || plain || m.type == "vdmos";
+            t.gmin_times_m = t.gmin_times_m || !plain;
+        }
+        if (f.kf != 1 && it == models.end()) {
             p.unscalable(c.fields[5], fmt::format("MOSFET '{}': model '{}' is not defined in this "
                                                   "deck, so whether it can follow a frequency "
                                                   "change is not known",
                                                   c.field_text(0), c.field_text(5)));
             return;
         }
-        std::string why = mos_refusal(it->second, f.kf);
+        std::string why = f.kf != 1 ? mos_refusal(it->second, f.kf) : "";
         if (!why.empty()) {
             p.unscalable(c.fields[5], fmt::format("MOSFET '{}' uses model '{}' ({}): {}",
                                                   c.field_text(0), c.field_text(5),
@@ -221,6 +234,26 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                 break;
             }
     }
+}
+
+void ScalePass::note_gmin(const Deck& deck) {
+    const ToleranceScan& s = tolerances_;
+    if (!s.gmin_times_m) return;
+    std::string what;
+    if (s.gmin_apart)
+        what = "ngspice multiplies the GMIN across Q, J and BSIM-family MOS junctions by the "
+               "device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: with both "
+               "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
+               "(GMIN times a junction voltage) come out Km times too small";
+    else if (deck.symbols.gmin_set)
+        what = "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q, J "
+               "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
+               "(GMIN times a junction voltage) come out Km times too small";
+    else
+        return;
+    std::size_t file = s.end ? s.end->file : 0;
+    std::uint32_t offset = s.end ? s.end->offset : 0;
+    result_.notes.push_back(deck.files[file].source->diagnose(Severity::note, offset, 1, what));
 }
 
 }  // namespace deckscale

@@ -45,7 +45,8 @@ void ToleranceScan::merge(const ToleranceScan& later) {
     if (!end) end = later.end;
     abstol = abstol || later.abstol;
     chgtol = chgtol || later.chgtol;
-    junctions = junctions || later.junctions;
+    gmin_times_m = gmin_times_m || later.gmin_times_m;
+    gmin_apart = gmin_apart || later.gmin_apart;
 }
 
 void note_tolerances(ScalePass& p, const std::string& kw) {
@@ -87,9 +88,11 @@ void ScalePass::finish(const Deck& deck) {
     const ToleranceScan& s = tolerances_;
     ScaleFactors f = settings_.factors;
     // GMIN is a conductance ngspice puts across every pn junction; unscaled it costs up to
-    // 1 % at Km = 1e4 (shared notes "scaling-rules.md" §6, ngspice 39 runs). Written as
-    // GMIN / Km whenever the deck has junction devices and leaves GMIN at its default.
-    bool gmin = s.junctions && f.km != 1 && !deck.symbols.gmin_set;
+    // 1 % at Km = 1e4 (shared notes "scaling-rules.md" §6, ngspice 39 runs). Where ngspice
+    // multiplies it by the device's m it follows m / Km by itself; elsewhere it is written
+    // as GMIN / Km when the deck leaves it at its default (see note_gmin).
+    bool gmin = s.gmin_apart && f.km != 1 && !deck.symbols.gmin_set;
+    if (f.km != 1) note_gmin(deck);
     if (!s.tran && !gmin) return;
     if (s.tran && f.km != 1 && !deck.symbols.inductors.empty()) {
         // cktterr.c: an inductor's truncation error is judged with ABSTOL on its voltage and

@@ -10,6 +10,7 @@
 #include <cmath>
 #include <complex>
 #include <cstdlib>
+#include <optional>
 #include <sstream>
 
 #include <fmt/format.h>
@@ -27,7 +28,7 @@ using Table = std::vector<std::vector<double>>;
 // Runs a deck prepared for `analysis` and returns wrdata's rows for `vectors` (a transient
 // is first put on a uniform grid of `grid` seconds by linearize, so both runs have the same
 // number of points).
-Table run(const std::string& path, ScaleFactors factors, const std::string& analysis,
+Table run(const std::string& path, std::optional<ScaleFactors> factors, const std::string& analysis,
           const std::vector<std::string>& vectors, const test::TempDir& dir,
           const std::string& name) {
     Deck deck = load_deck(path, DiskFileSystem{});
@@ -166,6 +167,44 @@ TEST(SemiconductorsReferenceTest, RewrittenStagesAgreeWithTheOriginals) {
         Worst w;
         compare(c, w);
         RecordProperty(c.deck, fmt::format("op {:.2g} ac {:.2g} tran {:.2g}", w.op, w.ac, w.tran));
+    }
+}
+
+// GMIN: a junction reverse-biased through 1 MOhm leaks mostly through GMIN. Scaled with
+// Km = 10 (m = 0.1, R x10, and GMIN / Km where the tool writes it), both source currents
+// times Km must equal the original's: this pins which devices ngspice 39 multiplies GMIN by m.
+TEST(SemiconductorsReferenceTest, GminLeakageFollowsKm) {
+    struct Row {
+        int line;
+        std::string device, model;
+    };
+    const Row rows[] = {
+        {__LINE__, "D1 0 n dm", ".model dm d is=1f"},
+        {__LINE__, "Q1 n g 0 qm", ".model qm npn is=1f"},
+        {__LINE__, "J1 n g 0 jm", ".model jm njf is=1f vto=-3"},
+        {__LINE__, "Z1 n g 0 zm", ".model zm nmf vto=-3"},
+        {__LINE__, "M1 n g 0 0 mm", ".model mm nmos vto=0.5 kp=1e-5 is=1f"},
+        {__LINE__, "M1 n g 0 0 mm", ".model mm nmos level=3 vto=0.5 kp=1e-5 is=1f"},
+        {__LINE__, "M1 n g 0 0 bm", ".model bm nmos level=8 version=3.3.0"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_ngspice_test.cpp:" << r.line << ": " << r.model);
+        std::string deck = "leakage\nV1 a 0 dc 5\nV2 g 0 dc -1\nR1 a n 1meg\n" + r.device + "\n" +
+                           r.model + "\n.options reltol=1e-9 abstol=1e-20 vntol=1e-12\n.end\n";
+        test::TempDir dir;
+        test::write_bytes(dir.file("o.cir"), deck);
+        test::write_bytes(dir.file("s.cir"), test::scale_text(deck, 10, 1).text());
+        std::vector<std::string> vectors{"i(v1)", "i(v2)"};
+        Table a = run(dir.file("o.cir"), std::nullopt, ".op", vectors, dir, "o");
+        Table b = run(dir.file("s.cir"), std::nullopt, ".op", vectors, dir, "s");
+        ASSERT_EQ(a.size(), 1u);
+        ASSERT_EQ(b.size(), 1u);
+        ASSERT_EQ(a[0].size(), 3u);
+        ASSERT_EQ(b[0].size(), 3u);
+        EXPECT_GT(std::fabs(a[0][1]), 4e-12);  // the leakage is there: 5 V across GMIN at least
+        for (std::size_t v = 1; v < 3; ++v)
+            EXPECT_LE(std::fabs(a[0][v] - 10 * b[0][v]), 1e-6 * std::fabs(a[0][1]))
+                << vectors[v - 1] << ": " << a[0][v] << " vs " << 10 * b[0][v];
     }
 }
 

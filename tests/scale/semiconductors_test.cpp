@@ -37,12 +37,12 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
         {__LINE__,
          "Q1 c b e s qm 2\n.model qm npn(bf=100 cje=1p cjc=2p cjs=3p tf=100p tr=10n ptf=30 itf=1)\n",
          "Q1 c b e s qm 2 m=0.1\n.model qm npn(bf=100 cje=1f cjc=2f cjs=3f tf=100f tr=10p "
-         "ptf=30 itf=1)\n.options gmin=1e-13\n",
+         "ptf=30 itf=1)\n",
          10, 1000},
         {__LINE__, "Q1 c b e qm\n.model qm pnp csub=1p ccs=2p qco=1n\n",
-         "Q1 c b e qm m=0.1\n.model qm pnp csub=1f ccs=2f qco=1p\n.options gmin=1e-13\n", 10, 1000},
+         "Q1 c b e qm m=0.1\n.model qm pnp csub=1f ccs=2f qco=1p\n", 10, 1000},
         {__LINE__, "J1 d g s jm\n.model jm njf (beta=1m vto=-2 cgs=2p cgd=1p)\n",
-         "J1 d g s jm m=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n.options gmin=1e-13\n",
+         "J1 d g s jm m=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n",
          10, 1000},
         // Below femto a value is written with an exponent.
         {__LINE__, "Z1 d g s zm\n.model zm nmf (cgs=1p cgd=0.5p)\n",
@@ -54,11 +54,15 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
          "M1 d g 0 0 nm w=2u l=1u m=0.1\n.model nm nmos (vto=0.7 kp=50u gamma=0.4 phi=0.6 "
          "tox=20u cgso=1p cgdo=1p cgbo=2p cbd=1f cbs=1f cj=1u cjsw=1p)\n.options gmin=1e-13\n",
          10, 1000},
+        // GMIN / Km: ngspice does not multiply the GMIN of D, Z and MOS levels 1-3 by m (it
+        // does for Q, J and BSIM: no GMIN for them above and below).
+        {__LINE__, "M1 d g 0 0 n2 w=2u l=1u\n.model n2 nmos level=2\n",
+         "M1 d g 0 0 n2 w=2u l=1u m=0.1\n.model n2 nmos level=2\n.options gmin=1e-13\n", 10, 1},
         // Magnitude only: m alone, the model stays; any MOS level is exact then.
         {__LINE__, "D1 a 0 dm\n.model dm d cjo=2p tt=5n\n",
          "D1 a 0 dm m=0.1\n.model dm d cjo=2p tt=5n\n.options gmin=1e-13\n", 10, 1},
         {__LINE__, "M1 d g 0 0 nb w=2u l=1u\n.model nb nmos level=8 tox=4n\n",
-         "M1 d g 0 0 nb w=2u l=1u m=0.1\n.model nb nmos level=8 tox=4n\n.options gmin=1e-13\n", 10, 1},
+         "M1 d g 0 0 nb w=2u l=1u m=0.1\n.model nb nmos level=8 tox=4n\n", 10, 1},
         // Frequency only: no m, no GMIN.
         {__LINE__, "D1 a 0 dm\n.model dm d cjo=2p tt=5n\n", "D1 a 0 dm\n.model dm d cjo=2f tt=5p\n",
          1, 1000},
@@ -83,6 +87,36 @@ TEST(SemiconductorsTest, FactorsOfOneChangeNothing) {
     auto s = test::scale_text(deck, 1, 1);
     EXPECT_EQ(s.text(), deck);
     EXPECT_TRUE(s.result.unscalable.empty());
+}
+
+// Where one GMIN cannot serve every device, a note says what it costs.
+TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
+    struct Row {
+        int line;
+        std::string cards, rendered;
+    };
+    const Row rows[] = {
+        {__LINE__, "D1 a 0 dm\n.model dm d\nQ1 c b 0 qm\n.model qm npn\n",
+         "deck.cir:6:1: note: ngspice multiplies the GMIN across Q, J and BSIM-family MOS "
+         "junctions by the device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: "
+         "with both in this deck GMIN is divided by Km for the latter, so the former's GMIN "
+         "currents (GMIN times a junction voltage) come out Km times too small\n"
+         "  .end\n"
+         "  ^\n"},
+        {__LINE__, "J1 d g s jm\n.model jm njf\n.options gmin=1e-10\n",
+         "deck.cir:5:1: note: the deck's gmin is divided by Km, but ngspice multiplies the GMIN "
+         "across Q, J and BSIM-family MOS junctions by the device's m already: their GMIN "
+         "currents (GMIN times a junction voltage) come out Km times too small\n"
+         "  .end\n"
+         "  ^\n"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_test.cpp:" << r.line);
+        auto s = test::scale_text("t\n" + r.cards + ".end\n", 10, 1);
+        ASSERT_EQ(s.result.notes.size(), 1u);
+        EXPECT_EQ(render(s.result.notes[0]), r.rendered);
+    }
+    EXPECT_TRUE(test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.end\n", 10, 1).result.notes.empty());
 }
 
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
