@@ -120,8 +120,10 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
         auto job = [&](const Deck& d, const std::string& path, const std::string& card, double drive_ac) {
             SimJob j;
             j.label = path;
-            j.cards = simulation_cards(d, SimDeckOptions{card, drive, drive_ac,
-                                                         &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf}});
+            j.cards = simulation_cards(
+                d, SimDeckOptions{
+                       card, drive, drive_ac,
+                       &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf}});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
             j.memory_limit_mb = o.memory_mb;

@@ -179,8 +179,10 @@ void ScalePass::visit(const Card& c) {
         case 'm':
             // Whether a MOSFET follows Kf, and how its m acts on GMIN, depends on its model
             // card, wherever that is.
-            if (observing_ && (settings_.factors.kf != 1 || settings_.factors.km != 1)) rescan_ = true;
-            else scale_semiconductor(*this, letter);
+            if (observing_ && (settings_.factors.kf != 1 || settings_.factors.km != 1))
+                rescan_ = true;
+            else
+                scale_semiconductor(*this, letter);
             break;
         case 'a':
             if (observing_) rescan_ = true;  // as a code-model .model card above

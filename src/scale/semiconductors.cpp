@@ -23,16 +23,19 @@ struct ChargeRule {
     int kf_power;
     const char* unit;
 };
+// clang-format off
 constexpr ChargeRule kChargeRules[] = {
-    {'d', "cjo", -1, "F"}, {'d', "cj0", -1, "F"}, {'d', "cj", -1, "F"}, {'d', "cjp", -1, "F"}, {'d', "tt", -1, "s"},
-    {'q', "cje", -1, "F"}, {'q', "cjc", -1, "F"}, {'q', "cjs", -1, "F"}, {'q', "csub", -1, "F"}, {'q', "ccs", -1, "F"},
-    {'q', "tf", -1, "s"},  {'q', "tr", -1, "s"},  {'q', "qco", -1, "C"},
-    {'j', "cgs", -1, "F"}, {'j', "cgd", -1, "F"},
-    {'z', "cgs", -1, "F"}, {'z', "cgd", -1, "F"},
+    {'d', "cjo", -1, "F"},  {'d', "cj0", -1, "F"},  {'d', "cj", -1, "F"},   {'d', "cjp", -1, "F"},
+    {'d', "tt", -1, "s"},
+    {'q', "cje", -1, "F"},  {'q', "cjc", -1, "F"},  {'q', "cjs", -1, "F"},  {'q', "csub", -1, "F"},
+    {'q', "ccs", -1, "F"},  {'q', "tf", -1, "s"},   {'q', "tr", -1, "s"},   {'q', "qco", -1, "C"},
+    {'j', "cgs", -1, "F"},  {'j', "cgd", -1, "F"},
+    {'z', "cgs", -1, "F"},  {'z', "cgd", -1, "F"},
     // MOS level 1 (Meyer): the intrinsic caps follow Cox = eps/TOX; overlap and junction caps.
-    {'m', "tox", 1, "m"},  {'m', "cgso", -1, "F"}, {'m', "cgdo", -1, "F"}, {'m', "cgbo", -1, "F"}, {'m', "cbd", -1, "F"},
-    {'m', "cbs", -1, "F"}, {'m', "cj", -1, "F"},   {'m', "cjsw", -1, "F"},
+    {'m', "tox", 1, "m"},   {'m', "cgso", -1, "F"}, {'m', "cgdo", -1, "F"}, {'m', "cgbo", -1, "F"},
+    {'m', "cbd", -1, "F"},  {'m', "cbs", -1, "F"},  {'m', "cj", -1, "F"},   {'m', "cjsw", -1, "F"},
 };
+// clang-format on
 
 // Self-heating networks: a thermal resistance and capacitance that m is not known to scale.
 constexpr const char* kThermalKeys[] = {"rth0", "cth0", "rth", "cth"};
@@ -54,11 +57,13 @@ std::string mos_level_name(const MosModel& m) {
         int level;
         const char* name;
     };
+    // clang-format off
     static const Name names[] = {{2, "MOS2"},    {3, "MOS3"},     {6, "MOS6"},    {9, "MOS9"},
                                  {4, "BSIM1"},   {5, "BSIM2"},    {8, "BSIM3"},   {49, "BSIM3"},
                                  {14, "BSIM4"},  {54, "BSIM4"},   {10, "BSIMSOI"}, {58, "BSIMSOI"},
                                  {44, "EKV"},    {55, "EKV"},     {68, "HiSIM2"}, {73, "HiSIM_HV"},
                                  {69, "PSP"},    {70, "PSP"},     {60, "STAG SOI3"}};
+    // clang-format on
     for (const auto& n : names)
         if (n.level == m.level) return fmt::format("level {}, {}", m.level, n.name);
     return fmt::format("level {}", m.level);
@@ -91,7 +96,9 @@ MosModel mos_model_of(const Card& c, const std::vector<Atom>& atoms, const std::
         const char* alias;
         const char* name;
     };
-    const Explicit needed[] = {{"vto", "vt0", "VTO"}, {"kp", "kp", "KP"}, {"gamma", "gamma", "GAMMA"},
+    const Explicit needed[] = {{"vto", "vt0", "VTO"},
+                               {"kp", "kp", "KP"},
+                               {"gamma", "gamma", "GAMMA"},
                                {"phi", "phi", "PHI"}};
     for (const auto& n : needed)
         if (!given(c, atoms, n.key) && !given(c, atoms, n.alias))
@@ -105,21 +112,24 @@ std::string kf_text(double kf) { return fmt::format("{:.9g}", kf); }
 std::string mos_refusal(const MosModel& m, double kf) {
     if (m.type != "vdmos" && m.level == 1) {
         if (m.missing.empty()) return "";
-        return fmt::format("level 1 follows a frequency change only with VTO, KP, GAMMA and PHI "
-                           "given explicitly (otherwise TOX, which must be multiplied by Kf = "
-                           "{}, also sets them); not given: {}",
-                           kf_text(kf), m.missing);
+        return fmt::format(
+            "level 1 follows a frequency change only with VTO, KP, GAMMA and PHI "
+            "given explicitly (otherwise TOX, which must be multiplied by Kf = "
+            "{}, also sets them); not given: {}",
+            kf_text(kf), m.missing);
     }
     if (m.type != "vdmos" && m.level >= 2 && m.level <= 9 && m.level != 4 && m.level != 5 &&
         m.level != 8)
-        return fmt::format("its oxide thickness also enters the DC equations (mobility, "
-                           "short-channel terms), so no model change follows a frequency change "
-                           "(Kf = {}); with Kf = 1 it scales exactly by m",
-                           kf_text(kf));
-    return fmt::format("its intrinsic charge and its DC current both come from the oxide "
-                       "capacitance, so no model change follows a frequency change (Kf = {}); "
-                       "with Kf = 1 it scales exactly by m",
-                       kf_text(kf));
+        return fmt::format(
+            "its oxide thickness also enters the DC equations (mobility, "
+            "short-channel terms), so no model change follows a frequency change "
+            "(Kf = {}); with Kf = 1 it scales exactly by m",
+            kf_text(kf));
+    return fmt::format(
+        "its intrinsic charge and its DC current both come from the oxide "
+        "capacitance, so no model change follows a frequency change (Kf = {}); "
+        "with Kf = 1 it scales exactly by m",
+        kf_text(kf));
 }
 
 }  // namespace
@@ -173,9 +183,9 @@ void scale_semiconductor(ScalePass& p, char letter) {
         }
         std::string why = f.kf != 1 ? mos_refusal(it->second, f.kf) : "";
         if (!why.empty()) {
-            p.unscalable(c.fields[5], fmt::format("MOSFET '{}' uses model '{}' ({}): {}",
-                                                  c.field_text(0), c.field_text(5),
-                                                  mos_level_name(it->second), why));
+            p.unscalable(c.fields[5],
+                         fmt::format("MOSFET '{}' uses model '{}' ({}): {}", c.field_text(0),
+                                     c.field_text(5), mos_level_name(it->second), why));
             return;
         }
     }
@@ -216,13 +226,14 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                            : family == 'q' ? "bipolar transistor"
                            : family == 'j' ? "JFET"
                                            : "MESFET";
-        p.unscalable(c.fields[2], fmt::format("{} model '{}' is {}: only level 1 has a known "
-                                              "set of charge parameters to divide by Kf = {}; "
-                                              "with Kf = 1 it scales exactly by m",
-                                              what, c.field_text(1),
-                                              level < 0 ? std::string("of a level given by an expression")
-                                                        : fmt::format("level {}", level),
-                                              kf_text(f.kf)));
+        p.unscalable(c.fields[2],
+                     fmt::format("{} model '{}' is {}: only level 1 has a known "
+                                 "set of charge parameters to divide by Kf = {}; "
+                                 "with Kf = 1 it scales exactly by m",
+                                 what, c.field_text(1),
+                                 level < 0 ? std::string("of a level given by an expression")
+                                           : fmt::format("level {}", level),
+                                 kf_text(f.kf)));
         return;
     }
     for (const auto& a : atoms) {
@@ -241,14 +252,16 @@ void ScalePass::note_gmin(const Deck& deck) {
     if (!s.gmin_times_m) return;
     std::string what;
     if (s.gmin_apart)
-        what = "ngspice multiplies the GMIN across Q, J and BSIM-family MOS junctions by the "
-               "device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: with both "
-               "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
-               "(GMIN times a junction voltage) come out Km times too small";
+        what =
+            "ngspice multiplies the GMIN across Q, J and BSIM-family MOS junctions by the "
+            "device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: with both "
+            "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
+            "(GMIN times a junction voltage) come out Km times too small";
     else if (deck.symbols.gmin_set)
-        what = "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q, J "
-               "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
-               "(GMIN times a junction voltage) come out Km times too small";
+        what =
+            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q, J "
+            "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
+            "(GMIN times a junction voltage) come out Km times too small";
     else
         return;
     std::size_t file = s.end ? s.end->file : 0;

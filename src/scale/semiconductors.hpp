@@ -17,9 +17,9 @@ class ScalePass;
 
 // What a MOS model tells about whether it can follow a frequency change.
 struct MosModel {
-    std::string type;      // nmos, pmos, vdmos (lower case)
-    int level = 1;         // ngspice's default; -1 when written as an expression
-    std::string missing;   // of VTO, KP, GAMMA, PHI: those not given explicitly
+    std::string type;     // nmos, pmos, vdmos (lower case)
+    int level = 1;        // ngspice's default; -1 when written as an expression
+    std::string missing;  // of VTO, KP, GAMMA, PHI: those not given explicitly
 };
 using MosModels = std::map<std::string, MosModel>;  // by lower-case model name
 

@@ -143,7 +143,7 @@ void ScalePass::finish(const Deck& deck) {
     ch.file = at.file;
     ch.offset = at.offset;
     ch.element = ".options";
-    ch.field = keys + (!gmin ? " (defaults written out for the transient)"
+    ch.field = keys + (!gmin    ? " (defaults written out for the transient)"
                        : s.tran ? " (defaults written out for the transient and the junctions)"
                                 : " (default written out for the junctions)");
     ch.new_text = ".options" + options;

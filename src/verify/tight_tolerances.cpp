@@ -21,7 +21,8 @@ bool has_junction_devices(const Deck& deck) {
         deck.visit_file(f, [&](const Card& c) {
             if (found || c.kind != CardKind::element || c.fields.empty()) return;
             char letter = ascii_lower(c.field_text(0)[0]);
-            found = letter == 'd' || letter == 'q' || letter == 'j' || letter == 'z' || letter == 'm';
+            found =
+                letter == 'd' || letter == 'q' || letter == 'j' || letter == 'z' || letter == 'm';
         });
     return found;
 }

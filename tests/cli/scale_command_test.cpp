@@ -30,7 +30,9 @@ TEST(ScaleCommandTest, RefusesUnscalableItemsWithOneDiagnosticEach) {
                          "--leave-unscalable"}, dir.path());
     EXPECT_EQ(w.exit_code, 0) << w.err;
     std::string out = read_bytes(dir.file("out.cir"));
-    EXPECT_NE(out.find("R1 a 0 10k\n* deckscale: left unscaled: ngspice 39 KSPICE"), std::string::npos) << out;
+    EXPECT_NE(out.find("R1 a 0 10k\n* deckscale: left unscaled: ngspice 39 KSPICE"),
+              std::string::npos)
+        << out;
     EXPECT_NE(out.find("* deckscale: left unscaled: XSPICE"), std::string::npos) << out;
 }
 

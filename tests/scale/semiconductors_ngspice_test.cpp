@@ -4,6 +4,7 @@
 // currents times Km, at the same operating point, at mapped frequencies Kf f and at mapped
 // times t / Kf (shared notes "scaling-rules.md" §7; their ngspice runs found the operating
 // point and AC of diode, BJT and MOS level 1 decks exact to 1e-8 with tight tolerances).
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -12,8 +13,6 @@
 #include <cstdlib>
 #include <optional>
 #include <sstream>
-
-#include <fmt/format.h>
 
 #include "base/file_system.hpp"
 #include "support/common.hpp"
@@ -68,7 +67,7 @@ struct DeviceCase {
     std::string deck;                  // under netlists/devices/
     std::vector<std::string> vectors;  // v(...) and i(...) compared
     double km, kf;
-    std::string ac;                    // "dec N f1 f2" of the original, plain numbers
+    std::string ac;  // "dec N f1 f2" of the original, plain numbers
     double tran_step = 0, tran_stop = 0, tran_max = 0;  // 0: no transient compared
 };
 
@@ -107,7 +106,8 @@ void compare(const DeviceCase& c, Worst& worst) {
     std::string type;
     double n, f1, f2;
     ac >> type >> n >> f1 >> f2;
-    a = run(original, one, fmt::format(".ac {} {} {:.17g} {:.17g}", type, n, f1, f2), c.vectors, dir, "ac_o");
+    a = run(original, one, fmt::format(".ac {} {} {:.17g} {:.17g}", type, n, f1, f2), c.vectors,
+            dir, "ac_o");
     b = run(scaled, both, fmt::format(".ac {} {} {:.17g} {:.17g}", type, n, f1 * c.kf, f2 * c.kf),
             c.vectors, dir, "ac_s");
     ASSERT_FALSE(a.empty());
@@ -130,7 +130,8 @@ void compare(const DeviceCase& c, Worst& worst) {
 
     // Transient: v'(t / Kf) = v(t) within 1e-3 of each vector's peak.
     if (c.tran_stop == 0) return;
-    a = run(original, one, fmt::format(".tran {:.17g} {:.17g} 0 {:.17g}", c.tran_step, c.tran_stop, c.tran_max),
+    a = run(original, one,
+            fmt::format(".tran {:.17g} {:.17g} 0 {:.17g}", c.tran_step, c.tran_stop, c.tran_max),
             c.vectors, dir, "tran_o");
     b = run(scaled, both,
             fmt::format(".tran {:.17g} {:.17g} 0 {:.17g}", c.tran_step / c.kf, c.tran_stop / c.kf,
@@ -152,6 +153,7 @@ void compare(const DeviceCase& c, Worst& worst) {
 }
 
 TEST(SemiconductorsReferenceTest, RewrittenStagesAgreeWithTheOriginals) {
+    // clang-format off
     const DeviceCase cases[] = {
         {__LINE__, "ce_bjt.cir", {"v(b)", "v(c)", "v(e)", "v(e2)", "v(out)", "i(vcc)"}, 10, 1000,
          "dec 20 10 1e9", 0.5e-6, 200e-6, 0.1e-6},
@@ -162,8 +164,10 @@ TEST(SemiconductorsReferenceTest, RewrittenStagesAgreeWithTheOriginals) {
         // BSIM3 cannot follow Kf (refused below); with Kf = 1 the instances' m is exact.
         {__LINE__, "bsim_stage.cir", {"v(d)", "v(out)", "i(vdd)"}, 10, 1, "dec 20 1e3 1e10"},
     };
+    // clang-format on
     for (const auto& c : cases) {
-        SCOPED_TRACE(testing::Message() << "semiconductors_ngspice_test.cpp:" << c.line << ": " << c.deck);
+        SCOPED_TRACE(testing::Message()
+                     << "semiconductors_ngspice_test.cpp:" << c.line << ": " << c.deck);
         Worst w;
         compare(c, w);
         RecordProperty(c.deck, fmt::format("op {:.2g} ac {:.2g} tran {:.2g}", w.op, w.ac, w.tran));
@@ -188,7 +192,8 @@ TEST(SemiconductorsReferenceTest, GminLeakageFollowsKm) {
         {__LINE__, "M1 n g 0 0 bm", ".model bm nmos level=8 version=3.3.0"},
     };
     for (const auto& r : rows) {
-        SCOPED_TRACE(testing::Message() << "semiconductors_ngspice_test.cpp:" << r.line << ": " << r.model);
+        SCOPED_TRACE(testing::Message()
+                     << "semiconductors_ngspice_test.cpp:" << r.line << ": " << r.model);
         std::string deck = "leakage\nV1 a 0 dc 5\nV2 g 0 dc -1\nR1 a n 1meg\n" + r.device + "\n" +
                            r.model + "\n.options reltol=1e-9 abstol=1e-20 vntol=1e-12\n.end\n";
         test::TempDir dir;
@@ -209,7 +214,8 @@ TEST(SemiconductorsReferenceTest, GminLeakageFollowsKm) {
 }
 
 TEST(SemiconductorsReferenceTest, BsimDeckIsRefusedWhenTheFrequencyChanges) {
-    auto s = test::scale_text(test::read_bytes(test::source_dir() + "/netlists/devices/bsim_stage.cir"), 10, 1000);
+    auto s = test::scale_text(
+        test::read_bytes(test::source_dir() + "/netlists/devices/bsim_stage.cir"), 10, 1000);
     ASSERT_EQ(s.result.unscalable.size(), 2u);  // one per MOSFET
     for (const auto& d : s.result.unscalable)
         EXPECT_NE(d.message.find("uses model 'nb' (level 8, BSIM3): its intrinsic charge and its "

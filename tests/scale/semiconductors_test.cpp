@@ -35,15 +35,15 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
          "D1 a 0 dm m={(mm)/10}\n.param mm=2\n.model dm d cj=1f\n.options gmin=1e-13\n", 10, 1000},
         // BJT with a substrate node and a positional area.
         {__LINE__,
-         "Q1 c b e s qm 2\n.model qm npn(bf=100 cje=1p cjc=2p cjs=3p tf=100p tr=10n ptf=30 itf=1)\n",
+         "Q1 c b e s qm 2\n.model qm npn(bf=100 cje=1p cjc=2p cjs=3p tf=100p tr=10n ptf=30 "
+         "itf=1)\n",
          "Q1 c b e s qm 2 m=0.1\n.model qm npn(bf=100 cje=1f cjc=2f cjs=3f tf=100f tr=10p "
          "ptf=30 itf=1)\n",
          10, 1000},
         {__LINE__, "Q1 c b e qm\n.model qm pnp csub=1p ccs=2p qco=1n\n",
          "Q1 c b e qm m=0.1\n.model qm pnp csub=1f ccs=2f qco=1p\n", 10, 1000},
         {__LINE__, "J1 d g s jm\n.model jm njf (beta=1m vto=-2 cgs=2p cgd=1p)\n",
-         "J1 d g s jm m=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n",
-         10, 1000},
+         "J1 d g s jm m=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n", 10, 1000},
         // Below femto a value is written with an exponent.
         {__LINE__, "Z1 d g s zm\n.model zm nmf (cgs=1p cgd=0.5p)\n",
          "Z1 d g s zm m=0.1\n.model zm nmf (cgs=1f cgd=5e-16)\n.options gmin=1e-13\n", 10, 1000},
@@ -82,8 +82,9 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
 }
 
 TEST(SemiconductorsTest, FactorsOfOneChangeNothing) {
-    std::string deck = "t\nD1 a 0 dm\n.model dm d cjo=1p\nM1 d g 0 0 nb\n.model nb nmos level=8\n"
-                       "Q1 c b e qm\n.model qm npn level=4 rth0=1k\n.end\n";
+    std::string deck =
+        "t\nD1 a 0 dm\n.model dm d cjo=1p\nM1 d g 0 0 nb\n.model nb nmos level=8\n"
+        "Q1 c b e qm\n.model qm npn level=4 rth0=1k\n.end\n";
     auto s = test::scale_text(deck, 1, 1);
     EXPECT_EQ(s.text(), deck);
     EXPECT_TRUE(s.result.unscalable.empty());
@@ -116,7 +117,8 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
         ASSERT_EQ(s.result.notes.size(), 1u);
         EXPECT_EQ(render(s.result.notes[0]), r.rendered);
     }
-    EXPECT_TRUE(test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.end\n", 10, 1).result.notes.empty());
+    EXPECT_TRUE(
+        test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.end\n", 10, 1).result.notes.empty());
 }
 
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
@@ -228,10 +230,12 @@ TEST(SemiconductorsTest, ModelInAnIncludeIsRewrittenInItsCopy) {
 // back within 1e-6; on the way they gained an m (back to 1) and a .options line before .end.
 TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
     std::size_t decks = 0;
-    for (const auto& p : std::filesystem::directory_iterator(test::source_dir() + "/netlists/devices")) {
+    for (const auto& p :
+         std::filesystem::directory_iterator(test::source_dir() + "/netlists/devices")) {
         std::string original = test::read_bytes(p.path());
         bool bsim = original.find("level=8") != std::string::npos;  // cannot follow Kf
-        for (auto [a, b] : {std::pair{50.0, bsim ? 1.0 : 6.2831853e7}, std::pair{0.003, bsim ? 1.0 : 7.0}}) {
+        for (auto [a, b] :
+             {std::pair{50.0, bsim ? 1.0 : 6.2831853e7}, std::pair{0.003, bsim ? 1.0 : 7.0}}) {
             SCOPED_TRACE(testing::Message() << p.path().filename() << " Km=" << a << " Kf=" << b);
             auto there = test::scale_text(original, a, b);
             EXPECT_TRUE(there.result.unscalable.empty());
@@ -241,14 +245,16 @@ TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
                 auto x = test::line_fields(original, n), y = test::line_fields(back.text(), n);
                 if (x.empty() || x[0][0] == '*' || x[0] == ".end") continue;
                 if (y.size() == x.size() + 2 && y[y.size() - 2] == "m") {
-                    EXPECT_TRUE(test::close_to(test::number_value(y.back()), 1, 1e-6)) << "line " << n + 1;
+                    EXPECT_TRUE(test::close_to(test::number_value(y.back()), 1, 1e-6))
+                        << "line " << n + 1;
                     y.resize(x.size());
                 }
                 ASSERT_EQ(x.size(), y.size()) << "line " << n + 1;
                 for (std::size_t k = 0; k < x.size(); ++k) {
                     double u = test::number_value(x[k]), v = test::number_value(y[k]);
                     if (!std::isnan(u))
-                        EXPECT_TRUE(test::close_to(u, v, 1e-6)) << "line " << n + 1 << ": " << x[k] << " came back as " << y[k];
+                        EXPECT_TRUE(test::close_to(u, v, 1e-6))
+                            << "line " << n + 1 << ": " << x[k] << " came back as " << y[k];
                 }
             }
         }

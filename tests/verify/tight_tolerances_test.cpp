@@ -1,14 +1,15 @@
 // The tolerances verify adds to both runs of a deck with junction devices: RELTOL 1e-7,
 // ABSTOL and CHGTOL in proportion to the deck's own currents and charges (ngspice 39 manual
 // §15.1.1 for their meaning; shared notes "scaling-rules.md" §7).
-#include <string>
-#include <vector>
+#include "verify/tight_tolerances.hpp"
 
 #include <gtest/gtest.h>
 
+#include <string>
+#include <vector>
+
 #include "deck/load.hpp"
 #include "verify/sim_cards.hpp"
-#include "verify/tight_tolerances.hpp"
 
 namespace deckscale {
 namespace {
