@@ -41,7 +41,7 @@ struct ToleranceScan {
     std::optional<Place> end;             // the top file's .end card
     bool abstol = false, chgtol = false;  // set by the deck
     // Junction devices, by how ngspice 39 applies their m to the GMIN across their junctions
-    // (scale/semiconductors.cpp): multiplied by m (Q, J, BSIM) or not (D, Z, MOS levels 1-3).
+    // (scale/semiconductors.cpp): multiplied by m (Q, BSIM) or not (D, J by area, Z, MOS 1-3).
     bool gmin_times_m = false, gmin_apart = false;
     void merge(const ToleranceScan& later);
 };

@@ -160,10 +160,12 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // How ngspice 39 applies m to the GMIN across the device's junctions (ngspice 39.3 runs,
     // a junction reverse-biased through 1 MOhm, Km = 10, reltol 1e-9: with m = 1/Km the
     // leakage followed exactly with GMIN unchanged for Q, J, BSIM3 and BSIM4, with GMIN / Km
-    // for D, Z and MOS levels 1-3; VDMOS followed neither, 0.9 % off with GMIN / Km).
+    // for D, Z and MOS levels 1-3; VDMOS followed neither, 0.9 % off with GMIN / Km). A JFET's
+    // area leaves GMIN alone (exact with GMIN / Km), so J is scaled by its area and joins
+    // D and Z; a BJT's area is no way out (1.6e-4 off either way).
     ToleranceScan& t = p.tolerances();
-    if (letter == 'd' || letter == 'z') t.gmin_apart = true;
-    if (letter == 'q' || letter == 'j') t.gmin_times_m = true;
+    if (letter == 'd' || letter == 'z' || letter == 'j') t.gmin_apart = true;
+    if (letter == 'q') t.gmin_times_m = true;
     if (letter == 'm' && c.fields.size() > 5) {
         std::string model = to_lower(c.field_text(5));
         const MosModels& models = p.mos_models();
@@ -193,12 +195,20 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // m' = m / Km (ngspice multiplies currents, charges and conductances by m and divides the
     // series resistances: notes §4, verified there for D, Q and MOS level 1 and BSIM3).
     double k = 1 / f.km;
-    for (const auto& a : p.atoms(1)) {
-        if (!a.key || !iequals(c.text(*a.key), "m")) continue;
-        if (a.value) p.scale_by(*a.value, k, "m", "-");
+    const char* by = letter == 'j' ? "area" : "m";
+    // J d g s model [area]: a positional area right after the model name.
+    if (letter == 'j' && c.fields.size() > 5 && p.is_value_token(c.fields[5]) &&
+        (c.fields.size() == 6 || c.fields[6].kind != TokenKind::equals)) {
+        p.scale_by(c.fields[5], k, "area", "-");
         return;
     }
-    p.insert(c.fields.back().end, " m=" + format_plain(k, p.digits()), "m (added)", k);
+    for (const auto& a : p.atoms(1)) {
+        if (!a.key || !iequals(c.text(*a.key), by)) continue;
+        if (a.value) p.scale_by(*a.value, k, by, "-");
+        return;
+    }
+    p.insert(c.fields.back().end, fmt::format(" {}={}", by, format_plain(k, p.digits())),
+             fmt::format("{} (added)", by), k);
 }
 
 void scale_semiconductor_model(ScalePass& p, const std::string& type) {
@@ -253,13 +263,13 @@ void ScalePass::note_gmin(const Deck& deck) {
     std::string what;
     if (s.gmin_apart)
         what =
-            "ngspice multiplies the GMIN across Q, J and BSIM-family MOS junctions by the "
-            "device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: with both "
+            "ngspice multiplies the GMIN across Q and BSIM-family MOS junctions by the "
+            "device's m, but not the GMIN across D, J, Z and MOS level 1-3 junctions: with both "
             "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
             "(GMIN times a junction voltage) come out Km times too small";
     else if (deck.symbols.gmin_set)
         what =
-            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q, J "
+            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q "
             "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
             "(GMIN times a junction voltage) come out Km times too small";
     else

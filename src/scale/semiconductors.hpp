@@ -1,6 +1,7 @@
 // Semiconductor devices (D, Q, J, Z, M) and their models. A junction device is made 1/Km as
 // large by its parallel multiplier m (every current, charge and conductance times m, series
-// resistances divided by it); a frequency change divides every capacitance and every
+// resistances divided by it), a JFET by its area (see GMIN in semiconductors.cpp); a
+// frequency change divides every capacitance and every
 // transit time of the model by Kf, which leaves the DC curves alone (shared notes
 // "scaling-rules.md" §4; ngspice 39 runs there: diode, BJT and MOS level 1 exact).
 #pragma once

@@ -161,6 +161,9 @@ TEST(SemiconductorsReferenceTest, RewrittenStagesAgreeWithTheOriginals) {
          20e-9, 200e-6, 10e-9},
         {__LINE__, "mos1_stage.cir", {"v(g)", "v(d)", "v(s)", "v(out)", "i(vdd)"}, 10, 1000,
          "dec 20 10 1e9", 0.2e-6, 100e-6, 0.1e-6},
+        // A JFET (by its area) and a MESFET (by m), both with GMIN / Km.
+        {__LINE__, "jfet_mesfet.cir", {"v(s)", "v(g2)", "v(s2)", "v(d)", "v(out)", "i(vdd)"}, 10, 1000,
+         "dec 20 1e3 1e10", 10e-9, 5e-6, 5e-9},
         // BSIM3 cannot follow Kf (refused below); with Kf = 1 the instances' m is exact.
         {__LINE__, "bsim_stage.cir", {"v(d)", "v(out)", "i(vdd)"}, 10, 1, "dec 20 1e3 1e10"},
     };

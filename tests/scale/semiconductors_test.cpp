@@ -42,8 +42,15 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
          10, 1000},
         {__LINE__, "Q1 c b e qm\n.model qm pnp csub=1p ccs=2p qco=1n\n",
          "Q1 c b e qm m=0.1\n.model qm pnp csub=1f ccs=2f qco=1p\n", 10, 1000},
+        // A JFET by its area (which leaves GMIN alone), positional or keyword.
         {__LINE__, "J1 d g s jm\n.model jm njf (beta=1m vto=-2 cgs=2p cgd=1p)\n",
-         "J1 d g s jm m=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n", 10, 1000},
+         "J1 d g s jm area=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n"
+         ".options gmin=1e-13\n",
+         10, 1000},
+        {__LINE__, "J1 d g s jm 2 off\n.model jm njf\n",
+         "J1 d g s jm 0.2 off\n.model jm njf\n.options gmin=1e-13\n", 10, 1},
+        {__LINE__, "J1 d g s jm area=3 m=2\n.model jm njf\n",
+         "J1 d g s jm area=0.3 m=2\n.model jm njf\n.options gmin=1e-13\n", 10, 1},
         // Below femto a value is written with an exponent.
         {__LINE__, "Z1 d g s zm\n.model zm nmf (cgs=1p cgd=0.5p)\n",
          "Z1 d g s zm m=0.1\n.model zm nmf (cgs=1f cgd=5e-16)\n.options gmin=1e-13\n", 10, 1000},
@@ -55,7 +62,7 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
          "tox=20u cgso=1p cgdo=1p cgbo=2p cbd=1f cbs=1f cj=1u cjsw=1p)\n.options gmin=1e-13\n",
          10, 1000},
         // GMIN / Km: ngspice does not multiply the GMIN of D, Z and MOS levels 1-3 by m (it
-        // does for Q, J and BSIM: no GMIN for them above and below).
+        // does for Q and BSIM: no GMIN for them above and below).
         {__LINE__, "M1 d g 0 0 n2 w=2u l=1u\n.model n2 nmos level=2\n",
          "M1 d g 0 0 n2 w=2u l=1u m=0.1\n.model n2 nmos level=2\n.options gmin=1e-13\n", 10, 1},
         // Magnitude only: m alone, the model stays; any MOS level is exact then.
@@ -98,16 +105,16 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
     };
     const Row rows[] = {
         {__LINE__, "D1 a 0 dm\n.model dm d\nQ1 c b 0 qm\n.model qm npn\n",
-         "deck.cir:6:1: note: ngspice multiplies the GMIN across Q, J and BSIM-family MOS "
-         "junctions by the device's m, but not the GMIN across D, Z and MOS level 1-3 junctions: "
-         "with both in this deck GMIN is divided by Km for the latter, so the former's GMIN "
-         "currents (GMIN times a junction voltage) come out Km times too small\n"
+         "deck.cir:6:1: note: ngspice multiplies the GMIN across Q and BSIM-family MOS "
+         "junctions by the device's m, but not the GMIN across D, J, Z and MOS level 1-3 "
+         "junctions: with both in this deck GMIN is divided by Km for the latter, so the "
+         "former's GMIN currents (GMIN times a junction voltage) come out Km times too small\n"
          "  .end\n"
          "  ^\n"},
-        {__LINE__, "J1 d g s jm\n.model jm njf\n.options gmin=1e-10\n",
+        {__LINE__, "Q1 c b 0 qm\n.model qm npn\n.options gmin=1e-10\n",
          "deck.cir:5:1: note: the deck's gmin is divided by Km, but ngspice multiplies the GMIN "
-         "across Q, J and BSIM-family MOS junctions by the device's m already: their GMIN "
-         "currents (GMIN times a junction voltage) come out Km times too small\n"
+         "across Q and BSIM-family MOS junctions by the device's m already: their GMIN currents "
+         "(GMIN times a junction voltage) come out Km times too small\n"
          "  .end\n"
          "  ^\n"},
     };
@@ -227,7 +234,8 @@ TEST(SemiconductorsTest, ModelInAnIncludeIsRewrittenInItsCopy) {
 }
 
 // The decks of netlists/devices scaled by (a, b) and back by (1/a, 1/b) give every value
-// back within 1e-6; on the way they gained an m (back to 1) and a .options line before .end.
+// back within 1e-6; on the way they gained an m or a JFET area (back to 1) and a .options
+// line before .end.
 TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
     std::size_t decks = 0;
     for (const auto& p :
@@ -244,7 +252,8 @@ TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
             for (std::size_t n = 0; n < lines; ++n) {
                 auto x = test::line_fields(original, n), y = test::line_fields(back.text(), n);
                 if (x.empty() || x[0][0] == '*' || x[0] == ".end") continue;
-                if (y.size() == x.size() + 2 && y[y.size() - 2] == "m") {
+                if (y.size() == x.size() + 2 &&
+                    (y[y.size() - 2] == "m" || y[y.size() - 2] == "area")) {
                     EXPECT_TRUE(test::close_to(test::number_value(y.back()), 1, 1e-6))
                         << "line " << n + 1;
                     y.resize(x.size());
@@ -260,7 +269,7 @@ TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
         }
         ++decks;
     }
-    EXPECT_EQ(decks, 4u);
+    EXPECT_EQ(decks, 5u);
 }
 
 }  // namespace
