@@ -8,6 +8,7 @@
 #include "scale/numparam_names.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
+#include "scale/semiconductors.hpp"
 
 namespace deckscale {
 namespace {
@@ -214,13 +215,10 @@ void scale_model(ScalePass& p) {
     std::string type = to_lower(c.field_text(2));
     if (type == "res") type = "r";
     std::string scope = "model:" + type;
-    static const char* semis[] = {"d", "npn", "pnp", "njf", "pjf", "nmos", "pmos", "nmf", "pmf", "vdmos"};
-    for (const char* s : semis)
-        if (type == s) {
-            p.unscalable(c.fields[2], fmt::format("semiconductor model '{}' ({}) is not scaled by this "
-                                                  "version", c.field_text(1), c.field_text(2)));
-            return;
-        }
+    if (is_semiconductor_model_type(type)) {
+        scale_semiconductor_model(p, type);
+        return;
+    }
     bool any_rule = false;
     for (const auto& r : rule_table())
         if (r.scope == scope) {

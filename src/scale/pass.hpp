@@ -17,6 +17,8 @@
 namespace deckscale {
 
 struct CodeModelUses;
+struct MosModel;
+using MosModels = std::map<std::string, MosModel>;
 
 // One value-bearing item of a card: positional (key == nullptr) or key=value.
 struct Atom {
@@ -38,6 +40,9 @@ struct ToleranceScan {
     std::optional<Place> tran;            // the first transient analysis
     std::optional<Place> end;             // the top file's .end card
     bool abstol = false, chgtol = false;  // set by the deck
+    // Junction devices, by how ngspice 39 applies their m to the GMIN across their junctions
+    // (scale/semiconductors.cpp): multiplied by m (Q, BSIM) or not (D, J by area, Z, MOS 1-3).
+    bool gmin_times_m = false, gmin_apart = false;
     void merge(const ToleranceScan& later);
 };
 
@@ -71,6 +76,8 @@ public:
     double reltol() const;  // the one ngspice's sweeps use (.options reltol, default 1e-3)
     // The deck's A devices by model (null when it has no code-model models).
     const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
+    // The deck's MOS models, collected on first use (scale/semiconductors.cpp).
+    const MosModels& mos_models();
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
     std::size_t file() const { return file_; }  // index of the current card's file
@@ -89,6 +96,8 @@ public:
     std::size_t file_index() const { return file_; }
     // After the whole deck: writes the default transient tolerances scaled if it needs them.
     void finish(const Deck& deck);
+    // The notes finish() adds where GMIN cannot follow exactly (scale/semiconductors.cpp).
+    void note_gmin(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
     // Records an item that cannot be scaled exactly.
@@ -148,6 +157,7 @@ private:
     std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;
     std::shared_ptr<const CodeModelUses> code_model_uses_;
+    std::shared_ptr<const MosModels> mos_models_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};

@@ -11,6 +11,7 @@
 #include "scale/after_end.hpp"
 #include "scale/expression.hpp"
 #include "scale/pass.hpp"
+#include "scale/semiconductors.hpp"
 
 namespace deckscale {
 
@@ -52,6 +53,7 @@ void ScalePass::run(const Deck& deck) {
     symbols_ = &deck.symbols;
     deck_ = &deck;
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
+    mos_models_.reset();
     result_.edits.resize(deck.files.size());
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
@@ -179,9 +181,14 @@ void ScalePass::visit(const Card& c) {
         case 'e': case 'f': case 'g': case 'h': case 'b': scale_controlled(*this, letter); break;
         case 't': case 'o': case 'u': case 's': case 'w': scale_line_or_switch(*this, letter); break;
         case 'x': break;  // subcircuit definitions are scaled in place
-        case 'd': case 'q': case 'j': case 'z': case 'm':
-            unscalable(c.fields[0], "semiconductor devices are not scaled by this version "
-                                    "(their area/m factors and model cards need their own rules)");
+        case 'd': case 'q': case 'j': case 'z': scale_semiconductor(*this, letter); break;
+        case 'm':
+            // Whether a MOSFET follows Kf, and how its m acts on GMIN, depends on its model
+            // card, wherever that is.
+            if (observing_ && (settings_.factors.kf != 1 || settings_.factors.km != 1))
+                rescan_ = true;
+            else
+                scale_semiconductor(*this, letter);
             break;
         case 'a':
             if (observing_) rescan_ = true;  // as a code-model .model card above
@@ -196,6 +203,11 @@ void ScalePass::visit(const Card& c) {
             break;
         default: break;  // the reader has already warned about unknown element types
     }
+}
+
+const MosModels& ScalePass::mos_models() {
+    if (!mos_models_) mos_models_ = collect_mos_models(*deck_);
+    return *mos_models_;
 }
 
 const NumberParse& ScalePass::number_of(const Token& t) const {

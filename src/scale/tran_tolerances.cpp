@@ -45,6 +45,8 @@ void ToleranceScan::merge(const ToleranceScan& later) {
     if (!end) end = later.end;
     abstol = abstol || later.abstol;
     chgtol = chgtol || later.chgtol;
+    gmin_times_m = gmin_times_m || later.gmin_times_m;
+    gmin_apart = gmin_apart || later.gmin_apart;
 }
 
 void note_tolerances(ScalePass& p, const std::string& kw) {
@@ -84,9 +86,15 @@ void note_control_tolerances(ScalePass& p, std::string_view body) {
 
 void ScalePass::finish(const Deck& deck) {
     const ToleranceScan& s = tolerances_;
-    if (!s.tran) return;
     ScaleFactors f = settings_.factors;
-    if (f.km != 1 && !deck.symbols.inductors.empty()) {
+    // GMIN is a conductance ngspice puts across every pn junction; unscaled it costs up to
+    // 1 % at Km = 1e4 (shared notes "scaling-rules.md" §6, ngspice 39 runs). Where ngspice
+    // multiplies it by the device's m it follows m / Km by itself; elsewhere it is written
+    // as GMIN / Km when the deck leaves it at its default (see note_gmin).
+    bool gmin = s.gmin_apart && f.km != 1 && !deck.symbols.gmin_set;
+    if (f.km != 1) note_gmin(deck);
+    if (!s.tran && !gmin) return;
+    if (s.tran && f.km != 1 && !deck.symbols.inductors.empty()) {
         // cktterr.c: an inductor's truncation error is judged with ABSTOL on its voltage and
         // CHGTOL on its flux, which scale x1 and / Kf, not / Km and / (Km Kf). ngspice 39.3
         // run: an RLC pulse deck kept its 529 time points for 0.1 <= Km <= 1000, 527 at Km = 0.04.
@@ -98,20 +106,29 @@ void ScalePass::finish(const Deck& deck) {
             "points can differ slightly from the original's / Kf"));
     }
     std::string options, keys;
-    if (!s.abstol && factor_of(Unit::ampere, f) != 1) {
+    if (s.tran && !s.abstol && factor_of(Unit::ampere, f) != 1) {
         options += " abstol=" +
                    format_plain(kDefaultAbstol * factor_of(Unit::ampere, f), settings_.digits);
         keys = "abstol";
     }
-    if (!s.chgtol && factor_of(Unit::farad, f) != 1) {
+    if (s.tran && !s.chgtol && factor_of(Unit::farad, f) != 1) {
         options +=
             " chgtol=" + format_plain(kDefaultChgtol * factor_of(Unit::farad, f), settings_.digits);
         keys += keys.empty() ? "chgtol" : ", chgtol";
     }
+    if (gmin) {
+        options += " gmin=" + format_plain(deck.symbols.gmin / f.km, settings_.digits);
+        keys += keys.empty() ? "gmin" : ", gmin";
+    }
     if (options.empty()) return;
     // Before the top file's .end (an .options card anywhere in the deck applies to every
-    // analysis, ngspice 39 manual §15.1), else at the end of the file of the transient.
-    ToleranceScan::Place at = s.end ? *s.end : *s.tran;
+    // analysis, ngspice 39 manual §15.1), else at the end of the file of the transient (of
+    // the top file when there is none).
+    std::string_view top = deck.files[0].source->text();
+    ToleranceScan::Place at =
+        s.end    ? *s.end
+        : s.tran ? *s.tran
+                 : ToleranceScan::Place{0, 0, top.find("\r\n") != top.npos ? "\r\n" : "\n"};
     std::string_view text = deck.files[at.file].source->text();
     std::string line = ".options" + options + at.eol;
     if (!s.end) {
@@ -126,7 +143,9 @@ void ScalePass::finish(const Deck& deck) {
     ch.file = at.file;
     ch.offset = at.offset;
     ch.element = ".options";
-    ch.field = keys + " (defaults written out for the transient)";
+    ch.field = keys + (!gmin    ? " (defaults written out for the transient)"
+                       : s.tran ? " (defaults written out for the transient and the junctions)"
+                                : " (default written out for the junctions)");
     ch.new_text = ".options" + options;
     ch.factor = 1;
     // The change list is in file order.

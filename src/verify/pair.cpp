@@ -99,7 +99,10 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         auto job = [&](const Deck& d, const std::string& path, const std::string& card, double drive_ac) {
             SimJob j;
             j.label = path;
-            j.cards = simulation_cards(d, SimDeckOptions{card, drive, drive_ac});
+            j.cards = simulation_cards(
+                d, SimDeckOptions{
+                       card, drive, drive_ac,
+                       &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf}});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = o.timeout;
             j.memory_limit_mb = o.memory_mb;

@@ -6,6 +6,7 @@
 
 #include "base/text_util.hpp"
 #include "scale/rescale.hpp"
+#include "verify/tight_tolerances.hpp"
 #include "write/flatten.hpp"
 
 namespace deckscale {
@@ -74,6 +75,8 @@ std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions
     while (cards.size() > 1 && cards.back().empty()) cards.pop_back();
     if (cards.empty()) cards.push_back("deck");
     if (cards.front().empty()) cards.front() = "untitled deck";
+    if (o.tight_tolerances && has_junction_devices(deck))
+        cards.push_back(tight_options_card(*o.tight_tolerances));
     cards.push_back(o.analysis);
     cards.push_back(".end");
     return cards;

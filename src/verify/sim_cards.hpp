@@ -3,10 +3,12 @@
 // include inlined, and the verifier's analysis card added.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "deck/load.hpp"
+#include "scale/units.hpp"
 
 namespace deckscale {
 
@@ -14,6 +16,10 @@ struct SimDeckOptions {
     std::string analysis;     // e.g. ".ac dec 50 1 1meg"
     std::string drive;        // lower-case source name that gets an AC value; "" = as written
     double drive_ac = 1;      // the AC magnitude written on the driving source
+    // Km and Kf of this deck against the original ({1, 1} for the original itself). When set
+    // and the deck has junction devices, the run uses tight tolerances scaled by them
+    // (verify/tight_tolerances.hpp), so that both runs of a nonlinear deck converge alike.
+    std::optional<ScaleFactors> tight_tolerances;
 };
 
 // One card per entry (continuation lines as their own entries), title first, ".end" last.

@@ -27,7 +27,7 @@ ScaleRun run_scale_in_memory(const std::string& text, double km, double kf) {
 }
 
 TEST(ChangeReport, OneLinePerRewrittenValue) {
-    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nC1 a 0 {c0}\n.param c0=1n\nD1 a 0 dm\n.model dm d\n.end\n", 50, 2);
+    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nC1 a 0 {c0}\n.param c0=1n\nY1 a 0 b 0 tm\n.end\n", 50, 2);
     EXPECT_EQ(change_list_text(r.deck, r.result),
               "deck.cir:2:8  R1  value  1k -> 50k  x50 [Ohm]\n"
               "deck.cir:3:8  C1  value  {c0} -> {(c0)/100}  x0.01 [F]\n");
@@ -43,7 +43,7 @@ TEST(ChangeReport, InsertedCardStaysOnOneLine) {
 }
 
 TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
-    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nD1 a 0 dm\n.model dm d\n.end\n", 50, 2);
+    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nY1 a 0 b 0 tm\nY2 b 0 c 0 tm\n.end\n", 50, 2);
     auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {50, 2}, r.plan));
     EXPECT_EQ(j["km"], 50);
     EXPECT_EQ(j["kf"], 2);
@@ -58,7 +58,7 @@ TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
     EXPECT_EQ(j["changes"][0]["new"], "50k");
     EXPECT_EQ(j["changes"][0]["unit"], "Ohm");
     EXPECT_DOUBLE_EQ(j["changes"][0]["factor"].get<double>(), 50);
-    ASSERT_EQ(j["unscalable"].size(), 2u);  // the diode and its model
+    ASSERT_EQ(j["unscalable"].size(), 2u);  // the two TXL lines
     EXPECT_EQ(j["unscalable"][0]["line"], 3);
 }
 

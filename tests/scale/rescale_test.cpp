@@ -160,10 +160,10 @@ struct RefusalCase {
 
 TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
     const RefusalCase cases[] = {
-        {__LINE__, "D1 a 0 dm\n.model dm d is=1e-14\n", {"2:1", "3:11"}},
-        {__LINE__, "Q1 c b 0 qm\n", {"2:1"}},
-        {__LINE__, "M1 d g 0 0 mm w=1u l=1u\n", {"2:1"}},
-        {__LINE__, "J1 d g s jm\n", {"2:1"}},
+        {__LINE__, "D1 a 0 dm\n.model dm d level=3 is=1e-14\n", {"3:11"}},
+        {__LINE__, "Q1 c b 0 qm\n.model qm npn level=4\n", {"3:11"}},
+        {__LINE__, "M1 d g 0 0 mm w=1u l=1u\n.model mm nmos level=8\n", {"2:12"}},
+        {__LINE__, "J1 d g s jm\n.model jm njf level=2\n", {"3:11"}},
         {__LINE__, "A1 a b amp\n", {"2:1"}},
         {__LINE__, "V1 a 0 EXTERNAL\n", {"2:8"}},
         {__LINE__, "Y1 a 0 b 0 txlmod\n", {"2:1"}},
@@ -198,13 +198,13 @@ TEST(ScalerTest, RefusalTextForACouplingOfANonInductor) {
 }
 
 TEST(ScalerTest, LeaveUnscalableMarksEachCardInItsLineEndStyle) {
-    std::string lf = "t\nR1 a 0 1k\nD1 a 0 dm\n.end\n";
+    std::string lf = "t\nR1 a 0 1k\nY1 a 0 b 0 tm\n.end\n";
     auto s = test::scale_text(lf, 10, 1, 7, true);
-    EXPECT_EQ(s.text(), "t\nR1 a 0 10k\n* deckscale: left unscaled: semiconductor devices are not "
-                        "scaled by this version (their area/m factors and model cards need their "
-                        "own rules)\nD1 a 0 dm\n.end\n");
+    EXPECT_EQ(s.text(), "t\nR1 a 0 10k\n* deckscale: left unscaled: ngspice 39 KSPICE lines "
+                        "(TXL/CPL) do not stay equivalent under scaling; use an LTRA line (O "
+                        "element) instead\nY1 a 0 b 0 tm\n.end\n");
     EXPECT_EQ(s.result.unscalable.at(0).severity, Severity::warning);
-    std::string crlf = "t\r\nR1 a 0 1k\r\nQ1 c b 0 qm\r\nV1 a 0 EXTERNAL\r\n.end\r\n";
+    std::string crlf = "t\r\nR1 a 0 1k\r\nY1 c b 0 0 tm\r\nV1 a 0 EXTERNAL\r\n.end\r\n";
     auto c = test::scale_text(crlf, 10, 1, 7, true);
     std::string out = c.text();
     EXPECT_EQ(out.substr(0, 15), "t\r\nR1 a 0 10k\r\n");
@@ -212,7 +212,7 @@ TEST(ScalerTest, LeaveUnscalableMarksEachCardInItsLineEndStyle) {
     for (std::size_t i = 0; i < out.size(); ++i)
         if (out[i] == '\n') EXPECT_TRUE(i > 0 && out[i - 1] == '\r') << "bare LF at " << i;
     EXPECT_NE(out.find("\r\n* deckscale: left unscaled: EXTERNAL"), std::string::npos) << out;
-    EXPECT_NE(out.find("\r\n* deckscale: left unscaled: semiconductor"), std::string::npos) << out;
+    EXPECT_NE(out.find("\r\n* deckscale: left unscaled: ngspice 39 KSPICE"), std::string::npos) << out;
 }
 
 // Numbers keep their spelling: suffix and its case, unit tail, exponent style, digits.
@@ -324,7 +324,7 @@ namespace {
 // The marking comment goes after a byte-order mark, which stays the first bytes of the file.
 TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
     auto s = test::scale_text("t\n.include inc.lib\n.end\n", 2, 1, 7, true,
-                              {{"inc.lib", "\xEF\xBB\xBF" "D1 a 0 dm\n.model dm d\n"}});
+                              {{"inc.lib", "\xEF\xBB\xBF" "Y1 a 0 b 0 tm\n"}});
     ASSERT_EQ(s.texts.size(), 2u);
     EXPECT_EQ(s.texts[1].substr(0, 6), "\xEF\xBB\xBF* d");
 }

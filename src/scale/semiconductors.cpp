@@ -1,0 +1,282 @@
+#include "scale/semiconductors.hpp"
+
+#include <fmt/format.h>
+
+#include <string_view>
+#include <vector>
+
+#include "base/text_util.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/pass.hpp"
+
+namespace deckscale {
+namespace {
+
+// The model parameters a frequency change rewrites, as powers of Kf; every other parameter
+// of a level-1 model is a voltage, an exponent, a temperature coefficient or a magnitude
+// that the instance's m takes care of. Rows from the shared notes "scaling-rules.md" §4
+// (diode, BJT and MOS level 1 checked there with ngspice 39 runs), names and aliases as
+// ngspice 39's `devhelp` lists them (diode cjo/cj0/cj; BJT cjs/csub/ccs).
+struct ChargeRule {
+    char family;  // d q j z m
+    const char* key;
+    int kf_power;
+    const char* unit;
+};
+// clang-format off
+constexpr ChargeRule kChargeRules[] = {
+    {'d', "cjo", -1, "F"},  {'d', "cj0", -1, "F"},  {'d', "cj", -1, "F"},   {'d', "cjp", -1, "F"},
+    {'d', "tt", -1, "s"},
+    {'q', "cje", -1, "F"},  {'q', "cjc", -1, "F"},  {'q', "cjs", -1, "F"},  {'q', "csub", -1, "F"},
+    {'q', "ccs", -1, "F"},  {'q', "tf", -1, "s"},   {'q', "tr", -1, "s"},   {'q', "qco", -1, "C"},
+    {'j', "cgs", -1, "F"},  {'j', "cgd", -1, "F"},
+    {'z', "cgs", -1, "F"},  {'z', "cgd", -1, "F"},
+    // MOS level 1 (Meyer): the intrinsic caps follow Cox = eps/TOX; overlap and junction caps.
+    {'m', "tox", 1, "m"},   {'m', "cgso", -1, "F"}, {'m', "cgdo", -1, "F"}, {'m', "cgbo", -1, "F"},
+    {'m', "cbd", -1, "F"},  {'m', "cbs", -1, "F"},  {'m', "cj", -1, "F"},   {'m', "cjsw", -1, "F"},
+};
+// clang-format on
+
+// Self-heating networks: a thermal resistance and capacitance that m is not known to scale.
+constexpr const char* kThermalKeys[] = {"rth0", "cth0", "rth", "cth"};
+
+char family_of(const std::string& type) {
+    if (type == "d") return 'd';
+    if (type == "npn" || type == "pnp") return 'q';
+    if (type == "njf" || type == "pjf") return 'j';
+    if (type == "nmf" || type == "pmf") return 'z';
+    if (type == "nmos" || type == "pmos" || type == "vdmos") return 'm';
+    return 0;
+}
+
+// ngspice 39's MOS level numbers (manual §11.2) as the names people know them by.
+std::string mos_level_name(const MosModel& m) {
+    if (m.type == "vdmos") return "VDMOS";
+    if (m.level < 0) return "level given by an expression";
+    struct Name {
+        int level;
+        const char* name;
+    };
+    // clang-format off
+    static const Name names[] = {{2, "MOS2"},    {3, "MOS3"},     {6, "MOS6"},    {9, "MOS9"},
+                                 {4, "BSIM1"},   {5, "BSIM2"},    {8, "BSIM3"},   {49, "BSIM3"},
+                                 {14, "BSIM4"},  {54, "BSIM4"},   {10, "BSIMSOI"}, {58, "BSIMSOI"},
+                                 {44, "EKV"},    {55, "EKV"},     {68, "HiSIM2"}, {73, "HiSIM_HV"},
+                                 {69, "PSP"},    {70, "PSP"},     {60, "STAG SOI3"}};
+    // clang-format on
+    for (const auto& n : names)
+        if (n.level == m.level) return fmt::format("level {}, {}", m.level, n.name);
+    return fmt::format("level {}", m.level);
+}
+
+// The level= of a model card: 1 when not given, -1 when it is not a plain number.
+int level_of(const Card& c, const std::vector<Atom>& atoms) {
+    for (const auto& a : atoms) {
+        if (!a.key || !iequals(c.text(*a.key), "level")) continue;
+        if (!a.value) return -1;
+        auto n = parse_spice_number(c.text(*a.value));
+        if (!n.number) return -1;
+        return static_cast<int>(n.number->value);
+    }
+    return 1;
+}
+
+bool given(const Card& c, const std::vector<Atom>& atoms, std::string_view key) {
+    for (const auto& a : atoms)
+        if (a.key && a.value && iequals(c.text(*a.key), key)) return true;
+    return false;
+}
+
+MosModel mos_model_of(const Card& c, const std::vector<Atom>& atoms, const std::string& type) {
+    MosModel m;
+    m.type = type;
+    m.level = level_of(c, atoms);
+    struct Explicit {
+        const char* key;
+        const char* alias;
+        const char* name;
+    };
+    const Explicit needed[] = {{"vto", "vt0", "VTO"},
+                               {"kp", "kp", "KP"},
+                               {"gamma", "gamma", "GAMMA"},
+                               {"phi", "phi", "PHI"}};
+    for (const auto& n : needed)
+        if (!given(c, atoms, n.key) && !given(c, atoms, n.alias))
+            m.missing += m.missing.empty() ? std::string(n.name) : std::string(", ") + n.name;
+    return m;
+}
+
+std::string kf_text(double kf) { return fmt::format("{:.9g}", kf); }
+
+// Why a MOS model cannot follow Kf (empty when it can).
+std::string mos_refusal(const MosModel& m, double kf) {
+    if (m.type != "vdmos" && m.level == 1) {
+        if (m.missing.empty()) return "";
+        return fmt::format(
+            "level 1 follows a frequency change only with VTO, KP, GAMMA and PHI "
+            "given explicitly (otherwise TOX, which must be multiplied by Kf = "
+            "{}, also sets them); not given: {}",
+            kf_text(kf), m.missing);
+    }
+    if (m.type != "vdmos" && m.level >= 2 && m.level <= 9 && m.level != 4 && m.level != 5 &&
+        m.level != 8)
+        return fmt::format(
+            "its oxide thickness also enters the DC equations (mobility, "
+            "short-channel terms), so no model change follows a frequency change "
+            "(Kf = {}); with Kf = 1 it scales exactly by m",
+            kf_text(kf));
+    return fmt::format(
+        "its intrinsic charge and its DC current both come from the oxide "
+        "capacitance, so no model change follows a frequency change (Kf = {}); "
+        "with Kf = 1 it scales exactly by m",
+        kf_text(kf));
+}
+
+}  // namespace
+
+bool is_semiconductor_model_type(const std::string& lower_type) {
+    return family_of(lower_type) != 0;
+}
+
+std::shared_ptr<const MosModels> collect_mos_models(const Deck& deck) {
+    auto out = std::make_shared<MosModels>();
+    std::vector<Atom> atoms;
+    for (std::size_t f = 0; f < deck.files.size(); ++f)
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::dot || c.fields.size() < 3 || card_keyword(c) != ".model")
+                return;
+            std::string type = to_lower(c.field_text(2));
+            if (family_of(type) != 'm') return;
+            atoms_of(c, 3, atoms);
+            out->emplace(to_lower(c.field_text(1)), mos_model_of(c, atoms, type));
+        });
+    return out;
+}
+
+void scale_semiconductor(ScalePass& p, char letter) {
+    const Card& c = p.card();
+    ScaleFactors f = p.factors();
+    if (f.km == 1 && f.kf == 1) return;
+    // How ngspice 39 applies m to the GMIN across the device's junctions (ngspice 39.3 runs,
+    // a junction reverse-biased through 1 MOhm, Km = 10, reltol 1e-9: with m = 1/Km the
+    // leakage followed exactly with GMIN unchanged for Q, J, BSIM3 and BSIM4, with GMIN / Km
+    // for D, Z and MOS levels 1-3; VDMOS followed neither, 0.9 % off with GMIN / Km). A JFET's
+    // area leaves GMIN alone (exact with GMIN / Km), so J is scaled by its area and joins
+    // D and Z; a BJT's area is no way out (1.6e-4 off either way).
+    ToleranceScan& t = p.tolerances();
+    if (letter == 'd' || letter == 'z' || letter == 'j') t.gmin_apart = true;
+    if (letter == 'q') t.gmin_times_m = true;
+    if (letter == 'm' && c.fields.size() > 5) {
+        std::string model = to_lower(c.field_text(5));
+        const MosModels& models = p.mos_models();
+        auto it = models.find(model);
+        if (it != models.end()) {
+            const MosModel& m = it->second;
+            bool plain = m.type != "vdmos" && m.level >= 1 && m.level <= 3;
+            t.gmin_apart = t.gmin_apart || plain || m.type == "vdmos";
+            t.gmin_times_m = t.gmin_times_m || !plain;
+        }
+        if (f.kf != 1 && it == models.end()) {
+            p.unscalable(c.fields[5], fmt::format("MOSFET '{}': model '{}' is not defined in this "
+                                                  "deck, so whether it can follow a frequency "
+                                                  "change is not known",
+                                                  c.field_text(0), c.field_text(5)));
+            return;
+        }
+        std::string why = f.kf != 1 ? mos_refusal(it->second, f.kf) : "";
+        if (!why.empty()) {
+            p.unscalable(c.fields[5],
+                         fmt::format("MOSFET '{}' uses model '{}' ({}): {}", c.field_text(0),
+                                     c.field_text(5), mos_level_name(it->second), why));
+            return;
+        }
+    }
+    if (f.km == 1) return;
+    // m' = m / Km (ngspice multiplies currents, charges and conductances by m and divides the
+    // series resistances: notes §4, verified there for D, Q and MOS level 1 and BSIM3).
+    double k = 1 / f.km;
+    const char* by = letter == 'j' ? "area" : "m";
+    // J d g s model [area]: a positional area right after the model name.
+    if (letter == 'j' && c.fields.size() > 5 && p.is_value_token(c.fields[5]) &&
+        (c.fields.size() == 6 || c.fields[6].kind != TokenKind::equals)) {
+        p.scale_by(c.fields[5], k, "area", "-");
+        return;
+    }
+    for (const auto& a : p.atoms(1)) {
+        if (!a.key || !iequals(c.text(*a.key), by)) continue;
+        if (a.value) p.scale_by(*a.value, k, by, "-");
+        return;
+    }
+    p.insert(c.fields.back().end, fmt::format(" {}={}", by, format_plain(k, p.digits())),
+             fmt::format("{} (added)", by), k);
+}
+
+void scale_semiconductor_model(ScalePass& p, const std::string& type) {
+    const Card& c = p.card();
+    ScaleFactors f = p.factors();
+    if (f.km == 1 && f.kf == 1) return;
+    const auto& atoms = p.atoms(3);
+    for (const auto& a : atoms)
+        for (const char* key : kThermalKeys)
+            if (a.key && a.value && iequals(c.text(*a.key), key)) {
+                p.unscalable(*a.key, fmt::format("self-heating parameter '{}' of model '{}': "
+                                                 "the device's m is not known to scale its "
+                                                 "thermal network",
+                                                 c.text(*a.key), c.field_text(1)));
+                return;
+            }
+    if (f.kf == 1) return;  // the instances' m does all of a magnitude change
+    char family = family_of(type);
+    int level = level_of(c, atoms);
+    if (family == 'm') {
+        // MOS models that cannot follow Kf stay as they are: their instances are refused.
+        if (!mos_refusal(mos_model_of(c, atoms, type), f.kf).empty()) return;
+    } else if (level != 1) {
+        const char* what = family == 'd'   ? "diode"
+                           : family == 'q' ? "bipolar transistor"
+                           : family == 'j' ? "JFET"
+                                           : "MESFET";
+        p.unscalable(c.fields[2],
+                     fmt::format("{} model '{}' is {}: only level 1 has a known "
+                                 "set of charge parameters to divide by Kf = {}; "
+                                 "with Kf = 1 it scales exactly by m",
+                                 what, c.field_text(1),
+                                 level < 0 ? std::string("of a level given by an expression")
+                                           : fmt::format("level {}", level),
+                                 kf_text(f.kf)));
+        return;
+    }
+    for (const auto& a : atoms) {
+        if (!a.key || !a.value) continue;
+        for (const auto& r : kChargeRules)
+            if (r.family == family && iequals(c.text(*a.key), r.key)) {
+                double k = r.kf_power > 0 ? f.kf : 1 / f.kf;
+                p.scale_by(*a.value, k, to_lower(c.text(*a.key)), r.unit);
+                break;
+            }
+    }
+}
+
+void ScalePass::note_gmin(const Deck& deck) {
+    const ToleranceScan& s = tolerances_;
+    if (!s.gmin_times_m) return;
+    std::string what;
+    if (s.gmin_apart)
+        what =
+            "ngspice multiplies the GMIN across Q and BSIM-family MOS junctions by the "
+            "device's m, but not the GMIN across D, J, Z and MOS level 1-3 junctions: with both "
+            "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
+            "(GMIN times a junction voltage) come out Km times too small";
+    else if (deck.symbols.gmin_set)
+        what =
+            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q "
+            "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
+            "(GMIN times a junction voltage) come out Km times too small";
+    else
+        return;
+    std::size_t file = s.end ? s.end->file : 0;
+    std::uint32_t offset = s.end ? s.end->offset : 0;
+    result_.notes.push_back(deck.files[file].source->diagnose(Severity::note, offset, 1, what));
+}
+
+}  // namespace deckscale

@@ -1,0 +1,37 @@
+// Semiconductor devices (D, Q, J, Z, M) and their models. A junction device is made 1/Km as
+// large by its parallel multiplier m (every current, charge and conductance times m, series
+// resistances divided by it), a JFET by its area (see GMIN in semiconductors.cpp); a
+// frequency change divides every capacitance and every
+// transit time of the model by Kf, which leaves the DC curves alone (shared notes
+// "scaling-rules.md" §4; ngspice 39 runs there: diode, BJT and MOS level 1 exact).
+#pragma once
+
+#include <map>
+#include <memory>
+#include <string>
+
+#include "deck/load.hpp"
+
+namespace deckscale {
+
+class ScalePass;
+
+// What a MOS model tells about whether it can follow a frequency change.
+struct MosModel {
+    std::string type;     // nmos, pmos, vdmos (lower case)
+    int level = 1;        // ngspice's default; -1 when written as an expression
+    std::string missing;  // of VTO, KP, GAMMA, PHI: those not given explicitly
+};
+using MosModels = std::map<std::string, MosModel>;  // by lower-case model name
+
+// Every MOS model card of a deck (include files too).
+std::shared_ptr<const MosModels> collect_mos_models(const Deck& deck);
+
+// True for the .model types handled here (d npn pnp njf pjf nmf pmf nmos pmos vdmos).
+bool is_semiconductor_model_type(const std::string& lower_type);
+
+// Handlers called by the pass: an instance line and a .model card of a type above.
+void scale_semiconductor(ScalePass& p, char letter);
+void scale_semiconductor_model(ScalePass& p, const std::string& lower_type);
+
+}  // namespace deckscale

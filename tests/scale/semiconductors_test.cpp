@@ -1,0 +1,276 @@
+// Tests of the semiconductor handlers: instances made 1/Km as large by m, model charges and
+// transit times divided by Kf, MOS models that cannot follow Kf refused at their instances,
+// GMIN written scaled (shared notes "scaling-rules.md" §4 and §6).
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <filesystem>
+
+#include "support/common.hpp"
+#include "support/scale.hpp"
+
+namespace deckscale {
+namespace {
+
+std::string scaled(const std::string& cards, double km, double kf) {
+    auto s = test::scale_text("t\n" + cards + ".end\n", km, kf);
+    for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+    return s.text();
+}
+
+TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
+    struct Row {
+        int line;
+        std::string cards, expected;
+        double km, kf;
+    };
+    const Row rows[] = {
+        // No m yet: m = 1/Km is added; the model's charges follow Kf.
+        {__LINE__, "D1 a 0 dm\n.model dm d (is=1n rs=3 cjo=2p tt=5n)\n",
+         "D1 a 0 dm m=0.1\n.model dm d (is=1n rs=3 cjo=2f tt=5p)\n.options gmin=1e-13\n", 10, 1000},
+        // An m of its own is divided; an area stays (m scales area and sidewall alike).
+        {__LINE__, "D1 a 0 dm area=2 m=4\n.model dm d cj0=1p cjp=3p\n",
+         "D1 a 0 dm area=2 m=0.4\n.model dm d cj0=1f cjp=3f\n.options gmin=1e-13\n", 10, 1000},
+        {__LINE__, "D1 a 0 dm m={mm}\n.param mm=2\n.model dm d cj=1p\n",
+         "D1 a 0 dm m={(mm)/10}\n.param mm=2\n.model dm d cj=1f\n.options gmin=1e-13\n", 10, 1000},
+        // BJT with a substrate node and a positional area.
+        {__LINE__,
+         "Q1 c b e s qm 2\n.model qm npn(bf=100 cje=1p cjc=2p cjs=3p tf=100p tr=10n ptf=30 "
+         "itf=1)\n",
+         "Q1 c b e s qm 2 m=0.1\n.model qm npn(bf=100 cje=1f cjc=2f cjs=3f tf=100f tr=10p "
+         "ptf=30 itf=1)\n",
+         10, 1000},
+        {__LINE__, "Q1 c b e qm\n.model qm pnp csub=1p ccs=2p qco=1n\n",
+         "Q1 c b e qm m=0.1\n.model qm pnp csub=1f ccs=2f qco=1p\n", 10, 1000},
+        // A JFET by its area (which leaves GMIN alone), positional or keyword.
+        {__LINE__, "J1 d g s jm\n.model jm njf (beta=1m vto=-2 cgs=2p cgd=1p)\n",
+         "J1 d g s jm area=0.1\n.model jm njf (beta=1m vto=-2 cgs=2f cgd=1f)\n"
+         ".options gmin=1e-13\n",
+         10, 1000},
+        {__LINE__, "J1 d g s jm 2 off\n.model jm njf\n",
+         "J1 d g s jm 0.2 off\n.model jm njf\n.options gmin=1e-13\n", 10, 1},
+        {__LINE__, "J1 d g s jm area=3 m=2\n.model jm njf\n",
+         "J1 d g s jm area=0.3 m=2\n.model jm njf\n.options gmin=1e-13\n", 10, 1},
+        // Below femto a value is written with an exponent.
+        {__LINE__, "Z1 d g s zm\n.model zm nmf (cgs=1p cgd=0.5p)\n",
+         "Z1 d g s zm m=0.1\n.model zm nmf (cgs=1f cgd=5e-16)\n.options gmin=1e-13\n", 10, 1000},
+        // MOS level 1 with VTO, KP, GAMMA, PHI: TOX times Kf, overlap and junction caps / Kf.
+        {__LINE__,
+         "M1 d g 0 0 nm w=2u l=1u\n.model nm nmos (vto=0.7 kp=50u gamma=0.4 phi=0.6 tox=20n "
+         "cgso=1n cgdo=1n cgbo=2n cbd=1p cbs=1p cj=1m cjsw=1n)\n",
+         "M1 d g 0 0 nm w=2u l=1u m=0.1\n.model nm nmos (vto=0.7 kp=50u gamma=0.4 phi=0.6 "
+         "tox=20u cgso=1p cgdo=1p cgbo=2p cbd=1f cbs=1f cj=1u cjsw=1p)\n.options gmin=1e-13\n",
+         10, 1000},
+        // GMIN / Km: ngspice does not multiply the GMIN of D, Z and MOS levels 1-3 by m (it
+        // does for Q and BSIM: no GMIN for them above and below).
+        {__LINE__, "M1 d g 0 0 n2 w=2u l=1u\n.model n2 nmos level=2\n",
+         "M1 d g 0 0 n2 w=2u l=1u m=0.1\n.model n2 nmos level=2\n.options gmin=1e-13\n", 10, 1},
+        // Magnitude only: m alone, the model stays; any MOS level is exact then.
+        {__LINE__, "D1 a 0 dm\n.model dm d cjo=2p tt=5n\n",
+         "D1 a 0 dm m=0.1\n.model dm d cjo=2p tt=5n\n.options gmin=1e-13\n", 10, 1},
+        {__LINE__, "M1 d g 0 0 nb w=2u l=1u\n.model nb nmos level=8 tox=4n\n",
+         "M1 d g 0 0 nb w=2u l=1u m=0.1\n.model nb nmos level=8 tox=4n\n", 10, 1},
+        // Frequency only: no m, no GMIN.
+        {__LINE__, "D1 a 0 dm\n.model dm d cjo=2p tt=5n\n", "D1 a 0 dm\n.model dm d cjo=2f tt=5p\n",
+         1, 1000},
+        // A GMIN the deck sets is scaled where it stands; none is added.
+        {__LINE__, "D1 a 0 dm\n.model dm d\n.options gmin=1e-10\n",
+         "D1 a 0 dm m=0.5\n.model dm d\n.options gmin=5e-11\n", 2, 1},
+        // With a transient, GMIN joins the transient's tolerances on one line.
+        {__LINE__, "D1 a 0 dm\n.model dm d\n.tran 1u 1m\n",
+         "D1 a 0 dm m=0.1\n.model dm d\n.tran 1u 1m\n.options abstol=1e-13 chgtol=1e-15 "
+         "gmin=1e-13\n",
+         10, 1},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_test.cpp:" << r.line);
+        EXPECT_EQ(scaled(r.cards, r.km, r.kf), "t\n" + r.expected + ".end\n");
+    }
+}
+
+TEST(SemiconductorsTest, FactorsOfOneChangeNothing) {
+    std::string deck =
+        "t\nD1 a 0 dm\n.model dm d cjo=1p\nM1 d g 0 0 nb\n.model nb nmos level=8\n"
+        "Q1 c b e qm\n.model qm npn level=4 rth0=1k\n.end\n";
+    auto s = test::scale_text(deck, 1, 1);
+    EXPECT_EQ(s.text(), deck);
+    EXPECT_TRUE(s.result.unscalable.empty());
+}
+
+// Where one GMIN cannot serve every device, a note says what it costs.
+TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
+    struct Row {
+        int line;
+        std::string cards, rendered;
+    };
+    const Row rows[] = {
+        {__LINE__, "D1 a 0 dm\n.model dm d\nQ1 c b 0 qm\n.model qm npn\n",
+         "deck.cir:6:1: note: ngspice multiplies the GMIN across Q and BSIM-family MOS "
+         "junctions by the device's m, but not the GMIN across D, J, Z and MOS level 1-3 "
+         "junctions: with both in this deck GMIN is divided by Km for the latter, so the "
+         "former's GMIN currents (GMIN times a junction voltage) come out Km times too small\n"
+         "  .end\n"
+         "  ^\n"},
+        {__LINE__, "Q1 c b 0 qm\n.model qm npn\n.options gmin=1e-10\n",
+         "deck.cir:5:1: note: the deck's gmin is divided by Km, but ngspice multiplies the GMIN "
+         "across Q and BSIM-family MOS junctions by the device's m already: their GMIN currents "
+         "(GMIN times a junction voltage) come out Km times too small\n"
+         "  .end\n"
+         "  ^\n"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_test.cpp:" << r.line);
+        auto s = test::scale_text("t\n" + r.cards + ".end\n", 10, 1);
+        ASSERT_EQ(s.result.notes.size(), 1u);
+        EXPECT_EQ(render(s.result.notes[0]), r.rendered);
+    }
+    EXPECT_TRUE(
+        test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.end\n", 10, 1).result.notes.empty());
+}
+
+TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
+    auto s = test::scale_text("t\r\nD1 a 0 dm\r\n.model dm d", 10, 1);
+    EXPECT_EQ(s.text(), "t\r\nD1 a 0 dm m=0.1\r\n.model dm d\r\n.options gmin=1e-13\r\n");
+}
+
+TEST(SemiconductorsTest, RefusalsSayWhy) {
+    struct Row {
+        int line;
+        std::string cards, rendered;
+        double kf;
+    };
+    const Row rows[] = {
+        {__LINE__, "M1 d g 0 0 nb w=2u l=1u\n.model nb nmos level=8 tox=4n\n",
+         "deck.cir:2:12: error: MOSFET 'M1' uses model 'nb' (level 8, BSIM3): its intrinsic "
+         "charge and its DC current both come from the oxide capacitance, so no model change "
+         "follows a frequency change (Kf = 1000); with Kf = 1 it scales exactly by m\n"
+         "  M1 d g 0 0 nb w=2u l=1u\n"
+         "             ^~\n",
+         1000},
+        {__LINE__, "M1 d g 0 0 n3\n.model n3 nmos level=3 vto=1 kp=1u gamma=0 phi=0.6\n",
+         "deck.cir:2:12: error: MOSFET 'M1' uses model 'n3' (level 3, MOS3): its oxide "
+         "thickness also enters the DC equations (mobility, short-channel terms), so no model "
+         "change follows a frequency change (Kf = 100); with Kf = 1 it scales exactly by m\n"
+         "  M1 d g 0 0 n3\n"
+         "             ^~\n",
+         100},
+        {__LINE__, "M1 d g 0 0 n1\n.model n1 pmos vto=-1 gamma=0.3 tox=20n\n",
+         "deck.cir:2:12: error: MOSFET 'M1' uses model 'n1' (level 1): level 1 follows a "
+         "frequency change only with VTO, KP, GAMMA and PHI given explicitly (otherwise TOX, "
+         "which must be multiplied by Kf = 100, also sets them); not given: KP, PHI\n"
+         "  M1 d g 0 0 n1\n"
+         "             ^~\n",
+         100},
+        {__LINE__, "M1 d g 0 0 pv\n.model pv vdmos\n",
+         "deck.cir:2:12: error: MOSFET 'M1' uses model 'pv' (VDMOS): its intrinsic charge and "
+         "its DC current both come from the oxide capacitance, so no model change follows a "
+         "frequency change (Kf = 100); with Kf = 1 it scales exactly by m\n"
+         "  M1 d g 0 0 pv\n"
+         "             ^~\n",
+         100},
+        {__LINE__, "M1 d g 0 0 nx\n",
+         "deck.cir:2:12: error: MOSFET 'M1': model 'nx' is not defined in this deck, so "
+         "whether it can follow a frequency change is not known\n"
+         "  M1 d g 0 0 nx\n"
+         "             ^~\n",
+         100},
+        {__LINE__, "D1 a 0 d3\n.model d3 d level=3 cjo=1p\n",
+         "deck.cir:3:11: error: diode model 'd3' is level 3: only level 1 has a known set of "
+         "charge parameters to divide by Kf = 100; with Kf = 1 it scales exactly by m\n"
+         "  .model d3 d level=3 cjo=1p\n"
+         "            ^\n",
+         100},
+        {__LINE__, "Q1 c b e qv\n.model qv npn level=4\n",
+         "deck.cir:3:11: error: bipolar transistor model 'qv' is level 4: only level 1 has a "
+         "known set of charge parameters to divide by Kf = 100; with Kf = 1 it scales exactly "
+         "by m\n"
+         "  .model qv npn level=4\n"
+         "            ^~~\n",
+         100},
+        {__LINE__, "D1 a 0 dh\n.model dh d rth0=100 cth0=1u\n",
+         "deck.cir:3:13: error: self-heating parameter 'rth0' of model 'dh': the device's m is "
+         "not known to scale its thermal network\n"
+         "  .model dh d rth0=100 cth0=1u\n"
+         "              ^~~~\n",
+         1},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_test.cpp:" << r.line);
+        auto s = test::scale_text("t\n" + r.cards + ".end\n", 10, r.kf);
+        ASSERT_EQ(s.result.unscalable.size(), 1u);
+        EXPECT_EQ(render(s.result.unscalable[0]), r.rendered);
+    }
+}
+
+// Reading and scaling in one pass gives what the complete deck gives, also when the MOS
+// model is declared after its instance.
+TEST(SemiconductorsTest, OnePassEqualsTwoPasses) {
+    for (const char* deck : {"t\nM1 d g 0 0 nb\n.model nb nmos level=8\nM2 d g 0 0 n1\n"
+                             ".model n1 nmos vto=1 kp=1u gamma=0 phi=0.6 tox=10n\n.end\n",
+                             "t\nD1 a 0 dm\n.options gmin=1e-9\n.model dm d tt=1n\n.end\n"}) {
+        SCOPED_TRACE(deck);
+        MemoryFileSystem fs;
+        fs.add("deck.cir", deck);
+        ScaleSettings settings;
+        settings.factors = {10, 100};
+        settings.mark_unscalable = true;
+        Deck d = load_deck("deck.cir", fs);
+        ScaleResult two = scale_deck(d, settings);
+        ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+        EXPECT_EQ(apply_edits(one.deck.top().text(), one.result.edits[0]),
+                  apply_edits(d.top().text(), two.edits[0]));
+        EXPECT_EQ(render(one.result.unscalable), render(two.unscalable));
+    }
+}
+
+// A model in an included file is rewritten in the include's scaled copy, the library file
+// itself is never edited (the writer's plan writes changed includes as copies).
+TEST(SemiconductorsTest, ModelInAnIncludeIsRewrittenInItsCopy) {
+    auto s = test::scale_text("t\n.include parts.lib\nD1 a 0 dm\n.end\n", 1, 1000, 7, false,
+                              {{"parts.lib", ".model dm d cjo=4p tt=2n\n"}});
+    ASSERT_EQ(s.texts.size(), 2u);
+    EXPECT_EQ(s.texts[1], ".model dm d cjo=4f tt=2p\n");
+    EXPECT_EQ(s.text(), "t\n.include parts.lib\nD1 a 0 dm\n.end\n");
+}
+
+// The decks of netlists/devices scaled by (a, b) and back by (1/a, 1/b) give every value
+// back within 1e-6; on the way they gained an m or a JFET area (back to 1) and a .options
+// line before .end.
+TEST(SemiconductorsTest, DeviceDecksRoundTrip) {
+    std::size_t decks = 0;
+    for (const auto& p :
+         std::filesystem::directory_iterator(test::source_dir() + "/netlists/devices")) {
+        std::string original = test::read_bytes(p.path());
+        bool bsim = original.find("level=8") != std::string::npos;  // cannot follow Kf
+        for (auto [a, b] :
+             {std::pair{50.0, bsim ? 1.0 : 6.2831853e7}, std::pair{0.003, bsim ? 1.0 : 7.0}}) {
+            SCOPED_TRACE(testing::Message() << p.path().filename() << " Km=" << a << " Kf=" << b);
+            auto there = test::scale_text(original, a, b);
+            EXPECT_TRUE(there.result.unscalable.empty());
+            auto back = test::scale_text(there.text(), 1 / a, 1 / b);
+            std::size_t lines = std::count(original.begin(), original.end(), '\n');
+            for (std::size_t n = 0; n < lines; ++n) {
+                auto x = test::line_fields(original, n), y = test::line_fields(back.text(), n);
+                if (x.empty() || x[0][0] == '*' || x[0] == ".end") continue;
+                if (y.size() == x.size() + 2 &&
+                    (y[y.size() - 2] == "m" || y[y.size() - 2] == "area")) {
+                    EXPECT_TRUE(test::close_to(test::number_value(y.back()), 1, 1e-6))
+                        << "line " << n + 1;
+                    y.resize(x.size());
+                }
+                ASSERT_EQ(x.size(), y.size()) << "line " << n + 1;
+                for (std::size_t k = 0; k < x.size(); ++k) {
+                    double u = test::number_value(x[k]), v = test::number_value(y[k]);
+                    if (!std::isnan(u))
+                        EXPECT_TRUE(test::close_to(u, v, 1e-6))
+                            << "line " << n + 1 << ": " << x[k] << " came back as " << y[k];
+                }
+            }
+        }
+        ++decks;
+    }
+    EXPECT_EQ(decks, 5u);
+}
+
+}  // namespace
+}  // namespace deckscale
