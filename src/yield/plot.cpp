@@ -81,6 +81,8 @@ std::string write_envelope_plot(const YieldResult& r, const std::string& svg_pat
     // Columns 7..10: the envelope and the mask relative to the nominal, for the lower panel.
     std::string gp = "set multiplot layout 2,1 title " + quote(title) + "\n";
     gp += "set logscale x\nset grid\nset key bottom left\nset format x '%.0s%c'\nset xlabel 'frequency / Hz'\n";
+    if (r.frequency.size() > 1)
+        gp += fmt::format("set xrange [{:.10e}:{:.10e}]\n", r.frequency.front(), r.frequency.back());
     gp += "set ylabel " + quote("|" + r.output + "| / dB") + "\n";
     gp += "plot data using 1:3:4 with filledcurves lc rgb '#9ecae1' title " +
           quote(fmt::format("envelope of {} trials", r.trials.size())) +

@@ -93,8 +93,10 @@ void summarize_trials(YieldResult& r, const YieldRequest& o) {
     r.corner = summarize(corner);
     r.interval = wilson_interval(r.passed, r.trials.size());
     if (r.trials.empty()) return;
-    // The worst trial: the smallest margin to the mask, else the largest deviation.
+    // The worst trial: a failing one before a passing one, then the smallest margin to the
+    // mask, then the largest deviation.
     auto worse = [&](const TrialResult& a, const TrialResult& b) {
+        if (a.figures.pass != b.figures.pass) return !a.figures.pass;
         if (limits && a.figures.margin_db != b.figures.margin_db) return a.figures.margin_db < b.figures.margin_db;
         return a.figures.deviation_db > b.figures.deviation_db;
     };
