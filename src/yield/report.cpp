@@ -73,9 +73,11 @@ std::string yield_text(const YieldResult& r, const YieldReportContext& c) {
     s += summary_line("corner", r.corner, "Hz");
     if (r.worst_trial) {
         const TrialResult& w = r.trials[r.worst_trial - 1];
-        s += fmt::format("worst trial: #{} (deviation {:.3g} dB{}), parts:", w.trial, w.figures.deviation_db,
+        s += fmt::format("worst trial: #{} ({}; deviation {:.3g} dB{}, corner {}), parts:", w.trial,
+                         w.figures.pass ? "meets the mask" : "fails", w.figures.deviation_db,
                          std::isfinite(w.figures.margin_db) ? fmt::format(", margin {:.3g} dB", w.figures.margin_db)
-                                                            : "");
+                                                            : "",
+                         w.figures.corner_hz ? hz(*w.figures.corner_hz) : "none");
         for (const auto& [name, value] : r.worst_values) s += fmt::format(" {}={:.6g}", name, value);
         s += "\n";
     }
