@@ -4,9 +4,10 @@
 // Never prints.
 //
 // Each deck runs once in an isolated simulator process with `.op` and its own `.ac` (the
-// scaled deck's sweep is already mapped). AC magnitudes are amplitudes of the sinusoid
-// (ngspice 39 manual §4.1.1: the AC magnitude of a source), so a resistor's average power at
-// a frequency is |V|^2 / (2 R); its DC power is V^2 / R. A capacitor's AC current is
+// scaled deck's sweep is already mapped). AC results are phasors whose magnitude is the peak
+// of the sinusoid at the source's AC value (ngspice 39 manual §4.1 for that value; phasor
+// analysis is common practice), so a resistor's average power at a frequency is
+// |V|^2 / (2 R); its DC power is V^2 / R. A capacitor's AC current is
 // |V| 2 pi f C, an inductor's is its branch current.
 #pragma once
 
