@@ -1,8 +1,8 @@
 #include "cli/stress_command.hpp"
 
-#include <filesystem>
-
 #include <fmt/format.h>
+
+#include <filesystem>
 
 #include "base/file_system.hpp"
 #include "base/output_file.hpp"
@@ -26,8 +26,9 @@ int run_stress_command(const StressOptions& o, std::ostream& out, std::ostream& 
         std::error_code ec;
         auto dir = std::filesystem::absolute(o.json).parent_path();
         if (!std::filesystem::is_directory(dir, ec)) {
-            err << fmt::format("deckscale: error: cannot write '{}': the folder '{}' does not exist\n", o.json,
-                               dir.string());
+            err << fmt::format(
+                "deckscale: error: cannot write '{}': the folder '{}' does not exist\n", o.json,
+                dir.string());
             return exit_bad_input;
         }
     }

@@ -1,10 +1,9 @@
 #include "cli/yield_command.hpp"
 
+#include <fmt/format.h>
 #include <unistd.h>
 
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "base/file_system.hpp"
 #include "base/output_file.hpp"
@@ -25,11 +24,13 @@ std::string make_request(const YieldOptions& o, YieldRequest& r, const FileSyste
     r.trials = o.trials;
     r.seed = o.seed;
     if (!o.tolerance.empty())
-        if (auto e = parse_tolerances(o.tolerance, r.tolerances); !e.empty()) return "--tolerance " + e;
+        if (auto e = parse_tolerances(o.tolerance, r.tolerances); !e.empty())
+            return "--tolerance " + e;
     r.spread = o.spread == "gauss" ? Spread::gauss : Spread::uniform;
     if (!o.mask.empty()) {
         std::string w = o.mask;
-        if (w.size() > 2 && (w.ends_with("dB") || w.ends_with("db") || w.ends_with("DB"))) w.resize(w.size() - 2);
+        if (w.size() > 2 && (w.ends_with("dB") || w.ends_with("db") || w.ends_with("DB")))
+            w.resize(w.size() - 2);
         NumberParse p = parse_spice_number(w);
         if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0))
             return fmt::format("--mask '{}': give the window in dB, e.g. 0.5dB", o.mask);
@@ -39,7 +40,8 @@ std::string make_request(const YieldOptions& o, YieldRequest& r, const FileSyste
         if (!o.mask.empty() || !o.band.empty()) return "--mask-file excludes --mask and --band";
         auto text = files.read(o.mask_file);
         if (!text) return fmt::format("--mask-file: cannot read '{}'", o.mask_file);
-        if (auto e = parse_mask_rows(std::string(text->bytes), o.mask_file, r.mask); !e.empty()) return e;
+        if (auto e = parse_mask_rows(std::string(text->bytes), o.mask_file, r.mask); !e.empty())
+            return e;
     }
     double lo = 0, hi = 0;
     if (!o.band.empty()) {
@@ -62,9 +64,12 @@ std::string make_request(const YieldOptions& o, YieldRequest& r, const FileSyste
 }
 
 std::string progress_line(const YieldProgress& p) {
-    double left = p.done ? p.seconds * static_cast<double>(p.trials - p.done) / static_cast<double>(p.done) : 0;
-    return fmt::format("\r{} of {} trials, yield so far {:.1f} %, about {:.0f} s left   ", p.done, p.trials,
-                       p.done ? 100.0 * static_cast<double>(p.passed) / static_cast<double>(p.done) : 0.0, left);
+    double left =
+        p.done ? p.seconds * static_cast<double>(p.trials - p.done) / static_cast<double>(p.done)
+               : 0;
+    return fmt::format(
+        "\r{} of {} trials, yield so far {:.1f} %, about {:.0f} s left   ", p.done, p.trials,
+        p.done ? 100.0 * static_cast<double>(p.passed) / static_cast<double>(p.done) : 0.0, left);
 }
 
 const char* kCautions =
@@ -81,8 +86,9 @@ int run_yield_command(const YieldOptions& o, std::ostream& out, std::ostream& er
         fs::path dir = fs::absolute(path).parent_path();
         std::error_code ec;
         if (!fs::is_directory(dir, ec)) {
-            err << fmt::format("deckscale: error: cannot write '{}': the folder '{}' does not exist\n", path,
-                               dir.string());
+            err << fmt::format(
+                "deckscale: error: cannot write '{}': the folder '{}' does not exist\n", path,
+                dir.string());
             return exit_bad_input;
         }
     }
@@ -94,7 +100,9 @@ int run_yield_command(const YieldOptions& o, std::ostream& out, std::ostream& er
     }
     bool terminal = ::isatty(2) == 1;
     if (terminal)
-        request.progress = [&err](const YieldProgress& p) { err << progress_line(p) << std::flush; };
+        request.progress = [&err](const YieldProgress& p) {
+            err << progress_line(p) << std::flush;
+        };
     YieldResult r;
     try {
         r = run_yield(request, disk);
@@ -104,8 +112,8 @@ int run_yield_command(const YieldOptions& o, std::ostream& out, std::ostream& er
     }
     if (terminal && request.progress && r.jobs > 0) err << "\r" << std::string(72, ' ') << "\r";
     for (const auto& f : r.failures)
-        err << fmt::format("deckscale: error: simulating {} failed: {}: {}\n", f.label, to_string(f.status),
-                           f.message);
+        err << fmt::format("deckscale: error: simulating {} failed: {}: {}\n", f.label,
+                           to_string(f.status), f.message);
     for (const auto& p : r.problems) err << "deckscale: error: " << p << "\n";
     if (r.outcome == YieldResult::Outcome::bad_input) return exit_bad_input;
     if (r.outcome == YieldResult::Outcome::sim_failed) return exit_sim_failed;

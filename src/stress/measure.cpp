@@ -1,12 +1,12 @@
 #include "stress/measure.hpp"
 
+#include <fmt/format.h>
+
 #include <charconv>
 #include <cmath>
 #include <complex>
 #include <filesystem>
 #include <numbers>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
@@ -35,7 +35,9 @@ std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string
             if (kw == ".ends" && depth > 0) --depth;
             return;
         }
-        if (c.kind != CardKind::element || kw.empty() || (kw[0] != 'r' && kw[0] != 'c' && kw[0] != 'l')) return;
+        if (c.kind != CardKind::element || kw.empty() ||
+            (kw[0] != 'r' && kw[0] != 'c' && kw[0] != 'l'))
+            return;
         if (depth > 0) return held.push_back(kw + " (inside a subcircuit)");
         if (c.fields.size() < 4) return held.push_back(kw + " (no value)");
         NumberParse p = parse_spice_number(c.field_text(3));
@@ -79,9 +81,10 @@ PartLoad load_of(const TwoTerminal& t, const SimPlot* op, const SimPlot* ac) {
     const SimVector* branch = kind == 'l' ? ac->find(t.name + "#branch") : nullptr;
     for (std::size_t k = 0; freq && k < freq->values.size(); ++k) {
         double v = std::abs(node_value(*ac, t.a, k) - node_value(*ac, t.b, k));
-        double i = kind == 'r'   ? v / t.value
-                   : kind == 'c' ? v * 2 * std::numbers::pi * freq->values[k].real() * t.value
-                                 : (branch && k < branch->values.size() ? std::abs(branch->values[k]) : 0);
+        double i = kind == 'r' ? v / t.value
+                   : kind == 'c'
+                       ? v * 2 * std::numbers::pi * freq->values[k].real() * t.value
+                       : (branch && k < branch->values.size() ? std::abs(branch->values[k]) : 0);
         l.ac_voltage = std::max(l.ac_voltage, v);
         l.ac_current = std::max(l.ac_current, i);
         if (kind == 'r') l.ac_power = std::max(l.ac_power, v * v / (2 * t.value));
@@ -104,16 +107,19 @@ std::string parse_ratings(const std::string& text, Ratings& r) {
     std::size_t pos = 0;
     while (pos <= text.size()) {
         std::size_t comma = text.find(',', pos);
-        std::string item = text.substr(pos, comma == std::string::npos ? std::string::npos : comma - pos);
+        std::string item =
+            text.substr(pos, comma == std::string::npos ? std::string::npos : comma - pos);
         pos = comma == std::string::npos ? text.size() + 1 : comma + 1;
         std::size_t eq = item.find('=');
         std::string value = eq == std::string::npos ? "" : item.substr(eq + 1);
         char unit = value.empty() ? 0 : ascii_lower(value.back());
         if (eq == 0 || eq == std::string::npos || (unit != 'w' && unit != 'v' && unit != 'a'))
-            return fmt::format("'{}' is not NAME=VALUE with a unit W, V or A (e.g. R=0.25W, C=50V)", item);
+            return fmt::format("'{}' is not NAME=VALUE with a unit W, V or A (e.g. R=0.25W, C=50V)",
+                               item);
         value.pop_back();
         NumberParse p = parse_spice_number(value);
-        if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0) || !p.number->tail.empty())
+        if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0) ||
+            !p.number->tail.empty())
             return fmt::format("'{}': the rating must be a positive number", item);
         std::string name = to_lower(item.substr(0, eq));
         auto& m = unit == 'w' ? r.power : unit == 'v' ? r.voltage : r.current;
@@ -147,7 +153,8 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
         if (outcomes[i].status != SimStatus::ok) {
             result.outcome = StressResult::Outcome::sim_failed;
             result.problems.push_back(fmt::format("simulating {} failed: {}: {}", jobs[i].label,
-                                                  to_string(outcomes[i].status), outcomes[i].message));
+                                                  to_string(outcomes[i].status),
+                                                  outcomes[i].message));
         }
     if (!result.problems.empty()) return result;
     const SimPlot* ac_o = plot_of(outcomes[0], "ac");
@@ -169,16 +176,21 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
             row.power_ratio = ratio(row.scaled.power(), row.original->power());
             row.current_ratio = ratio(row.scaled.peak_current(), row.original->peak_current());
             if (row.power_ratio > o.ratio_limit)
-                row.flags.push_back(fmt::format("power x{:.3g} (limit x{:g})", row.power_ratio, o.ratio_limit));
+                row.flags.push_back(
+                    fmt::format("power x{:.3g} (limit x{:g})", row.power_ratio, o.ratio_limit));
             if (row.current_ratio > o.ratio_limit)
-                row.flags.push_back(fmt::format("current x{:.3g} (limit x{:g})", row.current_ratio, o.ratio_limit));
+                row.flags.push_back(
+                    fmt::format("current x{:.3g} (limit x{:g})", row.current_ratio, o.ratio_limit));
         }
         if (double p = rating(o.ratings.power, t.name); p > 0 && row.scaled.power() > p)
-            row.flags.push_back(fmt::format("{:.4g} W over its {:g} W rating", row.scaled.power(), p));
+            row.flags.push_back(
+                fmt::format("{:.4g} W over its {:g} W rating", row.scaled.power(), p));
         if (double v = rating(o.ratings.voltage, t.name); v > 0 && row.scaled.peak_voltage() > v)
-            row.flags.push_back(fmt::format("{:.4g} V over its {:g} V rating", row.scaled.peak_voltage(), v));
+            row.flags.push_back(
+                fmt::format("{:.4g} V over its {:g} V rating", row.scaled.peak_voltage(), v));
         if (double i = rating(o.ratings.current, t.name); i > 0 && row.scaled.peak_current() > i)
-            row.flags.push_back(fmt::format("{:.4g} A over its {:g} A rating", row.scaled.peak_current(), i));
+            row.flags.push_back(
+                fmt::format("{:.4g} A over its {:g} A rating", row.scaled.peak_current(), i));
         result.rows.push_back(std::move(row));
     }
     return result;

@@ -41,8 +41,8 @@ struct Ratings {
 std::string parse_ratings(const std::string& text, Ratings& ratings);
 
 struct PartStressRow {
-    std::string part;   // lower case
-    double value = 0;   // the scaled deck's value
+    std::string part;                  // lower case
+    double value = 0;                  // the scaled deck's value
     std::optional<PartLoad> original;  // absent: no part of that name in the original
     PartLoad scaled;
     double power_ratio = 0, current_ratio = 0;  // scaled / original; 0 when not comparable

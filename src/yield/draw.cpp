@@ -1,10 +1,10 @@
 #include "yield/draw.hpp"
 
+#include <fmt/format.h>
+
 #include <charconv>
 #include <cmath>
 #include <numbers>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 
@@ -46,7 +46,8 @@ std::string parse_tolerances(std::string_view text, ToleranceSpec& spec) {
     std::size_t pos = 0;
     while (pos <= text.size()) {
         std::size_t comma = text.find(',', pos);
-        std::string_view item = text.substr(pos, comma == std::string_view::npos ? text.npos : comma - pos);
+        std::string_view item =
+            text.substr(pos, comma == std::string_view::npos ? text.npos : comma - pos);
         pos = comma == std::string_view::npos ? text.size() + 1 : comma + 1;
         std::size_t eq = item.find('=');
         if (eq == 0 || eq == std::string_view::npos)
@@ -58,9 +59,11 @@ std::string parse_tolerances(std::string_view text, ToleranceSpec& spec) {
         double v = 0;
         auto [end, ec] = std::from_chars(value.data(), value.data() + value.size(), v);
         if (value.empty() || ec != std::errc{} || end != value.data() + value.size() || !(v >= 0))
-            return fmt::format("'{}': the tolerance must be a number of 0 or more (1% or 0.01)", item);
+            return fmt::format("'{}': the tolerance must be a number of 0 or more (1% or 0.01)",
+                               item);
         if (percent) v /= 100;
-        if (!(v < 1)) return fmt::format("'{}': a tolerance of 100% or more leaves no part value", item);
+        if (!(v < 1))
+            return fmt::format("'{}': a tolerance of 100% or more leaves no part value", item);
         if (name.size() == 1) {
             if (name != "r" && name != "c" && name != "l")
                 return fmt::format("'{}': a kind is R, C or L", item);

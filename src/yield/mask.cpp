@@ -1,11 +1,11 @@
 #include "yield/mask.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <limits>
 #include <sstream>
-
-#include <fmt/format.h>
 
 #include "deck/spice_number.hpp"
 
@@ -82,7 +82,8 @@ std::string parse_range(const std::string& text, double& low, double& high) {
 
 std::optional<double> corner_of(const std::vector<double>& f, const std::vector<double>& db) {
     if (db.empty()) return std::nullopt;
-    std::size_t peak = static_cast<std::size_t>(std::max_element(db.begin(), db.end()) - db.begin());
+    std::size_t peak =
+        static_cast<std::size_t>(std::max_element(db.begin(), db.end()) - db.begin());
     double level = db[peak] - 3;
     auto cross = [&](std::size_t a, std::size_t b) {  // db[a] >= level > db[b]
         double t = (db[a] - level) / (db[a] - db[b]);
@@ -105,7 +106,8 @@ MaskJudge make_judge(const Mask& mask, const std::vector<double>& frequency,
     std::size_t n = frequency.size();
     double peak = nominal_db.empty() ? 0 : *std::max_element(nominal_db.begin(), nominal_db.end());
     if (!nominal_db.empty())
-        j.peak = static_cast<std::size_t>(std::max_element(nominal_db.begin(), nominal_db.end()) - nominal_db.begin());
+        j.peak = static_cast<std::size_t>(std::max_element(nominal_db.begin(), nominal_db.end()) -
+                                          nominal_db.begin());
     j.in_band.assign(n, 0);
     j.in_passband.assign(n, 0);
     j.lower.assign(n, nan);
@@ -129,8 +131,9 @@ MaskJudge make_judge(const Mask& mask, const std::vector<double>& frequency,
         }
     }
     if (!any && !mask.corner_low)
-        error = mask.rows.empty() ? "no swept frequency lies in the mask's band"
-                                  : "no swept frequency lies between the mask file's first and last row";
+        error = mask.rows.empty()
+                    ? "no swept frequency lies in the mask's band"
+                    : "no swept frequency lies between the mask file's first and last row";
     return j;
 }
 
@@ -141,13 +144,14 @@ ResponseFigures MaskJudge::judge(const std::vector<double>& db) const {
     for (std::size_t k = 0; k < db.size() && k < frequency.size(); ++k) {
         if (in_band[k]) r.deviation_db = std::max(r.deviation_db, std::abs(db[k] - nominal_db[k]));
         if (in_passband[k]) passband.push_back(db[k]);
-        if (!std::isnan(lower[k])) r.margin_db = std::min({r.margin_db, db[k] - lower[k], upper[k] - db[k]});
+        if (!std::isnan(lower[k]))
+            r.margin_db = std::min({r.margin_db, db[k] - lower[k], upper[k] - db[k]});
     }
     if (peak < db.size()) r.gain_db = db[peak];
     r.ripple_db = ripple_of(passband);
     r.corner_hz = corner_of(frequency, db);
-    bool corner_ok = !corner_low || (r.corner_hz && *r.corner_hz >= *corner_low &&
-                                     *r.corner_hz <= *corner_high);
+    bool corner_ok =
+        !corner_low || (r.corner_hz && *r.corner_hz >= *corner_low && *r.corner_hz <= *corner_high);
     r.pass = r.margin_db >= 0 && corner_ok;
     return r;
 }

@@ -53,8 +53,8 @@ struct ResponseFigures {
 struct MaskJudge {
     std::vector<double> frequency;
     std::vector<double> nominal_db;
-    std::vector<char> in_band;      // points where a relative mask and the deviation apply
-    std::vector<char> in_passband;  // points of the nominal within 3 dB of its peak
+    std::vector<char> in_band;         // points where a relative mask and the deviation apply
+    std::vector<char> in_passband;     // points of the nominal within 3 dB of its peak
     std::vector<double> lower, upper;  // the limits per point (NaN where none)
     std::size_t peak = 0;              // index of the nominal's peak
     std::optional<double> corner_low, corner_high;
@@ -66,6 +66,7 @@ struct MaskJudge {
 MaskJudge make_judge(const Mask& mask, const std::vector<double>& frequency,
                      const std::vector<double>& nominal_db, std::string& error);
 
-std::optional<double> corner_of(const std::vector<double>& frequency, const std::vector<double>& db);
+std::optional<double> corner_of(const std::vector<double>& frequency,
+                                const std::vector<double>& db);
 
 }  // namespace deckscale

@@ -1,8 +1,8 @@
 #include "yield/parts.hpp"
 
-#include <set>
-
 #include <fmt/format.h>
+
+#include <set>
 
 #include "deck/spice_number.hpp"
 
@@ -46,8 +46,10 @@ PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
     }
     for (const auto& [name, tol] : tolerances.by_part)
         if (!seen.count(name))
-            out.errors.push_back(fmt::format("--tolerance {}: no R, C or L of that name with a "
-                                             "plain value at the deck's top level", name));
+            out.errors.push_back(
+                fmt::format("--tolerance {}: no R, C or L of that name with a "
+                            "plain value at the deck's top level",
+                            name));
     return out;
 }
 

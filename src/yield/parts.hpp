@@ -20,9 +20,9 @@ struct Part {
 };
 
 struct PartList {
-    std::vector<Part> parts;         // deck order
-    std::vector<Diagnostic> held;    // notes: R, C and L parts kept at their written value
-    std::vector<std::string> errors; // a --tolerance entry that names no variable part
+    std::vector<Part> parts;          // deck order
+    std::vector<Diagnostic> held;     // notes: R, C and L parts kept at their written value
+    std::vector<std::string> errors;  // a --tolerance entry that names no variable part
 };
 
 PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances);

@@ -1,8 +1,8 @@
 #include "yield/report.hpp"
 
-#include <cmath>
-
 #include <fmt/format.h>
+
+#include <cmath>
 #include <nlohmann/json.hpp>
 
 namespace deckscale {
@@ -12,19 +12,22 @@ std::string hz(double f) { return fmt::format("{:.5g} Hz", f); }
 
 std::string summary_line(const char* name, const Summary& s, const char* unit, double scale = 1) {
     if (s.count == 0) return fmt::format("  {:<10} (none)\n", name);
-    return fmt::format("  {:<10} mean {:.4g}  sd {:.3g}  min {:.4g}  5% {:.4g}  median {:.4g}  95% {:.4g}  "
-                       "max {:.4g} {}\n",
-                       name, s.mean * scale, s.sd * scale, s.min * scale, s.p5 * scale, s.median * scale,
-                       s.p95 * scale, s.max * scale, unit);
+    return fmt::format(
+        "  {:<10} mean {:.4g}  sd {:.3g}  min {:.4g}  5% {:.4g}  median {:.4g}  95% {:.4g}  "
+        "max {:.4g} {}\n",
+        name, s.mean * scale, s.sd * scale, s.min * scale, s.p5 * scale, s.median * scale,
+        s.p95 * scale, s.max * scale, unit);
 }
 
 nlohmann::json summary_json(const Summary& s) {
     if (s.count == 0) return nullptr;
-    return {{"count", s.count}, {"mean", s.mean}, {"sd", s.sd},         {"min", s.min},
+    return {{"count", s.count}, {"mean", s.mean},     {"sd", s.sd},   {"min", s.min},
             {"p5", s.p5},       {"median", s.median}, {"p95", s.p95}, {"max", s.max}};
 }
 
-nlohmann::json finite(double x) { return std::isfinite(x) ? nlohmann::json(x) : nlohmann::json(nullptr); }
+nlohmann::json finite(double x) {
+    return std::isfinite(x) ? nlohmann::json(x) : nlohmann::json(nullptr);
+}
 
 nlohmann::json figures_json(const ResponseFigures& f) {
     return {{"pass", f.pass},
@@ -42,13 +45,15 @@ std::string describe_mask(const Mask& m) {
     if (!m.rows.empty()) {
         s = fmt::format("the limits of {} ({} rows)", m.rows_source, m.rows.size());
     } else if (m.band_low) {
-        s = fmt::format("within +-{:g} dB of the nominal from {} to {}", m.window_db, hz(*m.band_low),
-                        hz(*m.band_high));
+        s = fmt::format("within +-{:g} dB of the nominal from {} to {}", m.window_db,
+                        hz(*m.band_low), hz(*m.band_high));
     } else {
-        s = fmt::format("within +-{:g} dB of the nominal over its passband (within 3 dB of its peak)",
-                        m.window_db);
+        s = fmt::format(
+            "within +-{:g} dB of the nominal over its passband (within 3 dB of its peak)",
+            m.window_db);
     }
-    if (m.corner_low) s += fmt::format(", corner in {} .. {}", hz(*m.corner_low), hz(*m.corner_high));
+    if (m.corner_low)
+        s += fmt::format(", corner in {} .. {}", hz(*m.corner_low), hz(*m.corner_high));
     return s;
 }
 
@@ -57,15 +62,17 @@ std::string yield_text(const YieldResult& r, const YieldReportContext& c) {
     std::size_t varied = 0;
     for (const Part& p : r.parts) varied += p.tolerance > 0;
     std::size_t n = r.trials.size();
-    s += fmt::format("{} trials, seed {}, {} spread; {} of {} parts varied; output {}; sweep {}\n", n, c.seed,
-                     to_string(c.spread), varied, r.parts.size() + r.held.size(), r.output, r.sweep_card);
+    s += fmt::format("{} trials, seed {}, {} spread; {} of {} parts varied; output {}; sweep {}\n",
+                     n, c.seed, to_string(c.spread), varied, r.parts.size() + r.held.size(),
+                     r.output, r.sweep_card);
     s += fmt::format("mask: {}\n", c.mask);
     s += fmt::format("nominal: {}; gain {:.4g} dB, ripple {:.3g} dB, corner {}\n",
-                     r.nominal.pass ? "meets the mask" : "VIOLATES the mask", r.nominal.gain_db, r.nominal.ripple_db,
-                     r.nominal.corner_hz ? hz(*r.nominal.corner_hz) : "none");
+                     r.nominal.pass ? "meets the mask" : "VIOLATES the mask", r.nominal.gain_db,
+                     r.nominal.ripple_db, r.nominal.corner_hz ? hz(*r.nominal.corner_hz) : "none");
     double y = n ? static_cast<double>(r.passed) / static_cast<double>(n) : 0;
-    s += fmt::format("yield: {} of {} = {:.1f} %  (95 % Wilson score interval {:.1f} % .. {:.1f} %)\n", r.passed,
-                     n, 100 * y, 100 * r.interval.low, 100 * r.interval.high);
+    s += fmt::format(
+        "yield: {} of {} = {:.1f} %  (95 % Wilson score interval {:.1f} % .. {:.1f} %)\n", r.passed,
+        n, 100 * y, 100 * r.interval.low, 100 * r.interval.high);
     s += "key figures over the trials:\n";
     s += summary_line("gain", r.gain, "dB");
     s += summary_line("deviation", r.deviation, "dB");
@@ -75,10 +82,12 @@ std::string yield_text(const YieldResult& r, const YieldReportContext& c) {
         const TrialResult& w = r.trials[r.worst_trial - 1];
         s += fmt::format("worst trial: #{} ({}; deviation {:.3g} dB{}, corner {}), parts:", w.trial,
                          w.figures.pass ? "meets the mask" : "fails", w.figures.deviation_db,
-                         std::isfinite(w.figures.margin_db) ? fmt::format(", margin {:.3g} dB", w.figures.margin_db)
-                                                            : "",
+                         std::isfinite(w.figures.margin_db)
+                             ? fmt::format(", margin {:.3g} dB", w.figures.margin_db)
+                             : "",
                          w.figures.corner_hz ? hz(*w.figures.corner_hz) : "none");
-        for (const auto& [name, value] : r.worst_values) s += fmt::format(" {}={:.6g}", name, value);
+        for (const auto& [name, value] : r.worst_values)
+            s += fmt::format(" {}={:.6g}", name, value);
         s += "\n";
     }
     if (!r.sensitivities.empty()) {
@@ -89,7 +98,8 @@ std::string yield_text(const YieldResult& r, const YieldReportContext& c) {
         s += "sensitivity: not ranked (a response without a -3 dB corner in every trial)\n";
     }
     if (!r.held.empty())
-        s += fmt::format("{} R, C or L parts keep their values (see the notes above)\n", r.held.size());
+        s += fmt::format("{} R, C or L parts keep their values (see the notes above)\n",
+                         r.held.size());
     return s;
 }
 
@@ -102,21 +112,29 @@ std::string yield_json(const YieldResult& r, const YieldReportContext& c) {
     j["sweep"] = r.sweep_card;
     j["trials"] = r.trials.size();
     j["passed"] = r.passed;
-    j["yield"] = r.trials.empty() ? 0.0 : static_cast<double>(r.passed) / static_cast<double>(r.trials.size());
-    j["interval"] = {{"method", "Wilson score"}, {"level", 0.95}, {"low", r.interval.low}, {"high", r.interval.high}};
+    j["yield"] = r.trials.empty()
+                     ? 0.0
+                     : static_cast<double>(r.passed) / static_cast<double>(r.trials.size());
+    j["interval"] = {{"method", "Wilson score"},
+                     {"level", 0.95},
+                     {"low", r.interval.low},
+                     {"high", r.interval.high}};
     j["nominal"] = figures_json(r.nominal);
     j["summary"] = {{"gain_db", summary_json(r.gain)},
                     {"deviation_db", summary_json(r.deviation)},
                     {"ripple_db", summary_json(r.ripple)},
                     {"corner_hz", summary_json(r.corner)}};
     nlohmann::json parts = nlohmann::json::array();
-    for (const Part& p : r.parts) parts.push_back({{"name", p.name}, {"nominal", p.nominal}, {"tolerance", p.tolerance}});
+    for (const Part& p : r.parts)
+        parts.push_back({{"name", p.name}, {"nominal", p.nominal}, {"tolerance", p.tolerance}});
     j["parts"] = parts;
     nlohmann::json held = nlohmann::json::array();
-    for (const Diagnostic& d : r.held) held.push_back({{"file", d.file}, {"line", d.line}, {"message", d.message}});
+    for (const Diagnostic& d : r.held)
+        held.push_back({{"file", d.file}, {"line", d.line}, {"message", d.message}});
     j["held"] = held;
     nlohmann::json sens = nlohmann::json::array();
-    for (const Sensitivity& x : r.sensitivities) sens.push_back({{"part", x.part}, {"share", x.share}, {"slope", x.slope}});
+    for (const Sensitivity& x : r.sensitivities)
+        sens.push_back({{"part", x.part}, {"share", x.share}, {"slope", x.slope}});
     j["sensitivity"] = {{"figure", r.ranked_figure}, {"ranking", sens}};
     nlohmann::json worst = {{"trial", r.worst_trial}};
     for (const auto& [name, value] : r.worst_values) worst["values"][name] = value;

@@ -1,12 +1,12 @@
 #include "yield/run.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <limits>
 #include <thread>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
@@ -46,7 +46,8 @@ const SimVector* frequency_of(const SimPlot& p) {
 
 // The node of a voltage vector's name: "v(2)" -> "2", "out" -> "out".
 std::string node_of(const std::string& vector) {
-    if (istarts_with(vector, "v(") && vector.back() == ')') return vector.substr(2, vector.size() - 3);
+    if (istarts_with(vector, "v(") && vector.back() == ')')
+        return vector.substr(2, vector.size() - 3);
     return vector;
 }
 
@@ -66,7 +67,8 @@ std::vector<std::string> job_cards(std::vector<std::string> cards, const std::st
     for (std::uint64_t t = first; t < first + count; ++t) {
         std::vector<double> values = trial_values(parts, o.seed, t, o.spread);
         for (std::size_t p = 0; p < parts.size(); ++p)
-            if (parts[p].tolerance > 0) cards.push_back(fmt::format("alter {} = {:.17g}", parts[p].name, values[p]));
+            if (parts[p].tolerance > 0)
+                cards.push_back(fmt::format("alter {} = {:.17g}", parts[p].name, values[p]));
         cards.push_back(ac);
     }
     cards.push_back(".endc");
@@ -83,8 +85,10 @@ void summarize_trials(YieldResult& r, const YieldRequest& o) {
         gain.push_back(t.figures.gain_db);
         deviation.push_back(t.figures.deviation_db);
         ripple.push_back(t.figures.ripple_db);
-        if (t.figures.corner_hz) corner.push_back(*t.figures.corner_hz);
-        else every_corner = false;
+        if (t.figures.corner_hz)
+            corner.push_back(*t.figures.corner_hz);
+        else
+            every_corner = false;
         limits = limits || std::isfinite(t.figures.margin_db);
     }
     r.gain = summarize(gain);
@@ -97,7 +101,8 @@ void summarize_trials(YieldResult& r, const YieldRequest& o) {
     // mask, then the largest deviation.
     auto worse = [&](const TrialResult& a, const TrialResult& b) {
         if (a.figures.pass != b.figures.pass) return !a.figures.pass;
-        if (limits && a.figures.margin_db != b.figures.margin_db) return a.figures.margin_db < b.figures.margin_db;
+        if (limits && a.figures.margin_db != b.figures.margin_db)
+            return a.figures.margin_db < b.figures.margin_db;
         return a.figures.deviation_db > b.figures.deviation_db;
     };
     const TrialResult* worst = &r.trials.front();
@@ -105,7 +110,8 @@ void summarize_trials(YieldResult& r, const YieldRequest& o) {
         if (worse(t, *worst)) worst = &t;
     r.worst_trial = worst->trial;
     std::vector<double> values = trial_values(r.parts, o.seed, worst->trial, o.spread);
-    for (std::size_t p = 0; p < r.parts.size(); ++p) r.worst_values.emplace_back(r.parts[p].name, values[p]);
+    for (std::size_t p = 0; p < r.parts.size(); ++p)
+        r.worst_values.emplace_back(r.parts[p].name, values[p]);
     if (!every_corner) return;
     r.ranked_figure = "corner";
     std::vector<std::string> names;
@@ -117,7 +123,8 @@ void summarize_trials(YieldResult& r, const YieldRequest& o) {
     std::vector<double> y;
     for (const TrialResult& t : r.trials) {
         std::vector<double> v = trial_values(r.parts, o.seed, t.trial, o.spread);
-        for (std::size_t p = 0; p < r.parts.size(); ++p) x[p].push_back(v[p] / r.parts[p].nominal - 1);
+        for (std::size_t p = 0; p < r.parts.size(); ++p)
+            x[p].push_back(v[p] / r.parts[p].nominal - 1);
         y.push_back(*t.figures.corner_hz / *r.nominal.corner_hz - 1);
     }
     r.sensitivities = rank_sensitivities(names, x, y);
@@ -134,8 +141,9 @@ std::vector<double> trial_values(const std::vector<Part>& parts, std::uint64_t s
     std::vector<double> out;
     out.reserve(parts.size());
     for (const Part& p : parts)
-        out.push_back(p.tolerance > 0 ? p.nominal * (1 + p.tolerance * draw(seed, trial, p.name, spread))
-                                      : p.nominal);
+        out.push_back(p.tolerance > 0
+                          ? p.nominal * (1 + p.tolerance * draw(seed, trial, p.name, spread))
+                          : p.nominal);
     return out;
 }
 
@@ -155,13 +163,19 @@ YieldResult run_yield(const YieldRequest& o, const FileSystem& files) {
         if (!sweep) return refuse("--sweep: " + e);
         sweep->reltol = deck.symbols.reltol;
     }
-    if (!sweep) return refuse(fmt::format("{} has no .ac sweep; give one with --sweep dec N F1 F2", o.deck));
+    if (!sweep)
+        return refuse(
+            fmt::format("{} has no .ac sweep; give one with --sweep dec N F1 F2", o.deck));
     std::string drive = to_lower(o.drive);
-    if (!drive.empty() && std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end())
-        return refuse(fmt::format("--drive {}: no independent source of that name in {}", o.drive, o.deck));
+    if (!drive.empty() &&
+        std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end())
+        return refuse(
+            fmt::format("--drive {}: no independent source of that name in {}", o.drive, o.deck));
     if (drive.empty() && an.ac_sources.empty())
-        return refuse(fmt::format("no source of {} has an AC value; name the source that drives "
-                                  "the circuit with --drive NAME (it gets AC 1)", o.deck));
+        return refuse(
+            fmt::format("no source of {} has an AC value; name the source that drives "
+                        "the circuit with --drive NAME (it gets AC 1)",
+                        o.deck));
     r.sweep_card = ac_card(*sweep);
 
     SimJob base;
@@ -188,8 +202,10 @@ YieldResult run_yield(const YieldRequest& o, const FileSystem& files) {
     const SimVector* out = plot ? output_vector(*plot, o.output) : nullptr;
     if (!freq) return refuse("the nominal run produced no AC sweep");
     if (!out)
-        return refuse(o.output.empty() ? std::string("the deck has no node voltage to judge; name one with --output")
-                                       : fmt::format("--output {}: no such node in the AC results", o.output));
+        return refuse(
+            o.output.empty()
+                ? std::string("the deck has no node voltage to judge; name one with --output")
+                : fmt::format("--output {}: no such node in the AC results", o.output));
     r.output = out->name;
     for (const auto& f : freq->values) r.frequency.push_back(f.real());
     r.nominal_db = magnitude_db(*out);
@@ -219,8 +235,9 @@ YieldResult run_yield(const YieldRequest& o, const FileSystem& files) {
     auto start = Clock::now();
     std::uint64_t trial = 1;
     for (std::size_t round = 0; round < jobs.size(); round += workers) {
-        std::vector<SimJob> batch(jobs.begin() + static_cast<std::ptrdiff_t>(round),
-                                  jobs.begin() + static_cast<std::ptrdiff_t>(std::min(jobs.size(), round + workers)));
+        std::vector<SimJob> batch(
+            jobs.begin() + static_cast<std::ptrdiff_t>(round),
+            jobs.begin() + static_cast<std::ptrdiff_t>(std::min(jobs.size(), round + workers)));
         std::vector<SimOutcome> outcomes = simulate_all(batch, workers, SimProcesses::automatic);
         for (std::size_t j = 0; j < batch.size(); ++j) {
             if (outcomes[j].status != SimStatus::ok) return fail(batch[j], outcomes[j]);
@@ -232,8 +249,9 @@ YieldResult run_yield(const YieldRequest& o, const FileSystem& files) {
                 if (!v) v = p.find("v(" + node_of(r.output) + ")");
                 if (!v || v->values.size() != r.frequency.size()) {
                     r.outcome = YieldResult::Outcome::sim_failed;
-                    r.problems.push_back(fmt::format("{}: plot {} lacks {} at {} points", batch[j].label,
-                                                     p.name, r.output, r.frequency.size()));
+                    r.problems.push_back(fmt::format("{}: plot {} lacks {} at {} points",
+                                                     batch[j].label, p.name, r.output,
+                                                     r.frequency.size()));
                     return r;
                 }
                 std::vector<double> m = magnitude_db(*v);
@@ -248,7 +266,8 @@ YieldResult run_yield(const YieldRequest& o, const FileSystem& files) {
             }
             if (got != expected) {
                 r.outcome = YieldResult::Outcome::sim_failed;
-                r.problems.push_back(fmt::format("{}: {} AC plots for {} trials", batch[j].label, got, expected));
+                r.problems.push_back(
+                    fmt::format("{}: {} AC plots for {} trials", batch[j].label, got, expected));
                 return r;
             }
             trial += got;

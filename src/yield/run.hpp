@@ -45,8 +45,8 @@ struct YieldRequest {
     std::string drive;               // the source that gets AC 1; empty: as the deck has it
     std::string output;              // the node whose response is judged; empty: chosen
     unsigned workers = 0;            // simulator processes at a time; 0 = one per core
-    std::chrono::milliseconds timeout{600000};  // per simulator process
-    std::uint64_t memory_mb = 8192;             // per simulator process; 0 = no limit
+    std::chrono::milliseconds timeout{600000};           // per simulator process
+    std::uint64_t memory_mb = 8192;                      // per simulator process; 0 = no limit
     std::function<void(const YieldProgress&)> progress;  // after each round of jobs; may be empty
 };
 
@@ -66,8 +66,8 @@ struct YieldResult {
     std::vector<std::string> problems;  // one sentence each
     std::vector<YieldFailure> failures;
 
-    std::string output;          // the judged vector, as ngspice names it
-    std::string sweep_card;      // the .ac card the trials ran
+    std::string output;      // the judged vector, as ngspice names it
+    std::string sweep_card;  // the .ac card the trials ran
     std::vector<Part> parts;
     std::vector<Diagnostic> held;
     std::vector<double> frequency, nominal_db, low_db, high_db;  // low/high: the envelope
@@ -75,11 +75,11 @@ struct YieldResult {
     ResponseFigures nominal;
     std::vector<TrialResult> trials;  // in trial order
     std::uint64_t passed = 0;
-    Interval interval;  // Wilson, 95 %
+    Interval interval;                        // Wilson, 95 %
     Summary gain, deviation, ripple, corner;  // corner: of the trials that have one
-    std::string ranked_figure;          // what the sensitivities explain ("corner", "")
+    std::string ranked_figure;                // what the sensitivities explain ("corner", "")
     std::vector<Sensitivity> sensitivities;
-    std::uint64_t worst_trial = 0;  // 0 with no trials
+    std::uint64_t worst_trial = 0;                             // 0 with no trials
     std::vector<std::pair<std::string, double>> worst_values;  // its part values
     unsigned jobs = 0;
     double seconds = 0;  // wall time of the trials

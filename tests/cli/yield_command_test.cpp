@@ -1,5 +1,6 @@
 // End-to-end tests of `deckscale yield` and `deckscale stress` through the real binary.
 #include <gtest/gtest.h>
+
 #include <nlohmann/json.hpp>
 
 #include "support/common.hpp"
@@ -13,15 +14,17 @@ using test::RunResult;
 using test::TempDir;
 using test::write_bytes;
 
-const char* kLowPass = "rc low-pass\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 159.155n\n"
-                       ".ac dec 20 10 100k\n.end\n";
+const char* kLowPass =
+    "rc low-pass\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 159.155n\n"
+    ".ac dec 20 10 100k\n.end\n";
 
 TEST(YieldCommand, WritesTheReportJsonAndBothPlots) {
     TempDir dir;
     write_bytes(dir.file("rc.cir"), kLowPass);
-    RunResult r = run_binary({"yield", "rc.cir", "--trials", "60", "--seed", "5", "--tolerance", "R=1%,C=2%",
-                              "--mask", "0.5dB", "--json", "y.json", "--plot", "y.svg"},
-                             dir.path());
+    RunResult r =
+        run_binary({"yield", "rc.cir", "--trials", "60", "--seed", "5", "--tolerance", "R=1%,C=2%",
+                    "--mask", "0.5dB", "--json", "y.json", "--plot", "y.svg"},
+                   dir.path());
     ASSERT_EQ(r.exit_code, 0) << r.err;
     EXPECT_NE(r.out.find("60 trials, seed 5, uniform spread; 2 of 2 parts varied; output out;"),
               std::string::npos)
@@ -54,10 +57,18 @@ TEST(YieldCommand, UsageErrorsNameTheOption) {
         const char* err;
     };
     const Case cases[] = {
-        {__LINE__, {"--mask", "wide"}, "deckscale: error: --mask 'wide': give the window in dB, e.g. 0.5dB\n"},
-        {__LINE__, {"--tolerance", "Q=1%"}, "deckscale: error: --tolerance 'Q=1%': a kind is R, C or L\n"},
-        {__LINE__, {"--mask-file", "bad.txt"}, "deckscale: error: bad.txt:1: a mask row is: frequency min_dB max_dB\n"},
-        {__LINE__, {"--corner", "2k:1k"}, "deckscale: error: --corner '2k:1k' is not F1:F2 with 0 <= F1 < F2\n"},
+        {__LINE__,
+         {"--mask", "wide"},
+         "deckscale: error: --mask 'wide': give the window in dB, e.g. 0.5dB\n"},
+        {__LINE__,
+         {"--tolerance", "Q=1%"},
+         "deckscale: error: --tolerance 'Q=1%': a kind is R, C or L\n"},
+        {__LINE__,
+         {"--mask-file", "bad.txt"},
+         "deckscale: error: bad.txt:1: a mask row is: frequency min_dB max_dB\n"},
+        {__LINE__,
+         {"--corner", "2k:1k"},
+         "deckscale: error: --corner '2k:1k' is not F1:F2 with 0 <= F1 < F2\n"},
     };
     for (const Case& c : cases) {
         std::vector<std::string> args{"yield", "rc.cir"};
@@ -78,7 +89,8 @@ TEST(StressCommand, APartOverItsRatingIsFlagged) {
     RunResult ok = run_binary({"stress", "o.cir", "o.cir", "--rating", "R=0.25W"}, dir.path());
     EXPECT_EQ(ok.exit_code, 0) << ok.out << ok.err;
     EXPECT_NE(ok.out.find("0 of 1 parts flagged"), std::string::npos) << ok.out;
-    RunResult hot = run_binary({"stress", "o.cir", "s.cir", "--rating", "R=0.25W", "--ratio", "20"}, dir.path());
+    RunResult hot = run_binary({"stress", "o.cir", "s.cir", "--rating", "R=0.25W", "--ratio", "20"},
+                               dir.path());
     EXPECT_EQ(hot.exit_code, 1) << hot.out << hot.err;
     EXPECT_NE(hot.out.find("1 W over its 0.25 W rating"), std::string::npos) << hot.out;
     EXPECT_EQ(hot.out.find("power x10 (limit"), std::string::npos) << hot.out;  // x10 is within x20

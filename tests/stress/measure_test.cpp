@@ -14,10 +14,12 @@ namespace {
 // A divider of two 1 kOhm resistors from 10 V DC (AC 1), 100 nF across the lower one, and
 // the same at Km = 0.1, Kf = 1 (R' = Km R, C' = C / Km; common practice). The midpoint sits
 // at 5 V in both, so each resistor dissipates 25 mW, and 250 mW scaled: x10 = 1/Km.
-const char* kOriginal = "rc network\nV1 in 0 DC 10 AC 1\nR1 in mid 1k\nR2 mid 0 1k\nC1 mid 0 100n\n"
-                        ".ac dec 10 10 100k\n.end\n";
-const char* kScaled = "rc network\nV1 in 0 DC 10 AC 1\nR1 in mid 100\nR2 mid 0 100\nC1 mid 0 1u\n"
-                      ".ac dec 10 10 100k\n.end\n";
+const char* kOriginal =
+    "rc network\nV1 in 0 DC 10 AC 1\nR1 in mid 1k\nR2 mid 0 1k\nC1 mid 0 100n\n"
+    ".ac dec 10 10 100k\n.end\n";
+const char* kScaled =
+    "rc network\nV1 in 0 DC 10 AC 1\nR1 in mid 100\nR2 mid 0 100\nC1 mid 0 1u\n"
+    ".ac dec 10 10 100k\n.end\n";
 
 TEST(StressMeasure, KmOfOneTenthMultipliesResistorPowerByTen) {
     test::TempDir dir;
@@ -63,7 +65,8 @@ TEST(StressMeasure, KmOfOneTenthMultipliesResistorPowerByTen) {
     ASSERT_EQ(s.rows[0].flags.size(), 3u);
     EXPECT_EQ(s.rows[0].flags[0], "power x10 (limit x2)");
     EXPECT_EQ(s.rows[0].flags[1], "current x10 (limit x2)");
-    EXPECT_EQ(s.rows[0].flags[2], fmt::format("{:.4g} W over its 0.1 W rating", s.rows[0].scaled.power()));
+    EXPECT_EQ(s.rows[0].flags[2],
+              fmt::format("{:.4g} W over its 0.1 W rating", s.rows[0].scaled.power()));
     EXPECT_EQ(s.rows[1].flags.size(), 2u);
 }
 
@@ -76,7 +79,8 @@ TEST(StressMeasure, RatingTextsAreReadOrRefused) {
     const Case cases[] = {
         {__LINE__, "R=0.25W,C=50V,L=1A,R3=1W", ""},
         {__LINE__, "R=250mW", ""},
-        {__LINE__, "R=0.25", "'R=0.25' is not NAME=VALUE with a unit W, V or A (e.g. R=0.25W, C=50V)"},
+        {__LINE__, "R=0.25",
+         "'R=0.25' is not NAME=VALUE with a unit W, V or A (e.g. R=0.25W, C=50V)"},
         {__LINE__, "R=xW", "'R=xW': the rating must be a positive number"},
         {__LINE__, "=1W", "'=1W' is not NAME=VALUE with a unit W, V or A (e.g. R=0.25W, C=50V)"},
     };

@@ -30,7 +30,8 @@ TEST(YieldDraw, MomentsMatchTheDistributions) {
         double variance;
         double beyond_one;  // fraction of draws with |x| > 1
     };
-    const Case cases[] = {{__LINE__, Spread::uniform, 1.0 / 3, 0.0}, {__LINE__, Spread::gauss, 1.0 / 9, 0.0027}};
+    const Case cases[] = {{__LINE__, Spread::uniform, 1.0 / 3, 0.0},
+                          {__LINE__, Spread::gauss, 1.0 / 9, 0.0027}};
     const int n = 200000;
     for (const Case& c : cases) {
         double sum = 0, sum2 = 0, beyond = 0;
@@ -69,8 +70,10 @@ TEST(YieldDraw, ToleranceTextsAreReadOrRefused) {
         {__LINE__, "R=0", "", "r1", 0},
         {__LINE__, "Q=1%", "'Q=1%': a kind is R, C or L", "", 0},
         {__LINE__, "R1", "'R1' is not NAME=VALUE (e.g. R=1%, C3=0.5%)", "", 0},
-        {__LINE__, "R=x%", "'R=x%': the tolerance must be a number of 0 or more (1% or 0.01)", "", 0},
-        {__LINE__, "R=-1%", "'R=-1%': the tolerance must be a number of 0 or more (1% or 0.01)", "", 0},
+        {__LINE__, "R=x%", "'R=x%': the tolerance must be a number of 0 or more (1% or 0.01)", "",
+         0},
+        {__LINE__, "R=-1%", "'R=-1%': the tolerance must be a number of 0 or more (1% or 0.01)", "",
+         0},
         {__LINE__, "R=100%", "'R=100%': a tolerance of 100% or more leaves no part value", "", 0},
     };
     for (const Case& c : cases) {

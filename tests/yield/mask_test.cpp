@@ -57,10 +57,10 @@ TEST(YieldMask, RelativeWindowOverThePassband) {
         bool pass;
     };
     const Case cases[] = {
-        {__LINE__, 1000, 0.4, true},   // a level shift inside the window
-        {__LINE__, 1000, -0.6, false}, // outside it
-        {__LINE__, 1100, 0, true},     // 10 % higher corner: 0.37 dB at the old corner
-        {__LINE__, 800, 0, false},     // 20 % lower: 1.4 dB at the old corner
+        {__LINE__, 1000, 0.4, true},    // a level shift inside the window
+        {__LINE__, 1000, -0.6, false},  // outside it
+        {__LINE__, 1100, 0, true},      // 10 % higher corner: 0.37 dB at the old corner
+        {__LINE__, 800, 0, false},      // 20 % lower: 1.4 dB at the old corner
     };
     for (const Case& c : cases) {
         ResponseFigures r = judge.judge(LowPass(c.fc, c.gain_db).db);
@@ -86,9 +86,10 @@ TEST(YieldMask, CornerWindowJudgesTheCorner) {
 TEST(YieldMask, MaskFileRowsLimitTheResponse) {
     LowPass nominal(1000);
     Mask mask;
-    ASSERT_EQ(parse_mask_rows("# frequency min max\n100 -1 0.5\n1k -4 0.5\n\n* stopband\n10k -100 -15\n",
-                              "m.txt", mask),
-              "");
+    ASSERT_EQ(
+        parse_mask_rows("# frequency min max\n100 -1 0.5\n1k -4 0.5\n\n* stopband\n10k -100 -15\n",
+                        "m.txt", mask),
+        "");
     ASSERT_EQ(mask.rows.size(), 3u);
     std::string error;
     MaskJudge judge = make_judge(mask, nominal.f, nominal.db, error);
@@ -103,7 +104,7 @@ TEST(YieldMask, MaskFileRowsLimitTheResponse) {
     EXPECT_EQ(checked, 1);
     EXPECT_TRUE(judge.judge(nominal.db).pass);
     EXPECT_FALSE(judge.judge(LowPass(3000).db).pass);  // too much left at 10 kHz
-    EXPECT_TRUE(std::isnan(judge.lower.front()));       // 10 Hz is before the first row
+    EXPECT_TRUE(std::isnan(judge.lower.front()));      // 10 Hz is before the first row
 }
 
 TEST(YieldMask, MaskFileErrorsNameTheLine) {

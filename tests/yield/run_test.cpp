@@ -13,10 +13,12 @@ namespace deckscale {
 namespace {
 
 // A first-order RC low-pass, corner 1/(2 pi R C) = 1 kHz (analytic).
-const char* kLowPass = "rc low-pass\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 159.155n\n"
-                       ".ac dec 20 10 100k\n.end\n";
+const char* kLowPass =
+    "rc low-pass\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 159.155n\n"
+    ".ac dec 20 10 100k\n.end\n";
 // A divider of two equal resistors: ratio 1/2 at every frequency.
-const char* kDivider = "divider\nV1 in 0 DC 0 AC 1\nR1 in out 10k\nR2 out 0 10k\n.ac dec 1 1k 10k\n.end\n";
+const char* kDivider =
+    "divider\nV1 in 0 DC 0 AC 1\nR1 in out 10k\nR2 out 0 10k\n.ac dec 1 1k 10k\n.end\n";
 
 YieldRequest request_for(const std::string& path, std::uint64_t trials) {
     YieldRequest r;
@@ -43,15 +45,18 @@ TEST(YieldRun, ZeroToleranceTrialsEqualTheNominal) {
         ASSERT_EQ(parse_tolerances("R=0,C=0", r.tolerances), "");
         r.mask.window_db = 0.1;
         if (*c.mask_file) {
-            ASSERT_EQ(parse_mask_rows(test::read_bytes(dir.file(c.mask_file)), c.mask_file, r.mask), "");
+            ASSERT_EQ(parse_mask_rows(test::read_bytes(dir.file(c.mask_file)), c.mask_file, r.mask),
+                      "");
         }
         DiskFileSystem disk;
         YieldResult y = run_yield(r, disk);
-        ASSERT_EQ(y.outcome, YieldResult::Outcome::done) << c.line << (y.problems.empty() ? "" : y.problems[0]);
+        ASSERT_EQ(y.outcome, YieldResult::Outcome::done)
+            << c.line << (y.problems.empty() ? "" : y.problems[0]);
         ASSERT_EQ(y.trials.size(), 40u) << c.line;
         EXPECT_EQ(y.passed, c.passed) << c.line;
         EXPECT_EQ(y.nominal.pass, c.passed > 0) << c.line;
-        for (const TrialResult& t : y.trials) EXPECT_LT(t.figures.deviation_db, 1e-9) << c.line << " #" << t.trial;
+        for (const TrialResult& t : y.trials)
+            EXPECT_LT(t.figures.deviation_db, 1e-9) << c.line << " #" << t.trial;
         for (std::size_t k = 0; k < y.frequency.size(); ++k) {
             EXPECT_LT(y.high_db[k] - y.low_db[k], 1e-9) << c.line;
         }
@@ -144,7 +149,8 @@ TEST(YieldRun, AFixedSeedGivesTheSameFiguresForOneAndTwoWorkers) {
 TEST(YieldRun, BadInputComesBackAsData) {
     test::TempDir dir;
     test::write_bytes(dir.file("rc.cir"), kLowPass);
-    test::write_bytes(dir.file("noac.cir"), "no sweep\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1n\n.end\n");
+    test::write_bytes(dir.file("noac.cir"),
+                      "no sweep\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1n\n.end\n");
     struct Case {
         int line;
         const char* deck;
@@ -153,10 +159,13 @@ TEST(YieldRun, BadInputComesBackAsData) {
         const char* problem;  // after the folder
     };
     const Case cases[] = {
-        {__LINE__, "rc.cir", "R9=1%", "", "--tolerance r9: no R, C or L of that name with a plain value at "
-                                          "the deck's top level"},
-        {__LINE__, "rc.cir", "", "V7", "--drive V7: no independent source of that name in {}rc.cir"},
-        {__LINE__, "noac.cir", "", "", "{}noac.cir has no .ac sweep; give one with --sweep dec N F1 F2"},
+        {__LINE__, "rc.cir", "R9=1%", "",
+         "--tolerance r9: no R, C or L of that name with a plain value at "
+         "the deck's top level"},
+        {__LINE__, "rc.cir", "", "V7",
+         "--drive V7: no independent source of that name in {}rc.cir"},
+        {__LINE__, "noac.cir", "", "",
+         "{}noac.cir has no .ac sweep; give one with --sweep dec N F1 F2"},
     };
     for (const Case& c : cases) {
         YieldRequest r = request_for(dir.file(c.deck), 10);
