@@ -7,8 +7,8 @@
 #include "cli/interrupts.hpp"
 #include "cli/options.hpp"
 #include "cli/scale_command.hpp"
-#include "cli/stress_command.hpp"
 #include "cli/verify_command.hpp"
+#include "cli/stress_command.hpp"
 #include "cli/yield_command.hpp"
 
 int main(int argc, char** argv) {
