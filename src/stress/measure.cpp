@@ -61,7 +61,39 @@ const SimPlot* plot_of(const SimOutcome& o, const char* prefix) {
     return nullptr;
 }
 
-PartLoad load_of(const TwoTerminal& t, const SimPlot* op, const SimPlot* ac) {
+// The transient columns: peaks over time and a resistor's power averaged over the run.
+void add_tran(PartLoad& l, const TwoTerminal& t, const SimPlot& tran) {
+    const SimVector* time = nullptr;
+    for (const auto& v : tran.vectors)
+        if (v.kind == VectorKind::time) time = &v;
+    if (!time || time->values.empty()) return;
+    char kind = t.name[0];
+    const SimVector* branch = kind == 'l' ? tran.find(t.name + "#branch") : nullptr;
+    std::size_t n = time->values.size();
+    std::vector<double> v(n), i(n);
+    for (std::size_t k = 0; k < n; ++k) {
+        v[k] = (node_value(tran, t.a, k) - node_value(tran, t.b, k)).real();
+        if (kind == 'r') i[k] = v[k] / t.value;
+        if (kind == 'l') i[k] = branch && k < branch->values.size() ? branch->values[k].real() : 0;
+    }
+    for (std::size_t k = 1; kind == 'c' && k < n; ++k) {
+        double dt = time->values[k].real() - time->values[k - 1].real();
+        if (dt > 0) i[k] = t.value * (v[k] - v[k - 1]) / dt;
+    }
+    double energy = 0;
+    for (std::size_t k = 0; k < n; ++k) {
+        l.tran_voltage = std::max(l.tran_voltage, std::abs(v[k]));
+        l.tran_current = std::max(l.tran_current, std::abs(i[k]));
+        if (kind == 'r' && k > 0) {
+            double dt = time->values[k].real() - time->values[k - 1].real();
+            energy += dt * (v[k] * v[k] + v[k - 1] * v[k - 1]) / (2 * t.value);
+        }
+    }
+    double span = time->values.back().real() - time->values.front().real();
+    if (kind == 'r' && span > 0) l.tran_power = energy / span;
+}
+
+PartLoad load_of(const TwoTerminal& t, const SimPlot* op, const SimPlot* ac, const SimPlot* tran) {
     PartLoad l;
     char kind = t.name[0];
     if (op) {
@@ -74,6 +106,7 @@ PartLoad load_of(const TwoTerminal& t, const SimPlot* op, const SimPlot* ac) {
             l.dc_current = i && !i->values.empty() ? i->values[0].real() : 0;
         }
     }
+    if (tran) add_tran(l, t, *tran);
     if (!ac) return l;
     const SimVector* freq = nullptr;
     for (const auto& v : ac->vectors)
@@ -100,8 +133,13 @@ double rating(const std::map<std::string, double>& m, const std::string& part) {
 
 }  // namespace
 
-double PartLoad::peak_current() const { return std::abs(dc_current) + ac_current; }
-double PartLoad::peak_voltage() const { return std::abs(dc_voltage) + ac_voltage; }
+double PartLoad::peak_current() const {
+    return std::max(std::abs(dc_current) + ac_current, tran_current);
+}
+double PartLoad::peak_voltage() const {
+    return std::max(std::abs(dc_voltage) + ac_voltage, tran_voltage);
+}
+double PartLoad::power() const { return std::max(dc_power + ac_power, tran_power); }
 
 std::string parse_ratings(const std::string& text, Ratings& r) {
     std::size_t pos = 0;
@@ -142,6 +180,7 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
         j.label = path;
         j.cards = simulation_cards(d, SimDeckOptions{".op", "", 1});
         if (an.ac) j.cards.insert(j.cards.end() - 1, ac_card(*an.ac));
+        if (an.tran) j.cards.insert(j.cards.end() - 1, tran_card(*an.tran));
         j.work_dir = fs::absolute(path).parent_path().string();
         j.timeout = o.timeout;
         j.memory_limit_mb = o.memory_mb;
@@ -161,15 +200,19 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
     const SimPlot* ac_s = plot_of(outcomes[1], "ac");
     result.ac = ac_o && ac_s;
     if (!result.ac) ac_o = ac_s = nullptr;
+    const SimPlot* tran_o = plot_of(outcomes[0], "tran");
+    const SimPlot* tran_s = plot_of(outcomes[1], "tran");
+    result.tran = tran_o && tran_s;
+    if (!result.tran) tran_o = tran_s = nullptr;
     const SimPlot* op_o = plot_of(outcomes[0], "op");
     const SimPlot* op_s = plot_of(outcomes[1], "op");
     for (const TwoTerminal& t : parts_s) {
         PartStressRow row;
         row.part = t.name;
         row.value = t.value;
-        row.scaled = load_of(t, op_s, ac_s);
+        row.scaled = load_of(t, op_s, ac_s, tran_s);
         for (const TwoTerminal& u : parts_o)
-            if (u.name == t.name) row.original = load_of(u, op_o, ac_o);
+            if (u.name == t.name) row.original = load_of(u, op_o, ac_o, tran_o);
         // A ratio needs something to compare: below 1e-30 the original carries nothing.
         auto ratio = [](double s, double o) { return std::abs(o) > 1e-30 ? s / o : 0; };
         if (row.original) {

@@ -8,7 +8,9 @@
 // of the sinusoid at the source's AC value (ngspice 39 manual §4.1 for that value; phasor
 // analysis is common practice), so a resistor's average power at a frequency is
 // |V|^2 / (2 R); its DC power is V^2 / R. A capacitor's AC current is
-// |V| 2 pi f C, an inductor's is its branch current.
+// |V| 2 pi f C, an inductor's is its branch current. A deck with a .tran also runs it: peaks
+// over time, a resistor's power averaged over the run, a capacitor's current C dv/dt from
+// the time points.
 #pragma once
 
 #include <chrono>
@@ -26,9 +28,14 @@ namespace deckscale {
 struct PartLoad {
     double dc_voltage = 0, dc_current = 0, dc_power = 0;  // power: resistors only
     double ac_voltage = 0, ac_current = 0, ac_power = 0;  // largest over the sweep
-    double peak_current() const;  // |DC| + AC amplitude: the largest instantaneous current
+    // From the deck's .tran, when it has one: the largest |v| and |i| over the run, and a
+    // resistor's power averaged over it (trapezoidal rule).
+    double tran_voltage = 0, tran_current = 0, tran_power = 0;
+    // The largest of |DC| + AC amplitude and the transient's peak.
+    double peak_current() const;
     double peak_voltage() const;
-    double power() const { return dc_power + ac_power; }  // average, DC and AC superposed
+    // The largest average power: DC and AC superposed, or over the transient.
+    double power() const;
 };
 
 // Ratings: per kind ('r', 'c', 'l') or per part (lower-case name); 0 = none given.
@@ -63,6 +70,7 @@ struct StressResult {
     std::vector<PartStressRow> rows;  // the scaled deck's R, C and L in deck order
     std::vector<std::string> held;    // parts not measured (inside subcircuits, no value)
     bool ac = false;                  // the AC columns were simulated
+    bool tran = false;                // the transient columns were simulated
 };
 
 // Throws DeckError for a deck that cannot be read.

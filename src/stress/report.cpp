@@ -10,23 +10,21 @@ namespace {
 std::string ratio_text(double x) { return x > 0 ? fmt::format("x{:.3g}", x) : "-"; }
 
 nlohmann::json load_json(const PartLoad& l) {
-    return {{"dc_voltage", l.dc_voltage},
-            {"dc_current", l.dc_current},
-            {"dc_power", l.dc_power},
-            {"ac_voltage", l.ac_voltage},
-            {"ac_current", l.ac_current},
-            {"ac_power", l.ac_power},
-            {"peak_current", l.peak_current()},
-            {"peak_voltage", l.peak_voltage()},
-            {"power", l.power()}};
+    return {{"dc_voltage", l.dc_voltage},       {"dc_current", l.dc_current},
+            {"dc_power", l.dc_power},           {"ac_voltage", l.ac_voltage},
+            {"ac_current", l.ac_current},       {"ac_power", l.ac_power},
+            {"tran_voltage", l.tran_voltage},   {"tran_current", l.tran_current},
+            {"tran_power", l.tran_power},       {"peak_current", l.peak_current()},
+            {"peak_voltage", l.peak_voltage()}, {"power", l.power()}};
 }
 
 }  // namespace
 
 std::string stress_text(const StressResult& r, const StressRequest& o) {
     std::string s =
-        fmt::format("stress of {} against {} ({}; AC at the sources' stated amplitudes{})\n",
-                    o.scaled, o.original, "operating point", r.ac ? "" : ": no .ac in both decks");
+        fmt::format("stress of {} against {} (operating point; {}; {})\n", o.scaled, o.original,
+                    r.ac ? "AC at the sources' stated amplitudes" : "no .ac in both decks",
+                    r.tran ? "the decks' .tran" : "no .tran in both decks");
     s += fmt::format("  {:<8} {:>11} {:>11} {:>11} {:>11} {:>11} {:>8} {:>8}  {}\n", "part", "DC V",
                      "DC A", "peak V", "peak A", "power W", "power", "current", "flags");
     std::size_t flagged = 0;
@@ -63,6 +61,7 @@ std::string stress_json(const StressResult& r, const StressRequest& o) {
                         {"scaled", o.scaled},
                         {"ratio_limit", o.ratio_limit},
                         {"ac", r.ac},
+                        {"tran", r.tran},
                         {"parts", rows},
                         {"not_measured", r.held}};
     return j.dump(1) + "\n";

@@ -70,6 +70,33 @@ TEST(StressMeasure, KmOfOneTenthMultipliesResistorPowerByTen) {
     EXPECT_EQ(s.rows[1].flags.size(), 2u);
 }
 
+// A 10 V sine on 1 kOhm, and on 100 Ohm at Km = 0.1: average power Vpk^2 / (2 R) = 50 mW and
+// 0.5 W over whole periods (common practice), peak current 10 mA and 100 mA.
+TEST(StressMeasure, ATransientGivesPeaksAndAveragePower) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("o.cir"),
+                      "sine\nV1 in 0 SIN(0 10 1k)\nR1 in 0 1k\n.tran 1u 10m\n.end\n");
+    test::write_bytes(dir.file("s.cir"),
+                      "sine\nV1 in 0 SIN(0 10 1k)\nR1 in 0 100\n.tran 1u 10m\n.end\n");
+    StressRequest r;
+    r.original = dir.file("o.cir");
+    r.scaled = dir.file("s.cir");
+    DiskFileSystem disk;
+    StressResult s = run_stress(r, disk);
+    ASSERT_EQ(s.outcome, StressResult::Outcome::done) << (s.problems.empty() ? "" : s.problems[0]);
+    EXPECT_TRUE(s.tran);
+    EXPECT_FALSE(s.ac);
+    ASSERT_EQ(s.rows.size(), 1u);
+    const PartStressRow& row = s.rows[0];
+    ASSERT_TRUE(row.original.has_value());
+    EXPECT_NEAR(row.original->tran_power, 0.05, 0.05 * 1e-3);
+    EXPECT_NEAR(row.scaled.tran_power, 0.5, 0.5 * 1e-3);
+    EXPECT_NEAR(row.scaled.peak_voltage(), 10, 1e-3);
+    EXPECT_NEAR(row.scaled.peak_current(), 0.1, 1e-5);
+    EXPECT_NEAR(row.power_ratio, 10, 1e-6);
+    EXPECT_NEAR(row.current_ratio, 10, 1e-6);
+}
+
 TEST(StressMeasure, RatingTextsAreReadOrRefused) {
     struct Case {
         int line;
