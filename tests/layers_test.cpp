@@ -29,7 +29,9 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"scale", {"base", "deck", "write"}},
     {"sim", {"base"}},
     {"verify", {"base", "deck", "write", "scale", "sim"}},
-    {"cli", {"base", "deck", "write", "scale", "sim", "verify"}},
+    {"yield", {"base", "deck", "sim", "verify"}},
+    {"stress", {"base", "deck", "sim", "verify"}},
+    {"cli", {"base", "deck", "write", "scale", "sim", "verify", "yield", "stress"}},
 };
 
 struct SourceText {

@@ -8,6 +8,8 @@
 #include "cli/options.hpp"
 #include "cli/scale_command.hpp"
 #include "cli/verify_command.hpp"
+#include "cli/stress_command.hpp"
+#include "cli/yield_command.hpp"
 
 int main(int argc, char** argv) {
     using namespace deckscale;
@@ -27,6 +29,10 @@ int main(int argc, char** argv) {
             return run_scale(inv.scale, std::cout, std::cerr);
         case Invocation::What::verify:
             return run_verify(inv.verify, std::cout, std::cerr);
+        case Invocation::What::yield:
+            return run_yield_command(inv.yield, std::cout, std::cerr);
+        case Invocation::What::stress:
+            return run_stress_command(inv.stress, std::cout, std::cerr);
     }
     return exit_bad_input;
 }

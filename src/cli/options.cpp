@@ -21,6 +21,40 @@ std::string take_factor(const std::string& name, const std::string& text, double
     return "";
 }
 
+void add_yield_options(CLI::App& c, YieldOptions& y) {
+    c.add_option("DECK", y.deck, "The deck whose built units are simulated")->required();
+    c.add_option("--trials", y.trials, "Number of trials (default 500)")
+        ->check(CLI::Range(1ul, 10000000ul));
+    c.add_option("--seed", y.seed,
+                 "Seed of the draws (default 1); trial k's values depend only on seed and k");
+    c.add_option(
+        "--tolerance", y.tolerance,
+        "Tolerances per kind or part, e.g. R=1%,C=5%,L=5%,C3=0.5% (default R=1%,C=5%,L=5%)");
+    c.add_option("--spread", y.spread, "uniform (default) or gauss (the tolerance as 3 sigma)")
+        ->check(CLI::IsMember({"uniform", "gauss"}));
+    c.add_option("--mask", y.mask, "Window around the nominal response, e.g. 0.5dB (default 1dB)");
+    c.add_option("--mask-file", y.mask_file, "Absolute limits: rows of 'frequency min_dB max_dB'");
+    c.add_option("--band", y.band,
+                 "Frequencies F1:F2 the --mask window applies to (default: the passband)");
+    c.add_option("--corner", y.corner, "Window F1:F2 the -3 dB corner must lie in");
+    c.add_option("--output", y.output,
+                 "The node whose response is judged (default: out, vout, output, else the first)");
+    c.add_option("--sweep", y.sweep, "AC sweep instead of the deck's .ac: dec|oct|lin N F1 F2")
+        ->expected(4);
+    c.add_option("--drive", y.drive, "The independent source that drives the circuit (gets AC 1)");
+    c.add_option("--workers", y.workers, "Simulator processes at a time (default: one per core)")
+        ->check(CLI::Range(1u, 1024u));
+    c.add_option("--json", y.json,
+                 "Write every figure and each trial's key figures as JSON to this file");
+    c.add_option("--plot", y.plot,
+                 "Write an SVG of nominal, envelope and mask, and beside it a histogram");
+    c.add_option("--sim-timeout", y.timeout_s,
+                 "Seconds one simulator process may take (default 600)")
+        ->check(CLI::PositiveNumber);
+    c.add_option("--sim-memory", y.memory_mb,
+                 "Megabytes of address space per simulator process (default 8192)");
+}
+
 }  // namespace
 
 Invocation parse_command_line(const std::vector<std::string>& args) {
@@ -76,6 +110,29 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                        "Megabytes of address space one simulation may use (default 8192; 0: no "
                        "limit)");
 
+    auto* yield = app.add_subcommand(
+        "yield", "Monte Carlo tolerance yield of a deck against a response mask");
+    YieldOptions& y = inv.yield;
+    add_yield_options(*yield, y);
+
+    auto* stress = app.add_subcommand(
+        "stress", "Per-part current, voltage and power of a rescaled deck against its original");
+    StressOptions& st = inv.stress;
+    stress->add_option("ORIGINAL", st.original, "The original deck")->required();
+    stress->add_option("SCALED", st.scaled, "The rescaled deck")->required();
+    stress
+        ->add_option("--ratio", st.ratio,
+                     "Flag parts whose power or peak current grew beyond this factor (default 2)")
+        ->check(CLI::PositiveNumber);
+    stress->add_option("--rating", st.ratings,
+                       "Ratings per kind or part, e.g. R=0.25W,C=50V,L=1A,R3=1W");
+    stress->add_option("--json", st.json, "Write the table as JSON to this file");
+    stress
+        ->add_option("--sim-timeout", st.timeout_s, "Seconds one simulation may take (default 60)")
+        ->check(CLI::PositiveNumber);
+    stress->add_option("--sim-memory", st.memory_mb,
+                       "Megabytes of address space per simulation (default 8192)");
+
     std::vector<std::string> reversed(args.rbegin(), args.rend());
     try {
         app.parse(reversed);
@@ -116,6 +173,14 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
             if (auto err = take_factor("--km", v.km_text, v.km); !err.empty()) return usage(err);
             if (auto err = take_factor("--kf", v.kf_text, v.kf); !err.empty()) return usage(err);
         }
+        return inv;
+    }
+    if (yield->parsed()) {
+        inv.what = Invocation::What::yield;
+        return inv;
+    }
+    if (stress->parsed()) {
+        inv.what = Invocation::What::stress;
         return inv;
     }
     inv.what = Invocation::What::help;

@@ -41,11 +41,43 @@ struct VerifyOptions {
     std::uint64_t memory_mb = 8192;  // address space per simulator process; 0 = no limit
 };
 
+struct YieldOptions {
+    std::string deck;
+    std::uint64_t trials = 500;
+    std::uint64_t seed = 1;
+    std::string tolerance;           // --tolerance R=1%,C=5%,L=5%,C3=0.5%
+    std::string spread = "uniform";  // --spread uniform|gauss
+    std::string mask;                // --mask 1dB: the window around the nominal
+    std::string mask_file;           // --mask-file FILE
+    std::string band;                // --band F1:F2
+    std::string corner;              // --corner F1:F2
+    std::string output;              // --output NODE
+    std::vector<std::string> sweep;  // --sweep dec N F1 F2
+    std::string drive;               // --drive SOURCE
+    unsigned workers = 0;            // --workers N (0: one per core)
+    std::string json;                // --json FILE
+    std::string plot;                // --plot FILE.svg
+    double timeout_s = 600;
+    std::uint64_t memory_mb = 8192;
+};
+
+struct StressOptions {
+    std::string original;
+    std::string scaled;
+    double ratio = 2;     // --ratio X: flag growth of power or current beyond this
+    std::string ratings;  // --rating R=0.25W,C=50V,L=1A,R3=1W
+    std::string json;     // --json FILE
+    double timeout_s = 60;
+    std::uint64_t memory_mb = 8192;
+};
+
 struct Invocation {
-    enum class What { help, version, scale, verify, usage_error } what = What::help;
+    enum class What { help, version, scale, verify, yield, stress, usage_error } what = What::help;
     std::string text;  // help text or the usage error
     ScaleOptions scale;
     VerifyOptions verify;
+    YieldOptions yield;
+    StressOptions stress;
 };
 
 // args excludes the program name.
