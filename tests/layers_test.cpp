@@ -29,7 +29,9 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"scale", {"base", "deck", "write"}},
     {"sim", {"base"}},
     {"verify", {"base", "deck", "write", "scale", "sim"}},
-    {"cli", {"base", "deck", "write", "scale", "sim", "verify"}},
+    {"values", {"base", "deck", "write", "scale"}},
+    {"retarget", {"base", "deck", "write", "scale", "sim", "verify", "values"}},
+    {"cli", {"base", "deck", "write", "scale", "sim", "verify", "values", "retarget"}},
 };
 
 struct SourceText {
