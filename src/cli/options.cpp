@@ -88,6 +88,8 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     auto* zr = retarget->add_option("--impedance-range", t.impedance_range,
                                     "NAME=LOW:HIGH: the named resistor gets the value in this range at "
                                     "which the parts round best to --series (R1=500:2k)");
+    retarget->add_option("--plot", t.plot, "Write an SVG overlay: the original moved to the new band, the "
+                                           "output, the target marked, and the deviation");
     retarget->add_option("--series", t.series, "Series per kind for --impedance-range (R=E96,C=E12,L=E12)");
     zi->excludes(zm);
     zr->excludes(zi);
@@ -116,6 +118,8 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     snap->add_option("DECK", n.deck, "The deck with ideal values (never modified)")->required();
     snap->add_option("-o,--output", n.output, "Write the rounded deck here")->required();
     snap->add_option("--series", n.series, "Series per kind, e.g. R=E96,C=E12,L=E12 (E3 ... E192)")->required();
+    snap->add_option("--plot", n.plot, "Write an SVG overlay of the ideal and the rounded response with "
+                                       "the deviation");
     snap->add_option("--node", n.node, "The node whose response change is reported (default: out)");
     snap->add_option("--sweep", n.sweep, "AC sweep for the response change: dec|oct|lin N F1 F2 "
                                          "(default: the deck's .ac)")->expected(4);

@@ -5,10 +5,12 @@
 
 #include <fmt/format.h>
 
+#include "base/text_util.hpp"
 #include "cli/exit_codes.hpp"
 #include "retarget/fit.hpp"
 #include "retarget/quantity.hpp"
 #include "scale/expression.hpp"
+#include "verify/bode_plot.hpp"
 
 namespace deckscale {
 namespace {
@@ -209,6 +211,24 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
         code = exit_sim_failed;
     } else {
         code = exit_bad_input;
+    }
+    if (!o.plot.empty()) {
+        const PairVerification* v = r.verification ? &*r.verification : nullptr;
+        if (!v || !v->ac_original() || !v->ac_scaled()) {
+            err << "deckscale: warning: --plot needs an AC sweep; no plot written\n";
+        } else {
+            std::string node = f && f->feature ? f->node : "out";
+            if (node.size() > 3 && istarts_with(node, "v(") && node.back() == ')') node = node.substr(2, node.size() - 3);
+            BodePlotRequest req{o.plot, {node}, fmt::format("{} retargeted to {}", o.deck, o.output), r.km, r.kf};
+            if (r.after) {
+                req.mark_hz = r.target_hz;
+                req.mark_label = fmt::format("target {} {}", to_string(r.after->feature), frequency_text(r.target_hz));
+            }
+            if (auto e = write_bode_plot(*v->ac_original(), *v->ac_scaled(), req); !e.empty())
+                err << "deckscale: error: plot: " << e << "\n";
+            else
+                out << "plot written to " << o.plot << "\n";
+        }
     }
     err << nominal_value_cautions();
     return code;

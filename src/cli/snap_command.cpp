@@ -13,6 +13,7 @@
 #include "retarget/quantity.hpp"
 #include "retarget/response_change.hpp"
 #include "values/snap.hpp"
+#include "verify/bode_plot.hpp"
 #include "write/plan.hpp"
 
 namespace deckscale {
@@ -113,6 +114,17 @@ int run_snap(const SnapOptions& o, std::ostream& out, std::ostream& err) {
                 code = exit_sim_failed;
             } else {
                 out << change_text(c, probe.node);
+                if (!o.plot.empty()) {
+                    BodePlotRequest req{o.plot, {probe.node}, fmt::format("{} rounded to {}", o.deck, o.output), 1, 1};
+                    if (c.corner_rounded) {
+                        req.mark_hz = *c.corner_rounded;
+                        req.mark_label = "rounded corner " + frequency_text(*c.corner_rounded);
+                    }
+                    if (auto e = write_bode_plot(c.ideal_ac, c.rounded_ac, req); !e.empty())
+                        err << "deckscale: error: plot: " << e << "\n";
+                    else
+                        out << "plot written to " << o.plot << "\n";
+                }
             }
         } else {
             err << fmt::format("deckscale: note: no source of {} has an AC value; name one with --drive "

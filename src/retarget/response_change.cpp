@@ -96,6 +96,7 @@ ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
             c.max_deg_hz = f;
         }
     }
+    for (int k = 0; k < 2; ++k) (k ? c.rounded_ac : c.ideal_ac) = *ac_plot(out[k]);
     c.ripple_ideal = passband_ripple(a);
     c.ripple_rounded = passband_ripple(b);
     Measurement ci = measure(Feature::corner, sweep, node_sweeps(ideal, ideal_path, probe));

@@ -29,6 +29,7 @@ struct ResponseChange {
     double max_deg = 0, max_deg_hz = 0;  // largest |phase difference| and where
     Ripple ripple_ideal, ripple_rounded;
     std::optional<double> corner_ideal, corner_rounded;  // Hz; none without a corner in the sweep
+    SimPlot ideal_ac, rounded_ac;  // the two dense sweeps, for drawing
 };
 
 // `sweep`'s range is swept with 200 points a decade on both decks.

@@ -102,6 +102,10 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     gp += fmt::format("set xrange [{0:.17g}:{1:.17g}]\nset x2range [{2:.17g}:{3:.17g}]\nset logscale x2\n"
                       "set format x2 '%.0s%c'\nset x2tics\nset xtics nomirror\n",
                       f0 * r.kf, f1 * r.kf, f0, f1);
+    if (r.mark_hz > 0)
+        gp += fmt::format("set arrow from {0:.17g}, graph 0 to {0:.17g}, graph 1 nohead dt 2 lw 1.5 lc rgb "
+                          "'#000000'\nset label {1} at {0:.17g}, graph 0.06 offset 0.5,0\n",
+                          r.mark_hz, quote(r.mark_label));
     // The title and the top axis's label on the first panel, the bottom axis's on the last.
     gp += "set xlabel ''\nset x2label " + quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
     auto series = [&](int col_o, int col_s, const char* what) {
