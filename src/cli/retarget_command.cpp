@@ -29,7 +29,7 @@ bool split(const std::string& text, char sep, std::string& left, std::string& ri
     return true;
 }
 
-std::string ohms_text(double ohms) { return fmt::format("{} Ohm", factor_text(ohms)); }
+std::string ohms_text(double ohms) { return fmt::format("{:.7g} Ohm", ohms); }
 
 // The best fit: the level chosen, and each part's rounding error there and at both ends.
 std::string fit_text(const RetargetResult& r, const RetargetRequest& q) {

@@ -34,9 +34,10 @@ struct FitChoice {
     int candidates = 0;  // Km values scored
 };
 
-// Scores both ends of [km_low, km_high], every Km in it at which some part lands exactly on
-// a member of its series or midway between two (where the score's pieces meet), and a
-// geometric grid of 1000 points; returns the best.
+// Exact over the range: the score is the largest of the parts' |ln error|, each linear in
+// ln Km between the points where a part lies on a member or midway between two; so the best
+// Km is one of those points, the ends, or in some interval the point where the highest rising
+// and the highest falling line meet. All are scored; the best is returned.
 FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, double km_low, double km_high);
 
 }  // namespace deckscale

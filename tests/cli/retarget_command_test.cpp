@@ -6,6 +6,7 @@
 
 #include <cmath>
 #include <numbers>
+#include <regex>
 
 #include "cli/options.hpp"
 #include "support/common.hpp"
@@ -82,6 +83,27 @@ TEST(RetargetCommand, ReportsFactorsAchievedCornerAndVerification) {
     EXPECT_NE(r.out.find("  achieved   corner of out in o.cir: 10 MHz (error "), std::string::npos) << r.out;
     EXPECT_NE(r.out.find("\nPASS: "), std::string::npos) << r.out;
     EXPECT_NE(r.err.find("deckscale: caution: the values written are nominal."), std::string::npos) << r.err;
+}
+
+TEST(RetargetCommand, BestFitListsEachPartAtBothEndsAndAtTheChoice) {
+    TempDir dir;
+    write_bytes(dir.file("rc.cir"), kRc);
+    RunResult r = run_binary({"retarget", "rc.cir", "--impedance-range", "R1=500:2k", "--series", "R=E24,C=E6",
+                              "--corner", "out=10meg", "-o", "o.cir"},
+                             dir.path());
+    EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
+    std::smatch m;
+    ASSERT_TRUE(std::regex_search(r.out, m, std::regex("best fit   R1 in 500 Ohm \\.\\.\\. 2000 Ohm: ([0-9.]+) Ohm "
+                                                        "rounds best \\([0-9]+ levels tried; worst part error "
+                                                        "([0-9.e-]+) %, at the ends ([0-9.e-]+) % and ([0-9.e-]+) %\\)")))
+        << r.out;
+    double chosen = std::stod(m[1]), worst = std::stod(m[2]);
+    EXPECT_GE(chosen, 500);
+    EXPECT_LE(chosen, 2000);
+    EXPECT_LE(worst, std::stod(m[3]));
+    EXPECT_LE(worst, std::stod(m[4]));
+    EXPECT_NE(r.out.find("    r1   "), std::string::npos) << r.out;
+    EXPECT_NE(r.out.find("    c1   "), std::string::npos) << r.out;
 }
 
 TEST(RetargetCommand, ErrorsExitWithTwoAndWriteNothing) {

@@ -18,7 +18,7 @@ TEST(BestFit, NeverWorseThanEitherEndOfTheRange) {
     std::uniform_real_distribution<double> log_value(-3, 3), log_km(1, 3.5), width(0.05, 1.5);
     const int sizes[] = {3, 6, 12, 24, 48, 96, 192};
     std::uniform_int_distribution<int> pick(0, 6), count(2, 9), kind(0, 2);
-    for (int trial = 0; trial < 60; ++trial) {
+    for (int trial = 0; trial < 80; ++trial) {
         std::vector<FitPart> parts;
         int n = count(rng);
         for (int i = 0; i < n; ++i) {
