@@ -43,12 +43,12 @@ struct VerifyOptions {
 
 struct RetargetOptions {
     std::string deck;
-    std::string output;  // -o OUT (required)
-    std::string impedance, impedance_map;                 // NAME=VALUE | OLD:NEW
-    std::string impedance_range;  // NAME=LOW:HIGH: best fit of the level (needs series)
-    std::string series;           // --series R=E96,C=E12,L=E12 for the best fit
-    std::string plot;             // --plot FILE.svg
-    std::string corner, center, notch, frequency_map;     // NODE=FREQ | OLD:NEW
+    std::string output;                    // -o OUT (required)
+    std::string impedance, impedance_map;  // NAME=VALUE | OLD:NEW
+    std::string impedance_range;           // NAME=LOW:HIGH: best fit of the level (needs series)
+    std::string series;                    // --series R=E96,C=E12,L=E12 for the best fit
+    std::string plot;                      // --plot FILE.svg
+    std::string corner, center, notch, frequency_map;  // NODE=FREQ | OLD:NEW
     std::vector<std::string> sweep;  // --sweep dec N F1 F2: where the feature is measured
     std::string drive;               // --drive SOURCE
     int digits = 9;

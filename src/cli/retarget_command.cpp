@@ -1,9 +1,9 @@
 #include "cli/retarget_command.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "cli/exit_codes.hpp"
@@ -37,8 +37,9 @@ std::string fit_text(const RetargetResult& r, const RetargetRequest& q) {
     double low = r.fit_km_low, high = r.fit_km_high, km = r.fit->km;
     std::string s = fmt::format(
         "  best fit   {} in {} ... {}: {} rounds best ({} levels tried; worst part error {:.3g} %, "
-        "at the ends {:.3g} % and {:.3g} %)\n", z.element, ohms_text(z.to), ohms_text(z.to_high),
-        ohms_text(km * r.element_value), r.fit->candidates, 100 * std::expm1(r.fit->score.worst),
+        "at the ends {:.3g} % and {:.3g} %)\n",
+        z.element, ohms_text(z.to), ohms_text(z.to_high), ohms_text(km * r.element_value),
+        r.fit->candidates, 100 * std::expm1(r.fit->score.worst),
         100 * std::expm1(fit_score(r.fit_parts, q.series, low).worst),
         100 * std::expm1(fit_score(r.fit_parts, q.series, high).worst));
     s += fmt::format("    {:<10} {:>12} {:>12} {:>12}\n", "part", "at " + ohms_text(z.to), "chosen",
@@ -72,7 +73,8 @@ std::optional<RetargetRequest> retarget_request(const RetargetOptions& o, std::s
     if (!o.impedance.empty()) {
         auto v = split(o.impedance, '=', a, b) ? parse_impedance(b) : std::nullopt;
         if (!v) {
-            error = fmt::format("--impedance {}: write NAME=VALUE with a positive value (R1=600)", o.impedance);
+            error = fmt::format("--impedance {}: write NAME=VALUE with a positive value (R1=600)",
+                                o.impedance);
             return std::nullopt;
         }
         r.impedance = ImpedanceTarget{a, 1, *v};
@@ -81,20 +83,23 @@ std::optional<RetargetRequest> retarget_request(const RetargetOptions& o, std::s
         auto from = split(o.impedance_map, ':', a, b) ? parse_impedance(a) : std::nullopt;
         auto to = from ? parse_impedance(b) : std::nullopt;
         if (!to) {
-            error = fmt::format("--impedance-map {}: write OLD:NEW with positive impedances (1:600)",
-                                o.impedance_map);
+            error =
+                fmt::format("--impedance-map {}: write OLD:NEW with positive impedances (1:600)",
+                            o.impedance_map);
             return std::nullopt;
         }
         r.impedance = ImpedanceTarget{"", *from, *to};
     }
     if (!o.impedance_range.empty()) {
         std::string low, high;
-        auto lo = split(o.impedance_range, '=', a, b) && split(b, ':', low, high) ? parse_impedance(low)
-                                                                                  : std::nullopt;
+        auto lo = split(o.impedance_range, '=', a, b) && split(b, ':', low, high)
+                      ? parse_impedance(low)
+                      : std::nullopt;
         auto hi = lo ? parse_impedance(high) : std::nullopt;
         if (!hi || !(*hi > *lo)) {
-            error = fmt::format("--impedance-range {}: write NAME=LOW:HIGH with 0 < LOW < HIGH (R1=500:2k)",
-                                o.impedance_range);
+            error = fmt::format(
+                "--impedance-range {}: write NAME=LOW:HIGH with 0 < LOW < HIGH (R1=500:2k)",
+                o.impedance_range);
             return std::nullopt;
         }
         auto series = parse_snap_series(o.series, error);
@@ -116,7 +121,8 @@ std::optional<RetargetRequest> retarget_request(const RetargetOptions& o, std::s
         if (n.text.empty()) continue;
         auto f = split(n.text, '=', a, b) ? parse_frequency(b) : std::nullopt;
         if (!f) {
-            error = fmt::format("{} {}: write NODE=FREQ with a positive frequency (out=3.4k)", n.option, n.text);
+            error = fmt::format("{} {}: write NODE=FREQ with a positive frequency (out=3.4k)",
+                                n.option, n.text);
             return std::nullopt;
         }
         r.frequency = FrequencyTarget{n.feature, a, 0, *f};
@@ -125,8 +131,10 @@ std::optional<RetargetRequest> retarget_request(const RetargetOptions& o, std::s
         auto from = split(o.frequency_map, ':', a, b) ? parse_frequency(a) : std::nullopt;
         auto to = from ? parse_frequency(b) : std::nullopt;
         if (!to) {
-            error = fmt::format("--frequency-map {}: write OLD:NEW with positive frequencies in Hz "
-                                "or rad/s (1rad/s:3.4k)", o.frequency_map);
+            error = fmt::format(
+                "--frequency-map {}: write OLD:NEW with positive frequencies in Hz "
+                "or rad/s (1rad/s:3.4k)",
+                o.frequency_map);
             return std::nullopt;
         }
         r.frequency = FrequencyTarget{std::nullopt, "", *from, *to};
@@ -142,8 +150,10 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
         return exit_bad_input;
     }
     std::error_code ec;
-    if (fs::exists(o.output, ec) && fs::exists(o.deck, ec) && fs::equivalent(o.output, o.deck, ec)) {
-        err << fmt::format("deckscale: error: '{}' is the input deck; retarget never overwrites it\n", o.output);
+    if (fs::exists(o.output, ec) && fs::exists(o.deck, ec) &&
+        fs::equivalent(o.output, o.deck, ec)) {
+        err << fmt::format(
+            "deckscale: error: '{}' is the input deck; retarget never overwrites it\n", o.output);
         return exit_bad_input;
     }
     DiskFileSystem disk;
@@ -173,21 +183,24 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
         out << "  impedance  unchanged  Km = 1\n";
     else if (!z->element.empty())
         out << fmt::format("  impedance  {} = {} becomes {}  Km = {}\n", z->element,
-                           ohms_text(r.element_value), ohms_text(r.km * r.element_value), factor_text(r.km));
-    else
-        out << fmt::format("  impedance  {} becomes {}  Km = {}\n", ohms_text(z->from), ohms_text(z->to),
+                           ohms_text(r.element_value), ohms_text(r.km * r.element_value),
                            factor_text(r.km));
+    else
+        out << fmt::format("  impedance  {} becomes {}  Km = {}\n", ohms_text(z->from),
+                           ohms_text(z->to), factor_text(r.km));
     if (r.fit) out << fit_text(r, *request);
     const auto& f = request->frequency;
     if (!f)
         out << "  frequency  unchanged  Kf = 1\n";
     else if (r.before)
-        out << fmt::format("  frequency  {} of {}: measured {} (level {:.4g} dB, {} sweeps), target {}  "
-                           "Kf = {}\n", to_string(r.before->feature), f->node, frequency_text(r.before->freq),
-                           r.before->level_db, r.before->sweeps, frequency_text(f->to), factor_text(r.kf));
+        out << fmt::format(
+            "  frequency  {} of {}: measured {} (level {:.4g} dB, {} sweeps), target {}  "
+            "Kf = {}\n",
+            to_string(r.before->feature), f->node, frequency_text(r.before->freq),
+            r.before->level_db, r.before->sweeps, frequency_text(f->to), factor_text(r.kf));
     else
-        out << fmt::format("  frequency  {} becomes {}  Kf = {}\n", frequency_text(f->from), frequency_text(f->to),
-                           factor_text(r.kf));
+        out << fmt::format("  frequency  {} becomes {}  Kf = {}\n", frequency_text(f->from),
+                           frequency_text(f->to), factor_text(r.kf));
     out << fmt::format("  written    {} value(s) rewritten;", r.change_count);
     for (const auto& w : r.written) out << " " << w;
     out << "\n";
@@ -195,8 +208,9 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
     if (r.after) {
         double e = r.target_error();
         reached = std::abs(e) <= kTargetTolerance;
-        out << fmt::format("  achieved   {} of {} in {}: {} (error {:+.3g} %, {})\n", to_string(r.after->feature),
-                           f->node, o.output, frequency_text(r.after->freq), 100 * e,
+        out << fmt::format("  achieved   {} of {} in {}: {} (error {:+.3g} %, {})\n",
+                           to_string(r.after->feature), f->node, o.output,
+                           frequency_text(r.after->freq), 100 * e,
                            reached ? "within 0.1 %" : "NOT within 0.1 %");
     }
     for (const auto& p : r.problems) err << "deckscale: error: " << p << "\n";
@@ -206,8 +220,8 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
         if (!r.verification->report.passed()) code = exit_not_equivalent;
     } else if (r.outcome == Outcome::sim_failed) {
         for (const auto& s : r.verification ? r.verification->failures : std::vector<SimFailure>{})
-            err << fmt::format("deckscale: error: simulating {} ({}) failed: {}: {}\n", s.label, s.analysis,
-                               to_string(s.status), s.message);
+            err << fmt::format("deckscale: error: simulating {} ({}) failed: {}: {}\n", s.label,
+                               s.analysis, to_string(s.status), s.message);
         code = exit_sim_failed;
     } else {
         code = exit_bad_input;
@@ -218,11 +232,14 @@ int run_retarget(const RetargetOptions& o, std::ostream& out, std::ostream& err)
             err << "deckscale: warning: --plot needs an AC sweep; no plot written\n";
         } else {
             std::string node = f && f->feature ? f->node : "out";
-            if (node.size() > 3 && istarts_with(node, "v(") && node.back() == ')') node = node.substr(2, node.size() - 3);
-            BodePlotRequest req{o.plot, {node}, fmt::format("{} retargeted to {}", o.deck, o.output), r.km, r.kf};
+            if (node.size() > 3 && istarts_with(node, "v(") && node.back() == ')')
+                node = node.substr(2, node.size() - 3);
+            BodePlotRequest req{
+                o.plot, {node}, fmt::format("{} retargeted to {}", o.deck, o.output), r.km, r.kf};
             if (r.after) {
                 req.mark_hz = r.target_hz;
-                req.mark_label = fmt::format("target {} {}", to_string(r.after->feature), frequency_text(r.target_hz));
+                req.mark_label = fmt::format("target {} {}", to_string(r.after->feature),
+                                             frequency_text(r.target_hz));
             }
             if (auto e = write_bode_plot(*v->ac_original(), *v->ac_scaled(), req); !e.empty())
                 err << "deckscale: error: plot: " << e << "\n";

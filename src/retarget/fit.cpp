@@ -40,15 +40,18 @@ FitScore fit_score(const std::vector<FitPart>& parts, const SnapSeries& series, 
     return s;
 }
 
-FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, double lo, double hi) {
+FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, double lo,
+                   double hi) {
     // Where some part's rounding changes (midway between members) or its error is zero (on a
     // member), in u = ln Km; between two such points every part's |error| is linear in u.
     std::vector<double> points{std::log(lo), std::log(hi)};
     for (const auto& p : parts) {
         const auto& e = series_of(series, p.letter);
         if (!e || !(p.value > 0)) continue;
-        double v_lo = scaled(p, p.letter == 'c' ? hi : lo), v_hi = scaled(p, p.letter == 'c' ? lo : hi);
-        for (int d = static_cast<int>(std::floor(std::log10(v_lo))) - 1; d <= std::ceil(std::log10(v_hi)); ++d) {
+        double v_lo = scaled(p, p.letter == 'c' ? hi : lo),
+               v_hi = scaled(p, p.letter == 'c' ? lo : hi);
+        for (int d = static_cast<int>(std::floor(std::log10(v_lo))) - 1;
+             d <= std::ceil(std::log10(v_hi)); ++d) {
             const auto& h = e->hundredths;
             for (std::size_t i = 0; i < h.size(); ++i) {
                 double m = h[i] / 100.0 * std::pow(10.0, d);
@@ -80,7 +83,8 @@ FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, 
             else
                 falling = std::max(falling, std::abs(err) + um);
         }
-        if (rising > -1e299 && falling > -1e299) candidates.push_back(std::clamp((falling - rising) / 2, a, b));
+        if (rising > -1e299 && falling > -1e299)
+            candidates.push_back(std::clamp((falling - rising) / 2, a, b));
     }
     FitChoice best;
     bool first = true;

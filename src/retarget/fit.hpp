@@ -14,8 +14,8 @@ namespace deckscale {
 
 struct FitPart {
     std::string name;
-    char letter = 0;  // 'r', 'c' or 'l'
-    double value = 0; // at Km = 1: R and L scale by Km, C by 1/Km
+    char letter = 0;   // 'r', 'c' or 'l'
+    double value = 0;  // at Km = 1: R and L scale by Km, C by 1/Km
 };
 
 // The part's rounding error at `km`: rounded/ideal - 1 (0 when its kind has no series).
@@ -38,6 +38,7 @@ struct FitChoice {
 // ln Km between the points where a part lies on a member or midway between two; so the best
 // Km is one of those points, the ends, or in some interval the point where the highest rising
 // and the highest falling line meet. All are scored; the best is returned.
-FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, double km_low, double km_high);
+FitChoice best_fit(const std::vector<FitPart>& parts, const SnapSeries& series, double km_low,
+                   double km_high);
 
 }  // namespace deckscale

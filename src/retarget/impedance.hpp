@@ -1,4 +1,5 @@
-// The impedance a target names: a resistor's value (`--impedance R1=600`). A part that does
+// The impedance a target names: a resistor's value (`--impedance R1=600`), a T line's or
+// an RF port's Z0 (`--impedance T1=75`). A part that does
 // not exist, or whose value is no impedance (a capacitor, a source), is a clear error.
 #pragma once
 

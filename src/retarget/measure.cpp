@@ -1,9 +1,9 @@
 #include "retarget/measure.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
-
-#include <fmt/format.h>
 
 #include "retarget/quantity.hpp"
 
@@ -98,9 +98,12 @@ Measurement fail(Measurement m, std::string problem) {
 
 const char* to_string(Feature f) {
     switch (f) {
-        case Feature::corner: return "corner";
-        case Feature::center: return "centre";
-        case Feature::notch: return "notch";
+        case Feature::corner:
+            return "corner";
+        case Feature::center:
+            return "centre";
+        case Feature::notch:
+            return "notch";
     }
     return "";
 }
@@ -117,7 +120,8 @@ Measurement measure(Feature feature, const AcSweep& coarse, const SweepRunner& r
     if (!(s.db[top] > kNoResponseDb))
         return fail(m, fmt::format("the node has no response from {} (its magnitude is 0 "
                                    "throughout): is it connected to the driven part of the "
-                                   "circuit?", range_text(s)));
+                                   "circuit?",
+                                   range_text(s)));
     std::size_t n = s.freq.size();
     bool inside = top > 0 && top + 1 < n;
     const char* widen = "widen it with --sweep dec 50 F1 F2";
@@ -144,7 +148,8 @@ Measurement measure(Feature feature, const AcSweep& coarse, const SweepRunner& r
     m.level_db = peak.db;
     double threshold = peak.db - kHalfPowerDb;
     Sampled above{{s.freq.begin() + top, s.freq.end()}, {s.db.begin() + top, s.db.end()}};
-    Sampled below{{s.freq.begin(), s.freq.begin() + top + 1}, {s.db.begin(), s.db.begin() + top + 1}};
+    Sampled below{{s.freq.begin(), s.freq.begin() + top + 1},
+                  {s.db.begin(), s.db.begin() + top + 1}};
     bool upward = true;
     std::optional<std::size_t> j = crossing(above, threshold, true);
     Sampled bracket = above;

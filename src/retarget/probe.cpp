@@ -1,9 +1,9 @@
 #include "retarget/probe.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "sim/simulate.hpp"
@@ -68,8 +68,8 @@ SweepRunner node_sweeps(const Deck& deck, const std::string& path, const ProbeSe
         SimOutcome o = simulate(j);
         SweepResult r;
         if (o.status != SimStatus::ok) {
-            r.problem = fmt::format("simulating {} ({}) failed: {}: {}", j.label, j.cards[j.cards.size() - 2],
-                                    to_string(o.status), o.message);
+            r.problem = fmt::format("simulating {} ({}) failed: {}: {}", j.label,
+                                    j.cards[j.cards.size() - 2], to_string(o.status), o.message);
             return r;
         }
         for (const auto& p : o.plots)

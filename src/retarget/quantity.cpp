@@ -1,10 +1,10 @@
 #include "retarget/quantity.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <numbers>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "scale/factor.hpp"

@@ -1,11 +1,11 @@
 #include "retarget/response_change.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <complex>
 #include <filesystem>
 #include <numbers>
-
-#include <fmt/format.h>
 
 #include "base/text_util.hpp"
 #include "sim/simulate.hpp"
@@ -39,9 +39,9 @@ Ripple passband_ripple(const Sampled& s) {
     return r;
 }
 
-ResponseChange response_change(const Deck& ideal, const std::string& ideal_path, const Deck& rounded,
-                               const std::string& rounded_path, const ProbeSettings& probe,
-                               const AcSweep& sweep) {
+ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
+                               const Deck& rounded, const std::string& rounded_path,
+                               const ProbeSettings& probe, const AcSweep& sweep) {
     ResponseChange c;
     AcSweep dense;
     dense.type = "dec";
@@ -52,7 +52,8 @@ ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
     for (auto [deck, path] : {std::pair{&ideal, &ideal_path}, std::pair{&rounded, &rounded_path}}) {
         SimJob j;
         j.label = *path;
-        j.cards = simulation_cards(*deck, SimDeckOptions{ac_card(dense), probe.drive, probe.drive_ac});
+        j.cards =
+            simulation_cards(*deck, SimDeckOptions{ac_card(dense), probe.drive, probe.drive_ac});
         j.work_dir = std::filesystem::absolute(*path).parent_path().string();
         j.timeout = probe.timeout;
         j.memory_limit_mb = probe.memory_mb;
@@ -63,15 +64,16 @@ ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
     const SimVector* freq = nullptr;
     for (int k = 0; k < 2; ++k) {
         if (out[k].status != SimStatus::ok) {
-            c.problem = fmt::format("simulating {} failed: {}: {}", jobs[k].label, to_string(out[k].status),
-                                    out[k].message);
+            c.problem = fmt::format("simulating {} failed: {}: {}", jobs[k].label,
+                                    to_string(out[k].status), out[k].message);
             return c;
         }
         const SimPlot* p = ac_plot(out[k]);
         if (p) v[k] = node_vector(*p, probe.node);
         if (p && k == 0) freq = p->find("frequency");
         if (!v[k] || !freq) {
-            c.problem = fmt::format("{} has no node '{}' in its AC results", jobs[k].label, probe.node);
+            c.problem =
+                fmt::format("{} has no node '{}' in its AC results", jobs[k].label, probe.node);
             return c;
         }
     }

@@ -29,12 +29,12 @@ struct ResponseChange {
     double max_deg = 0, max_deg_hz = 0;  // largest |phase difference| and where
     Ripple ripple_ideal, ripple_rounded;
     std::optional<double> corner_ideal, corner_rounded;  // Hz; none without a corner in the sweep
-    SimPlot ideal_ac, rounded_ac;  // the two dense sweeps, for drawing
+    SimPlot ideal_ac, rounded_ac;                        // the two dense sweeps, for drawing
 };
 
 // `sweep`'s range is swept with 200 points a decade on both decks.
-ResponseChange response_change(const Deck& ideal, const std::string& ideal_path, const Deck& rounded,
-                               const std::string& rounded_path, const ProbeSettings& probe,
-                               const AcSweep& sweep);
+ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
+                               const Deck& rounded, const std::string& rounded_path,
+                               const ProbeSettings& probe, const AcSweep& sweep);
 
 }  // namespace deckscale

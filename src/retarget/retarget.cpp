@@ -1,8 +1,8 @@
 #include "retarget/retarget.hpp"
 
-#include <algorithm>
-
 #include <fmt/format.h>
+
+#include <algorithm>
 
 #include "base/output_file.hpp"
 #include "base/text_util.hpp"
@@ -24,13 +24,15 @@ RetargetResult refuse(RetargetResult r, RetargetResult::Outcome outcome, std::st
 }
 
 // A measurement's problem, said of the node it was made on.
-std::string measurement_problem(const Measurement& m, const std::string& node, const std::string& deck) {
-    return fmt::format("measuring the {} of {} in {}: {}", to_string(m.feature), node, deck, m.problem);
+std::string measurement_problem(const Measurement& m, const std::string& node,
+                                const std::string& deck) {
+    return fmt::format("measuring the {} of {} in {}: {}", to_string(m.feature), node, deck,
+                       m.problem);
 }
 
 RetargetResult::Outcome outcome_of(const Measurement& m) {
     return m.problem.rfind("simulating", 0) == 0 ? RetargetResult::Outcome::sim_failed
-                                                  : RetargetResult::Outcome::bad_input;
+                                                 : RetargetResult::Outcome::bad_input;
 }
 
 }  // namespace
@@ -39,7 +41,8 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
     using Outcome = RetargetResult::Outcome;
     RetargetResult r;
     if (!o.impedance && !o.frequency)
-        return refuse(r, Outcome::bad_input, "give an impedance target, a frequency target or both");
+        return refuse(r, Outcome::bad_input,
+                      "give an impedance target, a frequency target or both");
     std::optional<AcSweep> sweep;
     {
         Deck original = load_deck(o.deck, files);
@@ -63,22 +66,26 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
             sweep->reltol = original.symbols.reltol;
         }
         std::string drive = to_lower(o.drive);
-        if (!drive.empty() && std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end())
+        if (!drive.empty() &&
+            std::find(an.sources.begin(), an.sources.end(), drive) == an.sources.end())
             return refuse(r, Outcome::bad_input,
-                          fmt::format("--drive {}: no independent source of that name in {}", o.drive, o.deck));
+                          fmt::format("--drive {}: no independent source of that name in {}",
+                                      o.drive, o.deck));
         if (o.frequency && o.frequency->feature) {
             if (!sweep)
                 return refuse(r, Outcome::bad_input,
                               fmt::format("{} has no .ac sweep to measure the {} on; give one with "
-                                          "--sweep dec 50 F1 F2", o.deck,
-                                          to_string(*o.frequency->feature)));
+                                          "--sweep dec 50 F1 F2",
+                                          o.deck, to_string(*o.frequency->feature)));
             if (drive.empty() && an.ac_sources.empty())
                 return refuse(r, Outcome::bad_input,
                               fmt::format("no source of {} has an AC value, so the response shows "
                                           "nothing; name the source that drives the circuit with "
-                                          "--drive NAME (it gets AC 1)", o.deck));
+                                          "--drive NAME (it gets AC 1)",
+                                          o.deck));
             ProbeSettings probe{o.frequency->node, drive, 1, o.timeout, o.memory_mb};
-            Measurement m = measure(*o.frequency->feature, *sweep, node_sweeps(original, o.deck, probe));
+            Measurement m =
+                measure(*o.frequency->feature, *sweep, node_sweeps(original, o.deck, probe));
             if (!m.ok())
                 return refuse(r, outcome_of(m), measurement_problem(m, o.frequency->node, o.deck));
             r.before = m;
@@ -90,7 +97,8 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
         if (o.impedance && o.impedance->to_high > 0) {
             // Values at Km = 1 after the frequency scaling: L/Kf, C/Kf.
             for (const auto& p : parts)
-                r.fit_parts.push_back({p.name, p.letter, p.letter == 'r' ? p.value : p.value / r.kf});
+                r.fit_parts.push_back(
+                    {p.name, p.letter, p.letter == 'r' ? p.value : p.value / r.kf});
             r.fit_km_low = o.impedance->to / r.element_value;
             r.fit_km_high = o.impedance->to_high / r.element_value;
             r.fit = best_fit(r.fit_parts, o.series, r.fit_km_low, r.fit_km_high);
@@ -115,7 +123,8 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
     OutputBatch batch;
     for (const auto& f : plan.files) {
         auto produce = [&](ByteSink& sink) { produce_output(scaled.deck, plan, f, sink); };
-        if (auto e = batch.add(f.path, produce); !e.empty()) return refuse(r, Outcome::bad_input, e);
+        if (auto e = batch.add(f.path, produce); !e.empty())
+            return refuse(r, Outcome::bad_input, e);
         r.written.push_back(f.path);
     }
     if (auto e = batch.commit(); !e.empty()) return refuse(r, Outcome::bad_input, e);
@@ -128,7 +137,8 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
         ProbeSettings probe{o.frequency->node, drive, drive_ac, o.timeout, o.memory_mb};
         Measurement m = measure(r.before->feature, map_sweep(*sweep, r.kf),
                                 node_sweeps(output, o.output, probe));
-        if (!m.ok()) return refuse(r, outcome_of(m), measurement_problem(m, o.frequency->node, o.output));
+        if (!m.ok())
+            return refuse(r, outcome_of(m), measurement_problem(m, o.frequency->node, o.output));
         r.after = m;
     }
 
@@ -143,8 +153,10 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
     pair.timeout = o.timeout;
     pair.memory_mb = o.memory_mb;
     r.verification = verify_pair(pair, files);
-    if (r.verification->outcome == PairVerification::Outcome::sim_failed) r.outcome = Outcome::sim_failed;
-    if (r.verification->outcome == PairVerification::Outcome::bad_input) r.outcome = Outcome::bad_input;
+    if (r.verification->outcome == PairVerification::Outcome::sim_failed)
+        r.outcome = Outcome::sim_failed;
+    if (r.verification->outcome == PairVerification::Outcome::bad_input)
+        r.outcome = Outcome::bad_input;
     for (const auto& p : r.verification->problems) r.problems.push_back("verifying: " + p);
     return r;
 }

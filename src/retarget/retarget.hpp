@@ -20,8 +20,8 @@
 namespace deckscale {
 
 struct ImpedanceTarget {
-    std::string element;     // "R1": that resistor's value becomes `to`; empty: a mapping
-    double from = 1, to = 1; // a mapping: impedance level `from` becomes `to` (Ohm)
+    std::string element;      // "R1": that resistor's value becomes `to`; empty: a mapping
+    double from = 1, to = 1;  // a mapping: impedance level `from` becomes `to` (Ohm)
     // With `element`: a range [to, to_high] in which the level that rounds best is chosen
     // (retarget/fit, with RetargetRequest::series); 0: `to` exactly.
     double to_high = 0;
@@ -54,12 +54,12 @@ struct RetargetResult {
     };
     Outcome outcome = Outcome::done;
     std::vector<std::string> problems;
-    std::vector<Diagnostic> warnings;    // the deck's and the scaling pass's notes
+    std::vector<Diagnostic> warnings;  // the deck's and the scaling pass's notes
     std::vector<Diagnostic> unscalable;
     double km = 1, kf = 1;
-    double element_value = 0;            // the named element's value before (Ohm)
-    std::optional<Measurement> before;   // the feature on the original
-    std::optional<Measurement> after;    // the same on the output deck
+    double element_value = 0;           // the named element's value before (Ohm)
+    std::optional<Measurement> before;  // the feature on the original
+    std::optional<Measurement> after;   // the same on the output deck
     // A best fit: the parts (values at Km = 1, after the frequency scaling), the range of Km
     // searched and the choice.
     std::vector<FitPart> fit_parts;
@@ -67,7 +67,7 @@ struct RetargetResult {
     std::optional<FitChoice> fit;
     double target_hz = 0;
     std::size_t change_count = 0;
-    std::vector<std::string> written;    // the files written, main deck last
+    std::vector<std::string> written;  // the files written, main deck last
     std::optional<PairVerification> verification;
     double target_error() const { return after ? after->freq / target_hz - 1 : 0; }
 };

@@ -22,9 +22,8 @@ struct Exception {
     int n, index, hundredths;
 };
 constexpr Exception kExceptions[] = {
-    {24, 10, 270}, {24, 11, 300}, {24, 12, 330}, {24, 13, 360},
-    {24, 14, 390}, {24, 15, 430}, {24, 16, 470}, {24, 22, 820},
-    {192, 185, 920},
+    {24, 10, 270}, {24, 11, 300}, {24, 12, 330}, {24, 13, 360},   {24, 14, 390},
+    {24, 15, 430}, {24, 16, 470}, {24, 22, 820}, {192, 185, 920},
 };
 
 std::vector<int> generated(int n) {
@@ -45,8 +44,15 @@ ESeries every(int step, int n, const std::vector<int>& base) {
 
 ESeries e_series(int n) {
     switch (n) {
-        case 3: case 6: case 12: case 24: return every(24 / n, n, generated(24));
-        case 48: case 96: case 192: return every(192 / n, n, generated(192));
+        case 3:
+        case 6:
+        case 12:
+        case 24:
+            return every(24 / n, n, generated(24));
+        case 48:
+        case 96:
+        case 192:
+            return every(192 / n, n, generated(192));
     }
     throw std::invalid_argument("no E series E" + std::to_string(n));
 }

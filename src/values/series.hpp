@@ -14,8 +14,8 @@
 namespace deckscale {
 
 struct ESeries {
-    int n = 0;                   // 3, 6, 12, 24, 48, 96 or 192
-    std::vector<int> hundredths; // one decade's members x 100: 100 ... 987, ascending
+    int n = 0;                    // 3, 6, 12, 24, 48, 96 or 192
+    std::vector<int> hundredths;  // one decade's members x 100: 100 ... 987, ascending
 };
 
 // "E12", "e96" (any case); nullopt for anything else.

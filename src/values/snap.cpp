@@ -14,9 +14,12 @@ constexpr int kDigits = 4;
 template <class S>
 auto series_for(S& s, char letter) -> decltype(&s.r) {
     switch (letter) {
-        case 'r': return &s.r;
-        case 'c': return &s.c;
-        case 'l': return &s.l;
+        case 'r':
+            return &s.r;
+        case 'c':
+            return &s.c;
+        case 'l':
+            return &s.l;
     }
     return nullptr;
 }
@@ -30,7 +33,8 @@ Diagnostic left_alone(const Card& c, const Token& t, std::string_view text) {
     d.column = pos.column;
     d.length = t.end - t.begin;
     d.source_line = std::string(c.file->line_text(pos.line));
-    d.message = fmt::format("'{}' is not a plain number: {} is left as written", text, c.field_text(0));
+    d.message =
+        fmt::format("'{}' is not a plain number: {} is left as written", text, c.field_text(0));
     return d;
 }
 
@@ -41,14 +45,17 @@ std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string
     std::size_t pos = 0;
     while (pos <= text.size()) {
         std::size_t comma = text.find(',', pos);
-        std::string item = text.substr(pos, comma == std::string::npos ? std::string::npos : comma - pos);
+        std::string item =
+            text.substr(pos, comma == std::string::npos ? std::string::npos : comma - pos);
         auto eq = item.find('=');
         std::string kind = to_lower(item.substr(0, eq == std::string::npos ? 0 : eq));
         auto series = eq == std::string::npos ? std::nullopt : e_series(item.substr(eq + 1));
         auto* slot = kind.size() == 1 ? series_for(s, kind[0]) : nullptr;
         if (!slot || !series) {
-            error = fmt::format("'{}': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, "
-                                "E6, E12, E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)", item);
+            error = fmt::format(
+                "'{}': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, "
+                "E6, E12, E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)",
+                item);
             return std::nullopt;
         }
         *slot = std::move(series);
@@ -97,13 +104,19 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
                     return;
                 }
                 double rounded = nearest(**chosen, p.number->value);
-                SnappedPart part{std::string(c.field_text(0)), c.file->path(),
-                                 c.file->position(fl[0].begin).line, std::string(value_text), "",
-                                 p.number->value, rounded};
-                part.new_text = std::abs(part.error()) < 1e-12 ? part.old_text
-                                                                : respell(*p.number, rounded, kDigits);
+                SnappedPart part{std::string(c.field_text(0)),
+                                 c.file->path(),
+                                 c.file->position(fl[0].begin).line,
+                                 std::string(value_text),
+                                 "",
+                                 p.number->value,
+                                 rounded};
+                part.new_text = std::abs(part.error()) < 1e-12
+                                    ? part.old_text
+                                    : respell(*p.number, rounded, kDigits);
                 if (part.new_text != part.old_text)
-                    r.edits[f].add(text, Edit{fl[at].begin, fl[at].end - fl[at].begin, part.new_text});
+                    r.edits[f].add(text,
+                                   Edit{fl[at].begin, fl[at].end - fl[at].begin, part.new_text});
                 r.parts.push_back(std::move(part));
                 return;
             }

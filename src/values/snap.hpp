@@ -33,9 +33,9 @@ struct SnappedPart {
 };
 
 struct SnapResult {
-    std::vector<EditSet> edits;         // one per Deck::files entry
-    std::vector<SnappedPart> parts;     // every part considered, in file order
-    std::vector<Diagnostic> left_alone; // parts of a chosen kind whose value is not a number
+    std::vector<EditSet> edits;          // one per Deck::files entry
+    std::vector<SnappedPart> parts;      // every part considered, in file order
+    std::vector<Diagnostic> left_alone;  // parts of a chosen kind whose value is not a number
 };
 
 SnapResult snap_deck(const Deck& deck, const SnapSeries& series);

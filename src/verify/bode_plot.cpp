@@ -99,22 +99,26 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     // The band being designed for (the scaled deck's) below, the original's on the top axis.
     std::string x = fmt::format("($1*{:.17g})", r.kf);
     double f0 = fo->values.front().real(), f1 = fo->values.back().real();
-    gp += fmt::format("set xrange [{0:.17g}:{1:.17g}]\nset x2range [{2:.17g}:{3:.17g}]\nset logscale x2\n"
-                      "set format x2 '%.0s%c'\nset x2tics\nset xtics nomirror\n",
-                      f0 * r.kf, f1 * r.kf, f0, f1);
+    gp += fmt::format(
+        "set xrange [{0:.17g}:{1:.17g}]\nset x2range [{2:.17g}:{3:.17g}]\nset logscale x2\n"
+        "set format x2 '%.0s%c'\nset x2tics\nset xtics nomirror\n",
+        f0 * r.kf, f1 * r.kf, f0, f1);
     if (r.mark_hz > 0)
-        gp += fmt::format("set arrow from {0:.17g}, graph 0 to {0:.17g}, graph 1 nohead dt 2 lw 1.5 lc rgb "
-                          "'#000000'\nset label {1} at {0:.17g}, graph 0.06 offset 0.5,0\n",
-                          r.mark_hz, quote(r.mark_label));
+        gp += fmt::format(
+            "set arrow from {0:.17g}, graph 0 to {0:.17g}, graph 1 nohead dt 2 lw 1.5 lc rgb "
+            "'#000000'\nset label {1} at {0:.17g}, graph 0.06 offset 0.5,0\n",
+            r.mark_hz, quote(r.mark_label));
     // The title and the top axis's label on the first panel, the bottom axis's on the last.
-    gp += "set xlabel ''\nset x2label " + quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
+    gp += "set xlabel ''\nset x2label " +
+          quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
     auto series = [&](int col_o, int col_s, const char* what) {
         std::string cmd = "plot ";
         for (std::size_t i = 0; i < vo.size(); ++i) {
             int base = 2 + static_cast<int>(i) * 5;
             if (i) cmd += ", \\\n     ";
-            cmd += fmt::format("{} using {}:{} with lines lw 4 lc rgb '#9ecae1' title {}", quote(dat_name),
-                               x, base + col_o, quote(r.vectors[i] + " original, moved to the new band " + what));
+            cmd += fmt::format("{} using {}:{} with lines lw 4 lc rgb '#9ecae1' title {}",
+                               quote(dat_name), x, base + col_o,
+                               quote(r.vectors[i] + " original, moved to the new band " + what));
             cmd += fmt::format(", {} using {}:{} with lines lw 1 lc rgb '#d95f02' title {}",
                                quote(dat_name), x, base + col_s,
                                quote(r.vectors[i] + " scaled " + what));
@@ -127,8 +131,9 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     gp += "set ylabel 'relative error'\nset logscale y\nset format y '%.0e'\nplot ";
     for (std::size_t i = 0; i < vo.size(); ++i) {
         if (i) gp += ", \\\n     ";
-        gp += fmt::format("{} using {}:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name), x,
-                          2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
+        gp +=
+            fmt::format("{} using {}:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name),
+                        x, 2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
     }
     gp += "\nunset multiplot\n";
     if (auto e = write_file_atomically((dir / dat_name).string(), data); !e.empty()) return e;

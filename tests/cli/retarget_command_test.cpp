@@ -21,7 +21,8 @@ using test::write_bytes;
 
 // A first-order RC low-pass with its corner at 1 kHz (1 kOhm, 159.155 nF: common practice
 // f = 1/(2 pi R C)).
-const char* kRc = "rc\nV1 in 0 dc 0 ac 1\nR1 in out 1k\nC1 out 0 159.1549431n\n.ac dec 20 10 100k\n.end\n";
+const char* kRc =
+    "rc\nV1 in 0 dc 0 ac 1\nR1 in out 1k\nC1 out 0 159.1549431n\n.ac dec 20 10 100k\n.end\n";
 
 TEST(RetargetOptions, TextsBecomeTargets) {
     constexpr double pi = std::numbers::pi;
@@ -31,28 +32,69 @@ TEST(RetargetOptions, TextsBecomeTargets) {
         double km_to, km_from, f_from, f_to;
         const char* error;  // a usage error (from parsing or the request)
     } rows[] = {
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--impedance", "R1=600", "--corner", "out=3.4k"}, 600, 1, 0, 3400, ""},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--impedance-map", "1:600Ohm", "--frequency-map", "1rad/s:3.4kHz"},
-         600, 1, 1 / (2 * pi), 3400, ""},
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--impedance", "R1=600", "--corner", "out=3.4k"},
+         600,
+         1,
+         0,
+         3400,
+         ""},
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--impedance-map", "1:600Ohm", "--frequency-map",
+          "1rad/s:3.4kHz"},
+         600,
+         1,
+         1 / (2 * pi),
+         3400,
+         ""},
         {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--notch", "v(out)=50"}, 1, 1, 0, 50, ""},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir"}, 1, 1, 0, 0,
-         "retarget needs a target: --impedance, --impedance-map or --impedance-range, and/or one of "
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir"},
+         1,
+         1,
+         0,
+         0,
+         "retarget needs a target: --impedance, --impedance-map or --impedance-range, and/or one "
+         "of "
          "--corner, --center, --notch, --frequency-map"},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--corner", "out"}, 1, 1, 0, 0,
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--corner", "out"},
+         1,
+         1,
+         0,
+         0,
          "--corner out: write NODE=FREQ with a positive frequency (out=3.4k)"},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--impedance", "R1=-5"}, 1, 1, 0, 0,
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--impedance", "R1=-5"},
+         1,
+         1,
+         0,
+         0,
          "--impedance R1=-5: write NAME=VALUE with a positive value (R1=600)"},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--frequency-map", "1:x"}, 1, 1, 0, 0,
-         "--frequency-map 1:x: write OLD:NEW with positive frequencies in Hz or rad/s (1rad/s:3.4k)"},
-        {__LINE__, {"retarget", "d.cir", "-o", "o.cir", "--corner", "a=1", "--notch", "a=2"}, 1, 1, 0, 0,
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--frequency-map", "1:x"},
+         1,
+         1,
+         0,
+         0,
+         "--frequency-map 1:x: write OLD:NEW with positive frequencies in Hz or rad/s "
+         "(1rad/s:3.4k)"},
+        {__LINE__,
+         {"retarget", "d.cir", "-o", "o.cir", "--corner", "a=1", "--notch", "a=2"},
+         1,
+         1,
+         0,
+         0,
          "--corner excludes --notch"},
     };
     for (const auto& r : rows) {
         Invocation inv = parse_command_line(r.args);
         std::string error;
         std::optional<RetargetRequest> q;
-        if (inv.what == Invocation::What::retarget) q = retarget_request(inv.retarget, error);
-        else error = inv.text;
+        if (inv.what == Invocation::What::retarget)
+            q = retarget_request(inv.retarget, error);
+        else
+            error = inv.text;
         if (*r.error) {
             EXPECT_EQ(error, r.error) << "line " << r.line;
             continue;
@@ -71,31 +113,39 @@ TEST(RetargetOptions, TextsBecomeTargets) {
 TEST(RetargetCommand, ReportsFactorsAchievedCornerAndVerification) {
     TempDir dir;
     write_bytes(dir.file("rc.cir"), kRc);
-    RunResult r = run_binary({"retarget", "rc.cir", "--impedance", "R1=50", "--corner", "out=10meg", "-o", "o.cir"},
-                             dir.path());
+    RunResult r = run_binary(
+        {"retarget", "rc.cir", "--impedance", "R1=50", "--corner", "out=10meg", "-o", "o.cir"},
+        dir.path());
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
     // The passband level is the sweep's highest point, here at 10 Hz (-0.0004343 dB), so the
     // corner measured from it lies 0.01 % above the analytic 1 kHz.
-    EXPECT_NE(r.out.find("retarget rc.cir -> o.cir\n  impedance  R1 = 1000 Ohm becomes 50 Ohm  Km = 0.05\n"
-                         "  frequency  corner of out: measured 1.0001 kHz (level -0.0004343 dB, 3 sweeps), "
-                         "target 10 MHz  Kf = 9999.0001"),
-              std::string::npos) << r.out;
-    EXPECT_NE(r.out.find("  achieved   corner of out in o.cir: 10 MHz (error "), std::string::npos) << r.out;
+    EXPECT_NE(
+        r.out.find(
+            "retarget rc.cir -> o.cir\n  impedance  R1 = 1000 Ohm becomes 50 Ohm  Km = 0.05\n"
+            "  frequency  corner of out: measured 1.0001 kHz (level -0.0004343 dB, 3 sweeps), "
+            "target 10 MHz  Kf = 9999.0001"),
+        std::string::npos)
+        << r.out;
+    EXPECT_NE(r.out.find("  achieved   corner of out in o.cir: 10 MHz (error "), std::string::npos)
+        << r.out;
     EXPECT_NE(r.out.find("\nPASS: "), std::string::npos) << r.out;
-    EXPECT_NE(r.err.find("deckscale: caution: the values written are nominal."), std::string::npos) << r.err;
+    EXPECT_NE(r.err.find("deckscale: caution: the values written are nominal."), std::string::npos)
+        << r.err;
 }
 
 TEST(RetargetCommand, BestFitListsEachPartAtBothEndsAndAtTheChoice) {
     TempDir dir;
     write_bytes(dir.file("rc.cir"), kRc);
-    RunResult r = run_binary({"retarget", "rc.cir", "--impedance-range", "R1=500:2k", "--series", "R=E24,C=E6",
-                              "--corner", "out=10meg", "-o", "o.cir"},
+    RunResult r = run_binary({"retarget", "rc.cir", "--impedance-range", "R1=500:2k", "--series",
+                              "R=E24,C=E6", "--corner", "out=10meg", "-o", "o.cir"},
                              dir.path());
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
     std::smatch m;
-    ASSERT_TRUE(std::regex_search(r.out, m, std::regex("best fit   R1 in 500 Ohm \\.\\.\\. 2000 Ohm: ([0-9.]+) Ohm "
-                                                        "rounds best \\([0-9]+ levels tried; worst part error "
-                                                        "([0-9.e-]+) %, at the ends ([0-9.e-]+) % and ([0-9.e-]+) %\\)")))
+    ASSERT_TRUE(std::regex_search(
+        r.out, m,
+        std::regex("best fit   R1 in 500 Ohm \\.\\.\\. 2000 Ohm: ([0-9.]+) Ohm "
+                   "rounds best \\([0-9]+ levels tried; worst part error "
+                   "([0-9.e-]+) %, at the ends ([0-9.e-]+) % and ([0-9.e-]+) %\\)")))
         << r.out;
     double chosen = std::stod(m[1]), worst = std::stod(m[2]);
     EXPECT_GE(chosen, 500);
@@ -114,14 +164,18 @@ TEST(RetargetCommand, ErrorsExitWithTwoAndWriteNothing) {
         std::vector<std::string> args;
         const char* err;
     } rows[] = {
-        {__LINE__, {"--impedance", "C1=50"},
-         "deckscale: error: C1 is not a resistor, so it has no impedance level of its own; name a "
-         "resistor or state the mapping (--impedance-map OLD:NEW)\n"},
-        {__LINE__, {"--center", "out=1k"},
-         "deckscale: error: measuring the centre of out in rc.cir: the response's highest point lies "
+        {__LINE__,
+         {"--impedance", "C1=50"},
+         "deckscale: error: C1 is not a resistor, nor a line or port with a Z0, so it has no "
+         "impedance level of its own; name one or state the mapping (--impedance-map OLD:NEW)\n"},
+        {__LINE__,
+         {"--center", "out=1k"},
+         "deckscale: error: measuring the centre of out in rc.cir: the response's highest point "
+         "lies "
          "at the lower end of the sweep (10 Hz, searched 10 Hz to 100 kHz), so there is no centre "
          "inside it; widen it with --sweep dec 50 F1 F2\n"},
-        {__LINE__, {"--corner", "in=1k", "--drive", "V7"},
+        {__LINE__,
+         {"--corner", "in=1k", "--drive", "V7"},
          "deckscale: error: --drive V7: no independent source of that name in rc.cir\n"},
     };
     for (const auto& row : rows) {

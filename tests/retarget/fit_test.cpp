@@ -23,7 +23,8 @@ TEST(BestFit, NeverWorseThanEitherEndOfTheRange) {
         int n = count(rng);
         for (int i = 0; i < n; ++i) {
             char letter = "rcl"[kind(rng)];
-            parts.push_back({std::string(1, letter) + std::to_string(i), letter, std::pow(10.0, log_value(rng))});
+            parts.push_back({std::string(1, letter) + std::to_string(i), letter,
+                             std::pow(10.0, log_value(rng))});
         }
         SnapSeries s = series(sizes[pick(rng)], sizes[pick(rng)], sizes[pick(rng)]);
         double lo = std::pow(10.0, log_km(rng)), hi = lo * std::pow(10.0, width(rng));
@@ -33,11 +34,13 @@ TEST(BestFit, NeverWorseThanEitherEndOfTheRange) {
         double at_lo = fit_score(parts, s, lo).worst, at_hi = fit_score(parts, s, hi).worst;
         EXPECT_LE(best.score.worst, at_lo + 1e-12) << "trial " << trial;
         EXPECT_LE(best.score.worst, at_hi + 1e-12) << "trial " << trial;
-        EXPECT_NEAR(best.score.worst, fit_score(parts, s, best.km).worst, 1e-15) << "trial " << trial;
+        EXPECT_NEAR(best.score.worst, fit_score(parts, s, best.km).worst, 1e-15)
+            << "trial " << trial;
         // Nor worse than any of 50 random Km in the range.
         std::uniform_real_distribution<double> inside(std::log(lo), std::log(hi));
         for (int k = 0; k < 50; ++k)
-            EXPECT_LE(best.score.worst, fit_score(parts, s, std::exp(inside(rng))).worst + 1e-9) << "trial " << trial;
+            EXPECT_LE(best.score.worst, fit_score(parts, s, std::exp(inside(rng))).worst + 1e-9)
+                << "trial " << trial;
     }
 }
 

@@ -85,7 +85,8 @@ TEST(Measure, FindsEachFeatureOfAnalyticResponses) {
         double level_db;
     } rows[] = {
         // A doubly terminated ladder's passband sits at -6.02 dB: the corner is measured from it.
-        {__LINE__, Feature::corner, butterworth3_low(1234, 0.5), dec(20, 10, 100e3), 1234, 20 * std::log10(0.5)},
+        {__LINE__, Feature::corner, butterworth3_low(1234, 0.5), dec(20, 10, 100e3), 1234,
+         20 * std::log10(0.5)},
         {__LINE__, Feature::corner, butterworth3_low(0.159155, 1), dec(10, 1e-3, 10), 0.159155, 0},
         {__LINE__, Feature::corner, butterworth2_high(3.4e3), dec(7, 10, 1e6), 3.4e3, 0},
         {__LINE__, Feature::center, bandpass(10.7e6, 20), dec(30, 1e6, 100e6), 10.7e6, 0},
@@ -130,7 +131,8 @@ TEST(Measure, SaysWhatWasSearchedWhenTheFeatureIsMissing) {
 
 TEST(Measure, AFailedSweepIsPassedOn) {
     SweepRunner failing = [](const AcSweep&) { return SweepResult{{}, "simulating d.cir failed"}; };
-    EXPECT_EQ(measure(Feature::corner, dec(10, 10, 100e3), failing).problem, "simulating d.cir failed");
+    EXPECT_EQ(measure(Feature::corner, dec(10, 10, 100e3), failing).problem,
+              "simulating d.cir failed");
 }
 
 }  // namespace

@@ -84,7 +84,8 @@ TEST(Retarget, ButterworthPrototypeTo600OhmAnd3k4) {
     q.frequency = FrequencyTarget{Feature::corner, "out", 0, 3400};
     DiskFileSystem disk;
     RetargetResult r = retarget(q, disk);
-    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done) << (r.problems.empty() ? "" : r.problems[0]);
+    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done)
+        << (r.problems.empty() ? "" : r.problems[0]);
     ASSERT_TRUE(r.before && r.after);
     // The prototype's corner is 1 rad/s = 1/(2 pi) Hz.
     EXPECT_NEAR(r.before->freq * 2 * pi, 1, 1e-6);
@@ -101,17 +102,21 @@ TEST(Retarget, ButterworthPrototypeTo600OhmAnd3k4) {
         const char* name;
         double expected;
     } rows[] = {
-        {__LINE__, "r1", r0},          {__LINE__, "r2", r0},
-        {__LINE__, "c1", 1 / (r0 * wc)}, {__LINE__, "l2", 2 * r0 / wc},
+        {__LINE__, "r1", r0},
+        {__LINE__, "r2", r0},
+        {__LINE__, "c1", 1 / (r0 * wc)},
+        {__LINE__, "l2", 2 * r0 / wc},
         {__LINE__, "c3", 1 / (r0 * wc)},
     };
-    for (const auto& row : rows) EXPECT_NEAR(v[row.name] / row.expected, 1, 2e-6) << "line " << row.line;
+    for (const auto& row : rows)
+        EXPECT_NEAR(v[row.name] / row.expected, 1, 2e-6) << "line " << row.line;
 
     // ngspice's own measurement of the half-power point: the passband of a doubly terminated
     // ladder is -6.0206 dB, its corner 3.0103 dB lower (ngspice 39 manual, .meas "WHEN"; the
     // .save all makes ngspice keep the vectors the .meas lines read).
-    double fc = ngspice_measure(dir, q.output,
-                                ".save all\n.ac dec 2000 100 100k\n.meas ac fc when vdb(out)=-9.0309 fall=1\n", "fc\\s*=");
+    double fc = ngspice_measure(
+        dir, q.output,
+        ".save all\n.ac dec 2000 100 100k\n.meas ac fc when vdb(out)=-9.0309 fall=1\n", "fc\\s*=");
     EXPECT_NEAR(fc / 3400, 1, 1e-3);
 }
 
@@ -125,14 +130,16 @@ TEST(Retarget, CoupledResonatorsByTheirCentre) {
     q.frequency = FrequencyTarget{Feature::center, "out", 0, 10.7e6};
     DiskFileSystem disk;
     RetargetResult r = retarget(q, disk);
-    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done) << (r.problems.empty() ? "" : r.problems[0]);
+    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done)
+        << (r.problems.empty() ? "" : r.problems[0]);
     EXPECT_NEAR(r.km, 0.5, 1e-12);
     EXPECT_NEAR(r.target_error(), 0, 1e-3);
     EXPECT_TRUE(r.verification && r.verification->report.passed());
     // ngspice's own search for the peak: ".meas ac pk max vdb(out)" prints the maximum and
     // "at=" its frequency (ngspice 39 manual, .meas MAX), here on a 1 kHz grid.
-    double center = ngspice_measure(dir, q.output, ".save all\n.ac lin 1401 10meg 11.4meg\n.meas ac pk max vdb(out)\n",
-                                    "pk\\s*=\\s*[-+0-9.eE]+\\s*at\\s*=");
+    double center = ngspice_measure(
+        dir, q.output, ".save all\n.ac lin 1401 10meg 11.4meg\n.meas ac pk max vdb(out)\n",
+        "pk\\s*=\\s*[-+0-9.eE]+\\s*at\\s*=");
     EXPECT_NEAR(center / 10.7e6, 1, 1e-3);
 }
 
@@ -146,10 +153,32 @@ TEST(Retarget, FrequencyMapNeedsNoMeasurement) {
     q.frequency = FrequencyTarget{std::nullopt, "", 1 / (2 * pi), 3400};
     DiskFileSystem disk;
     RetargetResult r = retarget(q, disk);
-    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done) << (r.problems.empty() ? "" : r.problems[0]);
+    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done)
+        << (r.problems.empty() ? "" : r.problems[0]);
     EXPECT_FALSE(r.before);
     EXPECT_NEAR(r.kf / (2 * pi * 3400), 1, 1e-12);
     EXPECT_NEAR(values_of(q.output)["l2"] / (2 * 600 / (2 * pi * 3400)), 1, 1e-8);
+}
+
+// A matched lossless line (Z0 = 50, TD = 1 us) between 50 Ohm terminations (common
+// practice: the input sees 50 Ohm at every frequency, the output is the input delayed).
+TEST(Retarget, ALineZ0IsAnImpedanceTarget) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("line.cir"),
+                      "line\nV1 in 0 dc 0 ac 1\nRS in a 50\nT1 a 0 out 0 Z0=50 TD=1u\nRL out 0 50\n"
+                      ".ac lin 11 1k 10k\n.end\n");
+    RetargetRequest q;
+    q.deck = dir.file("line.cir");
+    q.output = dir.file("out.cir");
+    q.impedance = ImpedanceTarget{"T1", 1, 75};
+    DiskFileSystem disk;
+    RetargetResult r = retarget(q, disk);
+    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done)
+        << (r.problems.empty() ? "" : r.problems[0]);
+    EXPECT_NEAR(r.km, 1.5, 1e-12);
+    EXPECT_NE(test::read_bytes(q.output).find("T1 a 0 out 0 Z0=75 TD=1u"), std::string::npos)
+        << test::read_bytes(q.output);
+    EXPECT_TRUE(r.verification && r.verification->report.passed());
 }
 
 TEST(Retarget, RefusalsSayWhatIsWrong) {
@@ -162,16 +191,29 @@ TEST(Retarget, RefusalsSayWhatIsWrong) {
         std::vector<std::string> sweep;
         const char* problem;
     } rows[] = {
-        {__LINE__, ImpedanceTarget{"R9", 1, 600}, std::nullopt, {},
+        {__LINE__,
+         ImpedanceTarget{"R9", 1, 600},
+         std::nullopt,
+         {},
          "the deck has no part named R9; name a resistor (--impedance R1=600) or state the mapping "
          "(--impedance-map 1:600)"},
-        {__LINE__, ImpedanceTarget{"C1", 1, 600}, std::nullopt, {},
-         "C1 is not a resistor, so it has no impedance level of its own; name a resistor or state "
-         "the mapping (--impedance-map OLD:NEW)"},
-        {__LINE__, std::nullopt, FrequencyTarget{Feature::corner, "nowhere", 0, 1e3}, {},
-         "measuring the corner of nowhere in PROTO: the deck has no node 'nowhere' (its nodes: out, "
+        {__LINE__,
+         ImpedanceTarget{"C1", 1, 600},
+         std::nullopt,
+         {},
+         "C1 is not a resistor, nor a line or port with a Z0, so it has no impedance level of its "
+         "own; name one or state the mapping (--impedance-map OLD:NEW)"},
+        {__LINE__,
+         std::nullopt,
+         FrequencyTarget{Feature::corner, "nowhere", 0, 1e3},
+         {},
+         "measuring the corner of nowhere in PROTO: the deck has no node 'nowhere' (its nodes: "
+         "out, "
          "n1, in)"},
-        {__LINE__, std::nullopt, FrequencyTarget{Feature::corner, "out", 0, 1e3}, {"dec", "10", "1m", "10m"},
+        {__LINE__,
+         std::nullopt,
+         FrequencyTarget{Feature::corner, "out", 0, 1e3},
+         {"dec", "10", "1m", "10m"},
          "measuring the corner of out in PROTO: the response never falls 3.01 dB below its "
          "passband level (-6.021 dB) in the sweep searched (1 mHz to 10 mHz); widen it with "
          "--sweep dec 50 F1 F2"},

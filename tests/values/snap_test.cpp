@@ -14,7 +14,8 @@
 namespace deckscale {
 namespace {
 
-std::string snapped_text(const std::string& deck_text, const std::string& series, SnapResult* result = nullptr) {
+std::string snapped_text(const std::string& deck_text, const std::string& series,
+                         SnapResult* result = nullptr) {
     test::TempDir dir;
     test::write_bytes(dir.file("d.cir"), deck_text);
     DiskFileSystem disk;
@@ -41,18 +42,20 @@ TEST(Snap, RoundsEachKindInItsSeriesKeepingTheSpelling) {
         {__LINE__, "C3 a 0 808.7704p", "C=E24", "C3 a 0 820p"},
         {__LINE__, "L2 a b 978.5059nH", "L=E12", "L2 a b 1uH"},
         {__LINE__, "L2 a b 978.5059nH", "R=E12", "L2 a b 978.5059nH"},  // L not chosen
-        {__LINE__, "R7 a b 4.7k", "R=E3", "R7 a b 4.7k"},              // a member stays as written
+        {__LINE__, "R7 a b 4.7k", "R=E3", "R7 a b 4.7k"},               // a member stays as written
         {__LINE__, "R2 a b r=2.05k", "r=e6", "R2 a b r=2.2k"},
     };
     for (const auto& r : rows) {
         std::string deck = std::string("t\n") + r.card + "\n.end\n";
-        EXPECT_EQ(snapped_text(deck, r.series), std::string("t\n") + r.expected + "\n.end\n") << "line " << r.line;
+        EXPECT_EQ(snapped_text(deck, r.series), std::string("t\n") + r.expected + "\n.end\n")
+            << "line " << r.line;
     }
 }
 
 TEST(Snap, APartWithoutANumberIsLeftAloneAndSaidSo) {
     SnapResult r;
-    std::string out = snapped_text("t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.234k\n.end\n", "R=E24", &r);
+    std::string out =
+        snapped_text("t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.234k\n.end\n", "R=E24", &r);
     EXPECT_EQ(out, "t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.2k\n.end\n");
     ASSERT_EQ(r.left_alone.size(), 1u);
     EXPECT_EQ(r.left_alone[0].message, "'{rv}' is not a plain number: R1 is left as written");
@@ -68,10 +71,12 @@ TEST(Snap, SeriesOption) {
     } rows[] = {
         {__LINE__, "R=E96,C=E12,L=E12", ""},
         {__LINE__, "c=e192", ""},
-        {__LINE__, "R=E97", "'R=E97': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
-                            "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
-        {__LINE__, "Q=E12", "'Q=E12': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
-                            "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+        {__LINE__, "R=E97",
+         "'R=E97': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+        {__LINE__, "Q=E12",
+         "'Q=E12': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
     };
     for (const auto& r : rows) {
         std::string error;
@@ -112,7 +117,8 @@ double ngspice_number(const test::TempDir& dir, const std::string& deck, const s
         pclose(p);
     }
     std::smatch m;
-    if (std::regex_search(out, m, std::regex(label + "\\s*=\\s*([-+0-9.eE]+)"))) return std::stod(m[1]);
+    if (std::regex_search(out, m, std::regex(label + "\\s*=\\s*([-+0-9.eE]+)")))
+        return std::stod(m[1]);
     ADD_FAILURE() << out;
     return 0;
 }
@@ -120,13 +126,17 @@ double ngspice_number(const test::TempDir& dir, const std::string& deck, const s
 TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
     test::TempDir dir;
     test::write_bytes(dir.file("cheb.cir"), kChebyshev);
-    test::RunResult r = test::run_binary({"snap", "cheb.cir", "--series", "C=E24,L=E24", "-o", "e24.cir"}, dir.path());
+    test::RunResult r = test::run_binary(
+        {"snap", "cheb.cir", "--series", "C=E24,L=E24", "-o", "e24.cir"}, dir.path());
     ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
-    EXPECT_NE(r.out.find("  C1              542.9635p           560p   +3.138%"), std::string::npos) << r.out;
+    EXPECT_NE(r.out.find("  C1              542.9635p           560p   +3.138%"), std::string::npos)
+        << r.out;
     std::smatch m;
-    ASSERT_TRUE(std::regex_search(r.out, m, std::regex("ripple     ideal ([0-9.]+) dB \\(deepest valley at "
-                                                        "[^)]*\\), rounded ([0-9.]+) dB \\(deepest valley at "
-                                                        "([0-9.]+) ([kM]?)Hz\\)"))) << r.out;
+    ASSERT_TRUE(std::regex_search(r.out, m,
+                                  std::regex("ripple     ideal ([0-9.]+) dB \\(deepest valley at "
+                                             "[^)]*\\), rounded ([0-9.]+) dB \\(deepest valley at "
+                                             "([0-9.]+) ([kM]?)Hz\\)")))
+        << r.out;
     double ideal = std::stod(m[1]), rounded = std::stod(m[2]);
     double valley = std::stod(m[3]) * (m[4] == "M" ? 1e6 : m[4] == "k" ? 1e3 : 1);
     // The ideal ladder ripples by its design 0.5 dB (the dense sweep may miss the exact valley).
@@ -137,7 +147,8 @@ TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
     // vectors .meas reads).
     std::string cards = fmt::format(
         ".save all\n.ac lin 40001 100k {0:.9g}\n.meas ac top max vdb(out) from=100k to={0:.9g}\n"
-        ".meas ac bottom min vdb(out) from=100k to={0:.9g}\n", valley * 1.02);
+        ".meas ac bottom min vdb(out) from=100k to={0:.9g}\n",
+        valley * 1.02);
     double top = ngspice_number(dir, dir.file("e24.cir"), cards, "top");
     double bottom = ngspice_number(dir, dir.file("e24.cir"), cards, "bottom");
     EXPECT_NEAR(top - bottom, rounded, 0.005) << r.out;
