@@ -160,6 +160,33 @@ TEST(Retarget, FrequencyMapNeedsNoMeasurement) {
     EXPECT_NEAR(values_of(q.output)["l2"] / (2 * 600 / (2 * pi * 3400)), 1, 1e-8);
 }
 
+// An invented twin-T notch: R = 1 kOhm, C = 159.1549 nF, R/2 and 2C to ground, a light
+// load; its null lies at f0 = 1/(2 pi R C) = 1 kHz (common practice). Moved to 60 Hz at 10 kOhm.
+TEST(Retarget, TwinTNotchMovedToSixtyHertz) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("twint.cir"),
+                      "twin-T notch\nV1 in 0 dc 0 ac 1\nR1 in m 1k\nR2 m out 1k\nC3 m 0 318.3099n\n"
+                      "C1 in n 159.1549n\nC2 n out 159.1549n\nR3 n 0 500\nRL out 0 1meg\n"
+                      ".ac dec 50 10 100k\n.end\n");
+    RetargetRequest q;
+    q.deck = dir.file("twint.cir");
+    q.output = dir.file("out.cir");
+    q.impedance = ImpedanceTarget{"R1", 1, 10e3};
+    q.frequency = FrequencyTarget{Feature::notch, "out", 0, 60};
+    DiskFileSystem disk;
+    RetargetResult r = retarget(q, disk);
+    ASSERT_EQ(r.outcome, RetargetResult::Outcome::done)
+        << (r.problems.empty() ? "" : r.problems[0]);
+    ASSERT_TRUE(r.before);
+    EXPECT_NEAR(r.before->freq / 1000, 1, 1e-3);
+    EXPECT_NEAR(r.target_error(), 0, 1e-3);
+    // ngspice's own search for the minimum on a 0.01 Hz grid (ngspice 39 manual, .meas MIN).
+    double notch =
+        ngspice_measure(dir, q.output, ".save all\n.ac lin 4001 40 80\n.meas ac low min vdb(out)\n",
+                        "low\\s*=\\s*[-+0-9.eE]+\\s*at\\s*=");
+    EXPECT_NEAR(notch / 60, 1, 1e-3);
+}
+
 // A matched lossless line (Z0 = 50, TD = 1 us) between 50 Ohm terminations (common
 // practice: the input sees 50 Ohm at every frequency, the output is the input delayed).
 TEST(Retarget, ALineZ0IsAnImpedanceTarget) {
