@@ -135,6 +135,8 @@ int run_snap(const SnapOptions& o, std::ostream& out, std::ostream& err) {
                                         fmt::format("{} rounded to {}", o.deck, o.output),
                                         1,
                                         1};
+                    req.original_label = "ideal";
+                    req.scaled_label = "rounded";
                     if (c.corner_rounded) {
                         req.mark_hz = *c.corner_rounded;
                         req.mark_label = "rounded corner " + frequency_text(*c.corner_rounded);

@@ -118,10 +118,10 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
             if (i) cmd += ", \\\n     ";
             cmd += fmt::format("{} using {}:{} with lines lw 4 lc rgb '#9ecae1' title {}",
                                quote(dat_name), x, base + col_o,
-                               quote(r.vectors[i] + " original, moved to the new band " + what));
+                               quote(r.vectors[i] + " " + r.original_label + " " + what));
             cmd += fmt::format(", {} using {}:{} with lines lw 1 lc rgb '#d95f02' title {}",
                                quote(dat_name), x, base + col_s,
-                               quote(r.vectors[i] + " scaled " + what));
+                               quote(r.vectors[i] + " " + r.scaled_label + " " + what));
         }
         return cmd + "\n";
     };

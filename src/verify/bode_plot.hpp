@@ -19,6 +19,9 @@ struct BodePlotRequest {
     // corner, centre or notch; 0: none.
     double mark_hz = 0;
     std::string mark_label{};
+    // What the two traces are called in the keys.
+    std::string original_label = "original, moved to the new band";
+    std::string scaled_label = "scaled";
 };
 
 // Writes <stem>.dat, <stem>.gp and the SVG. Returns an error text, empty on success.

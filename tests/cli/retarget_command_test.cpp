@@ -113,9 +113,9 @@ TEST(RetargetOptions, TextsBecomeTargets) {
 TEST(RetargetCommand, ReportsFactorsAchievedCornerAndVerification) {
     TempDir dir;
     write_bytes(dir.file("rc.cir"), kRc);
-    RunResult r = run_binary(
-        {"retarget", "rc.cir", "--impedance", "R1=50", "--corner", "out=10meg", "-o", "o.cir"},
-        dir.path());
+    RunResult r = run_binary({"retarget", "rc.cir", "--impedance", "R1=50", "--corner", "out=10meg",
+                              "-o", "o.cir", "--plot", "o.svg"},
+                             dir.path());
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
     // The passband level is the sweep's highest point, here at 10 Hz (-0.0004343 dB), so the
     // corner measured from it lies 0.01 % above the analytic 1 kHz.
@@ -131,6 +131,9 @@ TEST(RetargetCommand, ReportsFactorsAchievedCornerAndVerification) {
     EXPECT_NE(r.out.find("\nPASS: "), std::string::npos) << r.out;
     EXPECT_NE(r.err.find("deckscale: caution: the values written are nominal."), std::string::npos)
         << r.err;
+    // The overlay marks the target on the new band's axis.
+    EXPECT_NE(r.out.find("plot written to o.svg"), std::string::npos) << r.out;
+    EXPECT_NE(test::read_bytes(dir.file("o.svg")).find("target corner 10 MHz"), std::string::npos);
 }
 
 TEST(RetargetCommand, BestFitListsEachPartAtBothEndsAndAtTheChoice) {

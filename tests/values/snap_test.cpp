@@ -127,7 +127,8 @@ TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
     test::TempDir dir;
     test::write_bytes(dir.file("cheb.cir"), kChebyshev);
     test::RunResult r = test::run_binary(
-        {"snap", "cheb.cir", "--series", "C=E24,L=E24", "-o", "e24.cir"}, dir.path());
+        {"snap", "cheb.cir", "--series", "C=E24,L=E24", "-o", "e24.cir", "--plot", "e24.svg"},
+        dir.path());
     ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
     EXPECT_NE(r.out.find("  C1              542.9635p           560p   +3.138%"), std::string::npos)
         << r.out;
@@ -153,6 +154,11 @@ TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
     double bottom = ngspice_number(dir, dir.file("e24.cir"), cards, "bottom");
     EXPECT_NEAR(top - bottom, rounded, 0.005) << r.out;
     EXPECT_NE(r.out.find("    corner     "), std::string::npos) << r.out;
+    // The overlay: both traces named, the rounded corner marked.
+    std::string svg = test::read_bytes(dir.file("e24.svg"));
+    EXPECT_NE(svg.find("out ideal dB"), std::string::npos);
+    EXPECT_NE(svg.find("out rounded dB"), std::string::npos);
+    EXPECT_NE(svg.find("rounded corner 10.3"), std::string::npos);
 }
 
 }  // namespace
