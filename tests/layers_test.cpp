@@ -29,9 +29,12 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"scale", {"base", "deck", "write"}},
     {"sim", {"base"}},
     {"verify", {"base", "deck", "write", "scale", "sim"}},
+    {"values", {"base", "deck", "write", "scale"}},
+    {"retarget", {"base", "deck", "write", "scale", "sim", "verify", "values"}},
     {"yield", {"base", "deck", "sim", "verify"}},
     {"stress", {"base", "deck", "sim", "verify"}},
-    {"cli", {"base", "deck", "write", "scale", "sim", "verify", "yield", "stress"}},
+    {"cli", {"base", "deck", "write", "scale", "sim", "verify", "values", "retarget", "yield",
+             "stress"}},
 };
 
 struct SourceText {

@@ -6,7 +6,9 @@
 #include "cli/exit_codes.hpp"
 #include "cli/interrupts.hpp"
 #include "cli/options.hpp"
+#include "cli/retarget_command.hpp"
 #include "cli/scale_command.hpp"
+#include "cli/snap_command.hpp"
 #include "cli/verify_command.hpp"
 #include "cli/stress_command.hpp"
 #include "cli/yield_command.hpp"
@@ -33,6 +35,10 @@ int main(int argc, char** argv) {
             return run_yield_command(inv.yield, std::cout, std::cerr);
         case Invocation::What::stress:
             return run_stress_command(inv.stress, std::cout, std::cerr);
+        case Invocation::What::retarget:
+            return run_retarget(inv.retarget, std::cout, std::cerr);
+        case Invocation::What::snap:
+            return run_snap(inv.snap, std::cout, std::cerr);
     }
     return exit_bad_input;
 }

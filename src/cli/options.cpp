@@ -133,6 +133,79 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     stress->add_option("--sim-memory", st.memory_mb,
                        "Megabytes of address space per simulation (default 8192)");
 
+    auto* retarget = app.add_subcommand(
+        "retarget",
+        "Move a deck to a target impedance level and band (corner, centre, notch or mapping)");
+    RetargetOptions& t = inv.retarget;
+    retarget->add_option("DECK", t.deck, "The proven deck (never modified)")->required();
+    retarget->add_option("-o,--output", t.output, "Write the retargeted deck here")->required();
+    auto* zi = retarget->add_option("--impedance", t.impedance,
+                                    "NAME=VALUE: the named resistor (or T line or port Z0) gets this value (R1=600)");
+    auto* zm = retarget->add_option("--impedance-map", t.impedance_map,
+                                    "OLD:NEW: impedance level OLD becomes NEW (1:600)");
+    auto* zr =
+        retarget->add_option("--impedance-range", t.impedance_range,
+                             "NAME=LOW:HIGH: the named resistor gets the value in this range at "
+                             "which the parts round best to --series (R1=500:2k)");
+    retarget->add_option("--plot", t.plot,
+                         "Write an SVG overlay: the original moved to the new band, the "
+                         "output, the target marked, and the deviation");
+    retarget->add_option("--series", t.series,
+                         "Series per kind for --impedance-range (R=E96,C=E12,L=E12)");
+    zi->excludes(zm);
+    zr->excludes(zi);
+    zr->excludes(zm);
+    std::vector<CLI::Option*> freq{
+        retarget->add_option("--corner", t.corner,
+                             "NODE=FREQ: the -3 dB corner of NODE's response moves to FREQ"),
+        retarget->add_option("--center", t.center,
+                             "NODE=FREQ: the peak of NODE's band-pass response moves to FREQ"),
+        retarget->add_option("--notch", t.notch,
+                             "NODE=FREQ: the notch minimum of NODE's response moves to FREQ"),
+        retarget->add_option("--frequency-map", t.frequency_map,
+                             "OLD:NEW: frequency OLD becomes NEW (1rad/s:3.4k; rad/s or Hz)")};
+    for (auto* a : freq)
+        for (auto* b : freq)
+            if (a != b) a->excludes(b);
+    retarget
+        ->add_option("--sweep", t.sweep,
+                     "AC sweep of the original to measure on: dec|oct|lin N F1 F2 "
+                     "(default: the deck's .ac)")
+        ->expected(4);
+    retarget->add_option("--drive", t.drive,
+                         "The independent source that drives the response (gets AC 1)");
+    retarget->add_option("--digits", t.digits, "Significant digits of rewritten values (default 9)")
+        ->check(CLI::Range(3, 17));
+    retarget
+        ->add_option("--sim-timeout", t.timeout_s, "Seconds one simulation may take (default 60)")
+        ->check(CLI::PositiveNumber);
+    retarget->add_option("--sim-memory", t.memory_mb,
+                         "Megabytes of address space one simulation may use "
+                         "(default 8192; 0: no limit)");
+
+    auto* snap = app.add_subcommand(
+        "snap", "Round every R, C and L to preferred values (IEC 60063 E series)");
+    SnapOptions& n = inv.snap;
+    snap->add_option("DECK", n.deck, "The deck with ideal values (never modified)")->required();
+    snap->add_option("-o,--output", n.output, "Write the rounded deck here")->required();
+    snap->add_option("--series", n.series, "Series per kind, e.g. R=E96,C=E12,L=E12 (E3 ... E192)")
+        ->required();
+    snap->add_option("--plot", n.plot,
+                     "Write an SVG overlay of the ideal and the rounded response with "
+                     "the deviation");
+    snap->add_option("--node", n.node, "The node whose response change is reported (default: out)");
+    snap->add_option("--sweep", n.sweep,
+                     "AC sweep for the response change: dec|oct|lin N F1 F2 "
+                     "(default: the deck's .ac)")
+        ->expected(4);
+    snap->add_option("--drive", n.drive,
+                     "The independent source that drives the response (gets AC 1)");
+    snap->add_option("--sim-timeout", n.timeout_s, "Seconds one simulation may take (default 60)")
+        ->check(CLI::PositiveNumber);
+    snap->add_option("--sim-memory", n.memory_mb,
+                     "Megabytes of address space one simulation may use "
+                     "(default 8192; 0: no limit)");
+
     std::vector<std::string> reversed(args.rbegin(), args.rend());
     try {
         app.parse(reversed);
@@ -181,6 +254,23 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     }
     if (stress->parsed()) {
         inv.what = Invocation::What::stress;
+        return inv;
+    }
+    if (retarget->parsed()) {
+        inv.what = Invocation::What::retarget;
+        if (t.impedance.empty() && t.impedance_map.empty() && t.impedance_range.empty() &&
+            t.corner.empty() && t.center.empty() && t.notch.empty() && t.frequency_map.empty())
+            return usage(
+                "retarget needs a target: --impedance, --impedance-map or "
+                "--impedance-range, and/or one of --corner, --center, --notch, --frequency-map");
+        if (t.impedance_range.empty() != t.series.empty())
+            return usage(
+                "--impedance-range and --series go together: the range is searched for the "
+                "level at which the parts round best to the series");
+        return inv;
+    }
+    if (snap->parsed()) {
+        inv.what = Invocation::What::snap;
         return inv;
     }
     inv.what = Invocation::What::help;

@@ -71,11 +71,42 @@ struct StressOptions {
     std::uint64_t memory_mb = 8192;
 };
 
+struct RetargetOptions {
+    std::string deck;
+    std::string output;                    // -o OUT (required)
+    std::string impedance, impedance_map;  // NAME=VALUE | OLD:NEW
+    std::string impedance_range;           // NAME=LOW:HIGH: best fit of the level (needs series)
+    std::string series;                    // --series R=E96,C=E12,L=E12 for the best fit
+    std::string plot;                      // --plot FILE.svg
+    std::string corner, center, notch, frequency_map;  // NODE=FREQ | OLD:NEW
+    std::vector<std::string> sweep;  // --sweep dec N F1 F2: where the feature is measured
+    std::string drive;               // --drive SOURCE
+    int digits = 9;
+    double timeout_s = 60;
+    std::uint64_t memory_mb = 8192;
+};
+
+struct SnapOptions {
+    std::string deck;
+    std::string output;  // -o OUT (required)
+    std::string series;  // --series R=E96,C=E12,L=E12
+    std::string node;    // --node: whose response change is reported ("" = out)
+    std::string plot;    // --plot FILE.svg
+    std::vector<std::string> sweep;
+    std::string drive;
+    double timeout_s = 60;
+    std::uint64_t memory_mb = 8192;
+};
+
 struct Invocation {
-    enum class What { help, version, scale, verify, yield, stress, usage_error } what = What::help;
+    enum class What {
+        help, version, scale, verify, retarget, snap, yield, stress, usage_error
+    } what = What::help;
     std::string text;  // help text or the usage error
     ScaleOptions scale;
     VerifyOptions verify;
+    RetargetOptions retarget;
+    SnapOptions snap;
     YieldOptions yield;
     StressOptions stress;
 };

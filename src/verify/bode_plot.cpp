@@ -92,29 +92,48 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     // gnuplot writes a temporary file that is renamed once complete.
     std::string tmp_svg = "." + svg.filename().string() + ".part";
     gp += "set output " + quote(tmp_svg) + "\n";
-    gp += "set multiplot layout 3,1 title " + quote(r.title) + "\n";
-    gp += "set logscale x\nset grid\nset key outside right\nset format x '%.0s%c'\n";
-    gp += fmt::format("set xlabel 'frequency of the original deck / Hz (scaled deck ran at x{:.6g})'\n", r.kf);
+    gp += "set multiplot layout 3,1\n";
+    gp += "set logscale x\nset grid\nset key inside top right opaque box\nset format x '%.0s%c'\n";
+    // Fixed margins: the panels share one frequency axis whatever their keys and labels hold.
+    gp += "set lmargin at screen 0.11\nset rmargin at screen 0.96\n";
+    // The band being designed for (the scaled deck's) below, the original's on the top axis.
+    std::string x = fmt::format("($1*{:.17g})", r.kf);
+    double f0 = fo->values.front().real(), f1 = fo->values.back().real();
+    gp += fmt::format(
+        "set xrange [{0:.17g}:{1:.17g}]\nset x2range [{2:.17g}:{3:.17g}]\nset logscale x2\n"
+        "set format x2 '%.0s%c'\nset x2tics\nset xtics nomirror\n",
+        f0 * r.kf, f1 * r.kf, f0, f1);
+    if (r.mark_hz > 0)
+        gp += fmt::format(
+            "set arrow from {0:.17g}, graph 0 to {0:.17g}, graph 1 nohead dt 2 lw 1.5 lc rgb "
+            "'#000000'\nset label {1} at {0:.17g}, graph 0.06 offset 0.5,0\n",
+            r.mark_hz, quote(r.mark_label));
+    // The title and the top axis's label on the first panel, the bottom axis's on the last.
+    gp += "set xlabel ''\nset x2label " +
+          quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
     auto series = [&](int col_o, int col_s, const char* what) {
         std::string cmd = "plot ";
         for (std::size_t i = 0; i < vo.size(); ++i) {
             int base = 2 + static_cast<int>(i) * 5;
             if (i) cmd += ", \\\n     ";
-            cmd += fmt::format("{} using 1:{} with lines lw 4 lc rgb '#9ecae1' title {}", quote(dat_name),
-                               base + col_o, quote(r.vectors[i] + " original " + what));
-            cmd += fmt::format(", {} using 1:{} with lines lw 1 lc rgb '#d95f02' title {}",
-                               quote(dat_name), base + col_s,
-                               quote(r.vectors[i] + " scaled, mapped back " + what));
+            cmd += fmt::format("{} using {}:{} with lines lw 4 lc rgb '#9ecae1' title {}",
+                               quote(dat_name), x, base + col_o,
+                               quote(r.vectors[i] + " " + r.original_label + " " + what));
+            cmd += fmt::format(", {} using {}:{} with lines lw 1 lc rgb '#d95f02' title {}",
+                               quote(dat_name), x, base + col_s,
+                               quote(r.vectors[i] + " " + r.scaled_label + " " + what));
         }
         return cmd + "\n";
     };
     gp += "set ylabel 'magnitude / dB'\n" + series(0, 2, "dB");
-    gp += "set ylabel 'phase / deg'\n" + series(1, 3, "deg");
+    gp += "set x2label ''\nset format x2 ''\nset ylabel 'phase / deg'\n" + series(1, 3, "deg");
+    gp += "set xlabel 'frequency of the scaled deck / Hz'\n";
     gp += "set ylabel 'relative error'\nset logscale y\nset format y '%.0e'\nplot ";
     for (std::size_t i = 0; i < vo.size(); ++i) {
         if (i) gp += ", \\\n     ";
-        gp += fmt::format("{} using 1:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name),
-                          2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
+        gp +=
+            fmt::format("{} using {}:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name),
+                        x, 2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
     }
     gp += "\nunset multiplot\n";
     if (auto e = write_file_atomically((dir / dat_name).string(), data); !e.empty()) return e;

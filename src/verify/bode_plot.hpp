@@ -15,6 +15,13 @@ struct BodePlotRequest {
     std::vector<std::string> vectors;  // names of the vectors to draw
     std::string title;
     double km = 1, kf = 1;
+    // A frequency to mark on every panel (in the scaled deck's band), e.g. a retarget's
+    // corner, centre or notch; 0: none.
+    double mark_hz = 0;
+    std::string mark_label{};
+    // What the two traces are called in the keys.
+    std::string original_label = "original, moved to the new band";
+    std::string scaled_label = "scaled";
 };
 
 // Writes <stem>.dat, <stem>.gp and the SVG. Returns an error text, empty on success.

@@ -19,7 +19,7 @@ struct SimDeckOptions {
     // Km and Kf of this deck against the original ({1, 1} for the original itself). When set
     // and the deck has junction devices, the run uses tight tolerances scaled by them
     // (verify/tight_tolerances.hpp), so that both runs of a nonlinear deck converge alike.
-    std::optional<ScaleFactors> tight_tolerances;
+    std::optional<ScaleFactors> tight_tolerances = std::nullopt;
 };
 
 // One card per entry (continuation lines as their own entries), title first, ".end" last.

@@ -1,0 +1,165 @@
+// Tests of snapping a deck to preferred values: the spelling of rewritten values, parts left
+// alone, the series option; and the response change the `snap` command reports, confirmed by
+// an independent ngspice run.
+#include "values/snap.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cstdio>
+#include <regex>
+
+#include "support/common.hpp"
+#include "write/edit.hpp"
+
+namespace deckscale {
+namespace {
+
+std::string snapped_text(const std::string& deck_text, const std::string& series,
+                         SnapResult* result = nullptr) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("d.cir"), deck_text);
+    DiskFileSystem disk;
+    Deck deck = load_deck(dir.file("d.cir"), disk);
+    std::string error;
+    auto s = parse_snap_series(series, error);
+    EXPECT_TRUE(s) << error;
+    SnapResult r = snap_deck(deck, *s);
+    std::string out = apply_edits(deck.top().text(), r.edits[0]);
+    if (result) *result = std::move(r);
+    return out;
+}
+
+TEST(Snap, RoundsEachKindInItsSeriesKeepingTheSpelling) {
+    struct {
+        int line;
+        const char* card;
+        const char* series;
+        const char* expected;
+    } rows[] = {
+        {__LINE__, "R1 a b 1.234k", "R=E96", "R1 a b 1.24k"},
+        {__LINE__, "R1 a b 1234", "R=E96", "R1 a b 1240"},
+        {__LINE__, "C1 a 0 542.9635pF", "C=E12", "C1 a 0 560pF"},
+        {__LINE__, "C3 a 0 808.7704p", "C=E24", "C3 a 0 820p"},
+        {__LINE__, "L2 a b 978.5059nH", "L=E12", "L2 a b 1uH"},
+        {__LINE__, "L2 a b 978.5059nH", "R=E12", "L2 a b 978.5059nH"},  // L not chosen
+        {__LINE__, "R7 a b 4.7k", "R=E3", "R7 a b 4.7k"},               // a member stays as written
+        {__LINE__, "R2 a b r=2.05k", "r=e6", "R2 a b r=2.2k"},
+    };
+    for (const auto& r : rows) {
+        std::string deck = std::string("t\n") + r.card + "\n.end\n";
+        EXPECT_EQ(snapped_text(deck, r.series), std::string("t\n") + r.expected + "\n.end\n")
+            << "line " << r.line;
+    }
+}
+
+TEST(Snap, APartWithoutANumberIsLeftAloneAndSaidSo) {
+    SnapResult r;
+    std::string out =
+        snapped_text("t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.234k\n.end\n", "R=E24", &r);
+    EXPECT_EQ(out, "t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.2k\n.end\n");
+    ASSERT_EQ(r.left_alone.size(), 1u);
+    EXPECT_EQ(r.left_alone[0].message, "'{rv}' is not a plain number: R1 is left as written");
+    ASSERT_EQ(r.parts.size(), 1u);
+    EXPECT_NEAR(r.parts[0].error(), 1.2 / 1.234 - 1, 1e-12);
+}
+
+TEST(Snap, SeriesOption) {
+    struct {
+        int line;
+        const char* text;
+        const char* error;
+    } rows[] = {
+        {__LINE__, "R=E96,C=E12,L=E12", ""},
+        {__LINE__, "c=e192", ""},
+        {__LINE__, "R=E97",
+         "'R=E97': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+        {__LINE__, "Q=E12",
+         "'Q=E12': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+    };
+    for (const auto& r : rows) {
+        std::string error;
+        auto s = parse_snap_series(r.text, error);
+        EXPECT_EQ(s.has_value(), *r.error == 0) << "line " << r.line;
+        EXPECT_EQ(error, r.error) << "line " << r.line;
+    }
+}
+
+// A 5th-order 0.5 dB Chebyshev low-pass, 50 Ohm, ripple band to 10 MHz, shunt-C first
+// (g = 1.70577, 1.22963, 2.54083: Matthaei, Young & Jones 1964, sec. 4.05; denormalized
+// C = g/(R0 wc), L = g R0/wc, common practice).
+const char* kChebyshev =
+    "chebyshev 0.5 dB n=5 50 ohm 10 MHz\n"
+    "V1 in 0 dc 0 ac 2\n"
+    "RS in n1 50\n"
+    "C1 n1 0 542.9635p\n"
+    "L2 n1 n2 978.5059n\n"
+    "C3 n2 0 808.7704p\n"
+    "L4 n2 out 978.5059n\n"
+    "C5 out 0 542.9635p\n"
+    "RL out 0 50\n"
+    ".ac dec 50 100k 100meg\n"
+    ".end\n";
+
+// Runs ngspice on `deck` plus `extra` cards and returns the number after `label`.
+double ngspice_number(const test::TempDir& dir, const std::string& deck, const std::string& extra,
+                      const std::string& label) {
+    // The deck's own .ac sweep goes: ngspice would run it too, and .meas reads the first plot.
+    std::string text = std::regex_replace(test::read_bytes(deck), std::regex("\n\\.ac [^\n]*"), "");
+    text.insert(text.rfind(".end"), extra);
+    test::write_bytes(dir.file("referee.cir"), text);
+    std::string cmd = test::ngspice_batch() + test::shell_quote(dir.file("referee.cir")) + " 2>&1";
+    std::string out;
+    if (FILE* p = popen(cmd.c_str(), "r")) {
+        char buf[4096];
+        while (std::size_t n = fread(buf, 1, sizeof buf, p)) out.append(buf, n);
+        pclose(p);
+    }
+    std::smatch m;
+    if (std::regex_search(out, m, std::regex(label + "\\s*=\\s*([-+0-9.eE]+)")))
+        return std::stod(m[1]);
+    ADD_FAILURE() << out;
+    return 0;
+}
+
+TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("cheb.cir"), kChebyshev);
+    test::RunResult r = test::run_binary(
+        {"snap", "cheb.cir", "--series", "C=E24,L=E24", "-o", "e24.cir", "--plot", "e24.svg"},
+        dir.path());
+    ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
+    EXPECT_NE(r.out.find("  C1              542.9635p           560p   +3.138%"), std::string::npos)
+        << r.out;
+    std::smatch m;
+    ASSERT_TRUE(std::regex_search(r.out, m,
+                                  std::regex("ripple     ideal ([0-9.]+) dB \\(deepest valley at "
+                                             "[^)]*\\), rounded ([0-9.]+) dB \\(deepest valley at "
+                                             "([0-9.]+) ([kM]?)Hz\\)")))
+        << r.out;
+    double ideal = std::stod(m[1]), rounded = std::stod(m[2]);
+    double valley = std::stod(m[3]) * (m[4] == "M" ? 1e6 : m[4] == "k" ? 1e3 : 1);
+    // The ideal ladder ripples by its design 0.5 dB (the dense sweep may miss the exact valley).
+    EXPECT_NEAR(ideal, 0.5, 0.01);
+    EXPECT_GT(std::abs(rounded - ideal), 0.01) << "rounding to E24 changes the ripple";
+    // ngspice's own: the highest and lowest dB of the rounded deck from 100 kHz to just past
+    // the deepest valley (ngspice 39 manual, .meas MAX/MIN with FROM/TO; .save all keeps the
+    // vectors .meas reads).
+    std::string cards = fmt::format(
+        ".save all\n.ac lin 40001 100k {0:.9g}\n.meas ac top max vdb(out) from=100k to={0:.9g}\n"
+        ".meas ac bottom min vdb(out) from=100k to={0:.9g}\n",
+        valley * 1.02);
+    double top = ngspice_number(dir, dir.file("e24.cir"), cards, "top");
+    double bottom = ngspice_number(dir, dir.file("e24.cir"), cards, "bottom");
+    EXPECT_NEAR(top - bottom, rounded, 0.005) << r.out;
+    EXPECT_NE(r.out.find("    corner     "), std::string::npos) << r.out;
+    // The overlay: both traces named, the rounded corner marked.
+    std::string svg = test::read_bytes(dir.file("e24.svg"));
+    EXPECT_NE(svg.find("out ideal dB"), std::string::npos);
+    EXPECT_NE(svg.find("out rounded dB"), std::string::npos);
+    EXPECT_NE(svg.find("rounded corner 10.3"), std::string::npos);
+}
+
+}  // namespace
+}  // namespace deckscale
