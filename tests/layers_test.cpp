@@ -29,7 +29,8 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"scale", {"base", "deck", "write"}},
     {"sim", {"base"}},
     {"verify", {"base", "deck", "write", "scale", "sim"}},
-    {"cli", {"base", "deck", "write", "scale", "sim", "verify"}},
+    {"batch", {"base", "deck", "write", "scale", "sim", "verify"}},
+    {"cli", {"base", "deck", "write", "scale", "sim", "verify", "batch"}},
 };
 
 struct SourceText {
