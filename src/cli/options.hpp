@@ -41,11 +41,23 @@ struct VerifyOptions {
     std::uint64_t memory_mb = 8192;  // address space per simulator process; 0 = no limit
 };
 
+struct BatchOptions {
+    std::vector<std::string> inputs;  // the suite file or a folder to survey; --merge: reports
+    unsigned jobs = 0;                // -j N worker processes (0: one per core)
+    std::string junit, json;          // --junit FILE, --json FILE
+    std::string shard_text;           // --shard K/N as written ("" = all cases)
+    unsigned shard_k = 1, shard_n = 1;
+    bool merge = false;               // --merge: the inputs are shards' JSON reports
+    double km = 10, kf = 1000;        // survey factors (--km, --kf)
+    std::string km_text = "10", kf_text = "1k";
+};
+
 struct Invocation {
-    enum class What { help, version, scale, verify, usage_error } what = What::help;
+    enum class What { help, version, scale, verify, batch, usage_error } what = What::help;
     std::string text;  // help text or the usage error
     ScaleOptions scale;
     VerifyOptions verify;
+    BatchOptions batch;
 };
 
 // args excludes the program name.
