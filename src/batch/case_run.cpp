@@ -101,6 +101,11 @@ CaseResult run_case(const SuiteCase& c, const FileSystem& files, const std::stri
         if (const auto* s = std::get_if<ScaledTarget>(&c.target)) {
             r.scaled = s->path;
             request.scaled = s->path;
+            if (s->factors) {
+                request.factors_given = true;
+                request.km = r.km = s->factors->km;
+                request.kf = r.kf = s->factors->kf;
+            }
         } else {
             const auto& f = std::get<FactorTarget>(c.target);
             request.factors_given = true;

@@ -219,9 +219,7 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
     if (!deck) r.fail(t.source(), "this [[case]] has no 'deck'");
     std::string pattern = string_of(r, *deck, "deck");
     const toml::node* scaled = t.get("scaled");
-    if (scaled && (s.km_given || s.kf_given) && (t.get("km") || t.get("kf")))
-        r.fail(scaled->source(), "give either 'scaled' or 'km'/'kf' in a case, not both");
-    if (!scaled && !defaults.factors && s.km_given != s.kf_given)
+    if (!defaults.factors && s.km_given != s.kf_given)
         r.fail(t.source(), fmt::format("this case has '{}' but not '{}': give both", s.km_given ? "km" : "kf",
                                        s.km_given ? "kf" : "km"));
     if (!scaled && !s.factors)
@@ -256,7 +254,7 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
             std::error_code ec;
             if (!fs::is_regular_file(path, ec))
                 r.fail(scaled->source(), fmt::format("scaled deck '{}' does not exist", path));
-            c.target = ScaledTarget{path};
+            c.target = ScaledTarget{path, s.factors};
         } else {
             c.target = *s.factors;
         }

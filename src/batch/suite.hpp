@@ -5,6 +5,7 @@
 
 #include <chrono>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <variant>
 #include <vector>
@@ -17,12 +18,13 @@ namespace deckscale {
 // What a case compares the deck with. One alternative per kind of target: a new kind (e.g.
 // retarget targets) is one more struct here, one more branch in read_case_target
 // (batch/suite.cpp) and one in prepare_scaled (batch/case_run.cpp).
-struct ScaledTarget {
-    std::string path;  // an existing rescaled deck, verified against the case's deck
-};
 struct FactorTarget {
     double km = 1, kf = 1;
     std::string km_text = "1", kf_text = "1";  // as written in the suite
+};
+struct ScaledTarget {
+    std::string path;  // an existing rescaled deck, verified against the case's deck
+    std::optional<FactorTarget> factors;  // given in the suite; else inferred as verify does
 };
 using CaseTarget = std::variant<ScaledTarget, FactorTarget>;
 
