@@ -56,6 +56,13 @@ std::string make_scaled(const SuiteCase& c, const FactorTarget& f, const FileSys
     return out;
 }
 
+// Every string in `j` equal to `from` replaced by `to`.
+void replace_strings(nlohmann::json& j, const std::string& from, const std::string& to) {
+    if (j.is_string() && j.get_ref<const std::string&>() == from) j = to;
+    if (j.is_structured())
+        for (auto& child : j) replace_strings(child, from, to);
+}
+
 double tolerance_of(const Comparison& c, const Tolerances& t) {
     return c.analysis == "tran" ? t.transient : t.relative;
 }
@@ -125,6 +132,11 @@ CaseResult run_case(const SuiteCase& c, const FileSystem& files, const std::stri
                 r.outcome = v.report.passed() ? CaseOutcome::pass : CaseOutcome::fail;
                 r.worst = worst_vector(v.report);
                 r.report = nlohmann::json::parse(report_json(v.report));
+                // A deck made for the run is gone afterwards: the report names it, not its
+                // temporary path (and two runs of a suite give the same report).
+                if (r.scaled.empty())
+                    replace_strings(r.report, request.scaled,
+                                    fs::path(c.deck).stem().string() + "-scaled.cir (made for the run)");
             }
         }
     } catch (const DeckError& e) {

@@ -134,12 +134,14 @@ TEST(BatchSuite, BadSuitesAreReportedAtTheirPlace) {
          at + ":5:8: error: a second case named 'refs/a.cir' (names choose shards: give 'name')\n"
               "  deck = \"refs/a.cir\"\n         ^\n"},
         {__LINE__, "[[case]]\ndeck = \"refs/a.cir\"\nkm = 2\nkf = 3\ntolerance = { ac = 1e-3, dc = 1 }\n",
-         at + ":5:27: error: unknown key 'dc' in tolerance (known: ac, db, deg, tran)\n"
-              "  tolerance = { ac = 1e-3, dc = 1 }\n                            ^\n"},
+         at + ":5:26: error: unknown key 'dc' in tolerance (known: ac, db, deg, tran)\n"
+              "  tolerance = { ac = 1e-3, dc = 1 }\n                           ^\n"},
+        {__LINE__, "[defaults]\nkm = 2\n[[case]]\ndeck = \"refs/a.cir\"\n",
+         at + ":1:1: error: [defaults] has only one of 'km' and 'kf': give both\n  [defaults]\n  ^\n"},
         {__LINE__, "[[cases]]\ndeck = \"refs/a.cir\"\n",
          at + ":1:3: error: unknown key 'cases' (a suite holds [defaults] and [[case]] tables)\n"
               "  [[cases]]\n    ^\n"},
-        {__LINE__, "[defaults]\nkm = 2\n",
+        {__LINE__, "[defaults]\nkm = 2\nkf = 3\n",
          at + ":1:1: error: the suite has no [[case]]\n  [defaults]\n  ^\n"},
     };
     for (const auto& c : cases) {
