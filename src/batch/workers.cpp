@@ -115,6 +115,7 @@ std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const Wor
         last_report = Clock::now();
         if (settings.progress) settings.progress(progress);
     };
+    auto deadline_of = [&](const SuiteCase& c) { return settings.deadline.value_or(case_deadline(c)); };
     std::size_t next = 0;
     while (next < cases.size() || !running.empty()) {
         while (next < cases.size() && running.size() < workers) {
@@ -140,7 +141,7 @@ std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const Wor
                 if (!results[next - 1].met()) ++progress.unmet;
                 continue;
             }
-            running.push_back({next++, pid, fds[0], {}, Clock::now() + case_deadline(c), false});
+            running.push_back({next++, pid, fds[0], {}, Clock::now() + deadline_of(c), false});
         }
         std::vector<pollfd> polls;
         for (const auto& r : running) polls.push_back({r.fd, POLLIN, 0});
@@ -170,8 +171,8 @@ std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const Wor
             const SuiteCase& c = cases[r.slot];
             CaseResult result;
             if (r.killed) {
-                result = failed_worker(c, fmt::format("the case did not finish within {} s and was stopped",
-                                                      case_deadline(c).count() / 1000));
+                result = failed_worker(c, fmt::format("the case did not finish within {:g} s and was stopped",
+                                                      static_cast<double>(deadline_of(c).count()) / 1000));
             } else {
                 try {
                     result = case_result_from_json(nlohmann::json::parse(r.record));

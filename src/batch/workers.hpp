@@ -7,6 +7,7 @@
 
 #include <chrono>
 #include <functional>
+#include <optional>
 #include <vector>
 
 #include "batch/case_result.hpp"
@@ -24,6 +25,8 @@ struct WorkerSettings {
     unsigned workers = 0;  // 0: one per core
     // Called on the parent's side after each finished case and about every half second.
     std::function<void(const BatchProgress&)> progress;
+    // Replaces case_deadline() for every case when set.
+    std::optional<std::chrono::milliseconds> deadline;
 };
 
 // The deadline of a whole case: verify_pair runs at most six simulations, none longer than

@@ -23,7 +23,8 @@ const char* kRc = "rc\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1u\n.ac dec 10 
 const char* kRcOff = "rc\nV1 in 0 DC 0 AC 1\nR1 in out 10k\nC1 out 0 1.01n\n.ac dec 10 1k 1meg\n.end\n";
 // Five million time steps at most 1 ns apart: far more than a half-second timeout allows.
 const char* kLong = "rc\nV1 in 0 PULSE(0 1 0 1n 1n 1 2)\nR1 in out 1k\nC1 out 0 1u\n.tran 1n 5m 0 1n\n.end\n";
-const char* kDiode = "d\nV1 in 0 DC 1 AC 1\nR1 in a 1k\nD1 a 0 dm\n.model dm D(is=1e-14)\n.ac dec 5 10 1k\n.end\n";
+// An XSPICE device whose model is not in the deck: refused, not guessed.
+const char* kOrphan = "a\nV1 in 0 DC 0 AC 1\nR1 in a 1k\nA1 a b amp\nR2 b 0 1k\n.ac dec 5 10 1k\n.end\n";
 
 SuiteCase make_case(std::size_t index, std::string name, std::string deck, CaseTarget target) {
     SuiteCase c;
@@ -40,7 +41,7 @@ TEST(BatchWorkers, EachCaseFailsOnItsOwn) {
     write_bytes(dir.file("rc.cir"), kRc);
     write_bytes(dir.file("rc_off.cir"), kRcOff);
     write_bytes(dir.file("long.cir"), kLong);
-    write_bytes(dir.file("diode.cir"), kDiode);
+    write_bytes(dir.file("orphan.cir"), kOrphan);
     FactorTarget f{10, 100, "10", "100"};
     std::vector<SuiteCase> cases;
     cases.push_back(make_case(0, "made", dir.file("rc.cir"), f));
@@ -50,7 +51,7 @@ TEST(BatchWorkers, EachCaseFailsOnItsOwn) {
     cases.back().timeout = std::chrono::milliseconds(500);
     cases.push_back(make_case(3, "starved", dir.file("rc.cir"), f));
     cases.back().memory_mb = 8;  // too little address space to load libngspice
-    cases.push_back(make_case(4, "refused", dir.file("diode.cir"), f));
+    cases.push_back(make_case(4, "refused", dir.file("orphan.cir"), f));
     cases.push_back(make_case(5, "gone", dir.file("missing.cir"), f));
     cases.push_back(make_case(6, "off, as meant", dir.file("rc.cir"), ScaledTarget{dir.file("rc_off.cir"), f}));
     cases.back().expect = Expect::fail;
@@ -72,7 +73,7 @@ TEST(BatchWorkers, EachCaseFailsOnItsOwn) {
         {__LINE__, CaseOutcome::fail, false, ""},
         {__LINE__, CaseOutcome::error, false, "timed out"},
         {__LINE__, CaseOutcome::error, false, "failed"},
-        {__LINE__, CaseOutcome::refused, false, "2 item(s) cannot be scaled exactly"},
+        {__LINE__, CaseOutcome::refused, false, "1 item(s) cannot be scaled exactly"},
         {__LINE__, CaseOutcome::error, false, "missing.cir"},
         {__LINE__, CaseOutcome::fail, true, ""},
         {__LINE__, CaseOutcome::pass, true, ""},
@@ -92,11 +93,37 @@ TEST(BatchWorkers, EachCaseFailsOnItsOwn) {
     // The capacitor's node is the worst vector, far beyond the tolerance.
     EXPECT_EQ(r[1].worst.rfind("ac out: relative error ", 0), 0u) << r[1].worst;
     EXPECT_FALSE(r[1].report.is_null());
-    EXPECT_EQ(r[4].refusals.size(), 2u);  // the diode and its model
+    EXPECT_EQ(r[4].refusals, std::vector<std::string>{"XSPICE A device whose model 'amp' is not in the deck"});
     EXPECT_NE(r[0].km, 1);
     ASSERT_FALSE(seen.empty());
     EXPECT_EQ(seen.back().done, cases.size());
     EXPECT_EQ(seen.back().unmet, 5u);
+    EXPECT_TRUE(test::no_children_left());
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+TEST(BatchWorkers, AWorkerPastItsDeadlineIsStoppedWithItsSimulations) {
+    TempDir dir;
+    write_bytes(dir.file("rc.cir"), kRc);
+    write_bytes(dir.file("long.cir"), kLong);
+    FactorTarget f{10, 100, "10", "100"};
+    std::vector<SuiteCase> cases = {make_case(0, "long", dir.file("long.cir"), f),
+                                    make_case(1, "short", dir.file("rc.cir"), f)};
+    WorkerSettings settings;
+    settings.workers = 2;
+    settings.deadline = std::chrono::milliseconds(1500);  // the simulations alone may take 30 s
+    auto start = std::chrono::steady_clock::now();
+    std::vector<CaseResult> r = run_cases(cases, settings);
+    EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(10));
+    ASSERT_EQ(r.size(), 2u);
+    EXPECT_EQ(r[0].outcome, CaseOutcome::error);
+    EXPECT_EQ(r[0].problems, std::vector<std::string>{"the case did not finish within 1.5 s and was stopped"});
+    EXPECT_EQ(r[1].outcome, CaseOutcome::pass) << testing::PrintToString(r[1].problems);
     EXPECT_TRUE(test::no_children_left());
 }
 

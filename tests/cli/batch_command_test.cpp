@@ -150,17 +150,20 @@ TEST(BatchCommand, MergedShardsEqualAnUnshardedRun) {
 TEST(BatchCommand, SurveySaysWhichDecksScaleWhichAreRefusedAndWhy) {
     TempDir dir;
     const char* rc = "rc\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1u\n.ac dec 10 10 10k\n.end\n";
-    const char* diode = "d\nV1 in 0 DC 0 AC 1\nR1 in a 1k\nD1 a 0 dm\n.model dm D\n.ac dec 5 10 1k\n.end\n";
+    const char* orphan = "a\nV1 in 0 DC 0 AC 1\nR1 in a 1k\nA1 a b amp\nR2 b 0 1k\n.ac dec 5 10 1k\n.end\n";
     write_bytes(dir.file("lib/rc.cir"), rc);
-    write_bytes(dir.file("lib/sub/d1.sp"), diode);
-    write_bytes(dir.file("lib/sub/d2.cir"), diode);
+    write_bytes(dir.file("lib/sub/d1.sp"), orphan);
+    write_bytes(dir.file("lib/sub/d2.cir"), orphan);
     write_bytes(dir.file("lib/bad.cir"), "bad\nR1 a 0 1..k\n.end\n");
     write_bytes(dir.file("lib/readme.txt"), "not a deck\n");
     RunResult r = run_binary({"batch", "lib", "--km", "50", "--kf", "1meg"}, dir.path());
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
     EXPECT_EQ(r.out.rfind("scaled and verified (1):\n  rc.cir  worst ", 0), 0u) << r.out;
     EXPECT_NE(r.out.find("refused (2), by reason:\n"), std::string::npos) << r.out;
-    EXPECT_NE(r.out.find(" (2 deck(s)):\n    sub/d1.sp\n    sub/d2.cir\n"), std::string::npos) << r.out;
+    EXPECT_NE(r.out.find("  XSPICE A device whose model 'amp' is not in the deck (2 deck(s)):\n    sub/d1.sp\n"
+                         "    sub/d2.cir\n"),
+              std::string::npos)
+        << r.out;
     EXPECT_NE(r.out.find("not read or not simulated (1):\n  bad.cir  "), std::string::npos) << r.out;
     EXPECT_NE(r.out.find("4 case(s): 1 equivalent, 0 not equivalent, 2 refused, 1 error(s)"), std::string::npos)
         << r.out;
