@@ -122,7 +122,7 @@ int run_batch(const BatchOptions& o, std::ostream& out, std::ostream& err) {
     settings.workers = o.jobs;
     if (terminal)
         settings.progress = [&](const BatchProgress& p) {
-            err << fmt::format("\r{}/{} case(s) done, {} unexpected, {} elapsed", p.done, p.total, p.unmet,
+            err << fmt::format("\r\033[K{}/{} case(s) done, {} unexpected, {} elapsed", p.done, p.total, p.unmet,
                                clock_text(p.elapsed_s))
                 << std::flush;
         };
