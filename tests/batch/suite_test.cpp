@@ -154,12 +154,21 @@ TEST(BatchSuite, BadSuitesAreReportedAtTheirPlace) {
 }
 
 TEST(BatchSuite, BadTomlIsReportedWhereTheParserStopped) {
+    // The message after "error: " is toml++ 3.3's own (Debian 12); the place and line are ours.
     TempDir dir;
-    std::string got = error_of(dir, "[[case]]\ndeck = \"refs/a.cir\nkm = 2\n");
-    // toml++ names the problem; the place and the quoted line are ours.
-    EXPECT_EQ(got.rfind(dir.file("s.toml") + ":2:", 0), 0u) << got;
-    EXPECT_NE(got.find(": error: "), std::string::npos) << got;
-    EXPECT_NE(got.find("\n  deck = \"refs/a.cir\n"), std::string::npos) << got;
+    const std::string at = dir.file("s.toml");
+    struct Case {
+        int line;
+        std::string suite, expected;
+    } cases[] = {
+        {__LINE__, "[[case]]\ndeck = \"refs/a.cir\nkm = 2\n",
+         at + ":2:19: error: Error while parsing string: unescaped control characters other than TAB (U+0009) "
+              "are explicitly prohibited\n  deck = \"refs/a.cir\n                    ^\n"},
+        {__LINE__, "[[case]\n",
+         at + ":1:8: error: Error while parsing table header: expected ']', saw '\\n'\n  [[case]\n         ^\n"},
+        {__LINE__, "case = 5\n", at + ":1:8: error: 'case' must be an array of tables: [[case]]\n  case = 5\n         ^\n"},
+    };
+    for (const auto& c : cases) EXPECT_EQ(error_of(dir, c.suite), c.expected) << "line " << c.line;
 }
 
 TEST(BatchSuite, ASurveyTakesEveryDeckUnderTheFolder) {
