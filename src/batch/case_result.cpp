@@ -16,32 +16,45 @@ E enum_from(const std::string& text, const E (&all)[N], const char* what) {
 
 const char* to_string(CaseOutcome o) {
     switch (o) {
-        case CaseOutcome::pass: return "pass";
-        case CaseOutcome::fail: return "fail";
-        case CaseOutcome::refused: return "refused";
-        case CaseOutcome::error: return "error";
+        case CaseOutcome::pass:
+            return "pass";
+        case CaseOutcome::fail:
+            return "fail";
+        case CaseOutcome::refused:
+            return "refused";
+        case CaseOutcome::error:
+            return "error";
     }
     return "error";
 }
 
 bool CaseResult::met() const {
     switch (expect) {
-        case Expect::pass: return outcome == CaseOutcome::pass;
-        case Expect::fail: return outcome == CaseOutcome::fail;
-        case Expect::none: return true;
+        case Expect::pass:
+            return outcome == CaseOutcome::pass;
+        case Expect::fail:
+            return outcome == CaseOutcome::fail;
+        case Expect::none:
+            return true;
     }
     return false;
 }
 
 nlohmann::json to_json(const CaseResult& r) {
-    return {{"index", r.index},       {"name", r.name},
-            {"deck", r.deck},         {"scaled", r.scaled},
-            {"km", r.km},             {"kf", r.kf},
+    return {{"index", r.index},
+            {"name", r.name},
+            {"deck", r.deck},
+            {"scaled", r.scaled},
+            {"km", r.km},
+            {"kf", r.kf},
             {"expect", to_string(r.expect)},
             {"outcome", to_string(r.outcome)},
-            {"met", r.met()},         {"seconds", r.seconds},
-            {"worst", r.worst},       {"problems", r.problems},
-            {"refusals", r.refusals}, {"report", r.report}};
+            {"met", r.met()},
+            {"seconds", r.seconds},
+            {"worst", r.worst},
+            {"problems", r.problems},
+            {"refusals", r.refusals},
+            {"report", r.report}};
 }
 
 CaseResult case_result_from_json(const nlohmann::json& j) {
@@ -55,8 +68,8 @@ CaseResult case_result_from_json(const nlohmann::json& j) {
         r.kf = j.at("kf").get<double>();
         constexpr Expect kExpects[] = {Expect::pass, Expect::fail, Expect::none};
         r.expect = enum_from(j.at("expect").get<std::string>(), kExpects, "expectation");
-        constexpr CaseOutcome kOutcomes[] = {CaseOutcome::pass, CaseOutcome::fail, CaseOutcome::refused,
-                                             CaseOutcome::error};
+        constexpr CaseOutcome kOutcomes[] = {CaseOutcome::pass, CaseOutcome::fail,
+                                             CaseOutcome::refused, CaseOutcome::error};
         r.outcome = enum_from(j.at("outcome").get<std::string>(), kOutcomes, "outcome");
         r.seconds = j.at("seconds").get<double>();
         r.worst = j.at("worst").get<std::string>();

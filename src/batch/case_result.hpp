@@ -4,10 +4,9 @@
 // reports can be merged without losing anything.
 #pragma once
 
+#include <nlohmann/json.hpp>
 #include <string>
 #include <vector>
-
-#include <nlohmann/json.hpp>
 
 #include "batch/suite.hpp"
 

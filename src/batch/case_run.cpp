@@ -1,9 +1,9 @@
 #include "batch/case_run.hpp"
 
+#include <fmt/format.h>
+
 #include <chrono>
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "base/output_file.hpp"
 #include "deck/diagnostic.hpp"
@@ -124,8 +124,8 @@ CaseResult run_case(const SuiteCase& c, const FileSystem& files, const std::stri
             PairVerification v = verify_pair(request, files);
             for (const auto& p : v.problems) r.problems.push_back(p);
             for (const auto& f : v.failures)
-                r.problems.push_back(fmt::format("simulating {} ({}) failed: {}: {}", f.label, f.analysis,
-                                                 to_string(f.status), f.message));
+                r.problems.push_back(fmt::format("simulating {} ({}) failed: {}: {}", f.label,
+                                                 f.analysis, to_string(f.status), f.message));
             if (v.outcome == PairVerification::Outcome::compared) {
                 r.km = v.report.km;
                 r.kf = v.report.kf;
@@ -135,8 +135,9 @@ CaseResult run_case(const SuiteCase& c, const FileSystem& files, const std::stri
                 // A deck made for the run is gone afterwards: the report names it, not its
                 // temporary path (and two runs of a suite give the same report).
                 if (r.scaled.empty())
-                    replace_strings(r.report, request.scaled,
-                                    fs::path(c.deck).stem().string() + "-scaled.cir (made for the run)");
+                    replace_strings(
+                        r.report, request.scaled,
+                        fs::path(c.deck).stem().string() + "-scaled.cir (made for the run)");
             }
         }
     } catch (const DeckError& e) {

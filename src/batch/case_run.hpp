@@ -1,7 +1,7 @@
 // Running one case in this process: the rescaled deck made (flattened, in `scratch`, a folder
-// the caller owns and removes) or taken from the suite, then the pair verified by verify_pair, whose simulations run in
-// child processes of their own. Never prints, never throws for a bad deck: every problem
-// becomes the case's outcome.
+// the caller owns and removes) or taken from the suite, then the pair verified by verify_pair,
+// whose simulations run in child processes of their own. Never prints, never throws for a bad deck:
+// every problem becomes the case's outcome.
 #pragma once
 
 #include "base/file_system.hpp"

@@ -1,9 +1,9 @@
 #include "batch/junit.hpp"
 
-#include <sstream>
-
 #include <fmt/format.h>
+
 #include <pugixml.hpp>
+#include <sstream>
 
 namespace deckscale {
 namespace {
@@ -15,10 +15,14 @@ std::string message_of(const CaseResult& c) {
     std::string first = c.problems.empty() ? "" : c.problems.front();
     if (auto nl = first.find('\n'); nl != std::string::npos) first.resize(nl);
     switch (c.outcome) {
-        case CaseOutcome::pass: return "expected to fail, but equivalent; worst " + c.worst;
-        case CaseOutcome::fail: return "not equivalent; worst " + c.worst;
-        case CaseOutcome::refused: return "refused: " + first;
-        case CaseOutcome::error: return first;
+        case CaseOutcome::pass:
+            return "expected to fail, but equivalent; worst " + c.worst;
+        case CaseOutcome::fail:
+            return "not equivalent; worst " + c.worst;
+        case CaseOutcome::refused:
+            return "refused: " + first;
+        case CaseOutcome::error:
+            return first;
     }
     return first;
 }
@@ -26,8 +30,8 @@ std::string message_of(const CaseResult& c) {
 std::string details_of(const CaseResult& c) {
     std::string s = fmt::format("deck: {}\n", c.deck);
     if (!c.scaled.empty()) s += fmt::format("scaled: {}\n", c.scaled);
-    s += fmt::format("Km = {:.9g}, Kf = {:.9g}\nexpected: {}, outcome: {}\n", c.km, c.kf, to_string(c.expect),
-                     to_string(c.outcome));
+    s += fmt::format("Km = {:.9g}, Kf = {:.9g}\nexpected: {}, outcome: {}\n", c.km, c.kf,
+                     to_string(c.expect), to_string(c.outcome));
     if (!c.worst.empty()) s += "worst: " + c.worst + "\n";
     for (const auto& p : c.problems) s += p + "\n";
     return s;
@@ -80,7 +84,9 @@ std::string junit_xml(const BatchReport& r) {
             f.append_attribute("type") = to_string(c.outcome);
             f.append_child(pugi::node_pcdata).set_value(details_of(c).c_str());
         } else {
-            t.append_child("system-out").append_child(pugi::node_pcdata).set_value(details_of(c).c_str());
+            t.append_child("system-out")
+                .append_child(pugi::node_pcdata)
+                .set_value(details_of(c).c_str());
         }
     }
     std::ostringstream out;

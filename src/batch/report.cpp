@@ -1,11 +1,11 @@
 #include "batch/report.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
+#include <nlohmann/json.hpp>
 #include <set>
 #include <stdexcept>
-
-#include <fmt/format.h>
-#include <nlohmann/json.hpp>
 
 namespace deckscale {
 
@@ -53,7 +53,8 @@ BatchReport batch_from_json(const std::string& text) {
         throw std::runtime_error("not a batch report (no \"format\": \"deckscale-batch\")");
     try {
         if (j.at("version").get<int>() != 1)
-            throw std::runtime_error(fmt::format("report version {} is not known", j.at("version").dump()));
+            throw std::runtime_error(
+                fmt::format("report version {} is not known", j.at("version").dump()));
         BatchReport r;
         r.suite = j.at("suite").get<std::string>();
         r.name = j.at("name").get<std::string>();
@@ -80,13 +81,16 @@ BatchReport merge_reports(const std::vector<BatchReport>& shards) {
     std::set<unsigned> seen_shards;
     std::set<std::size_t> seen_cases;
     for (const auto& s : shards) {
-        if (s.name != first.name || s.suite_cases != first.suite_cases || s.shard.n != first.shard.n)
+        if (s.name != first.name || s.suite_cases != first.suite_cases ||
+            s.shard.n != first.shard.n)
             throw std::runtime_error(fmt::format(
-                "the reports are not shards of one run: suite '{}' ({} cases, {} shards) and suite '{}' "
+                "the reports are not shards of one run: suite '{}' ({} cases, {} shards) and suite "
+                "'{}' "
                 "({} cases, {} shards)",
                 first.name, first.suite_cases, first.shard.n, s.name, s.suite_cases, s.shard.n));
         if (!seen_shards.insert(s.shard.k).second)
-            throw std::runtime_error(fmt::format("shard {}/{} is given twice", s.shard.k, s.shard.n));
+            throw std::runtime_error(
+                fmt::format("shard {}/{} is given twice", s.shard.k, s.shard.n));
         for (const auto& c : s.cases) {
             if (!seen_cases.insert(c.index).second)
                 throw std::runtime_error(fmt::format("case '{}' is in two reports", c.name));
@@ -95,9 +99,10 @@ BatchReport merge_reports(const std::vector<BatchReport>& shards) {
         m.seconds = std::max(m.seconds, s.seconds);
     }
     if (m.cases.size() != m.suite_cases)
-        throw std::runtime_error(fmt::format("the reports hold {} of the suite's {} cases: a shard's report "
-                                             "is missing",
-                                             m.cases.size(), m.suite_cases));
+        throw std::runtime_error(
+            fmt::format("the reports hold {} of the suite's {} cases: a shard's report "
+                        "is missing",
+                        m.cases.size(), m.suite_cases));
     std::sort(m.cases.begin(), m.cases.end(),
               [](const CaseResult& a, const CaseResult& b) { return a.index < b.index; });
     return m;

@@ -11,13 +11,13 @@
 namespace deckscale {
 
 struct BatchReport {
-    std::string suite;      // the suite file or surveyed folder, as given
-    std::string name;       // the suite's name (the file's stem)
+    std::string suite;  // the suite file or surveyed folder, as given
+    std::string name;   // the suite's name (the file's stem)
     bool survey = false;
-    Shard shard;            // the shard this report covers (1/1: all)
-    std::size_t suite_cases = 0;  // cases in the whole suite, before sharding
+    Shard shard;                    // the shard this report covers (1/1: all)
+    std::size_t suite_cases = 0;    // cases in the whole suite, before sharding
     std::vector<CaseResult> cases;  // in suite order
-    double seconds = 0;     // wall time of the run (merged: the longest shard)
+    double seconds = 0;             // wall time of the run (merged: the longest shard)
 
     std::size_t unmet() const;  // cases whose outcome was not the expected one
 };

@@ -12,7 +12,8 @@ std::optional<Shard> parse_shard(std::string_view text) {
         auto [end, ec] = std::from_chars(part.data(), part.data() + part.size(), out);
         return ec == std::errc() && end == part.data() + part.size() && !part.empty();
     };
-    if (!read(text.substr(0, slash), s.k) || !read(text.substr(slash + 1), s.n)) return std::nullopt;
+    if (!read(text.substr(0, slash), s.k) || !read(text.substr(slash + 1), s.n))
+        return std::nullopt;
     if (s.n == 0 || s.k == 0 || s.k > s.n) return std::nullopt;
     return s;
 }

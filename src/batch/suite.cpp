@@ -1,6 +1,8 @@
 #include "batch/suite.hpp"
 
+#include <fmt/format.h>
 #include <glob.h>
+#include <toml++/toml.h>
 
 #include <algorithm>
 #include <cmath>
@@ -8,9 +10,6 @@
 #include <optional>
 #include <set>
 #include <sstream>
-
-#include <fmt/format.h>
-#include <toml++/toml.h>
 
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
@@ -23,10 +22,11 @@ namespace {
 namespace fs = std::filesystem;
 
 // The keys a [[case]] may hold; [defaults] holds the same but name, deck and scaled.
-const std::set<std::string> kCaseKeys = {"name", "deck", "scaled", "km", "kf", "tolerance",
-                                         "sweep", "drive", "expect", "timeout", "memory"};
-const std::set<std::string> kDefaultKeys = {"km", "kf", "tolerance", "sweep", "drive",
-                                            "expect", "timeout", "memory"};
+const std::set<std::string> kCaseKeys = {"name",   "deck",      "scaled", "km",
+                                         "kf",     "tolerance", "sweep",  "drive",
+                                         "expect", "timeout",   "memory"};
+const std::set<std::string> kDefaultKeys = {"km",    "kf",     "tolerance", "sweep",
+                                            "drive", "expect", "timeout",   "memory"};
 const std::set<std::string> kToleranceKeys = {"ac", "tran", "db", "deg"};
 
 std::string joined(const std::set<std::string>& keys) {
@@ -37,8 +37,9 @@ std::string joined(const std::set<std::string>& keys) {
 
 // Errors at a place in the suite file, rendered like every other diagnostic.
 class SuiteReader {
-public:
-    SuiteReader(std::string path, std::string text) : path_(std::move(path)), text_(std::move(text)) {}
+  public:
+    SuiteReader(std::string path, std::string text)
+        : path_(std::move(path)), text_(std::move(text)) {}
 
     [[noreturn]] void fail(const toml::source_region& at, const std::string& message) const {
         Diagnostic d;
@@ -53,7 +54,7 @@ public:
     const std::string& path() const { return path_; }
     std::string folder() const { return directory_of(path_); }
 
-private:
+  private:
     std::string line_text(std::uint32_t line) const {
         std::istringstream in(text_);
         std::string s;
@@ -82,13 +83,20 @@ struct CaseSettings {
 
 std::string node_type(const toml::node& n) {
     switch (n.type()) {
-        case toml::node_type::string: return "a string";
-        case toml::node_type::integer: return "an integer";
-        case toml::node_type::floating_point: return "a number";
-        case toml::node_type::boolean: return "a boolean";
-        case toml::node_type::array: return "an array";
-        case toml::node_type::table: return "a table";
-        default: return "a date or time";
+        case toml::node_type::string:
+            return "a string";
+        case toml::node_type::integer:
+            return "an integer";
+        case toml::node_type::floating_point:
+            return "a number";
+        case toml::node_type::boolean:
+            return "a boolean";
+        case toml::node_type::array:
+            return "an array";
+        case toml::node_type::table:
+            return "a table";
+        default:
+            return "a date or time";
     }
 }
 
@@ -100,7 +108,8 @@ double number_of(const SuiteReader& r, const toml::node& n, const std::string& k
 
 double positive_number(const SuiteReader& r, const toml::node& n, const std::string& key) {
     double v = number_of(r, n, key);
-    if (!(v > 0) || !std::isfinite(v)) r.fail(n.source(), fmt::format("'{}' must be positive", key));
+    if (!(v > 0) || !std::isfinite(v))
+        r.fail(n.source(), fmt::format("'{}' must be positive", key));
     return v;
 }
 
@@ -115,7 +124,10 @@ void read_factor(const SuiteReader& r, const toml::node& n, const std::string& k
     if (n.is_string()) {
         text = *n.value_exact<std::string>();
         auto v = parse_factor(text);
-        if (!v) r.fail(n.source(), fmt::format("'{}': '{}' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)", key, text));
+        if (!v)
+            r.fail(n.source(),
+                   fmt::format("'{}': '{}' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)", key,
+                               text));
         value = *v;
     } else {
         value = number_of(r, n, key);
@@ -144,7 +156,8 @@ void read_tolerance(const SuiteReader& r, const toml::node& n, Tolerances& t) {
 }
 
 // Reads one key into `s`; name, deck and scaled are read by the caller.
-void read_setting(const SuiteReader& r, const std::string& key, const toml::node& v, CaseSettings& s) {
+void read_setting(const SuiteReader& r, const std::string& key, const toml::node& v,
+                  CaseSettings& s) {
     if (key == "km" || key == "kf") {
         if (!s.factors) s.factors = FactorTarget{};
         if (key == "km") {
@@ -162,15 +175,19 @@ void read_setting(const SuiteReader& r, const std::string& key, const toml::node
         std::vector<std::string> w;
         for (std::string x; words >> x;) w.push_back(x);
         std::string e;
-        if (!parse_sweep(w, e)) r.fail(v.source(), "'sweep': " + e + " (write e.g. \"dec 20 10 100k\")");
+        if (!parse_sweep(w, e))
+            r.fail(v.source(), "'sweep': " + e + " (write e.g. \"dec 20 10 100k\")");
         s.sweep = std::move(w);
     } else if (key == "drive") {
         s.drive = string_of(r, v, key);
     } else if (key == "expect") {
         std::string e = string_of(r, v, key);
-        if (e == "pass") s.expect = Expect::pass;
-        else if (e == "fail") s.expect = Expect::fail;
-        else r.fail(v.source(), fmt::format("'expect' must be \"pass\" or \"fail\", not \"{}\"", e));
+        if (e == "pass")
+            s.expect = Expect::pass;
+        else if (e == "fail")
+            s.expect = Expect::fail;
+        else
+            r.fail(v.source(), fmt::format("'expect' must be \"pass\" or \"fail\", not \"{}\"", e));
     } else if (key == "timeout") {
         s.timeout = std::chrono::milliseconds(static_cast<long>(positive_number(r, v, key) * 1000));
     } else if (key == "memory") {
@@ -206,12 +223,13 @@ std::string stem_of(const std::string& path) { return fs::path(path).stem().stri
 
 // "{stem}" in a scaled path stands for the deck's file name without its extension.
 std::string with_stem(std::string text, const std::string& stem) {
-    for (std::size_t at; (at = text.find("{stem}")) != std::string::npos;) text.replace(at, 6, stem);
+    for (std::size_t at; (at = text.find("{stem}")) != std::string::npos;)
+        text.replace(at, 6, stem);
     return text;
 }
 
-void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& defaults, Suite& suite,
-               std::set<std::string>& names) {
+void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& defaults,
+               Suite& suite, std::set<std::string>& names) {
     check_keys(r, t, kCaseKeys, "[[case]]");
     CaseSettings s = defaults;
     for (auto&& [k, v] : t) read_setting(r, std::string(k.str()), v, s);
@@ -220,8 +238,8 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
     std::string pattern = string_of(r, *deck, "deck");
     const toml::node* scaled = t.get("scaled");
     if (!defaults.factors && s.km_given != s.kf_given)
-        r.fail(t.source(), fmt::format("this case has '{}' but not '{}': give both", s.km_given ? "km" : "kf",
-                                       s.km_given ? "kf" : "km"));
+        r.fail(t.source(), fmt::format("this case has '{}' but not '{}': give both",
+                                       s.km_given ? "km" : "kf", s.km_given ? "kf" : "km"));
     if (!scaled && !s.factors)
         r.fail(t.source(), "this case needs 'scaled' (a rescaled deck) or 'km' and 'kf'");
     std::string scaled_text = scaled ? string_of(r, *scaled, "scaled") : "";
@@ -245,8 +263,9 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
         c.deck = d;
         std::string stem = stem_of(d);
         if (is_glob(pattern))
-            c.name = name_text.empty() ? fs::relative(d, r.folder().empty() ? "." : r.folder()).string()
-                                       : name_text + "/" + stem;
+            c.name = name_text.empty()
+                         ? fs::relative(d, r.folder().empty() ? "." : r.folder()).string()
+                         : name_text + "/" + stem;
         else
             c.name = name_text.empty() ? pattern : name_text;
         if (scaled) {
@@ -259,8 +278,9 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
             c.target = *s.factors;
         }
         if (!names.insert(c.name).second)
-            r.fail((name ? name : deck)->source(),
-                   fmt::format("a second case named '{}' (names choose shards: give 'name')", c.name));
+            r.fail(
+                (name ? name : deck)->source(),
+                fmt::format("a second case named '{}' (names choose shards: give 'name')", c.name));
         c.expect = s.expect;
         c.tolerances = s.tolerances;
         c.sweep = s.sweep;
@@ -275,9 +295,12 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
 
 const char* to_string(Expect e) {
     switch (e) {
-        case Expect::pass: return "pass";
-        case Expect::fail: return "fail";
-        case Expect::none: return "none";
+        case Expect::pass:
+            return "pass";
+        case Expect::fail:
+            return "fail";
+        case Expect::none:
+            return "none";
     }
     return "none";
 }
@@ -303,8 +326,9 @@ Suite load_suite(const std::string& path, const FileSystem& files) {
     suite.name = stem_of(path);
     for (auto&& [k, v] : top)
         if (k.str() != "defaults" && k.str() != "case")
-            r.fail(k.source(), fmt::format("unknown key '{}' (a suite holds [defaults] and [[case]] tables)",
-                                           k.str()));
+            r.fail(k.source(),
+                   fmt::format("unknown key '{}' (a suite holds [defaults] and [[case]] tables)",
+                               k.str()));
     CaseSettings defaults;
     if (const toml::node* d = top.get("defaults")) {
         if (!d->is_table()) r.fail(d->source(), "'defaults' must be a table: [defaults]");
@@ -316,9 +340,11 @@ Suite load_suite(const std::string& path, const FileSystem& files) {
     }
     const toml::node* cases = top.get("case");
     if (!cases) r.fail(toml::source_region{{1, 1}, {1, 1}, nullptr}, "the suite has no [[case]]");
-    if (!cases->is_array_of_tables()) r.fail(cases->source(), "'case' must be an array of tables: [[case]]");
+    if (!cases->is_array_of_tables())
+        r.fail(cases->source(), "'case' must be an array of tables: [[case]]");
     std::set<std::string> names;
-    for (const toml::node& c : *cases->as_array()) read_case(r, *c.as_table(), defaults, suite, names);
+    for (const toml::node& c : *cases->as_array())
+        read_case(r, *c.as_table(), defaults, suite, names);
     return suite;
 }
 
@@ -332,13 +358,14 @@ Suite survey_suite(const std::string& folder, const FactorTarget& factors) {
     }
     Suite suite;
     suite.path = folder;
-    suite.name = fs::path(folder).filename().empty() ? fs::path(folder).parent_path().filename().string()
-                                                     : fs::path(folder).filename().string();
+    suite.name = fs::path(folder).filename().empty()
+                     ? fs::path(folder).parent_path().filename().string()
+                     : fs::path(folder).filename().string();
     suite.survey = true;
     std::vector<std::string> decks;
     const std::set<std::string> kinds = {".cir", ".sp", ".spi", ".spice", ".net", ".ckt"};
-    for (auto it = fs::recursive_directory_iterator(folder, ec); !ec && it != fs::recursive_directory_iterator();
-         it.increment(ec)) {
+    for (auto it = fs::recursive_directory_iterator(folder, ec);
+         !ec && it != fs::recursive_directory_iterator(); it.increment(ec)) {
         if (it->path().filename().string().rfind('.', 0) == 0) {
             if (it->is_directory()) it.disable_recursion_pending();
             continue;

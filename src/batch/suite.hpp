@@ -36,9 +36,9 @@ enum class Expect {
 const char* to_string(Expect e);
 
 struct SuiteCase {
-    std::string name;   // unique in the suite; shards are chosen by it
+    std::string name;       // unique in the suite; shards are chosen by it
     std::size_t index = 0;  // position in the suite (reports keep this order)
-    std::string deck;   // path (relative to the suite file as written, resolved)
+    std::string deck;       // path (relative to the suite file as written, resolved)
     CaseTarget target;
     Expect expect = Expect::pass;
     Tolerances tolerances;
@@ -49,8 +49,8 @@ struct SuiteCase {
 };
 
 struct Suite {
-    std::string path;   // the suite file, or the surveyed folder
-    std::string name;   // the file's stem, or the folder's name
+    std::string path;  // the suite file, or the surveyed folder
+    std::string name;  // the file's stem, or the folder's name
     bool survey = false;
     std::vector<SuiteCase> cases;
 };

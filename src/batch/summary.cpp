@@ -1,9 +1,9 @@
 #include "batch/summary.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <map>
-
-#include <fmt/format.h>
 
 namespace deckscale {
 namespace {
@@ -18,7 +18,8 @@ std::string first_line(const std::vector<std::string>& lines) {
 std::string counts(const BatchReport& r) {
     std::size_t n[4] = {};
     for (const auto& c : r.cases) ++n[static_cast<int>(c.outcome)];
-    return fmt::format("{} equivalent, {} not equivalent, {} refused, {} error(s)", n[0], n[1], n[2], n[3]);
+    return fmt::format("{} equivalent, {} not equivalent, {} refused, {} error(s)", n[0], n[1],
+                       n[2], n[3]);
 }
 
 std::string survey_text(const BatchReport& r) {
@@ -36,9 +37,11 @@ std::string survey_text(const BatchReport& r) {
             auto& decks = reasons[why];
             if (decks.empty() || decks.back() != c->name) decks.push_back(c->name);
         }
-    std::vector<std::pair<std::string, std::vector<std::string>>> sorted(reasons.begin(), reasons.end());
-    std::stable_sort(sorted.begin(), sorted.end(),
-                     [](const auto& a, const auto& b) { return a.second.size() > b.second.size(); });
+    std::vector<std::pair<std::string, std::vector<std::string>>> sorted(reasons.begin(),
+                                                                         reasons.end());
+    std::stable_sort(sorted.begin(), sorted.end(), [](const auto& a, const auto& b) {
+        return a.second.size() > b.second.size();
+    });
     s += fmt::format("refused ({}), by reason:\n", by[2].size());
     for (const auto& [why, decks] : sorted) {
         s += fmt::format("  {} ({} deck(s)):\n", why, decks.size());
@@ -61,11 +64,13 @@ std::string summary_text(const BatchReport& r) {
             std::string why = c.outcome == CaseOutcome::pass || c.outcome == CaseOutcome::fail
                                   ? "worst " + c.worst
                                   : first_line(c.problems);
-            s += fmt::format("UNEXPECTED {}: expected {}, got {}: {}\n", c.name, to_string(c.expect),
-                             to_string(c.outcome), why);
+            s += fmt::format("UNEXPECTED {}: expected {}, got {}: {}\n", c.name,
+                             to_string(c.expect), to_string(c.outcome), why);
         }
     }
-    std::string shard = r.shard.n > 1 ? fmt::format(" (shard {}/{} of {})", r.shard.k, r.shard.n, r.suite_cases) : "";
+    std::string shard =
+        r.shard.n > 1 ? fmt::format(" (shard {}/{} of {})", r.shard.k, r.shard.n, r.suite_cases)
+                      : "";
     s += fmt::format("{} case(s){}: {}; {:.1f} s\n", r.cases.size(), shard, counts(r), r.seconds);
     if (!r.survey) {
         std::size_t unmet = r.unmet();

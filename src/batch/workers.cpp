@@ -1,6 +1,7 @@
 #include "batch/workers.hpp"
 
 #include <fcntl.h>
+#include <fmt/format.h>
 #include <poll.h>
 #include <signal.h>
 #include <stdlib.h>
@@ -14,8 +15,6 @@
 #include <string>
 #include <thread>
 
-#include <fmt/format.h>
-
 #include "base/file_system.hpp"
 #include "batch/case_run.hpp"
 
@@ -28,7 +27,7 @@ using Clock = std::chrono::steady_clock;
 // A private folder for the scaled decks of one run, removed with everything in it at the end
 // (also what a killed worker left there).
 class ScratchFolder {
-public:
+  public:
     ScratchFolder() {
         std::string tmpl = (fs::temp_directory_path() / "deckscale-batch-XXXXXX").string();
         if (::mkdtemp(tmpl.data())) path_ = tmpl;
@@ -41,7 +40,7 @@ public:
     ScratchFolder& operator=(const ScratchFolder&) = delete;
     const std::string& path() const { return path_; }
 
-private:
+  private:
     std::string path_;
 };
 
@@ -101,8 +100,10 @@ std::chrono::milliseconds case_deadline(const SuiteCase& c) {
     return 6 * c.timeout + std::chrono::milliseconds(60000);
 }
 
-std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const WorkerSettings& settings) {
-    unsigned workers = settings.workers ? settings.workers : std::max(1u, std::thread::hardware_concurrency());
+std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases,
+                                  const WorkerSettings& settings) {
+    unsigned workers =
+        settings.workers ? settings.workers : std::max(1u, std::thread::hardware_concurrency());
     std::vector<CaseResult> results(cases.size());
     std::vector<Running> running;
     ScratchFolder scratch;
@@ -115,7 +116,9 @@ std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const Wor
         last_report = Clock::now();
         if (settings.progress) settings.progress(progress);
     };
-    auto deadline_of = [&](const SuiteCase& c) { return settings.deadline.value_or(case_deadline(c)); };
+    auto deadline_of = [&](const SuiteCase& c) {
+        return settings.deadline.value_or(case_deadline(c));
+    };
     std::size_t next = 0;
     while (next < cases.size() || !running.empty()) {
         while (next < cases.size() && running.size() < workers) {
@@ -171,14 +174,16 @@ std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const Wor
             const SuiteCase& c = cases[r.slot];
             CaseResult result;
             if (r.killed) {
-                result = failed_worker(c, fmt::format("the case did not finish within {:g} s and was stopped",
-                                                      static_cast<double>(deadline_of(c).count()) / 1000));
+                result = failed_worker(
+                    c, fmt::format("the case did not finish within {:g} s and was stopped",
+                                   static_cast<double>(deadline_of(c).count()) / 1000));
             } else {
                 try {
                     result = case_result_from_json(nlohmann::json::parse(r.record));
                 } catch (const std::exception&) {
-                    std::string how = WIFSIGNALED(status) ? fmt::format("killed by signal {}", WTERMSIG(status))
-                                                          : fmt::format("exit status {}", WEXITSTATUS(status));
+                    std::string how = WIFSIGNALED(status)
+                                          ? fmt::format("killed by signal {}", WTERMSIG(status))
+                                          : fmt::format("exit status {}", WEXITSTATUS(status));
                     result = failed_worker(c, "the worker process of this case died (" + how + ")");
                 }
             }

@@ -34,6 +34,7 @@ struct WorkerSettings {
 std::chrono::milliseconds case_deadline(const SuiteCase& c);
 
 // The results in the order of `cases`.
-std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases, const WorkerSettings& settings);
+std::vector<CaseResult> run_cases(const std::vector<SuiteCase>& cases,
+                                  const WorkerSettings& settings);
 
 }  // namespace deckscale

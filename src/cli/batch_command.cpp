@@ -1,11 +1,10 @@
 #include "cli/batch_command.hpp"
 
+#include <fmt/format.h>
 #include <unistd.h>
 
 #include <filesystem>
 #include <iostream>
-
-#include <fmt/format.h>
 
 #include "base/output_file.hpp"
 #include "batch/junit.hpp"
@@ -47,8 +46,10 @@ int finish(const BatchOptions& o, const BatchReport& report, std::ostream& out, 
     bool made_decks = false;
     for (const auto& c : report.cases) made_decks = made_decks || c.scaled.empty();
     if (made_decks && report.unmet() < report.cases.size())
-        err << "deckscale: caution: a verified scaled deck holds ideal values. Before building, choose\n"
-               "  real parts and check their power, voltage and current ratings at the new impedance\n"
+        err << "deckscale: caution: a verified scaled deck holds ideal values. Before building, "
+               "choose\n"
+               "  real parts and check their power, voltage and current ratings at the new "
+               "impedance\n"
                "  level; for mains-connected or high-voltage circuits, local codes and licensed\n"
                "  practice govern.\n";
     if (report.survey) return exit_ok;
@@ -122,13 +123,14 @@ int run_batch(const BatchOptions& o, std::ostream& out, std::ostream& err) {
     settings.workers = o.jobs;
     if (terminal)
         settings.progress = [&](const BatchProgress& p) {
-            err << fmt::format("\r\033[K{}/{} case(s) done, {} unexpected, {} elapsed", p.done, p.total, p.unmet,
-                               clock_text(p.elapsed_s))
+            err << fmt::format("\r\033[K{}/{} case(s) done, {} unexpected, {} elapsed", p.done,
+                               p.total, p.unmet, clock_text(p.elapsed_s))
                 << std::flush;
         };
     auto start = std::chrono::steady_clock::now();
     report.cases = run_cases(cases, settings);
-    report.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    report.seconds =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
     if (terminal) err << "\r\033[K" << std::flush;
     return finish(o, report, out, err);
 }

@@ -20,7 +20,8 @@ CaseResult result(std::size_t index, const std::string& name, CaseOutcome outcom
     r.outcome = outcome;
     r.seconds = 1.5;
     r.worst = "ac v(n2): relative error 0.0102 at 1.6e+07 (tolerance 1e-06)";
-    if (outcome == CaseOutcome::error) r.problems = {"simulating x.cir (ac) failed: timed out: <&\"'>"};
+    if (outcome == CaseOutcome::error)
+        r.problems = {"simulating x.cir (ac) failed: timed out: <&\"'>"};
     return r;
 }
 
@@ -57,16 +58,20 @@ TEST(BatchJunit, ReadBackWithTheRequiredElements) {
         if (auto f = t.child("failure")) {
             ++failures;
             EXPECT_STREQ(f.attribute("message").value(),
-                         "not equivalent; worst ac v(n2): relative error 0.0102 at 1.6e+07 (tolerance 1e-06)");
+                         "not equivalent; worst ac v(n2): relative error 0.0102 at 1.6e+07 "
+                         "(tolerance 1e-06)");
             EXPECT_STREQ(f.attribute("type").value(), "fail");
         }
         if (auto e = t.child("error")) {
             ++errors;
-            EXPECT_STREQ(e.attribute("message").value(), "simulating x.cir (ac) failed: timed out: <&\"'>");
-            EXPECT_NE(std::string(e.child_value()).find("expected: pass, outcome: error"), std::string::npos);
+            EXPECT_STREQ(e.attribute("message").value(),
+                         "simulating x.cir (ac) failed: timed out: <&\"'>");
+            EXPECT_NE(std::string(e.child_value()).find("expected: pass, outcome: error"),
+                      std::string::npos);
         }
     }
-    EXPECT_EQ(names, (std::vector<std::string>{"ok", "broken as meant", "C3 1 % high", "hung <&>"}));
+    EXPECT_EQ(names,
+              (std::vector<std::string>{"ok", "broken as meant", "C3 1 % high", "hung <&>"}));
     EXPECT_EQ(failures, 1);
     EXPECT_EQ(errors, 1);
 }

@@ -9,7 +9,8 @@
 namespace deckscale {
 namespace {
 
-CaseResult result(std::size_t index, const std::string& name, CaseOutcome outcome, Expect expect = Expect::pass) {
+CaseResult result(std::size_t index, const std::string& name, CaseOutcome outcome,
+                  Expect expect = Expect::pass) {
     CaseResult r;
     r.index = index;
     r.name = name;
@@ -19,7 +20,9 @@ CaseResult result(std::size_t index, const std::string& name, CaseOutcome outcom
     r.expect = expect;
     r.outcome = outcome;
     r.seconds = 0.25 * static_cast<double>(index + 1);
-    r.worst = outcome == CaseOutcome::pass || outcome == CaseOutcome::fail ? "ac n2: relative error 0.01" : "";
+    r.worst = outcome == CaseOutcome::pass || outcome == CaseOutcome::fail
+                  ? "ac n2: relative error 0.01"
+                  : "";
     if (outcome == CaseOutcome::refused) r.refusals = {"semiconductor model"};
     if (outcome != CaseOutcome::pass) r.problems = {"why " + name};
     r.report = {{"passed", outcome == CaseOutcome::pass}, {"km", 50}};
@@ -38,9 +41,10 @@ BatchReport shard_of(std::vector<CaseResult> cases, unsigned k, unsigned n, std:
 }
 
 TEST(BatchReport, JsonRoundTripKeepsEveryField) {
-    BatchReport r = shard_of({result(0, "a", CaseOutcome::pass), result(1, "b", CaseOutcome::fail, Expect::fail),
-                              result(2, "c", CaseOutcome::refused), result(3, "d", CaseOutcome::error)},
-                             2, 3, 9);
+    BatchReport r = shard_of(
+        {result(0, "a", CaseOutcome::pass), result(1, "b", CaseOutcome::fail, Expect::fail),
+         result(2, "c", CaseOutcome::refused), result(3, "d", CaseOutcome::error)},
+        2, 3, 9);
     BatchReport back = batch_from_json(batch_json(r));
     EXPECT_EQ(batch_json(back), batch_json(r));
     EXPECT_EQ(back.shard.k, 2u);
@@ -75,14 +79,22 @@ TEST(BatchReport, MergeRefusesReportsThatAreNotOneRun) {
         std::vector<BatchReport> shards;
         std::string message;
     } cases[] = {
-        {__LINE__, {shard_of({a}, 1, 2, 2)}, "the reports hold 1 of the suite's 2 cases: a shard's report is missing"},
+        {__LINE__,
+         {shard_of({a}, 1, 2, 2)},
+         "the reports hold 1 of the suite's 2 cases: a shard's report is missing"},
         {__LINE__, {shard_of({a}, 1, 2, 2), shard_of({a}, 1, 2, 2)}, "shard 1/2 is given twice"},
-        {__LINE__, {shard_of({a}, 1, 2, 2), shard_of({a, b}, 2, 2, 2)}, "case 'a' is in two reports"},
-        {__LINE__, {shard_of({a}, 1, 2, 2), shard_of({b}, 2, 3, 2)},
-         "the reports are not shards of one run: suite 'suite' (2 cases, 2 shards) and suite 'suite' (2 cases, 3 "
+        {__LINE__,
+         {shard_of({a}, 1, 2, 2), shard_of({a, b}, 2, 2, 2)},
+         "case 'a' is in two reports"},
+        {__LINE__,
+         {shard_of({a}, 1, 2, 2), shard_of({b}, 2, 3, 2)},
+         "the reports are not shards of one run: suite 'suite' (2 cases, 2 shards) and suite "
+         "'suite' (2 cases, 3 "
          "shards)"},
-        {__LINE__, {shard_of({a}, 1, 2, 2), other},
-         "the reports are not shards of one run: suite 'suite' (2 cases, 2 shards) and suite 'other' (2 cases, 2 "
+        {__LINE__,
+         {shard_of({a}, 1, 2, 2), other},
+         "the reports are not shards of one run: suite 'suite' (2 cases, 2 shards) and suite "
+         "'other' (2 cases, 2 "
          "shards)"},
         {__LINE__, {}, "no reports to merge"},
     };
@@ -104,14 +116,16 @@ TEST(BatchReport, ReadingRefusesWhatIsNotAReport) {
         {__LINE__, "{", "not JSON: "},
         {__LINE__, "{\"cases\": []}", "not a batch report (no \"format\": \"deckscale-batch\")"},
         {__LINE__, "{\"format\": \"deckscale-batch\", \"version\": 1}", "not a batch report: "},
-        {__LINE__, "{\"format\": \"deckscale-batch\", \"version\": 7}", "report version 7 is not known"},
+        {__LINE__, "{\"format\": \"deckscale-batch\", \"version\": 7}",
+         "report version 7 is not known"},
     };
     for (const auto& c : cases) {
         try {
             batch_from_json(c.text);
             ADD_FAILURE() << "line " << c.line << ": no error";
         } catch (const std::runtime_error& e) {
-            EXPECT_EQ(std::string(e.what()).rfind(c.start, 0), 0u) << "line " << c.line << ": " << e.what();
+            EXPECT_EQ(std::string(e.what()).rfind(c.start, 0), 0u)
+                << "line " << c.line << ": " << e.what();
         }
     }
 }

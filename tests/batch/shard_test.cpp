@@ -1,9 +1,8 @@
 // Shards: K/N parsing, a hash that is the same everywhere, and every case in exactly one shard.
 #include "batch/shard.hpp"
 
-#include <gtest/gtest.h>
-
 #include <fmt/format.h>
+#include <gtest/gtest.h>
 
 #include <map>
 
@@ -17,10 +16,12 @@ TEST(BatchShard, ParsesKOverN) {
         bool ok;
         unsigned k, n;
     } cases[] = {
-        {__LINE__, "1/1", true, 1, 1},   {__LINE__, "3/8", true, 3, 8},  {__LINE__, "8/8", true, 8, 8},
-        {__LINE__, "0/4", false, 0, 0},  {__LINE__, "5/4", false, 0, 0}, {__LINE__, "1/0", false, 0, 0},
-        {__LINE__, "1", false, 0, 0},    {__LINE__, "a/b", false, 0, 0}, {__LINE__, "1/4x", false, 0, 0},
-        {__LINE__, "/4", false, 0, 0},   {__LINE__, "-1/4", false, 0, 0},
+        {__LINE__, "1/1", true, 1, 1},   {__LINE__, "3/8", true, 3, 8},
+        {__LINE__, "8/8", true, 8, 8},   {__LINE__, "0/4", false, 0, 0},
+        {__LINE__, "5/4", false, 0, 0},  {__LINE__, "1/0", false, 0, 0},
+        {__LINE__, "1", false, 0, 0},    {__LINE__, "a/b", false, 0, 0},
+        {__LINE__, "1/4x", false, 0, 0}, {__LINE__, "/4", false, 0, 0},
+        {__LINE__, "-1/4", false, 0, 0},
     };
     for (const auto& c : cases) {
         auto s = parse_shard(c.text);
@@ -54,11 +55,13 @@ TEST(BatchShard, EveryCaseIsInExactlyOneShard) {
             // No shard is empty or holds most of the suite for these sizes.
             EXPECT_GT(part.size(), cases.size() / n / 3) << k << "/" << n;
             EXPECT_LT(part.size(), cases.size() / n * 3) << k << "/" << n;
-            for (std::size_t i = 1; i < part.size(); ++i) EXPECT_LT(part[i - 1].index, part[i].index);
+            for (std::size_t i = 1; i < part.size(); ++i)
+                EXPECT_LT(part[i - 1].index, part[i].index);
             for (const auto& c : part) ++seen[c.index];
         }
         ASSERT_EQ(seen.size(), cases.size()) << "n = " << n;
-        for (const auto& [index, count] : seen) EXPECT_EQ(count, 1) << "case " << index << ", n = " << n;
+        for (const auto& [index, count] : seen)
+            EXPECT_EQ(count, 1) << "case " << index << ", n = " << n;
     }
 }
 
@@ -70,7 +73,8 @@ TEST(BatchShard, TheShardOfACaseDoesNotDependOnTheOtherCases) {
         auto alone = shard_cases({a}, {static_cast<unsigned>(case_hash("ladder") % n) + 1, n});
         ASSERT_EQ(alone.size(), 1u);
         auto both = shard_cases({b, a}, {static_cast<unsigned>(case_hash("ladder") % n) + 1, n});
-        EXPECT_TRUE(std::any_of(both.begin(), both.end(), [](const SuiteCase& c) { return c.name == "ladder"; }));
+        EXPECT_TRUE(std::any_of(both.begin(), both.end(),
+                                [](const SuiteCase& c) { return c.name == "ladder"; }));
     }
 }
 

@@ -16,7 +16,8 @@ CaseResult result(std::size_t index, const std::string& name, CaseOutcome outcom
     r.outcome = outcome;
     r.worst = "ac out: relative error 1e-09 (tolerance 1e-06)";
     r.refusals = std::move(refusals);
-    if (outcome == CaseOutcome::error) r.problems = {"a.cir:3:1: error: bad number\n  R1 a 0 1..k\n  ^"};
+    if (outcome == CaseOutcome::error)
+        r.problems = {"a.cir:3:1: error: bad number\n  R1 a 0 1..k\n  ^"};
     if (outcome == CaseOutcome::refused) r.problems = {"some item(s) cannot be scaled exactly"};
     return r;
 }
@@ -31,15 +32,17 @@ TEST(BatchSummary, SuiteListsOnlyTheCasesThatMissedTheirExpectation) {
                result(2, "off", CaseOutcome::fail, Expect::pass),
                result(3, "bad", CaseOutcome::error, Expect::pass)};
     EXPECT_EQ(summary_text(r),
-              "UNEXPECTED off: expected pass, got fail: worst ac out: relative error 1e-09 (tolerance 1e-06)\n"
+              "UNEXPECTED off: expected pass, got fail: worst ac out: relative error 1e-09 "
+              "(tolerance 1e-06)\n"
               "UNEXPECTED bad: expected pass, got error: a.cir:3:1: error: bad number\n"
               "4 case(s): 1 equivalent, 2 not equivalent, 0 refused, 1 error(s); 2.0 s\n"
               "FAIL: 2 case(s) did not meet their expectation\n");
     r.cases.resize(2);
     r.shard = {2, 3};
-    EXPECT_EQ(summary_text(r),
-              "2 case(s) (shard 2/3 of 4): 1 equivalent, 1 not equivalent, 0 refused, 0 error(s); 2.0 s\n"
-              "PASS: every case met its expectation\n");
+    EXPECT_EQ(
+        summary_text(r),
+        "2 case(s) (shard 2/3 of 4): 1 equivalent, 1 not equivalent, 0 refused, 0 error(s); 2.0 s\n"
+        "PASS: every case met its expectation\n");
 }
 
 TEST(BatchSummary, SurveyGroupsRefusalsByReason) {
