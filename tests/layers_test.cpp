@@ -33,8 +33,9 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"retarget", {"base", "deck", "write", "scale", "sim", "verify", "values"}},
     {"yield", {"base", "deck", "sim", "verify"}},
     {"stress", {"base", "deck", "sim", "verify"}},
+    {"batch", {"base", "deck", "write", "scale", "sim", "verify"}},
     {"cli", {"base", "deck", "write", "scale", "sim", "verify", "values", "retarget", "yield",
-             "stress"}},
+             "stress", "batch"}},
 };
 
 struct SourceText {

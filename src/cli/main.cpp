@@ -3,6 +3,7 @@
 #include <string>
 #include <vector>
 
+#include "cli/batch_command.hpp"
 #include "cli/exit_codes.hpp"
 #include "cli/interrupts.hpp"
 #include "cli/options.hpp"
@@ -39,6 +40,8 @@ int main(int argc, char** argv) {
             return run_retarget(inv.retarget, std::cout, std::cerr);
         case Invocation::What::snap:
             return run_snap(inv.snap, std::cout, std::cerr);
+        case Invocation::What::batch:
+            return run_batch(inv.batch, std::cout, std::cerr);
     }
     return exit_bad_input;
 }

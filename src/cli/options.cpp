@@ -3,6 +3,7 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include "batch/shard.hpp"
 #include "scale/factor.hpp"
 
 namespace deckscale {
@@ -206,6 +207,25 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                      "Megabytes of address space one simulation may use "
                      "(default 8192; 0: no limit)");
 
+    auto* batch = app.add_subcommand(
+        "batch",
+        "Run a regression suite (SUITE.toml), survey a folder of decks, or merge shard reports");
+    BatchOptions& b = inv.batch;
+    batch->add_option("SUITE", b.inputs,
+                      "The suite file, or a folder of decks to survey; with --merge: the "
+                      "shards' JSON reports")
+        ->required();
+    batch->add_option("-j,--jobs", b.jobs,
+                      "Cases run at once, each in a worker process (default: one per core)")
+        ->check(CLI::Range(1u, 1024u));
+    batch->add_option("--junit", b.junit, "Write a JUnit XML report to this file");
+    batch->add_option("--json", b.json, "Write the JSON report (every figure) to this file");
+    batch->add_option("--shard", b.shard_text,
+                      "Run only shard K of N (cases chosen by a hash of their name)");
+    batch->add_flag("--merge", b.merge, "Merge the JSON reports of all shards into one report");
+    batch->add_option("--km", b.km_text, "Survey: the impedance factor to try (default 10)");
+    batch->add_option("--kf", b.kf_text, "Survey: the frequency factor to try (default 1k)");
+
     std::vector<std::string> reversed(args.rbegin(), args.rend());
     try {
         app.parse(reversed);
@@ -271,6 +291,23 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     }
     if (snap->parsed()) {
         inv.what = Invocation::What::snap;
+        return inv;
+    }
+    if (batch->parsed()) {
+        inv.what = Invocation::What::batch;
+        if (auto err = take_factor("--km", b.km_text, b.km); !err.empty()) return usage(err);
+        if (auto err = take_factor("--kf", b.kf_text, b.kf); !err.empty()) return usage(err);
+        if (!b.merge && b.inputs.size() != 1)
+            return usage("batch takes one suite file or folder (several files only with --merge)");
+        if (!b.shard_text.empty()) {
+            auto shard = parse_shard(b.shard_text);
+            if (!shard)
+                return usage(
+                    fmt::format("--shard: '{}' is not K/N with 1 <= K <= N", b.shard_text));
+            if (b.merge) return usage("--shard and --merge exclude each other");
+            b.shard_k = shard->k;
+            b.shard_n = shard->n;
+        }
         return inv;
     }
     inv.what = Invocation::What::help;

@@ -98,9 +98,20 @@ struct SnapOptions {
     std::uint64_t memory_mb = 8192;
 };
 
+struct BatchOptions {
+    std::vector<std::string> inputs;  // the suite file or a folder to survey; --merge: reports
+    unsigned jobs = 0;                // -j N worker processes (0: one per core)
+    std::string junit, json;          // --junit FILE, --json FILE
+    std::string shard_text;           // --shard K/N as written ("" = all cases)
+    unsigned shard_k = 1, shard_n = 1;
+    bool merge = false;               // --merge: the inputs are shards' JSON reports
+    double km = 10, kf = 1000;        // survey factors (--km, --kf)
+    std::string km_text = "10", kf_text = "1k";
+};
+
 struct Invocation {
     enum class What {
-        help, version, scale, verify, retarget, snap, yield, stress, usage_error
+        help, version, scale, verify, retarget, snap, yield, stress, batch, usage_error
     } what = What::help;
     std::string text;  // help text or the usage error
     ScaleOptions scale;
@@ -109,6 +120,7 @@ struct Invocation {
     SnapOptions snap;
     YieldOptions yield;
     StressOptions stress;
+    BatchOptions batch;
 };
 
 // args excludes the program name.
