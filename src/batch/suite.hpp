@@ -16,8 +16,8 @@
 namespace deckscale {
 
 // What a case compares the deck with. One alternative per kind of target: a new kind (e.g.
-// retarget targets) is one more struct here, one more branch in read_case_target
-// (batch/suite.cpp) and one in prepare_scaled (batch/case_run.cpp).
+// retarget targets) is one more struct here, one more branch in read_setting and read_case
+// (batch/suite.cpp) and one in run_case (batch/case_run.cpp).
 struct FactorTarget {
     double km = 1, kf = 1;
     std::string km_text = "1", kf_text = "1";  // as written in the suite
