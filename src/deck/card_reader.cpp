@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <vector>
 
+#include <fmt/format.h>
+
 #include "grammar/deck_errors.hpp"
 #include "grammar/deck_grammar.hpp"
 
@@ -183,8 +185,35 @@ std::uint32_t opening_of_unclosed(std::string_view text, std::uint32_t at, const
     return at;
 }
 
+// The grammar reads nested braces by recursion; deeper nesting than this is refused before
+// parsing so that no input can overflow the stack (each level costs a few stack frames, more
+// under sanitizers). A line end ends the nesting unless a '+' continuation line follows.
+constexpr int kMaxBraceDepth = 256;
+
+void check_brace_depth(const SourceFile& file, std::size_t from) {
+    std::string_view t = file.text();
+    int depth = 0;
+    for (std::size_t i = from; i < t.size(); ++i) {
+        char c = t[i];
+        if (c == '{') {
+            if (++depth > kMaxBraceDepth)
+                throw DeckError(file.diagnose(
+                    Severity::error, static_cast<std::uint32_t>(i), 1,
+                    fmt::format("braces nested more than {} deep: deckscale does not read this",
+                                kMaxBraceDepth)));
+        } else if (c == '}') {
+            if (depth > 0) --depth;
+        } else if (c == '\n' && depth > 0) {
+            std::size_t j = i + 1;
+            while (j < t.size() && (t[j] == ' ' || t[j] == '\t')) ++j;
+            if (j >= t.size() || t[j] != '+') depth = 0;
+        }
+    }
+}
+
 template <typename Grammar>
 std::uint32_t run(const SourceFile& file, const CardVisitor& visit, ReadSpan span) {
+    check_brace_depth(file, span.from);
     ReaderState st{&file, &visit, file.text().data(), span.stop_at, {}, {}};
     std::string_view rest = file.text().substr(span.from);
     pg::memory_input<pg::tracking_mode::lazy, pg::eol::lf_crlf> in(rest.data(), rest.size(),

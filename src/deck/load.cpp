@@ -47,6 +47,14 @@ public:
 
     std::size_t load(const std::string& path, FileRole role, const SourceFile* from,
                      const Token* from_token) {
+        // Includes are followed by recursion: a chain deeper than this is refused rather than
+        // allowed to overflow the stack (the same limit as GCC's #include depth).
+        constexpr std::size_t kMaxIncludeDepth = 200;
+        if (from && include_depth_ > kMaxIncludeDepth)
+            throw DeckError(from->diagnose(
+                Severity::error, from_token->begin, from_token->size(),
+                fmt::format("includes nested more than {} deep: deckscale does not follow them",
+                            kMaxIncludeDepth)));
         std::string id = fs_.identity(path);
         // A file is read once; cycles are looked for in the (file, section) graph at the end.
         if (auto it = loaded_.find(id); it != loaded_.end()) return it->second;
@@ -89,6 +97,7 @@ public:
     }
 
 private:
+    std::size_t include_depth_ = 0;  // includes being followed right now
     void check_file(std::size_t index) {
         const SourceFile& file = *deck_.files[index].source;
         FileRole role = deck_.files[index].role;
@@ -210,7 +219,9 @@ private:
                     break;
                 }
         }
+        ++include_depth_;
         ref.target_file = load(path, FileRole::include, c.file, &path_token);
+        --include_depth_;
         edges_.push_back(IncludeEdge{index, section, ref.target_file, to_lower(ref.section)});
         edge_paths_.push_back(path);
         deck_.includes.push_back(ref);

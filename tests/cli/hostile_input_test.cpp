@@ -42,9 +42,15 @@ TEST(HostileInput, EachEndsWithAnExitCodeAndNoSignal) {
         {__LINE__, "10,000 nested parentheses",
          "t\nR1 a 0 {" + std::string(10000, '(') + "1k" + std::string(10000, ')') + "}\n.end\n",
          exit_ok, ""},
+        // Braces are read by recursion: nesting beyond 256 is refused before it can overflow
+        // the stack (it did, under AddressSanitizer's larger frames).
         {__LINE__, "10,000 nested braces",
          "t\n.param p={" + std::string(10000, '{') + "1" + std::string(10000, '}') +
              "}\nR1 a 0 1k\n.end\n",
+         exit_bad_input, "d.cir:2:266: error: braces nested more than 256 deep"},
+        {__LINE__, "256 nested braces",
+         "t\n.param p=" + std::string(256, '{') + "1" + std::string(256, '}') +
+             "\nR1 a 0 {p}\n.end\n",
          exit_ok, ""},
         {__LINE__, "invalid UTF-8", "t\nR1 a 0 1k \xff\xfe\n.end\n", exit_refused,
          "is neither a value, a parameter nor a model"},
@@ -67,12 +73,29 @@ TEST(HostileInput, EachEndsWithAnExitCodeAndNoSignal) {
     }
 }
 
-TEST(HostileInput, AnIncludeChainAThousandDeep) {
+// Includes are followed by recursion: a chain deeper than 200 (GCC's #include limit) is refused
+// with its location; one of 200 is read (a chain of 1,000 overflowed the stack under
+// AddressSanitizer).
+TEST(HostileInput, AnIncludeChainAThousandDeepIsRefusedTwoHundredIsRead) {
     test::TempDir dir;
     fs::create_directory(dir.file("chain"));
     for (int i = 0; i < 1000; ++i)
         test::write_bytes(dir.file("chain/i" + std::to_string(i) + ".inc"),
                           i < 999 ? ".include i" + std::to_string(i + 1) + ".inc\n" : "R9 a 0 1k\n");
+    test::write_bytes(dir.file("d.cir"), "t\n.include chain/i0.inc\n.end\n");
+    auto r = test::run_binary({"scale", "d.cir", "--km", "2", "--kf", "3"}, dir.path());
+    EXPECT_EQ(r.exit_code, exit_bad_input);
+    EXPECT_NE(r.err.find("i199.inc:1:10: error: includes nested more than 200 deep"),
+              std::string::npos)
+        << r.err.substr(0, 2000);
+}
+
+TEST(HostileInput, AnIncludeChainTwoHundredDeep) {
+    test::TempDir dir;
+    fs::create_directory(dir.file("chain"));
+    for (int i = 0; i < 200; ++i)
+        test::write_bytes(dir.file("chain/i" + std::to_string(i) + ".inc"),
+                          i < 199 ? ".include i" + std::to_string(i + 1) + ".inc\n" : "R9 a 0 1k\n");
     test::write_bytes(dir.file("d.cir"), "t\n.include chain/i0.inc\n.end\n");
     auto r = test::run_binary({"scale", "d.cir", "--km", "2", "--kf", "3", "--flatten", "-o",
                                "out.cir"},
