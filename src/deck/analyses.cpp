@@ -50,7 +50,7 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
         error = "the sweep must have at least one point and 0 < fstart <= fstop";
         return std::nullopt;
     }
-    s.points = static_cast<long>(*n);
+    s.points = clamped_long(*n);
     s.fstart = *f1;
     s.fstop = *f2;
     s.points_text = w[1];

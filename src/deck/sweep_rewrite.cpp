@@ -130,7 +130,7 @@ SweepRewrite rewrite_frequencies(SweepKind kind, const std::vector<std::string_v
         // acan.c:89: floor(N * |log10(fstop / fstart)|) points decide everything. Keep that
         // product in the original's integer interval, 4 ulps from its ends (another libm's
         // log10 agrees then) unless the original sits closer, or keep the ratio bit for bit.
-        double nn = static_cast<double>(std::max(static_cast<long>(std::floor(0.5 + n)), 1L));
+        double nn = static_cast<double>(std::max(count_field(n), 1L));
         double p0 = std::fabs(std::log10(x1 / x0)) * nn;
         double k = std::floor(p0), m = 4 * ulp(std::max(k, 1.0));
         double lo = p0 >= k + m ? k + m : k, hi = p0 < k + 1 - m ? k + 1 - m : k + 1;

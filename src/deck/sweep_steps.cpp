@@ -80,10 +80,18 @@ double ngspice_read(std::string_view s) {
     return (sign * m) * std::pow(10.0, static_cast<double>(e));
 }
 
-namespace {
+long clamped_long(double f) {
+    if (!(f < 9.2e18)) return std::numeric_limits<long>::max();  // NaN too
+    if (!(f > -9.2e18)) return std::numeric_limits<long>::min();
+    return static_cast<long>(f);
+}
 
 // Integer fields are read as floor(0.5 + value) (ngspice-39.3 src/spicelib/parser/inpgval.c:31).
-long count_field(double v) { return static_cast<long>(std::floor(0.5 + v)); }
+// A count beyond a long is clamped; the point limit then stops the sweep.
+long count_field(double v) { return clamped_long(std::floor(0.5 + v)); }
+
+namespace {
+
 
 // Pushes a point; false (and `endless` set) once the limit is passed.
 bool push(SweepPoints& p, double v) {
@@ -182,7 +190,7 @@ SweepPoints dc_points(double start, double stop, double step) {
 long linearize_points(double tstep, double tstop, double tstart) {
     // linear.c:85-108: refused unless (tstop - tstart) * tstep > 0 and tstop - tstart >= tstep.
     if (!((tstop - tstart) * tstep > 0) || tstop - tstart < tstep) return 0;
-    return static_cast<long>((tstop - tstart) / tstep + 1.5);
+    return clamped_long((tstop - tstart) / tstep + 1.5);
 }
 
 }  // namespace deckscale

@@ -34,4 +34,11 @@ SweepPoints dc_points(double start, double stop, double step);
 // Number of points `linearize` makes of a transient; 0 when it refuses the times.
 long linearize_points(double tstep, double tstop, double tstart);
 
+// A double as a long, clamped to the long's range (NaN as the largest): a conversion out of
+// range would be undefined.
+long clamped_long(double v);
+// An integer field as ngspice reads it: floor(0.5 + value), clamped (a count beyond a long,
+// ".ac lin 2e40 ...", was found by the deck fuzz target).
+long count_field(double v);
+
 }  // namespace deckscale

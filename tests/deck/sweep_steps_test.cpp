@@ -8,6 +8,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <limits>
 #include <string>
 
 namespace deckscale {
@@ -102,6 +103,22 @@ TEST(SweepSteps, LinearizeCountsLikeNgspice) {
     EXPECT_EQ(linearize_points(2e-6, 3e-3, 1e-3), 1001);
     EXPECT_EQ(linearize_points(1e-3, 1e-6, 0), 0);  // tstop - tstart < tstep: refused
     EXPECT_EQ(linearize_points(0, 1e-3, 0), 0);
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Counts beyond a long are clamped, never converted (undefined behaviour; an ".ac lin 2e40"
+// card found by the deck fuzz target).
+TEST(SweepSteps, CountsBeyondALongAreClamped) {
+    EXPECT_EQ(count_field(20.4), 20);
+    EXPECT_EQ(count_field(20.5), 21);  // floor(0.5 + value), inpgval.c:31
+    EXPECT_EQ(count_field(2e40), std::numeric_limits<long>::max());
+    EXPECT_EQ(count_field(-2e40), std::numeric_limits<long>::min());
+    EXPECT_EQ(clamped_long(std::nan("")), std::numeric_limits<long>::max());
 }
 
 }  // namespace
