@@ -238,7 +238,12 @@ void scale_controlled(ScalePass& p, char letter) {
             if (i + 1 >= atoms.size() || !atoms[i + 1].value) p.fail(*a.value, "POLY without a dimension");
             auto nd_parse = parse_spice_number(p.text(*atoms[i + 1].value));
             if (!nd_parse.number) p.fail(*atoms[i + 1].value, "POLY dimension must be a number");
-            int nd = static_cast<int>(nd_parse.number->value);
+            // A whole number of controlling inputs; a huge or non-positive one (found by the
+            // deck fuzz target) would overflow or never end the degree count.
+            double nd_value = nd_parse.number->value;
+            if (!(nd_value >= 1 && nd_value <= 1000) || nd_value != std::floor(nd_value))
+                p.fail(*atoms[i + 1].value, "POLY dimension must be a whole number from 1 to 1000");
+            int nd = static_cast<int>(nd_value);
             std::size_t inputs = current_in ? nd : 2 * nd;
             std::size_t k = 0;
             for (std::size_t j = i + 2 + inputs; j < atoms.size(); ++j, ++k) {

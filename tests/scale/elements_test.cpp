@@ -45,3 +45,27 @@ TEST(Elements, ModelNameOfACapacitorOrInductorComesBeforeItsValue) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// A POLY dimension that is not a whole number from 1 to 1000 is bad input: POLY(0) with
+// coefficients counted degrees forever (found by the deck fuzz target as an int overflow).
+TEST(Elements, PolyDimensionOutOfRangeIsBadInput) {
+    for (const char* card : {"E1 a 0 POLY(0) b 0 1 2", "E1 a 0 POLY(2147483648) b 0 1 2",
+                             "E1 a 0 POLY(1.5) b 0 1 2", "E1 a 0 POLY(-1) b 0 1 2"}) {
+        SCOPED_TRACE(card);
+        try {
+            test::scale_text(std::string("t\n") + card + "\n.end\n", 2, 1);
+            ADD_FAILURE() << "not refused";
+        } catch (const DeckError& e) {
+            EXPECT_NE(render(e.diagnostic()).find("POLY dimension must be a whole number from 1 "
+                                                  "to 1000"),
+                      std::string::npos)
+                << render(e.diagnostic());
+        }
+    }
+}
+
+}  // namespace
+}  // namespace deckscale
