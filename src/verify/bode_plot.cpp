@@ -4,15 +4,10 @@
 #include <filesystem>
 #include <numbers>
 
-#include <fcntl.h>
-#include <spawn.h>
-#include <sys/wait.h>
-
 #include <fmt/format.h>
 
+#include "base/gnuplot.hpp"
 #include "base/output_file.hpp"
-
-extern char** environ;
 
 namespace deckscale {
 namespace {
@@ -21,33 +16,6 @@ namespace fs = std::filesystem;
 
 double db(std::complex<double> x) { return 20 * std::log10(std::max(std::abs(x), 1e-300)); }
 double deg(std::complex<double> x) { return std::arg(x) * 180 / std::numbers::pi; }
-
-std::string quote(const std::string& s) {
-    std::string out = "'";
-    for (char c : s) out += c == '\'' ? std::string("''") : std::string(1, c);
-    return out + "'";
-}
-
-// Runs gnuplot on a script; returns an error text or "".
-std::string run_gnuplot(const std::string& script, const std::string& dir) {
-    std::string prog = "gnuplot";
-    std::vector<char*> argv{prog.data(), const_cast<char*>(script.c_str()), nullptr};
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
-#if defined(__GLIBC__) && (__GLIBC__ > 2 || (__GLIBC__ == 2 && __GLIBC_MINOR__ >= 29))
-    posix_spawn_file_actions_addchdir_np(&fa, dir.c_str());
-#endif
-    pid_t pid;
-    int rc = posix_spawnp(&pid, prog.c_str(), &fa, nullptr, argv.data(), environ);
-    posix_spawn_file_actions_destroy(&fa);
-    if (rc != 0) return "cannot run gnuplot (install the gnuplot-nox package; scripts/setup does)";
-    int status = 0;
-    waitpid(pid, &status, 0);
-    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0)
-        return fmt::format("gnuplot failed on {}", script);
-    return "";
-}
 
 }  // namespace
 
@@ -91,7 +59,7 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     gp += "set terminal svg size 900,900 dynamic noenhanced font 'sans,11' background '#ffffff'\n";
     // gnuplot writes a temporary file that is renamed once complete.
     std::string tmp_svg = "." + svg.filename().string() + ".part";
-    gp += "set output " + quote(tmp_svg) + "\n";
+    gp += "set output " + gnuplot_quote(tmp_svg) + "\n";
     gp += "set multiplot layout 3,1\n";
     gp += "set logscale x\nset grid\nset key inside top right opaque box\nset format x '%.0s%c'\n";
     // Fixed margins: the panels share one frequency axis whatever their keys and labels hold.
@@ -107,21 +75,21 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
         gp += fmt::format(
             "set arrow from {0:.17g}, graph 0 to {0:.17g}, graph 1 nohead dt 2 lw 1.5 lc rgb "
             "'#000000'\nset label {1} at {0:.17g}, graph 0.06 offset 0.5,0\n",
-            r.mark_hz, quote(r.mark_label));
+            r.mark_hz, gnuplot_quote(r.mark_label));
     // The title and the top axis's label on the first panel, the bottom axis's on the last.
     gp += "set xlabel ''\nset x2label " +
-          quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
+          gnuplot_quote(r.title + "; top axis: frequency of the original deck / Hz") + "\n";
     auto series = [&](int col_o, int col_s, const char* what) {
         std::string cmd = "plot ";
         for (std::size_t i = 0; i < vo.size(); ++i) {
             int base = 2 + static_cast<int>(i) * 5;
             if (i) cmd += ", \\\n     ";
             cmd += fmt::format("{} using {}:{} with lines lw 4 lc rgb '#9ecae1' title {}",
-                               quote(dat_name), x, base + col_o,
-                               quote(r.vectors[i] + " " + r.original_label + " " + what));
+                               gnuplot_quote(dat_name), x, base + col_o,
+                               gnuplot_quote(r.vectors[i] + " " + r.original_label + " " + what));
             cmd += fmt::format(", {} using {}:{} with lines lw 1 lc rgb '#d95f02' title {}",
-                               quote(dat_name), x, base + col_s,
-                               quote(r.vectors[i] + " " + r.scaled_label + " " + what));
+                               gnuplot_quote(dat_name), x, base + col_s,
+                               gnuplot_quote(r.vectors[i] + " " + r.scaled_label + " " + what));
         }
         return cmd + "\n";
     };
@@ -132,8 +100,8 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     for (std::size_t i = 0; i < vo.size(); ++i) {
         if (i) gp += ", \\\n     ";
         gp +=
-            fmt::format("{} using {}:{} with lines lw 2 lc rgb '#7b3294' title {}", quote(dat_name),
-                        x, 2 + static_cast<int>(i) * 5 + 4, quote(r.vectors[i] + " error"));
+            fmt::format("{} using {}:{} with lines lw 2 lc rgb '#7b3294' title {}", gnuplot_quote(dat_name),
+                        x, 2 + static_cast<int>(i) * 5 + 4, gnuplot_quote(r.vectors[i] + " error"));
     }
     gp += "\nunset multiplot\n";
     if (auto e = write_file_atomically((dir / dat_name).string(), data); !e.empty()) return e;

@@ -1,48 +1,18 @@
 #include "yield/plot.hpp"
 
-#include <fcntl.h>
 #include <fmt/format.h>
-#include <spawn.h>
-#include <sys/wait.h>
 
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
 
+#include "base/gnuplot.hpp"
 #include "base/output_file.hpp"
-
-extern char** environ;
 
 namespace deckscale {
 namespace {
 
 namespace fs = std::filesystem;
-
-std::string quote(const std::string& s) {
-    std::string out = "'";
-    for (char c : s) out += c == '\'' ? std::string("''") : std::string(1, c);
-    return out + "'";
-}
-
-// Runs gnuplot on a script in `dir`; returns an error text or "". (The same as the Bode
-// plot's runner in verify/bode_plot.cpp, which keeps its own private.)
-std::string run_gnuplot(const std::string& script, const std::string& dir) {
-    std::string prog = "gnuplot";
-    std::vector<char*> argv{prog.data(), const_cast<char*>(script.c_str()), nullptr};
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
-    posix_spawn_file_actions_addchdir_np(&fa, dir.c_str());
-    pid_t pid;
-    int rc = posix_spawnp(&pid, prog.c_str(), &fa, nullptr, argv.data(), environ);
-    posix_spawn_file_actions_destroy(&fa);
-    if (rc != 0) return "cannot run gnuplot (install the gnuplot-nox package; scripts/setup does)";
-    int status = 0;
-    waitpid(pid, &status, 0);
-    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0)
-        return fmt::format("gnuplot failed on {}", script);
-    return "";
-}
 
 // Writes the data and the script, runs gnuplot, renames its output into place.
 std::string draw(const std::string& svg_path, const std::string& data, const std::string& body) {
@@ -54,8 +24,8 @@ std::string draw(const std::string& svg_path, const std::string& data, const std
     std::string gp =
         "# gnuplot script written by deckscale yield; edit and rerun: gnuplot " + gp_name + "\n";
     gp += "set terminal svg size 900,700 dynamic noenhanced font 'sans,11' background '#ffffff'\n";
-    gp += "set output " + quote(tmp_svg) + "\n";
-    gp += "data = " + quote(dat) + "\n" + body;
+    gp += "set output " + gnuplot_quote(tmp_svg) + "\n";
+    gp += "data = " + gnuplot_quote(dat) + "\n" + body;
     if (auto e = write_file_atomically((dir / dat).string(), data); !e.empty()) return e;
     if (auto e = write_file_atomically((dir / gp_name).string(), gp); !e.empty()) return e;
     if (auto e = run_gnuplot(gp_name, dir.string()); !e.empty()) return e;
@@ -83,16 +53,16 @@ std::string write_envelope_plot(const YieldResult& r, const std::string& svg_pat
                             r.low_db[k], r.high_db[k], number_or_nan(r.mask_low[k]),
                             number_or_nan(r.mask_high[k]));
     // Columns 7..10: the envelope and the mask relative to the nominal, for the lower panel.
-    std::string gp = "set multiplot layout 2,1 title " + quote(title) + "\n";
+    std::string gp = "set multiplot layout 2,1 title " + gnuplot_quote(title) + "\n";
     gp +=
         "set logscale x\nset grid\nset key bottom left\nset format x '%.0s%c'\nset xlabel "
         "'frequency / Hz'\n";
     if (r.frequency.size() > 1)
         gp +=
             fmt::format("set xrange [{:.10e}:{:.10e}]\n", r.frequency.front(), r.frequency.back());
-    gp += "set ylabel " + quote("|" + r.output + "| / dB") + "\n";
+    gp += "set ylabel " + gnuplot_quote("|" + r.output + "| / dB") + "\n";
     gp += "plot data using 1:3:4 with filledcurves lc rgb '#9ecae1' title " +
-          quote(fmt::format("envelope of {} trials", r.trials.size())) +
+          gnuplot_quote(fmt::format("envelope of {} trials", r.trials.size())) +
           ", \\\n     data using 1:2 with lines lw 2 lc rgb '#08519c' title 'nominal'" +
           ", \\\n     data using 1:5 with lines lw 2 dt 2 lc rgb '#d95f02' title 'mask'" +
           ", \\\n     data using 1:6 with lines lw 2 dt 2 lc rgb '#d95f02' notitle\n";
@@ -124,20 +94,20 @@ std::string write_histogram(const YieldResult& r, const std::string& svg_path,
                                    corner ? "corner/Hz" : "deviation/dB");
     for (std::size_t b = 0; b < bins; ++b)
         data += fmt::format("{:.10e} {}\n", *lo + (static_cast<double>(b) + 0.5) * width, count[b]);
-    std::string gp = "set title " + quote(title) + "\n";
+    std::string gp = "set title " + gnuplot_quote(title) + "\n";
     gp +=
         "set grid ytics\nset format x '%.3s%c'\nset style fill solid 0.6 border lc rgb "
         "'#08519c'\nset boxwidth " +
         fmt::format("{:.10e}", width * 0.9) + "\n";
     gp += std::string("set xlabel ") +
-          quote(corner ? "-3 dB corner / Hz" : "largest deviation from nominal / dB") +
+          gnuplot_quote(corner ? "-3 dB corner / Hz" : "largest deviation from nominal / dB") +
           "\nset ylabel 'trials'\nset yrange [0:*]\n";
     if (corner && r.nominal.corner_hz)
         gp += fmt::format(
             "set arrow from {:.10e}, graph 0 to {:.10e}, graph 1 nohead lw 2 lc rgb '#d95f02'\n",
             *r.nominal.corner_hz, *r.nominal.corner_hz);
     gp += "plot data using 1:2 with boxes lc rgb '#6baed6' title " +
-          quote(corner ? "trials (line: nominal corner)" : "trials") + "\n";
+          gnuplot_quote(corner ? "trials (line: nominal corner)" : "trials") + "\n";
     return draw(svg_path, data, gp);
 }
 
