@@ -56,6 +56,14 @@ void add_yield_options(CLI::App& c, YieldOptions& y) {
                  "Megabytes of address space per simulator process (default 8192)");
 }
 
+// --sim-timeout and --sim-memory, the same on every command that simulates.
+void add_sim_limits(CLI::App& c, double& timeout_s, std::uint64_t& memory_mb) {
+    c.add_option("--sim-timeout", timeout_s, "Seconds one simulation may take (default 60)")
+        ->check(CLI::PositiveNumber);
+    c.add_option("--sim-memory", memory_mb,
+                 "Megabytes of address space one simulation may use (default 8192; 0: no limit)");
+}
+
 }  // namespace
 
 Invocation parse_command_line(const std::vector<std::string>& args) {
@@ -105,11 +113,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     verify->add_option("--tran-tolerance", v.tran_tolerance,
                        "Tolerance for transients, relative to each waveform's peak (default 1e-3)")
         ->check(CLI::PositiveNumber);
-    verify->add_option("--sim-timeout", v.timeout_s, "Seconds one simulation may take (default 60)")
-        ->check(CLI::PositiveNumber);
-    verify->add_option("--sim-memory", v.memory_mb,
-                       "Megabytes of address space one simulation may use (default 8192; 0: no "
-                       "limit)");
+    add_sim_limits(*verify, v.timeout_s, v.memory_mb);
 
     auto* yield = app.add_subcommand(
         "yield", "Monte Carlo tolerance yield of a deck against a response mask");
@@ -128,11 +132,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     stress->add_option("--rating", st.ratings,
                        "Ratings per kind or part, e.g. R=0.25W,C=50V,L=1A,R3=1W");
     stress->add_option("--json", st.json, "Write the table as JSON to this file");
-    stress
-        ->add_option("--sim-timeout", st.timeout_s, "Seconds one simulation may take (default 60)")
-        ->check(CLI::PositiveNumber);
-    stress->add_option("--sim-memory", st.memory_mb,
-                       "Megabytes of address space per simulation (default 8192)");
+    add_sim_limits(*stress, st.timeout_s, st.memory_mb);
 
     auto* retarget = app.add_subcommand(
         "retarget",
@@ -177,12 +177,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                          "The independent source that drives the response (gets AC 1)");
     retarget->add_option("--digits", t.digits, "Significant digits of rewritten values (default 9)")
         ->check(CLI::Range(3, 17));
-    retarget
-        ->add_option("--sim-timeout", t.timeout_s, "Seconds one simulation may take (default 60)")
-        ->check(CLI::PositiveNumber);
-    retarget->add_option("--sim-memory", t.memory_mb,
-                         "Megabytes of address space one simulation may use "
-                         "(default 8192; 0: no limit)");
+    add_sim_limits(*retarget, t.timeout_s, t.memory_mb);
 
     auto* snap = app.add_subcommand(
         "snap", "Round every R, C and L to preferred values (IEC 60063 E series)");
@@ -201,11 +196,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
         ->expected(4);
     snap->add_option("--drive", n.drive,
                      "The independent source that drives the response (gets AC 1)");
-    snap->add_option("--sim-timeout", n.timeout_s, "Seconds one simulation may take (default 60)")
-        ->check(CLI::PositiveNumber);
-    snap->add_option("--sim-memory", n.memory_mb,
-                     "Megabytes of address space one simulation may use "
-                     "(default 8192; 0: no limit)");
+    add_sim_limits(*snap, n.timeout_s, n.memory_mb);
 
     auto* batch = app.add_subcommand(
         "batch",
