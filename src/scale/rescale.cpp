@@ -241,6 +241,11 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
                          std::string_view unit) {
     std::string_view s = card_->text(t);
     if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
+        if (s.find_first_not_of(" \t\r\n+", 1) >= s.size() - 1)
+            // Two halves of a wrap at one offset would also be ambiguous for the writer.
+            fail(t, fmt::format("empty expression {}: ngspice 39 stops on it (\"Expression "
+                                "err\"); write the value inside",
+                                s));
         if (factor == 1) return;
         // {expr} -> {(expr)*k}: exact whatever the parameters are.
         insert(t.begin + 1, "(", field, factor);

@@ -441,3 +441,30 @@ TEST(ScalerTest, BareNamesInOtherDotCardsAreRefusedWithWhatNgspiceDoes) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// An empty expression is an error, located at the expression. ngspice 39 stops on it (tried:
+// `pulse(''''0 1 ...)` gives "Expression err: }{}0 1 ..." and a fatal error), and its wrap
+// would put both halves at one offset. Found by the deck fuzz target
+// (tests/fuzz/regressions/deck-empty-expression-wrap.bin). Adjacent non-empty expressions are
+// two values, as ngspice reads them (tried: `pulse(0 1 {1m}{2m} ...)` expands to two numbers).
+TEST(ScalerTest, AnEmptyExpressionIsAnError) {
+    for (std::string value : {"''", "{}", "{ }", "' '"}) {
+        SCOPED_TRACE(value);
+        try {
+            test::scale_text("t\nV1 a 0 pulse(0 1 " + value + " 1n 1n 1m 2m)\n.end\n", 7, 3);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            std::string text = render(e.diagnostic());
+            EXPECT_EQ(text.substr(0, 36), "deck.cir:2:18: error: empty expressi") << text;
+        }
+    }
+    auto s = test::scale_text("t\nV1 a 0 pulse(0 1 {1m}{2m} 1n 1n 1m 2m)\n.end\n", 7, 3);
+    EXPECT_EQ(s.text(),
+              "t\nV1 a 0 pulse(0 1 {(1m)/3}{(2m)/3} 333.3333p 333.3333p 333.3333u 2m)\n.end\n");
+}
+
+}  // namespace
+}  // namespace deckscale
