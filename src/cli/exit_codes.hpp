@@ -10,6 +10,7 @@ enum ExitCode : int {
     exit_bad_input = 2,       // usage error or bad deck: nothing written
     exit_sim_failed = 3,      // the simulator failed on a deck
     exit_refused = 4,         // scale: the deck holds items that cannot be scaled exactly
+    exit_internal = 5,        // a bug in deckscale (or memory exhausted): nothing was written
 };
 
 }  // namespace deckscale

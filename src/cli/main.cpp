@@ -1,5 +1,7 @@
 // deckscale: a shim that parses the command line, runs one command, returns its exit code.
 #include <iostream>
+#include <new>
+#include <stdexcept>
 #include <string>
 #include <vector>
 
@@ -14,11 +16,10 @@
 #include "cli/stress_command.hpp"
 #include "cli/yield_command.hpp"
 
-int main(int argc, char** argv) {
+namespace {
+
+int run(const deckscale::Invocation& inv) {
     using namespace deckscale;
-    install_interrupt_cleanup();
-    std::vector<std::string> args(argv + 1, argv + argc);
-    Invocation inv = parse_command_line(args);
     switch (inv.what) {
         case Invocation::What::help:
         case Invocation::What::version:
@@ -44,4 +45,25 @@ int main(int argc, char** argv) {
             return run_batch(inv.batch, std::cout, std::cerr);
     }
     return exit_bad_input;
+}
+
+}  // namespace
+
+// Bad input never reaches the handlers below: it is a diagnostic with exit 2. What does is a
+// bug or exhausted memory; unwinding (not std::terminate) lets every unfinished output remove
+// its temporary file, so the user's files are as they were.
+int main(int argc, char** argv) {
+    using namespace deckscale;
+    install_interrupt_cleanup();
+    try {
+        std::vector<std::string> args(argv + 1, argv + argc);
+        return run(parse_command_line(args));
+    } catch (const std::bad_alloc&) {
+        std::cerr << "deckscale: error: out of memory; nothing was written\n";
+    } catch (const std::exception& e) {
+        std::cerr << "deckscale: internal error: " << e.what()
+                  << "\nThis is a bug in deckscale, not in your deck; nothing was written. "
+                     "Please report it with the deck and the command line.\n";
+    }
+    return exit_internal;
 }
