@@ -5,8 +5,13 @@
 #include "batch/workers.hpp"
 
 #include <gtest/gtest.h>
+#include <signal.h>
+#include <unistd.h>
 
+#include <filesystem>
+#include <fstream>
 #include <map>
+#include <thread>
 
 #include "support/common.hpp"
 #include "support/sim.hpp"
@@ -133,6 +138,71 @@ TEST(BatchWorkers, AWorkerPastItsDeadlineIsStoppedWithItsSimulations) {
               std::vector<std::string>{"the case did not finish within 1.5 s and was stopped"});
     EXPECT_EQ(r[1].outcome, CaseOutcome::pass) << testing::PrintToString(r[1].problems);
     EXPECT_TRUE(test::no_children_left());
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// The pids that are children of process `pid` (all its threads), from /proc (Linux 3.5+).
+std::vector<pid_t> children_of(pid_t pid) {
+    std::vector<pid_t> out;
+    std::error_code ec;
+    std::string tasks = "/proc/" + std::to_string(pid) + "/task";
+    for (const auto& t : std::filesystem::directory_iterator(tasks, ec)) {
+        std::ifstream in(t.path() / "children");
+        for (pid_t c; in >> c;) out.push_back(c);
+    }
+    return out;
+}
+
+// Gone, or a zombie that nobody of ours has to reap.
+bool gone(pid_t pid) {
+    std::ifstream in("/proc/" + std::to_string(pid) + "/stat");
+    std::string stat((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    auto paren = stat.rfind(')');
+    return stat.empty() || (paren != std::string::npos && stat.substr(paren + 2, 1) == "Z");
+}
+
+// A worker killed from outside (here SIGKILL, as the out-of-memory killer would) fails its own
+// case with the signal named; its simulations die with it (PR_SET_PDEATHSIG) and the next case
+// runs on a new worker.
+TEST(BatchWorkers, AWorkerKilledFromOutsideFailsItsCaseOnly) {
+    TempDir dir;
+    write_bytes(dir.file("rc.cir"), kRc);
+    write_bytes(dir.file("long.cir"), kLong);
+    FactorTarget f{10, 100, "10", "100"};
+    std::vector<SuiteCase> cases = {make_case(0, "killed", dir.file("long.cir"), f),
+                                    make_case(1, "after", dir.file("rc.cir"), f)};
+    std::vector<pid_t> simulations;
+    bool killed = false;
+    WorkerSettings settings;
+    settings.workers = 1;
+    settings.progress = [&](const BatchProgress& p) {
+        if (killed || p.done != 0) return;
+        std::vector<pid_t> workers = children_of(::getpid());
+        if (workers.size() != 1) return;
+        simulations = children_of(workers[0]);
+        if (simulations.empty()) return;  // not simulating yet: wait for the next report
+        ::kill(workers[0], SIGKILL);
+        killed = true;
+    };
+    std::vector<CaseResult> r = run_cases(cases, settings);
+    ASSERT_TRUE(killed) << "the long case finished before a report came";
+    ASSERT_EQ(r.size(), 2u);
+    EXPECT_EQ(r[0].outcome, CaseOutcome::error);
+    EXPECT_EQ(r[0].problems, std::vector<std::string>{
+                                 "the worker process of this case died (killed by signal 9)"});
+    EXPECT_EQ(r[1].outcome, CaseOutcome::pass) << testing::PrintToString(r[1].problems);
+    EXPECT_TRUE(test::no_children_left());
+    auto until = std::chrono::steady_clock::now() + std::chrono::seconds(10);
+    for (pid_t s : simulations) {
+        while (!gone(s) && std::chrono::steady_clock::now() < until)
+            std::this_thread::sleep_for(std::chrono::milliseconds(20));
+        EXPECT_TRUE(gone(s)) << "simulation " << s << " outlived its worker";
+    }
 }
 
 }  // namespace
