@@ -22,10 +22,12 @@ bool rc_ran(const SimOutcome& out) {
 }
 
 TEST(SimLimits, AChildOverItsMemoryLimitFailsAndTheNextRunWorks) {
-    // 100 million doubles (800 MB) in a 400 MB address space: the allocation fails.
+    // 60 million doubles (480 MB) in a 400 MB address space: the allocation fails. (Filling
+    // them without the limit takes a few seconds; the timeout leaves room for a loaded machine.)
     SimJob job = make_job("hungry", {"t", "V1 in 0 DC 1", "R1 in 0 1k", ".op", ".control",
-                                     "let big = vector(100000000)", "echo still-alive", ".endc",
-                                     ".end"});
+                                     "let big = vector(60000000)", "echo still-alive", ".endc",
+                                     ".end"},
+                          std::chrono::seconds(120));
     job.memory_limit_mb = 400;
     SimOutcome out = simulate(job);
     EXPECT_NE(out.status, SimStatus::ok) << out.message;
