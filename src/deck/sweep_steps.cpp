@@ -93,8 +93,15 @@ long count_field(double v) { return clamped_long(std::floor(0.5 + v)); }
 namespace {
 
 
-// Pushes a point; false (and `endless` set) once the limit is passed.
+// Pushes a point; false (and `endless` set) once the limit is passed, or at once when the
+// step no longer moves the point: each loop's only state is the point, so a repeat is a loop
+// without end (".ac lin 2e40 0.01 2" adds 1e-40 to 0.01; the deck fuzz target found that
+// counting such a sweep to the limit, for every candidate of a nudge search, was slow).
 bool push(SweepPoints& p, double v) {
+    if (!p.values.empty() && p.values.back() == v) {
+        p.endless = true;
+        return false;
+    }
     p.values.push_back(v);
     if (p.values.size() > kSweepPointLimit) {
         p.endless = true;

@@ -123,3 +123,28 @@ TEST(SweepSteps, CountsBeyondALongAreClamped) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// A step too small to move the point is a sweep without end, known at the second point
+// rather than at the point limit (ngspice's loops, acan.c:346-382, dctrcurv.c:453-466, keep no
+// state but the point, so it would repeat forever). A slow input of the deck fuzz target.
+TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
+    SweepPoints lin = ac_points("lin", 2e40, 0.01, 2);
+    EXPECT_TRUE(lin.endless);
+    EXPECT_EQ(lin.values.size(), 1u);
+    SweepPoints noise = noise_points("lin", 1e30, 1, 2);
+    EXPECT_TRUE(noise.endless);
+    EXPECT_EQ(noise.values.size(), 1u);
+    SweepPoints dc = dc_points(1e20, 2e20, 1);  // 1e20 + 1 == 1e20
+    EXPECT_TRUE(dc.endless);
+    EXPECT_EQ(dc.values.size(), 1u);
+    // A small step that still moves the point is not endless.
+    SweepPoints fine = ac_points("lin", 100001, 1, 2);
+    EXPECT_FALSE(fine.endless);
+    EXPECT_EQ(fine.values.size(), 100001u);
+}
+
+}  // namespace
+}  // namespace deckscale
