@@ -1,5 +1,7 @@
 #include "python/convert.hpp"
 
+#include <pybind11/stl.h>
+
 #include <sstream>
 
 namespace deckscale::python {
@@ -33,13 +35,14 @@ void raise_deck_error(const Diagnostic& d) {
     PyErr_SetObject(deck_error_type, error.ptr());
 }
 
-py::object numpy() {
-    // Looked up once; a missing numpy is not an error.
-    static py::object np = [] {
+// numpy, looked up once (null without it: not an error). The reference is kept for the life
+// of the process: a static py::object would be released after the interpreter has ended.
+py::handle numpy() {
+    static py::handle np = []() -> py::handle {
         try {
-            return py::module_::import("numpy").cast<py::object>();
+            return py::module_::import("numpy").release();
         } catch (const py::error_already_set&) {
-            return py::object(py::none());
+            return py::handle();
         }
     }();
     return np;
@@ -118,14 +121,14 @@ std::vector<std::string> sweep_of(py::handle x) {
 
 py::object array_of(const std::vector<double>& values) {
     py::list list = py::cast(values);
-    py::object np = numpy();
-    return np.is_none() ? py::object(list) : np.attr("asarray")(list, "dtype"_a = "float64");
+    py::handle np = numpy();
+    return np ? np.attr("asarray")(list, "dtype"_a = "float64") : py::object(list);
 }
 
 py::object array_of(const std::vector<bool>& values) {
     py::list list = py::cast(values);
-    py::object np = numpy();
-    return np.is_none() ? py::object(list) : np.attr("asarray")(list, "dtype"_a = "bool");
+    py::handle np = numpy();
+    return np ? np.attr("asarray")(list, "dtype"_a = "bool") : py::object(list);
 }
 
 py::str text_of(std::string_view bytes) {

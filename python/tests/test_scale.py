@@ -72,7 +72,7 @@ class ScaleTest(unittest.TestCase):
             ran = cli("scale", "bad.cir", "--km", "2", cwd=d)
             self.assertEqual(ran.returncode, 2)
             with self.assertRaises(deckscale.DeckError) as caught:
-                deckscale.read_text(text, "bad.cir")
+                deckscale.scale(deckscale.read_text(text, "bad.cir"), km=2)
         e = caught.exception
         self.assertEqual((e.file, e.line, e.column, e.severity), ("bad.cir", 2, 8, "error"))
         self.assertEqual(e.rendered + "\n", ran.stderr.decode())
@@ -116,8 +116,8 @@ class ScaleTest(unittest.TestCase):
             self.assertEqual(len(deck.files), 2)
             result = deckscale.scale(deck, km=2, output=os.path.join(d, "out", "v.cir"), write=False)
             self.assertEqual([f.text for f in result.files],
-                             ["C2 a 0 0.5n\n", "t\n.include sub-scaled.inc\nR1 a 0 2k\n.end\n"])
-            self.assertEqual(result.deck().text(1), "C2 a 0 0.5n\n")
+                             ["C2 a 0 500p\n", "t\n.include sub-scaled.inc\nR1 a 0 2k\n.end\n"])
+            self.assertEqual(result.deck().text(1), "C2 a 0 500p\n")
             self.assertFalse(os.path.exists(os.path.join(d, "out")))
 
 

@@ -30,7 +30,7 @@ class VerifyTest(unittest.TestCase):
         errors = ac["errors"]
         self.assertEqual(list(errors["name"]), [v["name"] for v in ac["vectors"]])
         self.assertEqual(len(errors["worst"]), len(ac["vectors"]))
-        self.assertIn("v(n3)", list(errors["name"]))
+        self.assertIn("n3", list(errors["name"]))
         self.assertTrue(all(e < 1e-6 for e in errors["worst"]))
         self.assertTrue(all(errors["passed"]))
         self.assertIn("PASS", report["text"])

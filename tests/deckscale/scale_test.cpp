@@ -107,18 +107,20 @@ TEST(ApiScale, ATextDeckReadsItsIncludesBesideItsName) {
     o.output = dir.file("out/v.cir");
     api::Scaled s = api::scale(d, o);
     ASSERT_EQ(s.files.size(), 2u);
-    EXPECT_EQ(s.files[0].text, "C2 a 0 0.5n\n");
+    EXPECT_EQ(s.files[0].text, "C2 a 0 500p\n");
     EXPECT_EQ(s.text(), "t\n.include sub-scaled.inc\nR1 a 0 2k\n.end\n");
     // The output read back from memory, its include from memory too.
     api::Deck back = api::scaled_deck(s);
     EXPECT_EQ(back.path(), dir.file("out/v.cir"));
-    EXPECT_EQ(back.text(1), "C2 a 0 0.5n\n");
+    EXPECT_EQ(back.text(1), "C2 a 0 500p\n");
     EXPECT_FALSE(fs::exists(dir.file("out")));
 }
 
 TEST(ApiScale, BadInputThrowsTheDiagnosticWithItsPlace) {
     try {
-        api::read_text("title\nR1 a 0 1.2.3k\n.end\n", "bad.cir");
+        api::ScaleOptions two;
+        two.km = 2;
+        api::scale(api::read_text("title\nR1 a 0 1.2.3k\n.end\n", "bad.cir"), two);
         ADD_FAILURE() << "no error";
     } catch (const DeckError& e) {
         const Diagnostic& d = e.diagnostic();
