@@ -94,9 +94,9 @@ py::object measurement(const std::optional<Measurement>& m) {
 
 py::dict retarget(py::handle deck, py::handle output, py::object impedance,
                   py::object impedance_map, py::object impedance_range, py::object series,
-                  py::object corner, py::object center, py::object notch,
-                  py::object frequency_map, py::object sweep, py::object drive, int digits,
-                  double timeout, std::uint64_t memory_mb) {
+                  py::object corner, py::object center, py::object notch, py::object frequency_map,
+                  py::object sweep, py::object drive, int digits, double timeout,
+                  std::uint64_t memory_mb) {
     RetargetRequest q;
     q.deck = path_of(deck);
     q.output = path_of(output);
@@ -117,9 +117,9 @@ py::dict retarget(py::handle deck, py::handle output, py::object impedance,
         q.series = snap_series(series.is_none() ? "" : series.cast<std::string>());
         q.impedance = ImpedanceTarget{t[0].cast<std::string>(), 1, low, high};
     }
-    for (auto [arg, feature] : {std::pair{&corner, Feature::corner},
-                                std::pair{&center, Feature::center},
-                                std::pair{&notch, Feature::notch}}) {
+    for (auto [arg, feature] :
+         {std::pair{&corner, Feature::corner}, std::pair{&center, Feature::center},
+          std::pair{&notch, Feature::notch}}) {
         if (arg->is_none()) continue;
         auto [node, hz] = named_value(*arg, to_string(feature));
         q.frequency = FrequencyTarget{feature, node, 0, hz};
@@ -140,8 +140,8 @@ py::dict retarget(py::handle deck, py::handle output, py::object impedance,
         r = deckscale::retarget(q, disk);
     }
     using Outcome = RetargetResult::Outcome;
-    const char* outcome = r.outcome == Outcome::done       ? "done"
-                          : r.outcome == Outcome::refused  ? "refused"
+    const char* outcome = r.outcome == Outcome::done         ? "done"
+                          : r.outcome == Outcome::refused    ? "refused"
                           : r.outcome == Outcome::sim_failed ? "sim_failed"
                                                              : "bad_input";
     if (r.outcome == Outcome::bad_input && r.written.empty()) {
@@ -150,26 +150,24 @@ py::dict retarget(py::handle deck, py::handle output, py::object impedance,
         raise_request_error(why);
     }
     py::object verification = py::none();
-    if (r.verification &&
-        r.verification->outcome != PairVerification::Outcome::bad_input)
+    if (r.verification && r.verification->outcome != PairVerification::Outcome::bad_input)
         verification = verification_dict(api::verification_of(*r.verification));
     py::object fit = py::none();
     if (r.fit) fit = py::dict("km"_a = r.fit->km, "candidates"_a = r.fit->candidates);
-    return py::dict("outcome"_a = outcome, "km"_a = r.km, "kf"_a = r.kf,
-                    "element_value"_a = r.element_value, "before"_a = measurement(r.before),
-                    "after"_a = measurement(r.after), "target_hz"_a = r.target_hz,
-                    "target_error"_a = r.target_error(), "fit"_a = fit,
-                    "change_count"_a = r.change_count, "written"_a = r.written,
-                    "problems"_a = r.problems, "warnings"_a = diagnostics(r.warnings),
-                    "unscalable"_a = diagnostics(r.unscalable), "verification"_a = verification,
-                    "cautions"_a = nominal_value_cautions());
+    return py::dict(
+        "outcome"_a = outcome, "km"_a = r.km, "kf"_a = r.kf, "element_value"_a = r.element_value,
+        "before"_a = measurement(r.before), "after"_a = measurement(r.after),
+        "target_hz"_a = r.target_hz, "target_error"_a = r.target_error(), "fit"_a = fit,
+        "change_count"_a = r.change_count, "written"_a = r.written, "problems"_a = r.problems,
+        "warnings"_a = diagnostics(r.warnings), "unscalable"_a = diagnostics(r.unscalable),
+        "verification"_a = verification, "cautions"_a = nominal_value_cautions());
 }
 
 py::dict tolerance_yield(py::handle deck, std::uint64_t trials, std::uint64_t seed,
                          py::object tolerance, const std::string& spread, double mask_db,
-                         py::object band, py::object corner, py::object mask_file,
-                         py::object sweep, py::object drive, py::object output, unsigned workers,
-                         double timeout, std::uint64_t memory_mb) {
+                         py::object band, py::object corner, py::object mask_file, py::object sweep,
+                         py::object drive, py::object output, unsigned workers, double timeout,
+                         std::uint64_t memory_mb) {
     YieldRequest q;
     q.deck = path_of(deck);
     q.trials = trials;
@@ -229,11 +227,10 @@ py::dict tolerance_yield(py::handle deck, std::uint64_t trials, std::uint64_t se
     d["outcome"] = "done";
     d["text"] = yield_text(r, context);
     d["held"] = diagnostics(r.held);
-    for (auto [key, values] : {std::pair{"frequency", &r.frequency},
-                               std::pair{"nominal_db", &r.nominal_db},
-                               std::pair{"low_db", &r.low_db}, std::pair{"high_db", &r.high_db},
-                               std::pair{"mask_low", &r.mask_low},
-                               std::pair{"mask_high", &r.mask_high}})
+    for (auto [key, values] :
+         {std::pair{"frequency", &r.frequency}, std::pair{"nominal_db", &r.nominal_db},
+          std::pair{"low_db", &r.low_db}, std::pair{"high_db", &r.high_db},
+          std::pair{"mask_low", &r.mask_low}, std::pair{"mask_high", &r.mask_high}})
         d[key] = array_of(*values);
     return d;
 }
@@ -325,10 +322,10 @@ void add_commands(py::module_& m) {
           "text, each part's error and what was left alone. With `output` the deck is written "
           "there (unless write=False).");
     m.def("retarget", &retarget, "deck"_a, "output"_a, py::kw_only(), "impedance"_a = py::none(),
-          "impedance_map"_a = py::none(), "impedance_range"_a = py::none(),
-          "series"_a = py::none(), "corner"_a = py::none(), "center"_a = py::none(),
-          "notch"_a = py::none(), "frequency_map"_a = py::none(), "sweep"_a = py::none(),
-          "drive"_a = py::none(), "digits"_a = 9, "timeout"_a = 60.0, "memory_mb"_a = 8192,
+          "impedance_map"_a = py::none(), "impedance_range"_a = py::none(), "series"_a = py::none(),
+          "corner"_a = py::none(), "center"_a = py::none(), "notch"_a = py::none(),
+          "frequency_map"_a = py::none(), "sweep"_a = py::none(), "drive"_a = py::none(),
+          "digits"_a = 9, "timeout"_a = 60.0, "memory_mb"_a = 8192,
           "Factors from design targets: impedance=('R1', 600), impedance_map=(1, 600), "
           "impedance_range=('R1', 500, 2000) with series; corner=('out', 3400), center=..., "
           "notch=..., frequency_map=(old_hz, new_hz). Writes `output`, measures again and "
@@ -336,15 +333,14 @@ void add_commands(py::module_& m) {
     m.def("yield_", &tolerance_yield, "deck"_a, py::kw_only(), "trials"_a = 500, "seed"_a = 1,
           "tolerance"_a = py::none(), "spread"_a = "uniform", "mask_db"_a = 1.0,
           "band"_a = py::none(), "corner"_a = py::none(), "mask_file"_a = py::none(),
-          "sweep"_a = py::none(), "drive"_a = py::none(), "output"_a = py::none(),
-          "workers"_a = 0, "timeout"_a = 600.0, "memory_mb"_a = 8192,
+          "sweep"_a = py::none(), "drive"_a = py::none(), "output"_a = py::none(), "workers"_a = 0,
+          "timeout"_a = 600.0, "memory_mb"_a = 8192,
           "Monte Carlo tolerance yield (the yield command): the --json report as a dict, with "
           "the swept frequencies, nominal response, envelope and mask as arrays.");
     m.def("stress", &stress, "original"_a, "scaled"_a, py::kw_only(), "ratio"_a = 2.0,
           "ratings"_a = py::none(), "timeout"_a = 60.0, "memory_mb"_a = 8192,
           "Per-part current, voltage and power of a rescaled deck against its original.");
-    m.def("batch", &batch, "suite"_a, py::kw_only(), "jobs"_a = 0,
-          "shard"_a = py::make_tuple(1, 1),
+    m.def("batch", &batch, "suite"_a, py::kw_only(), "jobs"_a = 0, "shard"_a = py::make_tuple(1, 1),
           "Runs a regression suite (TOML); the --json report as a dict, with 'text' and "
           "'unmet'.");
     m.def("survey", &survey, "folder"_a, "km"_a = 10, "kf"_a = 1000, py::kw_only(), "jobs"_a = 0,

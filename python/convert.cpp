@@ -14,9 +14,12 @@ PyObject* deck_error_type = nullptr;
 
 const char* severity_name(Severity s) {
     switch (s) {
-        case Severity::note: return "note";
-        case Severity::warning: return "warning";
-        case Severity::error: break;
+        case Severity::note:
+            return "note";
+        case Severity::warning:
+            return "warning";
+        case Severity::error:
+            break;
     }
     return "error";
 }
@@ -54,7 +57,8 @@ void register_deck_error(py::module_& m) {
     py::class_<Diagnostic>(m, "Diagnostic",
                            "One message about a deck: severity, place, text (the one diagnostic "
                            "type of the command line).")
-        .def_property_readonly("severity", [](const Diagnostic& d) { return severity_name(d.severity); })
+        .def_property_readonly("severity",
+                               [](const Diagnostic& d) { return severity_name(d.severity); })
         .def_property_readonly("file", [](const Diagnostic& d) { return text_of(d.file); })
         .def_readonly("line", &Diagnostic::line)
         .def_readonly("column", &Diagnostic::column)

@@ -64,7 +64,8 @@ api::Deck pair_member(py::handle x) {
 
 py::dict verify(py::handle original, py::handle scaled, py::object km, py::object kf,
                 py::object sweep, py::object drive, double tolerance, double tran_tolerance,
-                double tolerance_db, double tolerance_deg, double timeout, std::uint64_t memory_mb) {
+                double tolerance_db, double tolerance_deg, double timeout,
+                std::uint64_t memory_mb) {
     api::VerifyOptions o;
     if (!km.is_none()) o.km = factor_of(km);
     if (!kf.is_none()) o.kf = factor_of(kf);
@@ -128,19 +129,28 @@ PYBIND11_MODULE(deckscale, m) {
     py::class_<api::Deck>(m, "Deck", "A deck as read: the top file and every file it includes.")
         .def_property_readonly("path", &api::Deck::path)
         .def_property_readonly("files", &api::Deck::files)
-        .def("text", [](const api::Deck& d, std::size_t file) { return text_of(d.text(file)); },
-             "file"_a = 0, "A file's text as read (UTF-8, other bytes as surrogate escapes).")
-        .def("data", [](const api::Deck& d, std::size_t file) { return py::bytes(std::string(d.text(file))); },
-             "file"_a = 0, "A file's bytes as read.")
+        .def(
+            "text", [](const api::Deck& d, std::size_t file) { return text_of(d.text(file)); },
+            "file"_a = 0, "A file's text as read (UTF-8, other bytes as surrogate escapes).")
+        .def(
+            "data",
+            [](const api::Deck& d, std::size_t file) {
+                return py::bytes(std::string(d.text(file)));
+            },
+            "file"_a = 0, "A file's bytes as read.")
         .def_property_readonly("warnings", &api::Deck::warnings)
         .def("__repr__", [](const api::Deck& d) { return "<deckscale.Deck " + d.path() + ">"; });
-    m.def("read_deck", [](py::handle path) { return api::read_deck(path_of(path)); }, "path"_a,
-          "Reads a deck and everything it includes; DeckError for bad input.");
-    m.def("read_text",
-          [](py::handle text, py::handle name) { return api::read_text(text_bytes(text), path_of(name)); },
-          "text"_a, "name"_a = "deck.cir",
-          "Reads a deck given as text, standing for the file `name` (includes are looked up in "
-          "its folder).");
+    m.def(
+        "read_deck", [](py::handle path) { return api::read_deck(path_of(path)); }, "path"_a,
+        "Reads a deck and everything it includes; DeckError for bad input.");
+    m.def(
+        "read_text",
+        [](py::handle text, py::handle name) {
+            return api::read_text(text_bytes(text), path_of(name));
+        },
+        "text"_a, "name"_a = "deck.cir",
+        "Reads a deck given as text, standing for the file `name` (includes are looked up in "
+        "its folder).");
     m.def("parse_factor", &api::parse_factor, "text"_a,
           "A factor as the command line reads it: '50', '1k', '2*pi*10meg', '1/50'.");
 
@@ -155,8 +165,8 @@ PYBIND11_MODULE(deckscale, m) {
         .def_readonly("new", &api::ValueChange::new_text)
         .def_readonly("factor", &api::ValueChange::factor)
         .def("__repr__", [](const api::ValueChange& c) {
-            return "<Change " + c.element + " " + c.field + " " + c.old_text + " -> " +
-                   c.new_text + ">";
+            return "<Change " + c.element + " " + c.field + " " + c.old_text + " -> " + c.new_text +
+                   ">";
         });
     py::class_<api::OutputText>(m, "OutputFile", "One file a scaling run writes.")
         .def_readonly("path", &api::OutputText::path)
@@ -168,10 +178,11 @@ PYBIND11_MODULE(deckscale, m) {
                             "What scale() made: every output file's text (included copies "
                             "first, the main deck last), the changes and the refusals.")
         .def_readonly("files", &api::Scaled::files)
-        .def_property_readonly("text", [](const api::Scaled& s) -> py::object {
-            if (s.files.empty()) return py::none();
-            return text_of(s.text());
-        })
+        .def_property_readonly("text",
+                               [](const api::Scaled& s) -> py::object {
+                                   if (s.files.empty()) return py::none();
+                                   return text_of(s.text());
+                               })
         .def_readonly("changes", &api::Scaled::changes)
         .def_readonly("refusals", &api::Scaled::refusals)
         .def_readonly("notes", &api::Scaled::notes)

@@ -1,9 +1,9 @@
 #include "deckscale/deck.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "deckscale/internal.hpp"
 #include "scale/factor.hpp"

@@ -18,17 +18,17 @@ namespace deckscale::api {
 
 // A deck as read: the top file and every file it includes.
 class Deck {
-public:
+  public:
     struct Impl;  // opaque
     explicit Deck(std::shared_ptr<const Impl> impl) : impl_(std::move(impl)) {}
 
-    const std::string& path() const;         // the top file, as given
-    std::vector<std::string> files() const;  // every file read, top first
+    const std::string& path() const;                    // the top file, as given
+    std::vector<std::string> files() const;             // every file read, top first
     std::string_view text(std::size_t file = 0) const;  // a file's bytes, untouched
     const std::vector<Diagnostic>& warnings() const;    // constructs the tool does not know
     const Impl& impl() const { return *impl_; }
 
-private:
+  private:
     std::shared_ptr<const Impl> impl_;
 };
 

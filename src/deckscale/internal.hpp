@@ -23,13 +23,13 @@ using MemoryFiles = std::map<std::string, std::string>;
 std::string memory_key(const std::string& path);
 
 class OverlayFileSystem : public FileSystem {
-public:
+  public:
     explicit OverlayFileSystem(MemoryFiles memory) : memory_(std::move(memory)) {}
     std::optional<FileText> read(const std::string& path,
                                  std::string* problem = nullptr) const override;
     std::string identity(const std::string& path) const override;
 
-private:
+  private:
     MemoryFiles memory_;
     DiskFileSystem disk_;
 };

@@ -1,9 +1,9 @@
 #include "deckscale/scale.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <filesystem>
-
-#include <fmt/format.h>
 
 #include "base/byte_sink.hpp"
 #include "base/output_file.hpp"
@@ -43,8 +43,8 @@ Scaled outputs(Deck original, ScaleResult& result, const ScaleOptions& o) {
     for (const auto& c : result.changes) {
         const SourceFile& f = *deck.files[c.file].source;
         auto pos = f.position(c.offset);
-        s.changes.push_back({f.path(), pos.line, pos.column, c.element, c.field, c.unit,
-                             c.old_text, c.new_text, c.factor});
+        s.changes.push_back({f.path(), pos.line, pos.column, c.element, c.field, c.unit, c.old_text,
+                             c.new_text, c.factor});
     }
     s.changes_text = change_list_text(deck, result);
     if (s.refusals.empty() || o.leave_unscalable) {

@@ -1,27 +1,16 @@
 #include "deckscale/verify.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <thread>
-
-#include <fmt/format.h>
 
 #include "deckscale/internal.hpp"
 #include "sim/head_start.hpp"
 
 namespace deckscale::api {
 namespace {
-
-const char* kind_name(VectorKind k) {
-    switch (k) {
-        case VectorKind::voltage: return "voltage";
-        case VectorKind::current: return "current";
-        case VectorKind::frequency: return "frequency";
-        case VectorKind::time: return "time";
-        case VectorKind::other: break;
-    }
-    return "other";
-}
 
 PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOptions& o) {
     if (o.km.has_value() != o.kf.has_value())
@@ -44,11 +33,12 @@ PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOpt
 }
 
 AnalysisComparison comparison_of(const Comparison& c) {
-    AnalysisComparison a{c.analysis, c.points, c.first, c.last, c.passed(), c.problems,
-                         c.not_compared, {}};
+    // Only node voltages and branch currents are compared (verify/compare).
+    AnalysisComparison a{c.analysis, c.points,   c.first,        c.last,
+                         c.passed(), c.problems, c.not_compared, {}};
     for (const auto& v : c.vectors)
-        a.vectors.push_back(
-            {v.name, kind_name(v.kind), v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed});
+        a.vectors.push_back({v.name, v.kind == VectorKind::current ? "current" : "voltage", v.worst,
+                             v.at, v.db_error, v.deg_error, v.peak, v.passed});
     return a;
 }
 

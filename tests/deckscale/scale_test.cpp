@@ -1,12 +1,13 @@
 // The library's public surface for scaling: the same bytes as the command line, errors as the
 // one diagnostic type, and never a write over a deck's own files.
+#include "deckscale/scale.hpp"
+
 #include <gtest/gtest.h>
 
 #include <cmath>
 #include <filesystem>
 #include <numbers>
 
-#include "deckscale/scale.hpp"
 #include "support/common.hpp"
 
 namespace deckscale {

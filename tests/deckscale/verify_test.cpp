@@ -1,9 +1,10 @@
 // The library's public surface for verification: a pair proven equivalent in forked ngspice
 // children from a plain function call, decks on disk or still in memory.
+#include "deckscale/verify.hpp"
+
 #include <gtest/gtest.h>
 
 #include "deckscale/scale.hpp"
-#include "deckscale/verify.hpp"
 #include "support/common.hpp"
 
 namespace deckscale {
@@ -38,12 +39,11 @@ TEST(ApiVerify, TheDemoPairInMemoryPassesWithTheCommandLinesFigures) {
     TempDir dir;
     o.output = dir.file("scaled.cir");
     api::write(api::scale(original, o));
-    auto cli = run_binary({"verify", demo_deck(), dir.file("scaled.cir"), "--km", "50", "--kf",
-                           "2*pi*10meg"},
-                          dir.path());
+    auto cli = run_binary(
+        {"verify", demo_deck(), dir.file("scaled.cir"), "--km", "50", "--kf", "2*pi*10meg"},
+        dir.path());
     ASSERT_EQ(cli.exit_code, 0) << cli.err;
-    api::Verification on_disk =
-        api::verify(original, api::read_deck(dir.file("scaled.cir")), v);
+    api::Verification on_disk = api::verify(original, api::read_deck(dir.file("scaled.cir")), v);
     EXPECT_EQ(on_disk.text, cli.out);
 }
 

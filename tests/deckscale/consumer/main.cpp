@@ -2,7 +2,6 @@
 // verification report (the verify command's text) and exits 0 when it passed.
 #include <deckscale/scale.hpp>
 #include <deckscale/verify.hpp>
-
 #include <iostream>
 
 int main(int argc, char** argv) {
