@@ -2,6 +2,8 @@
 objects, errors as deckscale.DeckError, and the input never changed."""
 import math
 import os
+import subprocess
+import sys
 import unittest
 
 import deckscale
@@ -80,6 +82,19 @@ class ScaleTest(unittest.TestCase):
         self.assertEqual(e.diagnostic.source_line, "R1 a 0 1.2.3k")
         with self.assertRaises(deckscale.DeckError):
             deckscale.scale("/nonexistent/deck.cir", km=2)
+
+    def test_the_library_prints_nothing(self):
+        # Refusals, notes, a bad deck and a verification: all of it comes back as data.
+        script = ("import deckscale\n"
+                  "r = deckscale.scale(deckscale.read_text('t\\nR1 a 0 1k\\nY1 a 0 c 0 tm\\n.end\\n'), km=2)\n"
+                  "assert r.refused\n"
+                  "try:\n"
+                  "    deckscale.scale(deckscale.read_text('t\\nR1 a 0 1.2.3k\\n.end\\n'), km=2)\n"
+                  "except deckscale.DeckError:\n"
+                  "    pass\n"
+                  f"assert deckscale.verify({DEMO!r}, deckscale.scale({DEMO!r}, km=3), km=3, kf=1)['passed']\n")
+        out = subprocess.run([sys.executable, "-c", script], capture_output=True, env=os.environ)
+        self.assertEqual((out.returncode, out.stdout, out.stderr), (0, b"", b""))
 
     def test_factors_are_numbers_or_the_command_lines_factor_texts(self):
         self.assertAlmostEqual(deckscale.parse_factor("2*pi*10meg"), 2 * math.pi * 1e7)
