@@ -34,8 +34,18 @@ const std::map<std::string, std::set<std::string>> kLayers = {
     {"yield", {"base", "deck", "sim", "verify"}},
     {"stress", {"base", "deck", "sim", "verify"}},
     {"batch", {"base", "deck", "write", "scale", "sim", "verify"}},
+    {"deckscale", {"base", "deck", "write", "scale", "sim", "verify"}},
     {"cli", {"base", "deck", "write", "scale", "sim", "verify", "values", "retarget", "yield",
              "stress", "batch"}},
+};
+
+// What `cmake --install` puts in include/deckscale/ (CMakeLists.txt), with the file each is
+// made from. A consumer has only these: each may include standard headers and the others.
+const std::map<std::string, std::string> kPublicHeaders = {
+    {"deckscale/deck.hpp", "src/deckscale/deck.hpp"},
+    {"deckscale/scale.hpp", "src/deckscale/scale.hpp"},
+    {"deckscale/verify.hpp", "src/deckscale/verify.hpp"},
+    {"deckscale/diagnostic.hpp", "src/deck/diagnostic.hpp"},
 };
 
 struct SourceText {
@@ -125,6 +135,52 @@ TEST(Layers, TheTreeHasNoBackEdge) {
     ASSERT_GT(files.size(), 50u);
     auto violations = layer_violations(files);
     EXPECT_TRUE(violations.empty()) << joined(violations);
+}
+
+// Every quoted include of an installed header that is not another installed header, and
+// every angle-bracket include that is not a standard header (no '.' and no '/').
+std::vector<std::string> public_header_violations(const std::vector<SourceText>& files) {
+    std::vector<std::string> out;
+    const std::regex quoted(R"(^\s*#\s*include\s*"([^"]+)\")");
+    const std::regex angle(R"(^\s*#\s*include\s*<([^>]+)>)");
+    for (const auto& f : files) {
+        bool installed = false;
+        for (const auto& [name, path] : kPublicHeaders) installed = installed || path == f.path;
+        if (!installed) continue;
+        std::istringstream lines(f.text);
+        std::string line;
+        for (int n = 1; std::getline(lines, line); ++n) {
+            std::smatch m;
+            std::string where = f.path + ":" + std::to_string(n) + ": ";
+            if (std::regex_search(line, m, quoted) && !kPublicHeaders.count(m[1]))
+                out.push_back(where + "an installed header includes \"" + std::string(m[1]) +
+                              "\", which is not installed");
+            if (std::regex_search(line, m, angle) &&
+                std::string(m[1]).find_first_of("./") != std::string::npos)
+                out.push_back(where + "an installed header includes <" + std::string(m[1]) +
+                              ">, which a consumer may not have");
+        }
+    }
+    return out;
+}
+
+TEST(Layers, InstalledHeadersIncludeOnlyEachOtherAndTheStandardLibrary) {
+    auto files = read_tree();
+    for (const auto& [name, path] : kPublicHeaders)
+        EXPECT_TRUE(std::any_of(files.begin(), files.end(),
+                                [&](const SourceText& f) { return f.path == path; }))
+            << path;
+    auto violations = public_header_violations(files);
+    EXPECT_TRUE(violations.empty()) << joined(violations);
+    // The checker itself, on an invented header.
+    std::vector<SourceText> tree = {{"src/deckscale/scale.hpp",
+                                     "#include <string>\n#include \"deckscale/deck.hpp\"\n"
+                                     "#include \"deck/load.hpp\"\n#include <fmt/format.h>\n"}};
+    EXPECT_EQ(joined(public_header_violations(tree)),
+              "src/deckscale/scale.hpp:3: an installed header includes \"deck/load.hpp\", which "
+              "is not installed\n"
+              "src/deckscale/scale.hpp:4: an installed header includes <fmt/format.h>, which a "
+              "consumer may not have\n");
 }
 
 TEST(Layers, EveryStageFolderIsInTheMap) {

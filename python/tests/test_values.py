@@ -1,0 +1,52 @@
+"""Preferred values (IEC 60063) and snapping a deck to them."""
+import math
+import os
+import unittest
+
+import deckscale
+from support import TempDir, cli, read_bytes, write_bytes
+
+
+class ValuesTest(unittest.TestCase):
+    def test_the_series_are_those_of_iec_60063(self):
+        # IEC 60063:2015: E12, and the E24 members fixed otherwise than by the rule.
+        self.assertEqual(deckscale.preferred_values("E12"),
+                         [1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2])
+        e24 = deckscale.preferred_values("e24")
+        self.assertEqual(len(e24), 24)
+        for fixed in (2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 8.2):
+            self.assertIn(fixed, e24)
+        self.assertIn(9.2, deckscale.preferred_values("E192"))
+        with self.assertRaises(deckscale.DeckError):
+            deckscale.preferred_values("E7")
+
+    def test_nearest_on_a_logarithmic_scale_midway_goes_up(self):
+        self.assertAlmostEqual(deckscale.nearest_preferred(4.6e3, "E12"), 4.7e3)
+        midway = math.sqrt(1.0 * 1.2)  # the geometric mean of two E12 neighbours
+        self.assertAlmostEqual(deckscale.nearest_preferred(midway * 0.999, "E12"), 1.0)
+        self.assertAlmostEqual(deckscale.nearest_preferred(midway * 1.001, "E12"), 1.2)
+        with self.assertRaises(deckscale.DeckError):
+            deckscale.nearest_preferred(-1, "E12")
+
+    def test_snap_rounds_each_part_and_equals_the_command_line(self):
+        deck = "t\nV1 in 0 dc 0 ac 1\nR1 in out 1.234k\nC1 out 0 3.1n\nL1 out 0 {lval}\n.param lval=1u\n.end\n"
+        with TempDir() as d:
+            path = os.path.join(d, "d.cir")
+            write_bytes(path, deck)
+            ran = cli("snap", path, "--series", "R=E96,C=E12", "-o", os.path.join(d, "cli.cir"))
+            self.assertEqual(ran.returncode, 0, ran.stderr)
+            target = os.path.join(d, "py.cir")
+            r = deckscale.snap(path, "R=E96,C=E12", output=target)
+            self.assertEqual(read_bytes(target), read_bytes(os.path.join(d, "cli.cir")))
+            self.assertEqual(read_bytes(path), deck.encode())
+        parts = {p["name"]: p for p in r["parts"]}
+        self.assertEqual((parts["R1"]["new"], parts["C1"]["new"]), ("1.24k", "3.3n"))
+        self.assertAlmostEqual(parts["R1"]["error"], 1.24 / 1.234 - 1)
+        self.assertIn("R1 in out 1.24k\nC1 out 0 3.3n\n", r["text"])
+        self.assertIn("local codes and", r["cautions"])
+        with self.assertRaises(deckscale.DeckError):
+            deckscale.snap(deckscale.read_text(deck), "R=E97")
+
+
+if __name__ == "__main__":
+    unittest.main()

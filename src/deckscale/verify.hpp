@@ -1,0 +1,78 @@
+// The library's public surface, part 3: proving a pair of decks equivalent by simulation.
+//
+// Both decks run in embedded ngspice in child processes of their own (forked: a program that
+// links the library needs nothing else installed but libngspice), at mapped frequencies and
+// times, and every node voltage and branch current is compared, as `deckscale verify` does.
+#pragma once
+
+#include <cstddef>
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "deckscale/deck.hpp"
+
+namespace deckscale::api {
+
+struct VerifyOptions {
+    std::optional<double> km, kf;    // both, or neither: inferred from matched R, C and L values
+    std::vector<std::string> sweep;  // {"dec", "50", "1k", "1meg"} instead of the original's .ac
+    std::string drive;               // the source that gets AC 1; empty: as the deck has it
+    double tolerance = 1e-6;         // relative, AC and operating point
+    double tran_tolerance = 1e-3;    // relative to each waveform's peak
+    double tolerance_db = 0;         // > 0: a magnitude limit in dB as well
+    double tolerance_deg = 0;        // > 0: a phase limit in degrees as well
+    double timeout_s = 60;           // per simulation
+    std::uint64_t memory_mb = 8192;  // address space per simulation; 0: no limit
+};
+
+// One compared vector's worst point.
+struct VectorError {
+    std::string name;  // as ngspice names it: "v(n3)", "vsrc#branch"
+    std::string kind;  // "voltage" or "current" (scaled currents are multiplied by Km)
+    double worst = 0;  // relative error at the worst point
+    double at = 0;     // its frequency (Hz) or time (s), in the original's units
+    double db_error = 0, deg_error = 0;  // AC: magnitude and phase error there
+    double peak = 0;                     // the magnitude errors are relative to
+    bool passed = true;
+};
+
+struct AnalysisComparison {
+    std::string analysis;  // "ac", "op", "tran"
+    std::size_t points = 0;
+    double first = 0, last = 0;
+    bool passed = true;
+    std::vector<std::string> problems;      // each fails the comparison by itself
+    std::vector<std::string> not_compared;  // device-internal vectors
+    std::vector<VectorError> vectors;       // worst first
+};
+
+struct SimulationFailure {
+    std::string deck, analysis;
+    std::string status;  // "load failed", "crashed", "timed out", ...
+    std::string message;
+};
+
+struct Verification {
+    enum class Outcome {
+        compared,    // `analyses` holds the comparison; `passed` says how it came out
+        bad_input,   // `problems` says why nothing was simulated
+        sim_failed,  // `failures` (or `problems`) says which run failed
+    };
+    Outcome outcome = Outcome::compared;
+    bool passed = false;
+    double km = 1, kf = 1;
+    bool factors_inferred = false;
+    std::vector<std::string> problems;
+    std::vector<SimulationFailure> failures;
+    std::vector<AnalysisComparison> analyses;
+    std::vector<std::string> notes;
+    std::string text;  // the report as `deckscale verify` prints it (compared only)
+    std::string json;  // as `deckscale verify --json` writes it (compared only)
+};
+
+// Throws DeckError for a deck that cannot be read or factors that are not positive.
+Verification verify(const Deck& original, const Deck& scaled, const VerifyOptions& options);
+
+}  // namespace deckscale::api
