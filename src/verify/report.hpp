@@ -19,6 +19,9 @@ struct VerifyReport {
     std::vector<Comparison> comparisons;
     Tolerances tolerances;
     std::vector<std::string> notes;
+    // What the scaled deck's held-parts line names (scale --hold): the comparison then shows
+    // how far the response moved instead of expecting equality (Tolerances::held).
+    std::vector<std::string> held;
     bool passed() const;
 };
 
