@@ -119,8 +119,12 @@ void ScalePass::visit_scoped(const Card& c, const HoldRegion* r) {
                                c.field_text(1), c.field_text(1)));
         return;
     }
+    if (!hold_->model_copies.count(name)) {
+        visit(c);  // scaling leaves it as it is, or refuses it for the scaled instances
+        return;
+    }
     with_render(Render::held, nullptr, shared->second.second, [&] { visit(c); });
-    if (hold_->model_copies.count(name)) copy_model(c, name);
+    copy_model(c, name);
 }
 
 void ScalePass::visit_element_scoped(const Card& c, const HoldRegion* r) {

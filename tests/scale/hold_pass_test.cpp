@@ -144,6 +144,12 @@ TEST(HoldPassTest, SharedModelIsCopiedOnlyWhenScalingChangesIt) {
     EXPECT_EQ(h.result.held[1].why, "used by held parts (Q1) and by scaled ones");
     EXPECT_EQ(h.result.held[1].copy, "qm_scaled");
 
+    // A card the scaled instance needs scaled but that cannot be is still refused.
+    Held level2 = scale_holding(
+        "t\nQ1 c b e qm\nQ2 c2 b2 e2 qm\n.model qm npn (level=2 cje=1p)\n.end\n", 1, 10, {"Q1"});
+    ASSERT_EQ(level2.result.unscalable.size(), 1u);
+    EXPECT_EQ(level2.result.unscalable[0].line, 4u);
+
     Held magnitude = scale_holding(deck, 10, 1, {"Q1"});
     EXPECT_EQ(magnitude.text(),
               "t\n* deckscale held: km=10 kf=1 items=Q1\nQ1 c b e qm\nQ2 c2 b2 e2 qm m=0.1\n"
