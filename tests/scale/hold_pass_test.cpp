@@ -4,7 +4,6 @@
 // too, shared notes "scaling-rules.md" §5); factors of 1 give the deck back byte for byte.
 #include <gtest/gtest.h>
 
-#include "scale/hold_items.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -249,40 +248,6 @@ TEST(HoldPassTest, BoundaryWarningsNameTheNodesAndTheRule) {
     // With Km = 1 the impedances on both sides stay as they were.
     Held same = scale_holding(deck, 1, 10, {"R2"});
     for (const auto& d : same.result.notes) EXPECT_NE(d.severity, Severity::warning);
-}
-
-TEST(HoldItemsTest, ItemsAndTheHeldLine) {
-    std::string error;
-    auto items = read_hold_items({"XU1,model:QN*", "subckt:opa"}, error);
-    ASSERT_TRUE(items) << error;
-    ASSERT_EQ(items->size(), 3u);
-    EXPECT_EQ((*items)[1].kind, HoldKind::model);
-    EXPECT_EQ((*items)[1].pattern, "qn*");
-    EXPECT_EQ((*items)[2].kind, HoldKind::subckt);
-    EXPECT_FALSE(read_hold_items({"part:X1"}, error));
-    EXPECT_EQ(error,
-              "--hold 'part:X1': the prefixes are model: and subckt: (a bare name is an element "
-              "or X instance, else a .subckt, else a .model)");
-    EXPECT_FALSE(read_hold_items({"X1,,X2"}, error));
-    EXPECT_FALSE(read_hold_items({"model:"}, error));
-
-    EXPECT_TRUE(name_matches("x*", "xu1"));
-    EXPECT_TRUE(name_matches("q?", "q1"));
-    EXPECT_FALSE(name_matches("q?", "q10"));
-    EXPECT_TRUE(name_matches("*1*", "xu1a"));
-    EXPECT_FALSE(name_matches("x*2", "xu21x"));
-
-    MemoryFileSystem fs;
-    fs.add("deck.cir", "t\r\n" + held_line({"XU1", "model:qn"}, {0.5, 2 * 3.141592653589793}) +
-                           "\r\nR1 a 0 1\r\n.end\r\n");
-    Deck d = load_deck("deck.cir", fs);
-    auto line = find_held_line(d);
-    ASSERT_TRUE(line);
-    EXPECT_EQ(line->items, (std::vector<std::string>{"XU1", "model:qn"}));
-    EXPECT_EQ(line->factors.km, 0.5);
-    EXPECT_EQ(line->factors.kf, 2 * 3.141592653589793);
-    fs.add("plain.cir", "t\n* a comment\nR1 a 0 1\n* deckscale held: km=1 kf=2 items=R1\n.end\n");
-    EXPECT_FALSE(find_held_line(load_deck("plain.cir", fs)));
 }
 
 }  // namespace
