@@ -42,9 +42,8 @@ std::string take_held(const HeldLine& held, const Deck& original, const PairRequ
     report.tolerances.held = true;
     report.km = o.factors_given ? o.km : held.factors.km;
     report.kf = o.factors_given ? o.kf : held.factors.kf;
-    if (!o.factors_given)
-        report.notes.push_back(fmt::format("factors read from the held-parts line of {}", o.scaled));
-    else if (held.factors.km != o.km || held.factors.kf != o.kf)
+    report.factors_from_held_line = !o.factors_given;
+    if (o.factors_given && (held.factors.km != o.km || held.factors.kf != o.kf))
         report.notes.push_back(fmt::format(
             "the held-parts line of {} says Km = {:.9g}, Kf = {:.9g}: the factors given are used",
             o.scaled, held.factors.km, held.factors.kf));

@@ -43,7 +43,8 @@ std::string report_text(const VerifyReport& r) {
                      r.factors_inferred
                          ? fmt::format("  (inferred from {} resistor and {} C/L pairs)", r.resistor_pairs,
                                        r.reactive_pairs)
-                         : "  (given)");
+                         : r.factors_from_held_line ? "  (from the held-parts line of the scaled deck)"
+                                                    : "  (given)");
     if (!r.held.empty()) {
         std::string items;
         for (const auto& h : r.held) items += (items.empty() ? "" : ", ") + h;
@@ -137,7 +138,9 @@ std::string report_json(const VerifyReport& r) {
     j["scaled"] = r.scaled;
     j["km"] = r.km;
     j["kf"] = r.kf;
-    j["factors"] = r.factors_inferred ? "inferred" : "given";
+    j["factors"] = r.factors_inferred         ? "inferred"
+                   : r.factors_from_held_line ? "held-parts line"
+                                              : "given";
     j["passed"] = r.passed();
     j["tolerance"] = {{"relative", r.tolerances.relative}, {"transient", r.tolerances.transient},
                       {"db", r.tolerances.db}, {"degrees", r.tolerances.degrees}};

@@ -14,6 +14,7 @@ struct VerifyReport {
     std::string original, scaled;
     double km = 1, kf = 1;
     bool factors_inferred = false;
+    bool factors_from_held_line = false;  // read from the scaled deck's held-parts line
     int resistor_pairs = 0, reactive_pairs = 0;
     std::vector<RatioMismatch> mismatches;
     std::vector<Comparison> comparisons;
