@@ -4,6 +4,10 @@
 // too, shared notes "scaling-rules.md" §5); factors of 1 give the deck back byte for byte.
 #include <gtest/gtest.h>
 
+#include <random>
+#include <sstream>
+
+#include "support/common.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -248,6 +252,70 @@ TEST(HoldPassTest, BoundaryWarningsNameTheNodesAndTheRule) {
     // With Km = 1 the impedances on both sides stay as they were.
     Held same = scale_holding(deck, 1, 10, {"R2"});
     for (const auto& d : same.result.notes) EXPECT_NE(d.severity, Severity::warning);
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Mutated project decks scaled with two of their element lines held (X lines preferred,
+// so that .subckt copies are made): each is either refused as bad input or written, never
+// with overlapping edits, and what is written reads back as a deck.
+TEST(HoldPassTest, MutatedDecksWithHeldPartsFailCleanly) {
+    std::vector<std::string> seeds, with_subckts;  // every other run from a deck with .subckt
+    for (const auto& path : test::netlist_files())
+        if (test::is_top_deck(path)) {
+            std::string text = test::read_bytes(path);
+            (text.find("\n.subckt") != std::string::npos ? with_subckts : seeds).push_back(text);
+        }
+    ASSERT_FALSE(with_subckts.empty());
+    std::mt19937 rng(20261203);  // fixed: the run is repeatable
+    const std::string alphabet = "{}()'=,;*+\n .0123456789kKmMuUnNpPXxQqMm.subcktends";
+    int written = 0, refused = 0, copies = 0;
+    for (int it = 0; it < 1500; ++it) {
+        const auto& from = it % 2 ? seeds : with_subckts;
+        std::string s = from[rng() % from.size()];
+        for (int k = 0, n = static_cast<int>(rng() % 4); k < n && !s.empty(); ++k) {
+            std::size_t pos = rng() % s.size();
+            char c = alphabet[rng() % alphabet.size()];
+            if (rng() % 2)
+                s.insert(pos, 1, c);
+            else
+                s[pos] = c;
+        }
+        MemoryFileSystem fs;
+        fs.add("deck.cir", s);
+        // Two element lines of the deck, X lines first where there are any.
+        std::vector<std::string> names, x_lines;
+        std::istringstream lines(s);
+        for (std::string line; std::getline(lines, line);) {
+            std::string word = line.substr(0, line.find_first_of(" \t\r"));
+            if (word.empty() || !std::isalpha(static_cast<unsigned char>(word[0]))) continue;
+            (word[0] == 'X' || word[0] == 'x' ? x_lines : names).push_back(word);
+        }
+        names.insert(names.begin(), x_lines.begin(), x_lines.end());
+        if (names.size() < 3) continue;
+        ScaleSettings settings;
+        settings.factors = {3, 7};
+        settings.hold = {names[rng() % std::min<std::size_t>(names.size(), 4)],
+                         names[1 + rng() % (names.size() - 1)]};
+        try {
+            ScaledDeck d = load_and_scale("deck.cir", fs, settings);
+            std::string out = apply_edits(d.deck.top().text(), d.result.edits[0]);
+            MemoryFileSystem again;
+            again.add("deck.cir", out);
+            load_deck("deck.cir", again);
+            ++written;
+            copies += out.find("_scaled ") != std::string::npos;
+        } catch (const DeckError&) {
+            ++refused;
+        }
+    }
+    EXPECT_GT(written, 100);
+    EXPECT_GT(refused, 100);
+    EXPECT_GT(copies, 20);  // a held X line whose .subckt scaled ones use too
 }
 
 }  // namespace
