@@ -8,6 +8,7 @@
 #include "base/output_file.hpp"
 #include "deck/diagnostic.hpp"
 #include "scale/rescale.hpp"
+#include "verify/held_report.hpp"
 #include "verify/pair.hpp"
 #include "write/plan.hpp"
 
@@ -23,6 +24,7 @@ std::string make_scaled(const SuiteCase& c, const FactorTarget& f, const FileSys
     ScaleSettings settings;
     settings.factors = {f.km, f.kf};
     settings.record_changes = false;
+    settings.hold = f.hold;
     ScaledDeck scaled = load_and_scale(c.deck, files, settings);
     if (!scaled.result.unscalable.empty()) {
         r.outcome = CaseOutcome::refused;
@@ -67,9 +69,23 @@ double tolerance_of(const Comparison& c, const Tolerances& t) {
     return c.analysis == "tran" ? t.transient : t.relative;
 }
 
+// With held parts: the AC vector that moved most, in dB and degrees.
+std::string moved_most(const VerifyReport& report) {
+    for (const auto& c : report.comparisons) {
+        const VectorResult* most = c.analysis == "ac" ? most_moved(c, false) : nullptr;
+        if (most)
+            return fmt::format("ac {}: held parts moved it by up to {:.3g} dB (at {:.6g} Hz) and "
+                               "{:.3g} deg (at {:.6g} Hz) of the scaled deck",
+                               most->name, most->max_db, most->max_db_at * report.kf,
+                               most->max_deg, most->max_deg_at * report.kf);
+    }
+    return "";
+}
+
 }  // namespace
 
 std::string worst_vector(const VerifyReport& report) {
+    if (!report.held.empty()) return moved_most(report);
     const Comparison* wc = nullptr;
     const VectorResult* wv = nullptr;
     double worst_ratio = -1;

@@ -15,6 +15,7 @@
 #include "deck/analyses.hpp"
 #include "deck/diagnostic.hpp"
 #include "scale/factor.hpp"
+#include "scale/hold_items.hpp"
 
 namespace deckscale {
 namespace {
@@ -22,9 +23,9 @@ namespace {
 namespace fs = std::filesystem;
 
 // The keys a [[case]] may hold; [defaults] holds the same but name, deck and scaled.
-const std::set<std::string> kCaseKeys = {"name",   "deck",      "scaled", "km",
-                                         "kf",     "tolerance", "sweep",  "drive",
-                                         "expect", "timeout",   "memory"};
+const std::set<std::string> kCaseKeys = {"name",   "deck",    "scaled", "km",    "kf",
+                                         "hold",   "tolerance", "sweep", "drive", "expect",
+                                         "timeout", "memory"};
 const std::set<std::string> kDefaultKeys = {"km",    "kf",     "tolerance", "sweep",
                                             "drive", "expect", "timeout",   "memory"};
 const std::set<std::string> kToleranceKeys = {"ac", "tran", "db", "deg"};
@@ -243,6 +244,18 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
     if (!scaled && !s.factors)
         r.fail(t.source(), "this case needs 'scaled' (a rescaled deck) or 'km' and 'kf'");
     std::string scaled_text = scaled ? string_of(r, *scaled, "scaled") : "";
+    std::vector<std::string> hold;
+    if (const toml::node* h = t.get("hold")) {
+        if (scaled)
+            r.fail(h->source(), "'hold' goes with 'km' and 'kf' (the case scales the deck); a "
+                                "kept scaled deck names its held parts itself");
+        if (const auto* list = h->as_array())
+            for (const auto& item : *list) hold.push_back(string_of(r, item, "hold"));
+        else
+            hold.push_back(string_of(r, *h, "hold"));
+        std::string bad;
+        if (!read_hold_items(hold, bad)) r.fail(h->source(), bad);
+    }
     const toml::node* name = t.get("name");
     std::string name_text = name ? string_of(r, *name, "name") : "";
 
@@ -276,6 +289,7 @@ void read_case(const SuiteReader& r, const toml::table& t, const CaseSettings& d
             c.target = ScaledTarget{path, s.factors};
         } else {
             c.target = *s.factors;
+            std::get<FactorTarget>(c.target).hold = hold;
         }
         if (!names.insert(c.name).second)
             r.fail(

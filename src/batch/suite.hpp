@@ -21,6 +21,7 @@ namespace deckscale {
 struct FactorTarget {
     double km = 1, kf = 1;
     std::string km_text = "1", kf_text = "1";  // as written in the suite
+    std::vector<std::string> hold;  // parts kept as written (scale --hold items)
 };
 struct ScaledTarget {
     std::string path;  // an existing rescaled deck, verified against the case's deck

@@ -100,7 +100,7 @@ int run_batch(const BatchOptions& o, std::ostream& out, std::ostream& err) {
     try {
         std::error_code ec;
         if (fs::is_directory(input, ec)) {
-            suite = survey_suite(input, FactorTarget{o.km, o.kf, o.km_text, o.kf_text});
+            suite = survey_suite(input, FactorTarget{o.km, o.kf, o.km_text, o.kf_text, {}});
         } else {
             DiskFileSystem disk;
             suite = load_suite(input, disk);

@@ -5,6 +5,7 @@
 
 #include "batch/shard.hpp"
 #include "scale/factor.hpp"
+#include "scale/hold_items.hpp"
 
 namespace deckscale {
 namespace {
@@ -95,6 +96,13 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                       "Read decks of 8 MB and more on at most this many threads (default: one per "
                       "core; the result is the same)")
         ->check(CLI::Range(1u, 1024u));
+    scale
+        ->add_option("--hold", s.hold,
+                     "Keep these parts as written: NAME (a top-level element or X instance), "
+                     "model:NAME (every instance), subckt:NAME (every X instance); commas or "
+                     "repeats, wildcards * and ?")
+        ->delimiter(',')
+        ->allow_extra_args(false);
 
     auto* verify = app.add_subcommand("verify", "Prove a rescaled deck equivalent to its original by simulation");
     VerifyOptions& v = inv.verify;
@@ -246,6 +254,8 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
         if (s.in_place && !s.output.empty()) return usage("-i/--in-place and -o/--output exclude each other");
         if (s.verify && (s.output.empty() || s.in_place))
             return usage("--verify needs the original and the scaled deck in files: give -o OUT");
+        std::string bad;
+        if (!read_hold_items(s.hold, bad)) return usage(bad);
         return inv;
     }
     if (verify->parsed()) {

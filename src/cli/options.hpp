@@ -21,6 +21,7 @@ struct ScaleOptions {
     bool flatten = false;          // --flatten
     bool verify = false;           // --verify (scale, then verify the pair)
     unsigned threads = 0;          // --threads N: large decks read on at most N threads (0: cores)
+    std::vector<std::string> hold;  // --hold NAME[,NAME...]: parts kept as written
 };
 
 struct VerifyOptions {

@@ -44,7 +44,7 @@ bool same_file(const std::string& a, const std::string& b) {
 }
 
 // Cautions for anyone who builds hardware from a rescaled deck.
-std::string cautions(ScaleFactors f) {
+std::string cautions(ScaleFactors f, bool held) {
     std::string s;
     if (f.km == 1 && f.kf == 1) return s;
     s += "deckscale: caution: the values written are ideal. Before building, choose real parts\n"
@@ -54,6 +54,11 @@ std::string cautions(ScaleFactors f) {
             "  Km = {} < 1: every current grows by 1/Km = {} and every resistor's power at the\n"
             "  same voltage by the same factor.\n",
             factor_text(f.km), factor_text(1 / f.km));
+    if (held)
+        s += "  Held parts were not rescaled: the circuit around them changed, so their\n"
+             "  currents, voltages and dissipation are not the original's. Check each held\n"
+             "  part's ratings and stability (an amplifier's phase margin) in the new circuit;\n"
+             "  verify reports how far the response moved.\n";
     s += "  For mains-connected or high-voltage circuits, local codes and licensed practice govern.\n";
     return s;
 }
@@ -80,18 +85,22 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
     settings.mark_unscalable = o.leave_unscalable;
     settings.threads = o.threads;
     settings.record_changes = o.list_changes || !o.changes_json.empty();
+    settings.hold = o.hold;
     try {
         ScaledDeck scaled = load_and_scale(o.deck, disk, settings);
         const Deck& deck = scaled.deck;
         ScaleResult& result = scaled.result;
         err << render(deck.warnings);
         err << render(result.notes);
+        if (!o.list_changes && !result.held.empty()) err << held_list_text(deck, result);
         if (!result.unscalable.empty()) {
             err << render(result.unscalable);
             if (!o.leave_unscalable) {
                 err << fmt::format(
                     "deckscale: {} item(s) cannot be scaled exactly; nothing was written "
-                    "(--leave-unscalable writes the deck anyway, marking each item)\n",
+                    "(--leave-unscalable writes the deck anyway, marking each item; --hold "
+                    "keeps a part, a .model or a .subckt as written, and verify then reports "
+                    "how far the response moved)\n",
                     result.unscalable.size());
                 return exit_refused;
             }
@@ -141,7 +150,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         if (o.km == 1 && o.kf == 1)
             err << "deckscale: note: Km = Kf = 1 (no --km or --kf given?): the deck is written "
                    "unchanged\n";
-        err << cautions(settings.factors);
+        err << cautions(settings.factors, !result.held.empty());
         if (o.verify) {
             // Verify the pair just written (the CLI allows --verify only with -o).
             VerifyOptions v;

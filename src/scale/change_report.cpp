@@ -28,6 +28,21 @@ std::string change_list_text(const Deck& deck, const ScaleResult& result) {
                            one_line(c.new_text), factor_text(c.factor),
                            c.unit.empty() || c.unit == "-" ? "" : " [" + c.unit + "]");
     }
+    return out + held_list_text(deck, result);
+}
+
+std::string held_list_text(const Deck& deck, const ScaleResult& result) {
+    std::string out;
+    for (const auto& h : result.held) {
+        const SourceFile& f = *deck.files[h.file].source;
+        auto pos = f.position(h.offset);
+        out += fmt::format("{}:{}:{}  {}  held ({}): {}{}\n", f.path(), pos.line, pos.column,
+                           h.name, h.kind, h.why,
+                           h.copy.empty() ? "" : "; the scaled parts use its scaled copy " + h.copy);
+        for (const auto& d : h.could_not_follow)
+            out += fmt::format("    could not have followed anyway: {}:{}:{}: {}\n", d.file,
+                               d.line, d.column, d.message);
+    }
     return out;
 }
 
@@ -61,6 +76,15 @@ std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleF
                            {"old", c.old_text}, {"new", c.new_text}, {"factor", c.factor}});
     }
     j["changes"] = changes;
+    auto held = nlohmann::json::array();
+    for (const auto& h : result.held) {
+        const SourceFile& f = *deck.files[h.file].source;
+        auto pos = f.position(h.offset);
+        held.push_back({{"kind", h.kind}, {"name", h.name}, {"file", f.path()},
+                        {"line", pos.line}, {"column", pos.column}, {"why", h.why},
+                        {"copy", h.copy}, {"could_not_follow", diagnostics_json(h.could_not_follow)}});
+    }
+    j["held"] = held;
     j["unscalable"] = diagnostics_json(result.unscalable);
     j["notes"] = diagnostics_json(result.notes);
     return j.dump(2) + "\n";

@@ -9,10 +9,17 @@
 
 namespace deckscale {
 
-// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]".
+// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]", then the held parts
+// (held_list_text).
 std::string change_list_text(const Deck& deck, const ScaleResult& result);
 
-// The whole run as JSON (factors, files written, changes, unscalable items, notes).
+// One line per part kept as written (scale --hold), with why, the scaled copy the scaled
+// parts use instead, and what it could not have followed anyway:
+//   "deck.cir:9:1  XU1  held (instance): asked: --hold XU1".
+std::string held_list_text(const Deck& deck, const ScaleResult& result);
+
+// The whole run as JSON (factors, files written, changes, held parts, unscalable items,
+// notes).
 std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleFactors factors,
                              const OutputPlan& plan);
 

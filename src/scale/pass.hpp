@@ -17,6 +17,8 @@
 namespace deckscale {
 
 struct CodeModelUses;
+struct HoldPlan;
+struct HoldRegion;
 struct MosModel;
 using MosModels = std::map<std::string, MosModel>;
 
@@ -63,6 +65,9 @@ public:
     bool take_piece(ScalePass& piece, ScaleResult& piece_result, const DeckSymbols& before);
     // Edits of one file are reserved for this many bytes of it (default: the whole file).
     void expect_bytes(std::size_t bytes) { expected_bytes_ = bytes; }
+    // Parts to keep as written (scale/hold_plan.hpp); run() then renders each card as the
+    // plan says (scale/hold_pass.cpp). The plan must outlive the pass.
+    void hold(HoldPlan& plan) { hold_ = &plan; }
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
@@ -100,6 +105,8 @@ public:
     void note_gmin(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
+    // Replaces a name (of a model or .subckt) by the name of its scaled copy.
+    void rename(const Token& t, const std::string& name, std::string_view field);
     // Records an item that cannot be scaled exactly.
     void unscalable(const Token& at, std::string why);
     void note(const Token& at, std::string what);
@@ -129,6 +136,24 @@ public:
 
 private:
     void visit(const Card& card);
+    // How the current card is rendered when parts are held (scale/hold_pass.cpp).
+    enum class Render {
+        normal,  // scaled, into the file's edits
+        copy,    // scaled, into the edits of a copy (a .subckt's or a .model's)
+        held,    // as written: edits dropped, refusals kept as what it could not follow
+        probe,   // scaled into a scratch set, only to see whether anything changes
+    };
+    void visit_holding(const Card& card);
+    void visit_scoped(const Card& card, const HoldRegion* region);
+    void visit_element_scoped(const Card& card, const HoldRegion* region);
+    // Runs `f` with the current card rendered `how` (into `into` for copy and probe; refusals
+    // of a held rendering go to part `part`), then returns to the rendering before.
+    void with_render(Render how, EditSet* into, std::size_t part, const std::function<void()>& f);
+    void copy_model(const Card& card, const std::string& lower_name);
+    void probe_shared_models(const Deck& deck);
+    void finish_holding();
+    void note_held_refusal(const Token& at, std::string why);
+    EditSet& target();
     void edit(std::uint32_t offset, std::uint32_t length, std::string text, std::string_view field,
               std::string_view unit, double factor);
 
@@ -163,6 +188,12 @@ private:
     mutable std::size_t cached_file_ = ~std::size_t{0};
     mutable const Card* cached_card_ = nullptr;
     ToleranceScan tolerances_;
+    HoldPlan* hold_ = nullptr;
+    Render render_ = Render::normal;
+    EditSet* render_edits_ = nullptr;  // Render::copy and Render::probe
+    std::size_t render_part_ = 0;      // Render::held: the part its refusals go to
+    std::string copy_name_;            // Render::copy: the copy's name, for the change list
+    std::vector<EditSet> region_copies_;  // per HoldPlan::regions entry with a copy
 };
 
 // Card handlers, one per family.

@@ -10,6 +10,7 @@
 #include "scale/codemodels.hpp"
 #include "scale/after_end.hpp"
 #include "scale/expression.hpp"
+#include "scale/hold_plan.hpp"
 #include "scale/pass.hpp"
 #include "scale/semiconductors.hpp"
 
@@ -55,11 +56,16 @@ void ScalePass::run(const Deck& deck) {
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
     mos_models_.reset();
     result_.edits.resize(deck.files.size());
+    if (hold_) probe_shared_models(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
             file_ = f;
-            visit(c);
+            if (hold_)
+                visit_holding(c);
+            else
+                visit(c);
         });
+    if (hold_) finish_holding();
 }
 
 void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) {
@@ -330,17 +336,28 @@ void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view 
     edit(offset, 0, std::move(text), field, "", factor);
 }
 
+void ScalePass::rename(const Token& t, const std::string& name, std::string_view field) {
+    edit(t.begin, t.size(), name, field, "", 1);
+}
+
+EditSet& ScalePass::target() {
+    bool aside = render_ == Render::copy || render_ == Render::probe;
+    return aside ? *render_edits_ : result_.edits[file_];
+}
+
 void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string text,
                      std::string_view field, std::string_view unit, double factor) {
     const SourceFile& file = *card_->file;
     if (file.view(offset, offset + length) == text) return;
-    bool opening = length == 0 && text == "(";  // the opening half of a wrap is not listed
-    if (!opening) ++result_.change_count;
-    if (!settings_.record_changes || opening) {
-        result_.edits[file_].add(file.text(), offset, length, text);
+    if (render_ == Render::held) return;
+    if (render_ == Render::probe) {
+        render_edits_->add(file.text(), offset, length, text);
         return;
     }
-    result_.edits[file_].add(file.text(), offset, length, text);
+    bool opening = length == 0 && text == "(";  // the opening half of a wrap is not listed
+    if (!opening) ++result_.change_count;
+    target().add(file.text(), offset, length, text);
+    if (!settings_.record_changes || opening) return;
     std::string old_text(file.view(offset, offset + length));
     Change ch;
     ch.file = file_;
@@ -349,6 +366,7 @@ void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string tex
     if (card_->kind == CardKind::dot && card_->fields.size() > 1 &&
         iequals(card_->field_text(0), ".model"))
         ch.element += " " + std::string(card_->field_text(1));
+    if (render_ == Render::copy) ch.element += " (in " + copy_name_ + ")";
     ch.field = std::string(field);
     ch.unit = std::string(unit);
     ch.old_text = std::move(old_text);
@@ -358,6 +376,11 @@ void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string tex
 }
 
 void ScalePass::unscalable(const Token& at, std::string why) {
+    if (render_ == Render::probe) return;
+    if (render_ == Render::held) {
+        note_held_refusal(at, std::move(why));
+        return;
+    }
     Severity sev = settings_.mark_unscalable ? Severity::warning : Severity::error;
     result_.unscalable.push_back(card_->file->diagnose(sev, at.begin, at.size(), why));
     if (settings_.mark_unscalable && !card_marked_) {
@@ -375,12 +398,12 @@ void ScalePass::unscalable(const Token& at, std::string why) {
         std::uint32_t at_line = mark_at_ ? *mark_at_ : card_->begin();
         if (!card_->tokens.empty() && card_->tokens.front().kind == TokenKind::bom)
             at_line = card_->tokens.front().end;
-        result_.edits[file_].add(card_->file->text(),
-                                 Edit{at_line, 0, "* deckscale: left unscaled: " + why + eol});
+        target().add(card_->file->text(), Edit{at_line, 0, "* deckscale: left unscaled: " + why + eol});
     }
 }
 
 void ScalePass::note(const Token& at, std::string what) {
+    if (render_ == Render::held || render_ == Render::probe) return;
     result_.notes.push_back(card_->file->diagnose(Severity::note, at.begin, at.size(), std::move(what)));
 }
 
@@ -391,6 +414,11 @@ void ScalePass::fail(const Token& at, std::string why) const {
 ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     ScaleResult result;
     ScalePass pass(settings, result);
+    HoldPlan plan;
+    if (!settings.hold.empty()) {
+        plan = plan_holds(deck, settings.hold, settings.factors);
+        pass.hold(plan);
+    }
     pass.run(deck);
     pass.finish(deck);
     return result;
@@ -417,6 +445,12 @@ ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
     // One reading pass for both: the pass scales each card as soon as the reader checked it,
     // large files in pieces on several threads.
     ScaledDeck out;
+    if (!settings.hold.empty()) {
+        // What is held depends on the whole deck (a .subckt's uses, a model's instances).
+        out.deck = load_deck(path, fs);
+        out.result = scale_deck(out.deck, settings);
+        return out;
+    }
     ScalePass pass(settings, out.result);
     PieceReading pieces;
     pieces.threads = settings.threads;

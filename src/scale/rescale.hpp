@@ -7,6 +7,7 @@
 
 #include "deck/diagnostic.hpp"
 #include "deck/load.hpp"
+#include "scale/held_part.hpp"
 #include "scale/units.hpp"
 #include "write/edit.hpp"
 
@@ -22,6 +23,10 @@ struct ScaleSettings {
     // smaller than min_piece_bytes; the result is the same whatever the pieces.
     unsigned threads = 0;
     std::size_t min_piece_bytes = 4 << 20;
+    // Parts kept as written (scale/hold_items.hpp: NAME, model:NAME, subckt:NAME, with * and
+    // ?). The deck is then read whole before it is scaled, and a comment line after the
+    // title records the items and factors for verify.
+    std::vector<std::string> hold;
 };
 
 struct Change {
@@ -41,6 +46,7 @@ struct ScaleResult {
     std::size_t change_count = 0;         // rewritten values, recorded or not
     std::vector<Diagnostic> unscalable;   // items that cannot be scaled exactly
     std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
+    std::vector<HeldPart> held;           // parts kept as written, and why (ScaleSettings::hold)
 };
 
 // Throws DeckError for bad input (malformed numbers and the like).

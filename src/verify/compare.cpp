@@ -129,7 +129,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
                 r.peak = std::max(r.peak, std::abs(vo.values[k]));
         double floor = std::max(r.peak, noise_floor(vo.kind));
         if (floor == 0) floor = 1e-300;
-        bool every_point = tol.db > 0 || tol.degrees > 0;
+        bool every_point = tol.db > 0 || tol.degrees > 0 || tol.held;
         for (std::size_t k = 0; k < n && k < vo.values.size() && k < vs->values.size(); ++k) {
             std::complex<double> a = vo.values[k], b = vs->values[k] * back;
             if (!every_point && k > 0 && below(std::norm(b - a), r.worst * floor)) continue;
@@ -140,6 +140,14 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
             double deg = in_range ? wrap_degrees((std::arg(b) - std::arg(a)) * 180 / std::numbers::pi) : 0;
             if (tol.db > 0 && std::fabs(db) > tol.db) r.passed = false;
             if (tol.degrees > 0 && std::fabs(deg) > tol.degrees) r.passed = false;
+            if (std::fabs(db) > r.max_db) {
+                r.max_db = std::fabs(db);
+                r.max_db_at = fo->values[k].real();
+            }
+            if (std::fabs(deg) > r.max_deg) {
+                r.max_deg = std::fabs(deg);
+                r.max_deg_at = fo->values[k].real();
+            }
             if (e > r.worst || k == 0) {
                 r.worst = e;
                 r.at = fo->values[k].real();
@@ -153,7 +161,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
             for (std::size_t k = 0; k < n && k < vs->values.size(); ++k)
                 if (vs->values[k] != std::complex<double>(0)) r.worst = 1;
         }
-        if (r.worst > tol.relative) r.passed = false;
+        if (r.worst > tol.relative && !tol.held) r.passed = false;
         c.vectors.push_back(r);
     }
     sort_worst_first(c);
@@ -187,7 +195,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
         double scale = std::max(std::fabs(a), 1e-6 * (vo.kind == VectorKind::current ? imax : vmax));
         r.peak = std::fabs(a);
         r.worst = scale > 0 ? std::fabs(b - a) / scale : 0;
-        r.passed = r.worst <= tol.relative;
+        r.passed = r.worst <= tol.relative || tol.held;
         c.vectors.push_back(r);
     }
     sort_worst_first(c);
@@ -246,7 +254,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
             for (const auto& x : vs->values)
                 if (x.real() != 0) r.worst = 1;
         }
-        r.passed = r.worst <= tol.transient;
+        r.passed = r.worst <= tol.transient || tol.held;
         c.vectors.push_back(r);
     }
     sort_worst_first(c);

@@ -16,6 +16,10 @@ struct Tolerances {
     double transient = 1e-3;      // relative to each waveform's peak
     double db = 0;                // when > 0: |magnitude error| in dB must be within it too
     double degrees = 0;           // when > 0: |phase error| in degrees must be within it too
+    // Parts were held (scale --hold): equality is not expected. AC is judged by `db` and
+    // `degrees` only (passes without them), the operating point and transient are shown as
+    // information, and the largest |dB| and |deg| of every AC vector are found.
+    bool held = false;
 };
 
 struct VectorResult {
@@ -27,6 +31,11 @@ struct VectorResult {
     double deg_error = 0;  // AC: phase error at the worst point, degrees
     double peak = 0;       // the reference magnitude
     bool passed = true;
+    // AC with db or degrees tolerances, or held parts: the largest |magnitude error| (dB)
+    // and |phase error| (degrees) over the sweep, where, in the original's Hz. Points where
+    // the original is more than 60 dB below the vector's peak are left out (a phase there
+    // is noise).
+    double max_db = 0, max_db_at = 0, max_deg = 0, max_deg_at = 0;
 };
 
 struct Comparison {

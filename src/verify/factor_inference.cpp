@@ -133,8 +133,8 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
                 if (!value) return;
                 auto pos = c.file->position(c.fields[0].begin);
-                out.push_back(
-                    {name, letter, *value, c.file->path(), pos.line, std::string(value_text)});
+                out.push_back({name, letter, *value, c.file->path(), pos.line,
+                               std::string(value_text), !open.empty()});
                 return;
             }
         });

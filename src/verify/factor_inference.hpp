@@ -19,6 +19,7 @@ struct ElementValue {
     std::string file;
     std::uint32_t line = 0;
     std::string text;  // the value as written
+    bool in_subckt = false;  // inside a .subckt definition
 };
 
 // R, C and L elements with a value that is a literal, a `{…}`/`'…'` expression or a bare parameter

@@ -8,6 +8,8 @@
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
 #include "deck/load.hpp"
+#include "scale/hold_items.hpp"
+#include "scale/hold_plan.hpp"
 #include "sim/head_start.hpp"
 #include "verify/compare.hpp"
 #include "verify/factor_inference.hpp"
@@ -27,6 +29,38 @@ const SimPlot* plot_of(const SimOutcome& o, const std::string& analysis) {
     for (const auto& p : o.plots)
         if (istarts_with(p.name, analysis)) return &p;
     return nullptr;
+}
+
+// A scaled deck with held parts (its held-parts line, scale/hold_items.hpp): the factors
+// from that line unless given, the element check left to the parts outside held parts and
+// .subckt bodies (copies shift the pairing by occurrence), and equality not expected.
+// Returns a problem, or "".
+std::string take_held(const HeldLine& held, const Deck& original, const PairRequest& o,
+                      VerifyReport& report, std::vector<ElementValue>& vo,
+                      std::vector<ElementValue>& vs) {
+    report.held = held.items;
+    report.tolerances.held = true;
+    report.km = o.factors_given ? o.km : held.factors.km;
+    report.kf = o.factors_given ? o.kf : held.factors.kf;
+    report.factors_from_held_line = !o.factors_given;
+    if (o.factors_given && (held.factors.km != o.km || held.factors.kf != o.kf))
+        report.notes.push_back(fmt::format(
+            "the held-parts line of {} says Km = {:.9g}, Kf = {:.9g}: the factors given are used",
+            o.scaled, held.factors.km, held.factors.kf));
+    std::set<std::string> names;
+    try {
+        names = held_top_level_names(original, held.items);
+    } catch (const DeckError& e) {
+        return fmt::format("the held-parts line of {} does not fit {}: {}", o.scaled, o.original,
+                           e.diagnostic().message);
+    }
+    auto outside = [&](const ElementValue& e) { return e.in_subckt || names.count(e.name); };
+    std::erase_if(vo, outside);
+    std::erase_if(vs, outside);
+    report.notes.push_back(
+        "elements inside .subckt definitions and held elements are left out of the element "
+        "check");
+    return "";
 }
 
 PairVerification refuse(std::string problem) {
@@ -50,7 +84,11 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
         auto vo = element_values(original), vs = element_values(scaled);
-        if (o.factors_given) {
+        std::optional<HeldLine> held = find_held_line(scaled);
+        if (held) {
+            if (auto problem = take_held(*held, original, o, report, vo, vs); !problem.empty())
+                return refuse(problem);
+        } else if (o.factors_given) {
             report.km = o.km;
             report.kf = o.kf;
         } else {

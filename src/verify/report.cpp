@@ -6,6 +6,7 @@
 #include <nlohmann/json.hpp>
 
 #include "scale/expression.hpp"
+#include "verify/held_report.hpp"
 
 namespace deckscale {
 
@@ -42,7 +43,15 @@ std::string report_text(const VerifyReport& r) {
                      r.factors_inferred
                          ? fmt::format("  (inferred from {} resistor and {} C/L pairs)", r.resistor_pairs,
                                        r.reactive_pairs)
-                         : "  (given)");
+                         : r.factors_from_held_line ? "  (from the held-parts line of the scaled deck)"
+                                                    : "  (given)");
+    if (!r.held.empty()) {
+        std::string items;
+        for (const auto& h : r.held) items += (items.empty() ? "" : ", ") + h;
+        s += fmt::format("  held       {} (kept as written by scale --hold: the scaled deck is "
+                         "not expected to equal the original)\n",
+                         items);
+    }
     if (r.mismatches.empty()) {
         s += "  elements   every matched R, C and L agrees with the factors\n";
     } else {
@@ -69,6 +78,14 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("    not compared (device-internal states, not port currents): {}\n", names);
         }
         if (c.vectors.empty()) continue;
+        if (!r.held.empty() && c.analysis == "ac") {
+            s += held_ac_table(c, r);
+            continue;
+        }
+        // With held parts the operating point and transient are information.
+        auto status = [&](const VectorResult& v) {
+            return !r.held.empty() ? "info" : v.passed ? "ok" : "FAIL";
+        };
         // The name column fits the longest name shown ("(x Km)" marks a current).
         std::size_t width = 22;
         for (const auto& v : c.vectors) width = std::max(width, v.name.size() + 8);
@@ -85,17 +102,19 @@ std::string report_text(const VerifyReport& r) {
             std::string name = v.kind == VectorKind::current ? v.name + " (x Km)" : v.name;
             if (c.analysis == "ac")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, width, v.worst,
-                                 v.at, v.db_error, v.deg_error, v.passed ? "ok" : "FAIL");
+                                 v.at, v.db_error, v.deg_error, status(v));
             else if (c.analysis == "tran")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g}  {}\n", name, width, v.worst, v.at,
-                                 v.passed ? "ok" : "FAIL");
+                                 status(v));
             else
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "", v.passed ? "ok" : "FAIL");
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "", status(v));
         }
         if (shown < c.vectors.size())
-            s += fmt::format("    ... and {} more vectors within tolerance\n", c.vectors.size() - shown);
+            s += fmt::format("    ... and {} more vectors{}\n", c.vectors.size() - shown,
+                             r.held.empty() ? " within tolerance" : "");
     }
     s += "\n";
+    if (!r.held.empty()) return s + held_verdict(r);
     // Each analysis against its own tolerance: "ac 2e-09 (tolerance 1e-06), tran ...".
     std::string worst;
     for (const auto& c : r.comparisons) {
@@ -119,7 +138,9 @@ std::string report_json(const VerifyReport& r) {
     j["scaled"] = r.scaled;
     j["km"] = r.km;
     j["kf"] = r.kf;
-    j["factors"] = r.factors_inferred ? "inferred" : "given";
+    j["factors"] = r.factors_inferred         ? "inferred"
+                   : r.factors_from_held_line ? "held-parts line"
+                                              : "given";
     j["passed"] = r.passed();
     j["tolerance"] = {{"relative", r.tolerances.relative}, {"transient", r.tolerances.transient},
                       {"db", r.tolerances.db}, {"degrees", r.tolerances.degrees}};
@@ -136,6 +157,8 @@ std::string report_json(const VerifyReport& r) {
         for (const auto& v : c.vectors)
             vs.push_back({{"name", v.name}, {"kind", kind_word(v.kind)}, {"worst", v.worst}, {"at", v.at},
                           {"db_error", v.db_error}, {"deg_error", v.deg_error}, {"peak", v.peak},
+                          {"max_db", v.max_db}, {"max_db_at", v.max_db_at},
+                          {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
                           {"passed", v.passed}});
         an.push_back({{"analysis", c.analysis}, {"points", c.points}, {"first", c.first}, {"last", c.last},
                       {"passed", c.passed()}, {"problems", c.problems}, {"not_compared", c.not_compared},
@@ -143,6 +166,7 @@ std::string report_json(const VerifyReport& r) {
     }
     j["analyses"] = an;
     j["notes"] = r.notes;
+    j["held"] = r.held;
     return j.dump(2) + "\n";
 }
 

@@ -108,9 +108,15 @@ TEST(BatchSuite, BadSuitesAreReportedAtTheirPlace) {
         std::string suite, expected;
     } cases[] = {
         {__LINE__, "[[case]]\ndeck = \"refs/a.cir\"\nkm = 2\nkf = 3\ntolerence = 1e-3\n",
-         at + ":5:1: error: unknown key 'tolerence' in [[case]] (known: deck, drive, expect, kf, "
-              "km, "
-              "memory, name, scaled, sweep, timeout, tolerance)\n  tolerence = 1e-3\n  ^\n"},
+         at + ":5:1: error: unknown key 'tolerence' in [[case]] (known: deck, drive, expect, hold, "
+              "kf, km, memory, name, scaled, sweep, timeout, tolerance)\n  tolerence = 1e-3\n  ^\n"},
+        {__LINE__, "[[case]]\ndeck = \"refs/a.cir\"\nscaled = \"scaled/a_50.cir\"\nhold = \"R1\"\n",
+         at + ":4:8: error: 'hold' goes with 'km' and 'kf' (the case scales the deck); a kept "
+              "scaled deck names its held parts itself\n  hold = \"R1\"\n         ^\n"},
+        {__LINE__, "[[case]]\ndeck = \"refs/a.cir\"\nkm = 2\nkf = 3\nhold = [\"R1\", \"part:C1\"]\n",
+         at + ":5:8: error: --hold 'part:C1': the prefixes are model: and subckt: (a bare name is "
+              "an element or X instance, else a .subckt, else a .model)\n"
+              "  hold = [\"R1\", \"part:C1\"]\n         ^\n"},
         {__LINE__, "[defaults]\nscaled = \"x.cir\"\n",
          at + ":2:1: error: unknown key 'scaled' in [defaults] (known: drive, expect, kf, km, "
               "memory, sweep, "

@@ -79,6 +79,16 @@ TEST(Cli, ScaleOptionsAreKept) {
     EXPECT_TRUE(inv.scale.in_place);
     EXPECT_EQ(inv.scale.threads, 1u);
     EXPECT_EQ(parse_command_line({"scale", "d.cir", "--threads", "0"}).what, W::usage_error);
+    // --hold: comma lists and repeats; the deck stays the positional argument.
+    inv = parse_command_line({"scale", "--hold", "XU1,model:qn", "d.cir", "--hold", "subckt:op"});
+    ASSERT_EQ(inv.what, W::scale) << inv.text;
+    EXPECT_EQ(inv.scale.deck, "d.cir");
+    EXPECT_EQ(inv.scale.hold, (std::vector<std::string>{"XU1", "model:qn", "subckt:op"}));
+    inv = parse_command_line({"scale", "d.cir", "--hold", "chip:U1"});
+    EXPECT_EQ(inv.what, W::usage_error);
+    EXPECT_EQ(inv.text,
+              "--hold 'chip:U1': the prefixes are model: and subckt: (a bare name is an element "
+              "or X instance, else a .subckt, else a .model)");
 }
 
 // ---- the binary: scale by 1 -------------------------------------------------------------

@@ -64,3 +64,44 @@ TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// Held parts follow the rewritten values: what, why, the scaled copy, and what a held part
+// could not have followed anyway; the JSON has the same under "held".
+TEST(ChangeReport, HeldPartsAreListedWithWhy) {
+    MemoryFileSystem fs;
+    fs.add("deck.cir",
+           "t\nX1 a f\nX2 b f\nM1 d g 0 0 nb\n.subckt f p\nC1 p 0 1n\n.ends\n"
+           ".model nb nmos level=8\n.end\n");
+    ScaleSettings s;
+    s.factors = {1, 10};
+    s.hold = {"X1", "M1"};
+    ScaleRun r{load_deck("deck.cir", fs), {}, {}};
+    r.result = scale_deck(r.deck, s);
+    r.plan = plan_output(r.deck, r.result.edits, "", false);
+    EXPECT_EQ(change_list_text(r.deck, r.result),
+              "deck.cir:3:6  X2  subckt (scaled copy)  f -> f_scaled  x1\n"
+              "deck.cir:5:9  .subckt (in f_scaled)  name of the scaled copy  f -> f_scaled  x1\n"
+              "deck.cir:6:8  C1 (in f_scaled)  value  1n -> 100p  x0.1 [F]\n"
+              "deck.cir:2:1  X1  held (instance): asked: --hold X1\n"
+              "deck.cir:4:1  M1  held (element): asked: --hold M1\n"
+              "    could not have followed anyway: deck.cir:4:12: MOSFET 'M1' uses model 'nb' "
+              "(level 8, BSIM3): its intrinsic charge and its DC current both come from the "
+              "oxide capacitance, so no model change follows a frequency change (Kf = 10); "
+              "with Kf = 1 it scales exactly by m\n"
+              "deck.cir:5:9  f  held (subckt): used by held parts: X1; the scaled parts use its "
+              "scaled copy f_scaled\n");
+    auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {1, 10}, r.plan));
+    ASSERT_EQ(j["held"].size(), 3u);
+    EXPECT_EQ(j["held"][2]["kind"], "subckt");
+    EXPECT_EQ(j["held"][2]["name"], "f");
+    EXPECT_EQ(j["held"][2]["line"], 5);
+    EXPECT_EQ(j["held"][2]["copy"], "f_scaled");
+    EXPECT_EQ(j["held"][1]["could_not_follow"].size(), 1u);
+    EXPECT_EQ(j["held"][1]["could_not_follow"][0]["line"], 4);
+}
+
+}  // namespace
+}  // namespace deckscale

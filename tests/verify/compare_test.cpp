@@ -398,3 +398,44 @@ TEST(CompareAc, SkippingPointsThatCannotBeWorstChangesNothing) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// With held parts equality is not expected: a scaled one-pole whose corner sits at 2x the
+// mapped corner is judged only by --tolerance-db/--tolerance-deg, and the largest |dB| and
+// |deg| over the sweep are those of the two analytic responses, 1/(1 + j f/fc).
+TEST(CompareAc, HeldPartsReportTheLargestDeviation) {
+    const double kf = 100;
+    const std::vector<double> freqs{10, 100, 1000, 10000};
+    SimPlot original = ac_plot(freqs, 1000);
+    SimPlot scaled = ac_plot(times(freqs, kf), 2 * 1000 * kf);
+    Tolerances held;
+    held.held = true;
+    Comparison c = compare_ac(original, scaled, 1, kf, held);
+    EXPECT_TRUE(c.passed());
+    const VectorResult* out = nullptr;
+    for (const auto& v : c.vectors)
+        if (v.name == "out") out = &v;
+    ASSERT_NE(out, nullptr);
+    double db = 0, deg = 0, db_at = 0, deg_at = 0;
+    for (double f : freqs) {
+        std::complex<double> a = 1.0 / std::complex<double>(1, f / 1000),
+                             b = 1.0 / std::complex<double>(1, f / 2000);
+        double d = std::fabs(20 * std::log10(std::abs(b) / std::abs(a)));
+        double p = std::fabs(std::arg(b / a)) * 180 / std::numbers::pi;
+        if (d > db) db = d, db_at = f;
+        if (p > deg) deg = p, deg_at = f;
+    }
+    EXPECT_NEAR(out->max_db, db, 1e-12);
+    EXPECT_EQ(out->max_db_at, db_at);
+    EXPECT_NEAR(out->max_deg, deg, 1e-10);
+    EXPECT_EQ(out->max_deg_at, deg_at);
+    held.db = 1;  // the deviation is 5.3 dB at 10 kHz
+    EXPECT_FALSE(compare_ac(original, scaled, 1, kf, held).passed());
+    held.db = 6;
+    EXPECT_TRUE(compare_ac(original, scaled, 1, kf, held).passed());
+}
+
+}  // namespace
+}  // namespace deckscale

@@ -124,3 +124,77 @@ TEST(ReportJson, ParsesAndHasTheFields) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// With held parts: the deviation table (scaled deck's Hz), "info" rows for the operating
+// point, the caution, and an INFO line without tolerances, PASS/FAIL with them.
+TEST(ReportText, HeldPartsReportHowFarTheResponseMoved) {
+    VerifyReport r;
+    r.original = "a.cir";
+    r.scaled = "b.cir";
+    r.kf = 0.01;
+    r.held = {"XU1"};
+    r.tolerances.held = true;
+    Comparison ac;
+    ac.analysis = "ac";
+    ac.points = 3;
+    ac.first = 1000;
+    ac.last = 1e6;
+    VectorResult out{"out", VectorKind::voltage, 0.2, 1e6, 1, 2, 1, true};
+    out.max_db = 1.25;
+    out.max_db_at = 1e6;
+    out.max_deg = 35.5;
+    out.max_deg_at = 5e5;
+    VectorResult inner{"xu1.c1", VectorKind::voltage, 0.9, 1000, 1, 2, 1, true};
+    inner.max_db = 40;
+    inner.max_db_at = 1000;
+    ac.vectors = {out, inner};
+    r.comparisons.push_back(ac);
+    Comparison op;
+    op.analysis = "op";
+    op.vectors.push_back(VectorResult{"out", VectorKind::voltage, 0.5, 0, 0, 0, 2.5, true});
+    r.comparisons.push_back(op);
+    EXPECT_EQ(report_text(r),
+              "deckscale verify\n"
+              "  original   a.cir\n"
+              "  scaled     b.cir\n"
+              "  factors    Km = 1, Kf = 0.01  (given)\n"
+              "  held       XU1 (kept as written by scale --hold: the scaled deck is not expected "
+              "to equal the original)\n"
+              "  elements   every matched R, C and L agrees with the factors\n"
+              "\n"
+              "  AC sweep: 3 points, 1000 Hz .. 1e+06 Hz of the original, 2 vectors\n"
+              "    how far the held parts moved the response (points more than 60 dB below a "
+              "vector's peak left out):\n"
+              "    vector                   max |dB|   at Hz (scaled)  max |deg|   at Hz (scaled)\n"
+              "    xu1.c1                         40               10          0                0  info\n"
+              "    out                          1.25            10000       35.5             5000  info\n"
+              "\n"
+              "  Operating point: 1 vectors\n"
+              "    vector                   rel. error               \n"
+              "    out                             0.5                 info\n"
+              "\n"
+              "caution: held parts were not rescaled; the circuit around them changed, so check "
+              "their ratings and stability in it before building. For mains-connected or "
+              "high-voltage circuits, local codes and licensed practice govern.\n"
+              "INFO: with held parts the scaled deck is not expected to equal the original; they "
+              "moved the response by up to 1.25 dB (out at 10000 Hz) and 35.5 deg (out at 5000 "
+              "Hz) at the deck's own nodes (inside subcircuits: the table above). No "
+              "--tolerance-db or --tolerance-deg given: this is information, not a verdict "
+              "(exit 0)\n");
+    EXPECT_TRUE(r.passed());
+    r.tolerances.db = 1;
+    r.comparisons[0].vectors[0].passed = false;
+    EXPECT_FALSE(r.passed());
+    EXPECT_NE(report_text(r).find("\nFAIL: the held parts moved the response by up to 1.25 dB "
+                                  "(out at 10000 Hz) and 35.5 deg (out at 5000 Hz) at the deck's "
+                                  "own nodes (inside subcircuits: the table above), beyond "
+                                  "--tolerance-db 1\n"),
+              std::string::npos)
+        << report_text(r);
+}
+
+}  // namespace
+}  // namespace deckscale
