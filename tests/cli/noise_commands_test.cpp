@@ -1,6 +1,7 @@
 // `scale` and `verify` on decks with a noise analysis, through the real binary: the noise
 // line of the change report, the noise comparison of verify (text and JSON), the flicker
-// flag and --follow-flicker. Decks are the invented ones under netlists/noise/.
+// flag and --follow-flicker. Decks are the invented ones under netlists/noise/ and
+// netlists/devices/ (those with junction devices).
 #include <string>
 
 #include <gtest/gtest.h>
@@ -18,6 +19,7 @@ using test::TempDir;
 using test::write_bytes;
 
 std::string noise_deck(const std::string& name) { return test::source_dir() + "/netlists/noise/" + name; }
+std::string device_deck(const std::string& name) { return test::source_dir() + "/netlists/devices/" + name; }
 
 RunResult scale(const TempDir& dir, const std::string& deck, std::vector<std::string> extra = {}) {
     std::vector<std::string> args{"scale", deck, "--km", "10", "--kf", "1k", "-o", "s.cir"};
@@ -89,9 +91,9 @@ TEST(NoiseCommands, AResistorOffByOnePercentFailsTheNoiseComparison) {
 
 TEST(NoiseCommands, FlickerIsFlaggedUnlessFollowFlickerRewritesIt) {
     TempDir dir;
-    RunResult s = scale(dir, noise_deck("flicker_diode.cir"));
+    RunResult s = scale(dir, device_deck("diode_flicker.cir"));
     EXPECT_NE(s.err.find("; flicker (1/f) noise of dclamp ("), std::string::npos) << s.err;
-    RunResult v = run_binary({"verify", noise_deck("flicker_diode.cir"), "s.cir", "--json", "r.json"}, dir.path());
+    RunResult v = run_binary({"verify", device_deck("diode_flicker.cir"), "s.cir", "--json", "r.json"}, dir.path());
     // The noise differs as it must; it does not decide the outcome, the operating point does.
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
     EXPECT_NE(v.out.find("    not expected to match: model 'dclamp' ("), std::string::npos) << v.out;
@@ -108,10 +110,10 @@ TEST(NoiseCommands, FlickerIsFlaggedUnlessFollowFlickerRewritesIt) {
             EXPECT_FALSE(a["passed"].get<bool>());
         }
 
-    s = scale(dir, noise_deck("flicker_diode.cir"), {"--follow-flicker"});
+    s = scale(dir, device_deck("diode_flicker.cir"), {"--follow-flicker"});
     EXPECT_NE(s.err.find("; flicker noise follows too: KF rewritten in dclamp ("), std::string::npos) << s.err;
     EXPECT_NE(read_bytes(dir.file("s.cir")).find("kf=1e-11 af=1.3"), std::string::npos);
-    v = run_binary({"verify", noise_deck("flicker_diode.cir"), "s.cir"}, dir.path());
+    v = run_binary({"verify", device_deck("diode_flicker.cir"), "s.cir"}, dir.path());
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
     EXPECT_EQ(v.out.find("not expected to match"), std::string::npos) << v.out;
     EXPECT_NE(v.out.find("  Noise: 81 points"), std::string::npos) << v.out;

@@ -1,6 +1,7 @@
 // Noise before and after scaling, against the outside: ngspice (the `ngspice -b` program, an
 // independent referee of the embedded runs verify makes) on invented decks under
-// netlists/noise/, each scaled by the tool, and textbook noise formulas.
+// netlists/noise/ (and netlists/devices/ for the diode), each scaled by the tool, and
+// textbook noise formulas.
 //
 // Constants: the SI values, exact since the 2019 redefinition: k = 1.380649e-23 J/K,
 // q = 1.602176634e-19 C. ngspice 39 uses CODATA 2014 values in its device code
@@ -104,7 +105,7 @@ TEST(NoiseReferenceTest, ResistorIntoCapacitorGivesKtOverCBeforeAndAfterScaling)
 TEST(NoiseReferenceTest, DiodeShotNoiseIsTwoQIAndFollowsTheLaw) {
     const double km = 10, kf = 1000, n = 1, current = 1e-3;
     test::TempDir dir;
-    Pair p = run_pair("diode_shot.cir", km, kf, ".noise v(a) Ibias dec 10 1 1meg 1",
+    Pair p = run_pair("../devices/diode_shot.cir", km, kf, ".noise v(a) Ibias dec 10 1 1meg 1",
                       ".noise v(a) Ibias dec 10 1k 1g 1", dir);
     auto shot = [&](double i) { return std::sqrt(2 * kCharge * i) * n * kBoltzmann * kTemp / (kCharge * i); };
     EXPECT_NEAR(p.original.spectra.at("onoise_d1_id").front() / shot(current), 1, 1e-6);
