@@ -25,8 +25,8 @@ std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error) {
     const auto& f = c.fields;
     std::size_t i = 1;
     auto kind = [&](std::size_t k) { return k < f.size() ? f[k].kind : TokenKind::title; };
-    if (kind(1) != TokenKind::word || !iequals(c.field_text(1), "v") || kind(2) != TokenKind::lparen ||
-        kind(3) != TokenKind::word) {
+    if (kind(1) != TokenKind::word || !iequals(c.field_text(1), "v") ||
+        kind(2) != TokenKind::lparen || kind(3) != TokenKind::word) {
         error = "the output must be v(node) or v(node,ref)";
         return std::nullopt;
     }
@@ -68,7 +68,8 @@ std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error) {
     auto n = plain_number(w[2]), f1 = plain_number(w[3]), f2 = plain_number(w[4]);
     std::optional<double> pts = w.size() == 6 ? plain_number(w[5]) : std::optional<double>(0);
     if (!n || !f1 || !f2 || !pts) {
-        error = "the point counts and frequencies must be plain numbers (parameters are not evaluated)";
+        error =
+            "the point counts and frequencies must be plain numbers (parameters are not evaluated)";
         return std::nullopt;
     }
     if (*n < 1 || *f1 <= 0 || *f2 < *f1) {
@@ -86,8 +87,8 @@ std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error) {
 
 NoiseSpec map_noise(const NoiseSpec& s, double kf) {
     NoiseSpec m = s;
-    SweepRewrite w = rewrite_sweep(SweepKind::noise, {s.type, s.points_text, s.fstart_text, s.fstop_text},
-                                   kf, s.reltol);
+    SweepRewrite w = rewrite_sweep(
+        SweepKind::noise, {s.type, s.points_text, s.fstart_text, s.fstop_text}, kf, s.reltol);
     if (!w.refusal.empty()) {  // ngspice cannot step the original either: plain products
         m.fstart_text = fmt::format("{:.15g}", s.fstart * kf);
         m.fstop_text = fmt::format("{:.15g}", s.fstop * kf);

@@ -11,14 +11,14 @@
 namespace deckscale {
 
 struct NoiseSpec {
-    std::string output;     // the output as ngspice reads it: "v(out)" or "v(out,ref)"
-    std::string source;     // the input source, lower case
-    std::string type;       // "dec", "oct" or "lin"
+    std::string output;  // the output as ngspice reads it: "v(out)" or "v(out,ref)"
+    std::string source;  // the input source, lower case
+    std::string type;    // "dec", "oct" or "lin"
     // The numbers as written ("20", "1k"), and as read.
     std::string points_text, fstart_text, fstop_text;
     std::string summary_text;  // points per summary; "" when not given
     double fstart = 0, fstop = 0;
-    double reltol = 1e-3;   // the deck's .options reltol: the stop test of the sweep uses it
+    double reltol = 1e-3;  // the deck's .options reltol: the stop test of the sweep uses it
 };
 
 // The noise analysis of a `.noise` card (or a `noise` command read as one); nullopt with

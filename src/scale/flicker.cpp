@@ -45,7 +45,8 @@ bool bsim_family(int level) {
 
 std::optional<Law> law_of(const FlickerModel& m) {
     switch (family_of(m.type)) {
-        case 'd': return Law{0, 0, true, 1, false};
+        case 'd':
+            return Law{0, 0, true, 1, false};
         case 'q':
             if (m.level == 1) return Law{0, 0, true, 1, false};
             return std::nullopt;
@@ -55,9 +56,11 @@ std::optional<Law> law_of(const FlickerModel& m) {
         case 'z':
             if (m.level == 1) return Law{1, -1, true, 1, false};
             return std::nullopt;
-        case 'r': return Law{1, -1, true, 0, true};
+        case 'r':
+            return Law{1, -1, true, 0, true};
         case 'm':
-            if (m.type == "vdmos" || m.level == 2 || m.level == 9) return Law{1, -2, false, 0, false};
+            if (m.type == "vdmos" || m.level == 2 || m.level == 9)
+                return Law{1, -2, false, 0, false};
             if (m.level == 1) return Law{1, -2, true, -1, false};
             if (m.level == 3) return Law{1, -1, false, 0, false};
             if (bsim_family(m.level)) return Law{0, 0, false, 0, false};
@@ -75,9 +78,7 @@ std::optional<double> plain_value(const Card& c, const Atom& a) {
 
 }  // namespace
 
-bool FlickerModel::has_flicker() const {
-    return (kf && *kf != 0) || !plain || !other.empty();
-}
+bool FlickerModel::has_flicker() const { return (kf && *kf != 0) || !plain || !other.empty(); }
 
 std::optional<FlickerModel> flicker_model_of(const Card& c, const std::vector<Atom>& atoms) {
     if (c.fields.size() < 3) return std::nullopt;
@@ -129,7 +130,8 @@ std::vector<FlickerModel> flicker_models(const Deck& deck) {
     std::vector<Atom> atoms;
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
-            if (c.kind != CardKind::dot || c.fields.size() < 3 || card_keyword(c) != ".model") return;
+            if (c.kind != CardKind::dot || c.fields.size() < 3 || card_keyword(c) != ".model")
+                return;
             atoms_of(c, 3, atoms);
             if (auto m = flicker_model_of(c, atoms)) out.push_back(std::move(*m));
         });
@@ -140,9 +142,10 @@ std::optional<double> flicker_kf_factor(const FlickerModel& m, ScaleFactors f, s
     if (f.km == 1 && f.kf == 1) return 1.0;
     auto law = law_of(m);
     if (!law) {
-        why = fmt::format("how ngspice 39 scales the flicker noise of a '{}' model{} with the "
-                          "instance is not known",
-                          m.type, m.level == 1 ? "" : fmt::format(" of level {}", m.level));
+        why = fmt::format(
+            "how ngspice 39 scales the flicker noise of a '{}' model{} with the "
+            "instance is not known",
+            m.type, m.level == 1 ? "" : fmt::format(" of level {}", m.level));
         return std::nullopt;
     }
     if (!m.plain) {
@@ -180,7 +183,8 @@ std::optional<double> flicker_rewrite(ScalePass& p) {
         for (const auto& a : atoms)
             if (a.key && iequals(c.text(*a.key), "kf")) at = a.key;
         p.unscalable(*at, fmt::format("--follow-flicker: the flicker noise of model '{}' cannot "
-                                      "be made to follow: {}", m->name, why));
+                                      "be made to follow: {}",
+                                      m->name, why));
         return std::nullopt;
     }
     if (flicker_follows(*k)) return std::nullopt;

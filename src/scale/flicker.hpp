@@ -23,16 +23,16 @@ struct Atom;
 class ScalePass;
 
 struct FlickerModel {
-    std::string name;        // as written
-    std::string type;        // lower case: d, npn, njf, nmf, nmos, vdmos, r, ...
-    int level = 1;           // -1 when not a plain number
+    std::string name;          // as written
+    std::string type;          // lower case: d, npn, njf, nmf, nmos, vdmos, r, ...
+    int level = 1;             // -1 when not a plain number
     std::optional<double> kf;  // KF as given; nullopt when not given (ngspice's default 0)
     double af = 1, ef = 1;     // AF and EF as given, else ngspice's default 1
     bool plain = true;         // false when KF, AF or EF is not a plain number
     // Flicker parameters other than KF given non-zero ("kfn", "noia", ...), or "default"
     // for families with flicker noise switched on by default (BSIM4, B4SOI).
     std::vector<std::string> other;
-    std::string where;       // "deck.cir:12"
+    std::string where;  // "deck.cir:12"
     bool has_flicker() const;
 };
 

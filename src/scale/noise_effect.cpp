@@ -23,7 +23,9 @@ std::string three_digits(double r) {
     return s;
 }
 
-std::string ratio_text(double r) { return fmt::format("x{} ({})", three_digits(r), amplitude_db_text(r)); }
+std::string ratio_text(double r) {
+    return fmt::format("x{} ({})", three_digits(r), amplitude_db_text(r));
+}
 
 std::string names(const std::vector<std::string>& v) {
     std::string s;
@@ -61,21 +63,26 @@ NoiseEffect noise_effect(const Deck& deck, ScaleFactors f, bool follow_flicker) 
         e.line = fmt::format("{}: output noise density and integrated output noise {}", km,
                              ratio_text(e.density));
     else if (f.km == 1)
-        e.line = fmt::format("{}: output noise density unchanged at Kf f; integrated output noise "
-                             "{} over the Kf = {} times wider band",
-                             km, ratio_text(e.integrated), factor_text(f.kf));
+        e.line = fmt::format(
+            "{}: output noise density unchanged at Kf f; integrated output noise "
+            "{} over the Kf = {} times wider band",
+            km, ratio_text(e.integrated), factor_text(f.kf));
     else
-        e.line = fmt::format("{}: output noise density {} at Kf f; integrated output noise {} over "
-                             "the Kf = {} times wider band",
-                             km, ratio_text(e.density), ratio_text(e.integrated), factor_text(f.kf));
+        e.line = fmt::format(
+            "{}: output noise density {} at Kf f; integrated output noise {} over "
+            "the Kf = {} times wider band",
+            km, ratio_text(e.density), ratio_text(e.integrated), factor_text(f.kf));
     if (!e.flicker_rewritten.empty())
-        e.line += fmt::format("; flicker noise follows too: KF rewritten in {}", names(e.flicker_rewritten));
+        e.line += fmt::format("; flicker noise follows too: KF rewritten in {}",
+                              names(e.flicker_rewritten));
     if (!e.flicker_off.empty())
-        e.line += fmt::format("; flicker (1/f) noise of {} does not follow (--follow-flicker "
-                              "rewrites KF)",
-                              names(e.flicker_off));
+        e.line += fmt::format(
+            "; flicker (1/f) noise of {} does not follow (--follow-flicker "
+            "rewrites KF)",
+            names(e.flicker_off));
     if (!e.flicker_unknown.empty())
-        e.line += fmt::format("; flicker noise of {} is not known to follow", names(e.flicker_unknown));
+        e.line +=
+            fmt::format("; flicker noise of {} is not known to follow", names(e.flicker_unknown));
     return e;
 }
 

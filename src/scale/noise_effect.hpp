@@ -17,10 +17,10 @@ struct NoiseEffect {
     double density = 1;     // output noise density at Kf f over the original's at f: sqrt(Km)
     double integrated = 1;  // integrated output noise over the mapped band: sqrt(Km Kf)
     // Models with flicker noise, named with where they are ("dmod (deck.cir:7)"):
-    std::vector<std::string> flicker_rewritten;   // KF rewritten by --follow-flicker
-    std::vector<std::string> flicker_off;         // KF left: their flicker noise does not follow
-    std::vector<std::string> flicker_unknown;     // not known whether it follows
-    std::string line;  // one line for people; empty when Km = Kf = 1
+    std::vector<std::string> flicker_rewritten;  // KF rewritten by --follow-flicker
+    std::vector<std::string> flicker_off;        // KF left: their flicker noise does not follow
+    std::vector<std::string> flicker_unknown;    // not known whether it follows
+    std::string line;                            // one line for people; empty when Km = Kf = 1
 };
 
 NoiseEffect noise_effect(const Deck& deck, ScaleFactors f, bool follow_flicker);

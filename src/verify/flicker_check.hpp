@@ -14,6 +14,7 @@ namespace deckscale {
 // scaled deck: its KF needs a factor other than 1 and the scaled deck's model of the same
 // name does not carry it, or how it scales is not known. Empty when the noise of the pair
 // is expected to agree.
-std::vector<std::string> flicker_differences(const Deck& original, const Deck& scaled, ScaleFactors f);
+std::vector<std::string> flicker_differences(const Deck& original, const Deck& scaled,
+                                             ScaleFactors f);
 
 }  // namespace deckscale

@@ -101,38 +101,52 @@ void compare_plot(const SimPlot& o, const SimPlot& s, bool integrated, double km
         if (!factor) continue;
         const SimVector* vs = s.find(vo.name);
         if (!vs) {
-            c.problems.push_back(fmt::format("'{}' exists in the original but not in the scaled deck", vo.name));
+            c.problems.push_back(
+                fmt::format("'{}' exists in the original but not in the scaled deck", vo.name));
             continue;
         }
         VectorResult r = compare_vector(vo, *vs, 1 / *factor, freq, tol);
         if (!r.passed && integrated && floored.count(part_of(vo.name))) {
-            unjudged += fmt::format("{}{} ({:.3g})", unjudged.empty() ? "" : ", ", vo.name, r.worst);
+            unjudged +=
+                fmt::format("{}{} ({:.3g})", unjudged.empty() ? "" : ", ", vo.name, r.worst);
             continue;
         }
         c.vectors.push_back(r);
     }
     if (!unjudged.empty())
-        c.notes.push_back("not judged, as their source's noise falls below ngspice's integration floor "
-                          "(1e-38 V^2/Hz) at some frequencies, where the two runs integrate it "
-                          "differently: " + unjudged);
+        c.notes.push_back(
+            "not judged, as their source's noise falls below ngspice's integration floor "
+            "(1e-38 V^2/Hz) at some frequencies, where the two runs integrate it "
+            "differently: " +
+            unjudged);
     for (const auto& vs : s.vectors)
         if (noise_factor(vs.kind, integrated, km, kf) && !o.find(vs.name))
-            c.problems.push_back(fmt::format("'{}' exists in the scaled deck but not in the original", vs.name));
+            c.problems.push_back(
+                fmt::format("'{}' exists in the scaled deck but not in the original", vs.name));
 }
 
 }  // namespace
 
 std::optional<double> noise_factor(VectorKind kind, bool integrated, double km, double kf) {
     switch (kind) {
-        case VectorKind::voltage_density: return std::sqrt(km);
-        case VectorKind::current_density: return 1 / std::sqrt(km);
-        case VectorKind::voltage_squared_density: return km;
-        case VectorKind::current_squared_density: return 1 / km;
-        case VectorKind::voltage_squared: return km * kf;
-        case VectorKind::current_squared: return kf / km;
-        case VectorKind::voltage: return integrated ? std::optional<double>(std::sqrt(km * kf)) : std::nullopt;
-        case VectorKind::current: return integrated ? std::optional<double>(std::sqrt(kf / km)) : std::nullopt;
-        default: return std::nullopt;
+        case VectorKind::voltage_density:
+            return std::sqrt(km);
+        case VectorKind::current_density:
+            return 1 / std::sqrt(km);
+        case VectorKind::voltage_squared_density:
+            return km;
+        case VectorKind::current_squared_density:
+            return 1 / km;
+        case VectorKind::voltage_squared:
+            return km * kf;
+        case VectorKind::current_squared:
+            return kf / km;
+        case VectorKind::voltage:
+            return integrated ? std::optional<double>(std::sqrt(km * kf)) : std::nullopt;
+        case VectorKind::current:
+            return integrated ? std::optional<double>(std::sqrt(kf / km)) : std::nullopt;
+        default:
+            return std::nullopt;
     }
 }
 
@@ -154,8 +168,9 @@ Comparison compare_noise(const SimPlot& so, const SimPlot& ss, const SimPlot* to
         compare_plot(*to, *ts, true, km, kf, tol, floored, c);
     else if (to || ts)
         c.problems.push_back("only one of the runs integrated its noise");
-    std::stable_sort(c.vectors.begin(), c.vectors.end(),
-                     [](const VectorResult& a, const VectorResult& b) { return a.worst > b.worst; });
+    std::stable_sort(
+        c.vectors.begin(), c.vectors.end(),
+        [](const VectorResult& a, const VectorResult& b) { return a.worst > b.worst; });
     return c;
 }
 

@@ -35,8 +35,9 @@ const SimPlot* plot_of(const SimOutcome& o, const std::string& analysis) {
 const SimPlot* noise_plot(const SimOutcome& o, bool integrated) {
     for (const auto& p : o.plots) {
         if (!istarts_with(p.name, "noise")) continue;
-        bool spectra = std::any_of(p.vectors.begin(), p.vectors.end(),
-                                   [](const SimVector& v) { return v.kind == VectorKind::frequency; });
+        bool spectra = std::any_of(p.vectors.begin(), p.vectors.end(), [](const SimVector& v) {
+            return v.kind == VectorKind::frequency;
+        });
         if (spectra != integrated) return &p;
     }
     return nullptr;
@@ -93,8 +94,10 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         DeckAnalyses an = find_analyses(original);
         for (const auto& p : an.problems) report.notes.push_back(p + " (not compared)");
         for (const auto& kw : an.uncompared)
-            report.notes.push_back(fmt::format("the original's {} analysis is not compared (verify maps "
-                                               ".ac, .op, .tran and .noise)", kw));
+            report.notes.push_back(
+                fmt::format("the original's {} analysis is not compared (verify maps "
+                            ".ac, .op, .tran and .noise)",
+                            kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
             std::string e;
@@ -110,11 +113,12 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             return refuse(fmt::format("no source of {} has an AC value, so an AC sweep "
                                       "shows nothing; name the source that drives the circuit with "
                                       "--drive NAME (it gets AC 1)", o.original));
-        if (an.noise && std::find(an.sources.begin(), an.sources.end(), an.noise->source) == an.sources.end())
+        if (an.noise &&
+            std::find(an.sources.begin(), an.sources.end(), an.noise->source) == an.sources.end())
             return refuse(fmt::format("the .noise input '{}' is no independent source of {}",
                                       an.noise->source, o.original));
-        auto job = [&](const Deck& d, const std::string& path, const std::string& card, double drive_ac,
-                       const std::string& driven) {
+        auto job = [&](const Deck& d, const std::string& path, const std::string& card,
+                       double drive_ac, const std::string& driven) {
             SimJob j;
             j.label = path;
             j.cards = simulation_cards(
@@ -130,23 +134,26 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         double scaled_drive = !drive.empty() && drive[0] == 'i' ? 1 / report.km : 1;
         if (sweep)
             pairs.push_back({"ac", job(original, o.original, ac_card(*sweep), 1, drive),
-                             job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)), scaled_drive, drive)});
+                             job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)),
+                                 scaled_drive, drive)});
         if (an.op || (!sweep && !an.tran))
             pairs.push_back({"op", job(original, o.original, ".op", 1, drive),
                              job(scaled, o.scaled, ".op", scaled_drive, drive)});
         if (an.tran)
             pairs.push_back({"tran", job(original, o.original, tran_card(*an.tran), 1, drive),
-                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)), scaled_drive, drive)});
+                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)),
+                                 scaled_drive, drive)});
         if (an.noise) {
             // ngspice 39 refuses a noise input without an AC value ("Noise input source i1 has
             // no AC value" for a current source); its magnitude does not enter the results.
             const std::string& in = an.noise->source;
-            bool has_ac = std::find(an.ac_sources.begin(), an.ac_sources.end(), in) != an.ac_sources.end();
+            bool has_ac =
+                std::find(an.ac_sources.begin(), an.ac_sources.end(), in) != an.ac_sources.end();
             std::string driven = has_ac ? "" : in;
             double noise_drive = in[0] == 'i' ? 1 / report.km : 1;
             pairs.push_back({"noise", job(original, o.original, noise_card(*an.noise), 1, driven),
-                             job(scaled, o.scaled, noise_card(map_noise(*an.noise, report.kf)), noise_drive,
-                                 driven)});
+                             job(scaled, o.scaled, noise_card(map_noise(*an.noise, report.kf)),
+                                 noise_drive, driven)});
             flicker = flicker_differences(original, scaled, {report.km, report.kf});
         }
     }
@@ -169,8 +176,10 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     for (std::size_t i = 0; i < pairs.size(); ++i) {
         const std::string& a = pairs[i].analysis;
         bool noise = a == "noise";
-        const SimPlot* po = noise ? noise_plot(outcomes[2 * i], false) : plot_of(outcomes[2 * i], a);
-        const SimPlot* ps = noise ? noise_plot(outcomes[2 * i + 1], false) : plot_of(outcomes[2 * i + 1], a);
+        const SimPlot* po =
+            noise ? noise_plot(outcomes[2 * i], false) : plot_of(outcomes[2 * i], a);
+        const SimPlot* ps =
+            noise ? noise_plot(outcomes[2 * i + 1], false) : plot_of(outcomes[2 * i + 1], a);
         if (!po || !ps) {
             result.outcome = PairVerification::Outcome::sim_failed;
             result.problems.push_back(fmt::format("the simulator produced no {} plot", a));
@@ -181,8 +190,8 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             result.ac_run = 2 * i;
         } else if (noise) {
             Comparison c = compare_noise(*po, *ps, noise_plot(outcomes[2 * i], true),
-                                         noise_plot(outcomes[2 * i + 1], true), report.km, report.kf,
-                                         report.tolerances);
+                                         noise_plot(outcomes[2 * i + 1], true), report.km,
+                                         report.kf, report.tolerances);
             c.expected_differences = flicker;
             report.comparisons.push_back(std::move(c));
         } else if (a == "op") {

@@ -12,7 +12,8 @@ namespace deckscale {
 
 bool VerifyReport::passed() const {
     // Comparisons with expected differences (flicker noise) are shown but do not decide.
-    return std::any_of(comparisons.begin(), comparisons.end(), [](const Comparison& c) { return c.decides(); }) &&
+    return std::any_of(comparisons.begin(), comparisons.end(),
+                       [](const Comparison& c) { return c.decides(); }) &&
            std::all_of(comparisons.begin(), comparisons.end(),
                        [](const Comparison& c) { return !c.decides() || c.passed(); });
 }
@@ -50,11 +51,17 @@ bool integrated(const VectorResult& v) {
            v.kind == VectorKind::voltage_squared || v.kind == VectorKind::current_squared;
 }
 
-// How the noise of the scaled deck was mapped back (scale/noise_effect.hpp's factors).
-std::string noise_mapping(const VerifyReport& r) {
-    return fmt::format("compared as: output noise density x sqrt(Km) = x{:.6g} at Kf f, integrated "
-                       "noise x sqrt(Km Kf) = x{:.6g}; a current input's input-referred noise / sqrt(Km)",
-                       std::sqrt(r.km), std::sqrt(r.km * r.kf));
+// How the noise of the scaled deck was mapped back (verify/noise_compare.hpp's factors).
+std::string noise_mapping(const VerifyReport& r, const Comparison& c) {
+    bool current_input = std::any_of(c.vectors.begin(), c.vectors.end(), [](const VectorResult& v) {
+        return v.kind == VectorKind::current_density ||
+               v.kind == VectorKind::current_squared_density;
+    });
+    return fmt::format(
+        "compared as: noise density x sqrt(Km) = x{:.6g} at Kf f, integrated noise "
+        "x sqrt(Km Kf) = x{:.6g}{}",
+        std::sqrt(r.km), std::sqrt(r.km * r.kf),
+        current_input ? "; the current input's input-referred noise / sqrt(Km)" : "");
 }
 
 }  // namespace
@@ -87,7 +94,7 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
                              analysis_title(c.analysis), c.points, c.first, axis, c.last, axis,
                              c.vectors.size());
-        if (c.analysis == "noise") s += "    " + noise_mapping(r) + "\n";
+        if (c.analysis == "noise") s += "    " + noise_mapping(r, c) + "\n";
         for (const auto& d : c.expected_differences) s += "    not expected to match: " + d + "\n";
         for (const auto& n : c.notes) s += "    note: " + n + "\n";
         for (const auto& p : c.problems) s += "    problem: " + p + "\n";
@@ -104,8 +111,8 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("    {:<{}} {:>12} {:>14} {:>12} {:>12}\n", "vector", width, "rel. error", "at Hz",
                              "mag. dB", "phase deg");
         else if (c.analysis == "noise")
-            s += fmt::format("    {:<{}} {:>12} {:>14} {:>12}\n", "vector", width, "rel. error", "at Hz",
-                             "ratio dB");
+            s += fmt::format("    {:<{}} {:>12} {:>14} {:>12}\n", "vector", width, "rel. error",
+                             "at Hz", "ratio dB");
         else
             s += fmt::format("    {:<{}} {:>12} {:>14}\n", "vector", width, "rel. error",
                              c.analysis == "tran" ? "at s" : "");
@@ -113,19 +120,23 @@ std::string report_text(const VerifyReport& r) {
         for (const auto& v : c.vectors) {
             if (shown == 8 && v.passed) break;
             ++shown;
-            std::string name = v.kind == VectorKind::current && c.analysis != "noise" ? v.name + " (x Km)" : v.name;
+            std::string name = v.kind == VectorKind::current && c.analysis != "noise"
+                                   ? v.name + " (x Km)"
+                                   : v.name;
             const char* verdict = v.passed ? "ok" : c.decides() ? "FAIL" : "differs";
             if (c.analysis == "noise")
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14} {:>12.3g}  {}\n", name, width, v.worst,
-                                 integrated(v) ? "band" : fmt::format("{:.6g}", v.at), v.db_error, verdict);
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14} {:>12.3g}  {}\n", name, width,
+                                 v.worst, integrated(v) ? "band" : fmt::format("{:.6g}", v.at),
+                                 v.db_error, verdict);
             else if (c.analysis == "ac")
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, width, v.worst,
-                                 v.at, v.db_error, v.deg_error, verdict);
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name,
+                                 width, v.worst, v.at, v.db_error, v.deg_error, verdict);
             else if (c.analysis == "tran")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g}  {}\n", name, width, v.worst, v.at,
                                  verdict);
             else
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "", verdict);
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "",
+                                 verdict);
         }
         if (shown < c.vectors.size())
             s += fmt::format("    ... and {} more vectors within tolerance\n", c.vectors.size() - shown);
@@ -135,8 +146,8 @@ std::string report_text(const VerifyReport& r) {
     std::string worst;
     for (const auto& c : r.comparisons) {
         double tol = c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
-        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ", c.analysis,
-                             c.worst() ? c.worst()->worst : 0.0, tol,
+        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
+                             c.analysis, c.worst() ? c.worst()->worst : 0.0, tol,
                              c.decides() ? "" : "; not judged: flicker noise does not follow");
     }
     if (worst.empty()) worst = "nothing compared";
@@ -173,9 +184,15 @@ std::string report_json(const VerifyReport& r) {
             vs.push_back({{"name", v.name}, {"kind", kind_word(v.kind)}, {"worst", v.worst}, {"at", v.at},
                           {"db_error", v.db_error}, {"deg_error", v.deg_error}, {"peak", v.peak},
                           {"passed", v.passed}});
-        an.push_back({{"analysis", c.analysis}, {"points", c.points}, {"first", c.first}, {"last", c.last},
-                      {"passed", c.passed()}, {"problems", c.problems}, {"not_compared", c.not_compared},
-                      {"expected_to_match", c.decides()}, {"expected_differences", c.expected_differences},
+        an.push_back({{"analysis", c.analysis},
+                      {"points", c.points},
+                      {"first", c.first},
+                      {"last", c.last},
+                      {"passed", c.passed()},
+                      {"problems", c.problems},
+                      {"not_compared", c.not_compared},
+                      {"expected_to_match", c.decides()},
+                      {"expected_differences", c.expected_differences},
                       {"notes", c.notes},
                       {"vectors", vs}});
     }

@@ -18,8 +18,12 @@ using test::RunResult;
 using test::TempDir;
 using test::write_bytes;
 
-std::string noise_deck(const std::string& name) { return test::source_dir() + "/netlists/noise/" + name; }
-std::string device_deck(const std::string& name) { return test::source_dir() + "/netlists/devices/" + name; }
+std::string noise_deck(const std::string& name) {
+    return test::source_dir() + "/netlists/noise/" + name;
+}
+std::string device_deck(const std::string& name) {
+    return test::source_dir() + "/netlists/devices/" + name;
+}
 
 RunResult scale(const TempDir& dir, const std::string& deck, std::vector<std::string> extra = {}) {
     std::vector<std::string> args{"scale", deck, "--km", "10", "--kf", "1k", "-o", "s.cir"};
@@ -45,13 +49,15 @@ TEST(NoiseCommands, ScaleStatesTheNoiseConsequence) {
 TEST(NoiseCommands, VerifyComparesNoisePerVectorInTextAndJson) {
     TempDir dir;
     scale(dir, noise_deck("rc_ladder.cir"));
-    RunResult v = run_binary({"verify", noise_deck("rc_ladder.cir"), "s.cir", "--json", "r.json"}, dir.path());
+    RunResult v = run_binary({"verify", noise_deck("rc_ladder.cir"), "s.cir", "--json", "r.json"},
+                             dir.path());
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
     // With points per summary (5 here) ngspice 39 keeps every 5th of the 141 points.
     EXPECT_NE(v.out.find("  Noise: 29 points, 1 Hz .. 1e+07 Hz of the original, 40 vectors\n"),
               std::string::npos)
         << v.out;
-    EXPECT_NE(v.out.find("    compared as: output noise density x sqrt(Km) = x3.16228 at Kf f"),
+    EXPECT_NE(v.out.find("    compared as: noise density x sqrt(Km) = x3.16228 at Kf f, integrated "
+                         "noise x sqrt(Km Kf) = x100\n"),
               std::string::npos)
         << v.out;
     EXPECT_NE(v.out.find("\nPASS: "), std::string::npos) << v.out;
@@ -82,8 +88,8 @@ TEST(NoiseCommands, AResistorOffByOnePercentFailsTheNoiseComparison) {
     ASSERT_NE(at, std::string::npos) << text;
     text.replace(at, 12, "R2 n1 n2 47.47k");
     write_bytes(dir.file("s.cir"), text);
-    RunResult v = run_binary({"verify", noise_deck("rc_ladder.cir"), "s.cir", "--km", "10", "--kf", "1k"},
-                             dir.path());
+    RunResult v = run_binary(
+        {"verify", noise_deck("rc_ladder.cir"), "s.cir", "--km", "10", "--kf", "1k"}, dir.path());
     EXPECT_EQ(v.exit_code, 1) << v.out << v.err;
     EXPECT_NE(v.out.find("onoise_r2"), std::string::npos) << v.out;
     EXPECT_NE(v.out.find("FAIL: "), std::string::npos) << v.out;
@@ -93,13 +99,16 @@ TEST(NoiseCommands, FlickerIsFlaggedUnlessFollowFlickerRewritesIt) {
     TempDir dir;
     RunResult s = scale(dir, device_deck("diode_flicker.cir"));
     EXPECT_NE(s.err.find("; flicker (1/f) noise of dclamp ("), std::string::npos) << s.err;
-    RunResult v = run_binary({"verify", device_deck("diode_flicker.cir"), "s.cir", "--json", "r.json"}, dir.path());
+    RunResult v = run_binary(
+        {"verify", device_deck("diode_flicker.cir"), "s.cir", "--json", "r.json"}, dir.path());
     // The noise differs as it must; it does not decide the outcome, the operating point does.
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
-    EXPECT_NE(v.out.find("    not expected to match: model 'dclamp' ("), std::string::npos) << v.out;
-    EXPECT_NE(v.out.find("its flicker noise (KF = 1e-14, AF = 1.3) does not follow: KF would have to "
-                         "be x1000 (deckscale scale --follow-flicker writes that)"),
-              std::string::npos)
+    EXPECT_NE(v.out.find("    not expected to match: model 'dclamp' ("), std::string::npos)
+        << v.out;
+    EXPECT_NE(
+        v.out.find("its flicker noise (KF = 1e-14, AF = 1.3) does not follow: KF would have to "
+                   "be x1000 (deckscale scale --follow-flicker writes that)"),
+        std::string::npos)
         << v.out;
     EXPECT_NE(v.out.find("differs"), std::string::npos) << v.out;
     EXPECT_NE(v.out.find("not judged: flicker noise does not follow"), std::string::npos) << v.out;
@@ -111,7 +120,9 @@ TEST(NoiseCommands, FlickerIsFlaggedUnlessFollowFlickerRewritesIt) {
         }
 
     s = scale(dir, device_deck("diode_flicker.cir"), {"--follow-flicker"});
-    EXPECT_NE(s.err.find("; flicker noise follows too: KF rewritten in dclamp ("), std::string::npos) << s.err;
+    EXPECT_NE(s.err.find("; flicker noise follows too: KF rewritten in dclamp ("),
+              std::string::npos)
+        << s.err;
     EXPECT_NE(read_bytes(dir.file("s.cir")).find("kf=1e-11 af=1.3"), std::string::npos);
     v = run_binary({"verify", device_deck("diode_flicker.cir"), "s.cir"}, dir.path());
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
@@ -128,7 +139,8 @@ TEST(NoiseCommands, ControlNoiseWithACurrentInputIsCompared) {
     write_bytes(dir.file("i.cir"),
                 "current-driven RC\nI1 0 in DC 0\nR0 in 0 1k\nR1 in out 2k\nC1 out 0 10n\n"
                 ".control\nnoise v(out) I1 dec 10 10 1meg\nrun\n.endc\n.end\n");
-    RunResult s = run_binary({"scale", "i.cir", "--km", "100", "--kf", "10", "-o", "s.cir"}, dir.path());
+    RunResult s =
+        run_binary({"scale", "i.cir", "--km", "100", "--kf", "10", "-o", "s.cir"}, dir.path());
     ASSERT_EQ(s.exit_code, 0) << s.err;
     RunResult v = run_binary({"verify", "i.cir", "s.cir", "--json", "r.json"}, dir.path());
     EXPECT_EQ(v.exit_code, 0) << v.out << v.err;

@@ -28,7 +28,8 @@ TEST(NoiseCard, ReadsOutputSourceSweepAndSummary) {
     };
     const std::vector<Case> cases{
         {__LINE__, ".noise v(b) V1 dec 10 1 1meg", "v(b)", "v1", "dec", "10", "1", "1meg", ""},
-        {__LINE__, ".NOISE V(b, a) v1 OCT 8 10 20k 4", "v(b,a)", "v1", "oct", "8", "10", "20k", "4"},
+        {__LINE__, ".NOISE V(b, a) v1 OCT 8 10 20k 4", "v(b,a)", "v1", "oct", "8", "10", "20k",
+         "4"},
         {__LINE__, ".noise v(b) I1 lin 5 1k 2k", "v(b)", "i1", "lin", "5", "1k", "2k", ""},
     };
     for (const auto& k : cases) {
@@ -52,14 +53,20 @@ TEST(NoiseCard, UnreadableCardsAreProblems) {
         std::string card, problem;
     };
     const std::vector<Case> cases{
-        {__LINE__, ".noise i(V1) V1 dec 10 1 1k", ".noise card: the output must be v(node) or v(node,ref)"},
-        {__LINE__, ".noise v(b V1 dec 10 1 1k", ".noise card: the output must be v(node) or v(node,ref)"},
-        {__LINE__, ".noise v(b) R1 dec 10 1 1k", ".noise card: the input 'R1' is not an independent V or I source"},
+        {__LINE__, ".noise i(V1) V1 dec 10 1 1k",
+         ".noise card: the output must be v(node) or v(node,ref)"},
+        {__LINE__, ".noise v(b V1 dec 10 1 1k",
+         ".noise card: the output must be v(node) or v(node,ref)"},
+        {__LINE__, ".noise v(b) R1 dec 10 1 1k",
+         ".noise card: the input 'R1' is not an independent V or I source"},
         {__LINE__, ".noise v(b) V1 log 10 1 1k", ".noise card: unknown sweep type 'log'"},
-        {__LINE__, ".noise v(b) V1 dec 10 1", ".noise card: needs an input source, dec|oct|lin, a point count and two frequencies"},
+        {__LINE__, ".noise v(b) V1 dec 10 1",
+         ".noise card: needs an input source, dec|oct|lin, a point count and two frequencies"},
         {__LINE__, ".noise v(b) V1 dec 10 {fl} 1k",
-         ".noise card: the point counts and frequencies must be plain numbers (parameters are not evaluated)"},
-        {__LINE__, ".noise v(b) V1 dec 10 1k 1", ".noise card: the sweep must have at least one point and 0 < fstart <= fstop"},
+         ".noise card: the point counts and frequencies must be plain numbers (parameters are not "
+         "evaluated)"},
+        {__LINE__, ".noise v(b) V1 dec 10 1k 1",
+         ".noise card: the sweep must have at least one point and 0 < fstart <= fstop"},
     };
     for (const auto& k : cases) {
         SCOPED_TRACE(k.line);

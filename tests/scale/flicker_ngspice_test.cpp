@@ -20,15 +20,17 @@ namespace {
 struct Stage {
     int line;
     std::string name;
-    std::string deck;    // the circuit with its model; the noise output is v(o), input V1
+    std::string deck;  // the circuit with its model; the noise output is v(o), input V1
     double km, kf;
 };
 
 // A supply, a gate or base drive with AC 1, and the device between o and ground.
-std::string stage(const std::string& device, const std::string& model, const std::string& drive = "1.5") {
-    return fmt::format("flicker stage\nVDD vdd 0 DC 5\nV1 in 0 DC {} AC 1\nRG in g 10k\nRD vdd o 5k\n"
-                       "{}\n{}\n.end\n",
-                       drive, device, model);
+std::string stage(const std::string& device, const std::string& model,
+                  const std::string& drive = "1.5") {
+    return fmt::format(
+        "flicker stage\nVDD vdd 0 DC 5\nV1 in 0 DC {} AC 1\nRG in g 10k\nRD vdd o 5k\n"
+        "{}\n{}\n.end\n",
+        drive, device, model);
 }
 
 // The largest relative difference of the device's flicker part from the thermal law, and
@@ -49,13 +51,14 @@ Deviation deviation(const Stage& s, bool follow) {
     for (const auto& d : scaled.result.unscalable) ADD_FAILURE() << d.message;
     test::write_bytes(dir.file("scaled.cir"), scaled.text());
     auto a = test::run_noise(original, {}, ".noise v(o) V1 dec 2 10 1e5 1", dir, "o");
-    auto b = test::run_noise(dir.file("scaled.cir"), {s.km, s.kf},
-                             fmt::format(".noise v(o) V1 dec 2 {:.17g} {:.17g} 1", 10 * s.kf, 1e5 * s.kf),
-                             dir, "s");
+    auto b = test::run_noise(
+        dir.file("scaled.cir"), {s.km, s.kf},
+        fmt::format(".noise v(o) V1 dec 2 {:.17g} {:.17g} 1", 10 * s.kf, 1e5 * s.kf), dir, "s");
     Deviation d;
     std::string part;
     for (const auto& [name, v] : a.spectra)
-        if (name.find("1overf") != std::string::npos && name.find(s.name) != std::string::npos) part = name;
+        if (name.find("1overf") != std::string::npos && name.find(s.name) != std::string::npos)
+            part = name;
     EXPECT_FALSE(part.empty()) << "no flicker part of " << s.name;
     if (part.empty()) return d;
     const auto& fo = a.spectra["frequency"];
@@ -70,7 +73,8 @@ Deviation deviation(const Stage& s, bool follow) {
         EXPECT_GT(po[k], 0);
         d.flicker = std::max(d.flicker, std::fabs(ps[k] / (po[k] * std::sqrt(s.km)) - 1));
     }
-    d.total = std::fabs(b.totals["onoise_total"] / (a.totals["onoise_total"] * std::sqrt(s.km * s.kf)) - 1);
+    d.total = std::fabs(
+        b.totals["onoise_total"] / (a.totals["onoise_total"] * std::sqrt(s.km * s.kf)) - 1);
     return d;
 }
 
@@ -102,7 +106,8 @@ TEST(FlickerReferenceTest, FollowFlickerKeepsFlickerNoiseOnTheThermalLaw) {
         Deviation with = deviation(s, true);
         EXPECT_LE(with.flicker, 1e-6);
         EXPECT_LE(with.total, 1e-6);
-        RecordProperty(fmt::format("line{}", s.line), fmt::format("{:.2g} {:.2g}", with.flicker, with.total));
+        RecordProperty(fmt::format("line{}", s.line),
+                       fmt::format("{:.2g} {:.2g}", with.flicker, with.total));
         // The rule is what makes it follow: without it the flicker part is off.
         EXPECT_GT(deviation(s, false).flicker, 0.1);
     }
@@ -112,10 +117,16 @@ TEST(FlickerReferenceTest, FollowFlickerKeepsFlickerNoiseOnTheThermalLaw) {
 // there is nothing to rewrite; ngspice agrees.
 TEST(FlickerReferenceTest, BsimFlickerFollowsMByItself) {
     const Stage stages[] = {
-        {__LINE__, "m1", stage("M1 o g 0 0 mm W=10u L=1u", ".model mm nmos(level=8 version=3.3.0 "
-                                                           "tox=2e-8 kf=1e-25 af=1.4)"), 10, 1},
-        {__LINE__, "m1", stage("M1 o g 0 0 mm W=10u L=1u", ".model mm nmos(level=14 version=4.8.1 "
-                                                           "toxe=2e-8)"), 10, 1},
+        {__LINE__, "m1",
+         stage("M1 o g 0 0 mm W=10u L=1u",
+               ".model mm nmos(level=8 version=3.3.0 "
+               "tox=2e-8 kf=1e-25 af=1.4)"),
+         10, 1},
+        {__LINE__, "m1",
+         stage("M1 o g 0 0 mm W=10u L=1u",
+               ".model mm nmos(level=14 version=4.8.1 "
+               "toxe=2e-8)"),
+         10, 1},
     };
     for (const auto& s : stages) {
         SCOPED_TRACE(testing::Message() << "flicker_ngspice_test.cpp:" << s.line);

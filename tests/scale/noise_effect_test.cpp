@@ -31,16 +31,22 @@ TEST(NoiseEffect, OneLineForTheFactors) {
         std::string text;
     };
     const Case cases[] = {
-        {__LINE__, {10, 1},
-         "noise (thermal, shot): Km = 10: output noise density and integrated output noise x3.16 (+10 dB)"},
-        {__LINE__, {10, 1000},
+        {__LINE__,
+         {10, 1},
+         "noise (thermal, shot): Km = 10: output noise density and integrated output noise x3.16 "
+         "(+10 dB)"},
+        {__LINE__,
+         {10, 1000},
          "noise (thermal, shot): Km = 10: output noise density x3.16 (+10 dB) at Kf f; integrated "
          "output noise x100 (+40 dB) over the Kf = 1000 times wider band"},
-        {__LINE__, {1, 100},
+        {__LINE__,
+         {1, 100},
          "noise (thermal, shot): Km = 1: output noise density unchanged at Kf f; integrated output "
          "noise x10 (+20 dB) over the Kf = 100 times wider band"},
-        {__LINE__, {0.01, 1},
-         "noise (thermal, shot): Km = 0.01: output noise density and integrated output noise x0.1 (-20 dB)"},
+        {__LINE__,
+         {0.01, 1},
+         "noise (thermal, shot): Km = 0.01: output noise density and integrated output noise x0.1 "
+         "(-20 dB)"},
         {__LINE__, {1, 1}, ""},
     };
     for (const auto& c : cases) {
@@ -53,19 +59,22 @@ TEST(NoiseEffect, OneLineForTheFactors) {
 }
 
 TEST(NoiseEffect, FlickerModelsAreNamed) {
-    Deck d = deck_of("f\nD1 a 0 dn\nD2 a 0 dq\nQ1 a a 0 qv\nR1 a 0 1k\n"
-                     ".model dn d(kf=1e-15 af=1.2)\n.model dq d(is=1e-14)\n"
-                     ".model qv npn(level=4 kfn=1e-12)\n.end\n");
+    Deck d = deck_of(
+        "f\nD1 a 0 dn\nD2 a 0 dq\nQ1 a a 0 qv\nR1 a 0 1k\n"
+        ".model dn d(kf=1e-15 af=1.2)\n.model dq d(is=1e-14)\n"
+        ".model qv npn(level=4 kfn=1e-12)\n.end\n");
     NoiseEffect e = noise_effect(d, {10, 1000}, false);
     EXPECT_EQ(e.flicker_off, std::vector<std::string>{"dn (deck.cir:6)"});
     EXPECT_EQ(e.flicker_unknown, std::vector<std::string>{"qv (deck.cir:8)"});
-    EXPECT_NE(e.line.find("; flicker (1/f) noise of dn (deck.cir:6) does not follow (--follow-flicker "
-                          "rewrites KF); flicker noise of qv (deck.cir:8) is not known to follow"),
-              std::string::npos)
+    EXPECT_NE(
+        e.line.find("; flicker (1/f) noise of dn (deck.cir:6) does not follow (--follow-flicker "
+                    "rewrites KF); flicker noise of qv (deck.cir:8) is not known to follow"),
+        std::string::npos)
         << e.line;
     e = noise_effect(d, {10, 1000}, true);
     EXPECT_EQ(e.flicker_rewritten, std::vector<std::string>{"dn (deck.cir:6)"});
-    EXPECT_NE(e.line.find("; flicker noise follows too: KF rewritten in dn (deck.cir:6)"), std::string::npos)
+    EXPECT_NE(e.line.find("; flicker noise follows too: KF rewritten in dn (deck.cir:6)"),
+              std::string::npos)
         << e.line;
     // A diode's flicker follows a magnitude change by itself (its m keeps KF per unit).
     e = noise_effect(d, {10, 1}, false);

@@ -25,16 +25,18 @@ struct NoiseRun {
     std::map<std::string, double> totals;                // "onoise_total", ...
 };
 
-inline NoiseRun run_noise(const std::string& deck_path, ScaleFactors factors, const std::string& card,
-                          const TempDir& dir, const std::string& name) {
+inline NoiseRun run_noise(const std::string& deck_path, ScaleFactors factors,
+                          const std::string& card, const TempDir& dir, const std::string& name) {
     Deck deck = load_deck(deck_path, DiskFileSystem{});
     std::vector<std::string> cards = simulation_cards(deck, SimDeckOptions{card, "", 1, factors});
     cards.pop_back();  // .end
     std::string spectra = dir.file(name + "_spectra.txt");
     std::string body;
     for (const auto& c : cards) body += c + "\n";
-    body += ".control\nset numdgt=15\nset wr_vecnames\nset wr_singlescale\nrun\nsetplot noise1\n"
-            "wrdata " + spectra + " all\nsetplot noise2\nprint all\nquit 0\n.endc\n.end\n";
+    body +=
+        ".control\nset numdgt=15\nset wr_vecnames\nset wr_singlescale\nrun\nsetplot noise1\n"
+        "wrdata " +
+        spectra + " all\nsetplot noise2\nprint all\nquit 0\n.endc\n.end\n";
     write_bytes(dir.file(name + ".cir"), body);
     // In the scratch directory: BSIM models write a check log into the current directory.
     std::string log = dir.file(name + ".log");

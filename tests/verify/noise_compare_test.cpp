@@ -23,7 +23,8 @@ struct NoisePlots {
 
 NoisePlots plots(const std::vector<double>& freqs, double fc, double out0, double in0,
                  VectorKind density_in = VectorKind::voltage_density) {
-    NoisePlots p{{"noise1", "Noise Spectral Density Curves", {}}, {"noise2", "Integrated Noise", {}}};
+    NoisePlots p{{"noise1", "Noise Spectral Density Curves", {}},
+                 {"noise2", "Integrated Noise", {}}};
     std::vector<cd> f, on, in, flick;
     for (double x : freqs) {
         f.emplace_back(x, 0);
@@ -38,7 +39,8 @@ NoisePlots plots(const std::vector<double>& freqs, double fc, double out0, doubl
     bool current_in = density_in == VectorKind::current_density;
     double band = std::sqrt(fc * 3.141592653589793 / 2);
     p.totals.vectors = {{"onoise_total", VectorKind::voltage, {cd(out0 * band, 0)}},
-                        {"inoise_total", current_in ? VectorKind::current : VectorKind::voltage,
+                        {"inoise_total",
+                         current_in ? VectorKind::current : VectorKind::voltage,
                          {cd(in0 * band, 0)}}};
     return p;
 }
@@ -90,7 +92,8 @@ TEST(CompareNoise, ThermalLawPassesAndIsReportedPerVector) {
         double in_k = current ? 1 / std::sqrt(km) : std::sqrt(km);
         NoisePlots s = plots(times(kFreqs, kf), fc * kf, 4e-9 * std::sqrt(km),
                              (current ? 4e-12 : 4e-9) * in_k, in);
-        Comparison c = compare_noise(o.spectra, s.spectra, &o.totals, &s.totals, km, kf, Tolerances{});
+        Comparison c =
+            compare_noise(o.spectra, s.spectra, &o.totals, &s.totals, km, kf, Tolerances{});
         EXPECT_TRUE(c.problems.empty()) << c.problems.front();
         EXPECT_TRUE(c.passed());
         EXPECT_EQ(c.analysis, "noise");
@@ -152,9 +155,10 @@ TEST(CompareNoise, SweepAndVectorMismatchesAreProblems) {
     s = plots(kFreqs, 1e3, 4e-9, 4e-9);
     s.spectra.vectors.pop_back();
     c = compare_noise(o.spectra, s.spectra, &o.totals, nullptr, 1, 1, Tolerances{});
-    EXPECT_EQ(c.problems, (std::vector<std::string>{
-                              "'onoise_r1_1overf' exists in the original but not in the scaled deck",
-                              "only one of the runs integrated its noise"}));
+    EXPECT_EQ(c.problems,
+              (std::vector<std::string>{
+                  "'onoise_r1_1overf' exists in the original but not in the scaled deck",
+                  "only one of the runs integrated its noise"}));
     EXPECT_FALSE(c.passed());
 }
 

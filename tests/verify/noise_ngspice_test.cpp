@@ -25,10 +25,12 @@ namespace deckscale {
 namespace {
 
 constexpr double kBoltzmann = 1.380649e-23;  // J/K, exact (SI 2019)
-constexpr double kCharge = 1.602176634e-19;   // C, exact (SI 2019)
-constexpr double kTemp = 300.15;              // K, ngspice's default 27 C
+constexpr double kCharge = 1.602176634e-19;  // C, exact (SI 2019)
+constexpr double kTemp = 300.15;             // K, ngspice's default 27 C
 
-std::string noise_deck(const std::string& name) { return test::source_dir() + "/netlists/noise/" + name; }
+std::string noise_deck(const std::string& name) {
+    return test::source_dir() + "/netlists/noise/" + name;
+}
 
 struct Pair {
     test::NoiseRun original, scaled;
@@ -41,7 +43,8 @@ Pair run_pair(const std::string& name, double km, double kf, const std::string& 
     auto s = test::scale_text(test::read_bytes(path), km, kf, 12);
     EXPECT_TRUE(s.result.unscalable.empty());
     test::write_bytes(dir.file("scaled.cir"), s.text());
-    return {test::run_noise(path, {}, card, dir, "o"), test::run_noise(dir.file("scaled.cir"), {km, kf}, mapped, dir, "s")};
+    return {test::run_noise(path, {}, card, dir, "o"),
+            test::run_noise(dir.file("scaled.cir"), {km, kf}, mapped, dir, "s")};
 }
 
 // The law of shared notes "scaling-rules.md" §8 on every vector of both plots: frequencies
@@ -53,10 +56,12 @@ double worst_law_deviation(const Pair& p, double km, double kf, bool current_inp
     const auto& fo = p.original.spectra.at("frequency");
     const auto& fs = p.scaled.spectra.at("frequency");
     EXPECT_EQ(fo.size(), fs.size());
-    for (std::size_t k = 0; k < fo.size() && k < fs.size(); ++k) EXPECT_NEAR(fs[k] / (fo[k] * kf), 1, 1e-9);
+    for (std::size_t k = 0; k < fo.size() && k < fs.size(); ++k)
+        EXPECT_NEAR(fs[k] / (fo[k] * kf), 1, 1e-9);
     for (const auto& [name, vo] : p.original.spectra) {
         if (name == "frequency") continue;
-        double law = name.rfind("inoise", 0) == 0 && current_input ? 1 / std::sqrt(km) : std::sqrt(km);
+        double law =
+            name.rfind("inoise", 0) == 0 && current_input ? 1 / std::sqrt(km) : std::sqrt(km);
         const auto& vs = p.scaled.spectra.at(name);
         EXPECT_EQ(vs.size(), vo.size()) << name;
         for (std::size_t k = 0; k < vo.size() && k < vs.size(); ++k) {
@@ -67,7 +72,8 @@ double worst_law_deviation(const Pair& p, double km, double kf, bool current_inp
         }
     }
     for (const auto& [name, xo] : p.original.totals) {
-        double law = name.rfind("inoise", 0) == 0 && current_input ? std::sqrt(kf / km) : std::sqrt(km * kf);
+        double law =
+            name.rfind("inoise", 0) == 0 && current_input ? std::sqrt(kf / km) : std::sqrt(km * kf);
         if (xo == 0) continue;
         double d = std::fabs(p.scaled.totals.at(name) / (xo * law) - 1);
         EXPECT_LE(d, 1e-6) << name;
@@ -91,7 +97,9 @@ TEST(NoiseReferenceTest, ResistorIntoCapacitorGivesKtOverCBeforeAndAfterScaling)
     EXPECT_NEAR(p.original.totals.at("onoise_total") / ktc, 1, 3e-5);
     EXPECT_NEAR(p.scaled.totals.at("onoise_total") / ktc_scaled, 1, 3e-5);
     // Below the corner the density is the resistor's own sqrt(4kTR) (Johnson-Nyquist).
-    EXPECT_NEAR(p.original.spectra.at("onoise_spectrum").front() / std::sqrt(4 * kBoltzmann * kTemp * 1e3), 1, 1e-6);
+    EXPECT_NEAR(
+        p.original.spectra.at("onoise_spectrum").front() / std::sqrt(4 * kBoltzmann * kTemp * 1e3),
+        1, 1e-6);
     double worst = worst_law_deviation(p, km, kf, false);
     RecordProperty("ktc", fmt::format("original {:.9g} V, sqrt(kT/C) {:.9g} V; law {:.2g}",
                                       p.original.totals.at("onoise_total"), ktc, worst));
@@ -107,13 +115,17 @@ TEST(NoiseReferenceTest, DiodeShotNoiseIsTwoQIAndFollowsTheLaw) {
     test::TempDir dir;
     Pair p = run_pair("../devices/diode_shot.cir", km, kf, ".noise v(a) Ibias dec 10 1 1meg 1",
                       ".noise v(a) Ibias dec 10 1k 1g 1", dir);
-    auto shot = [&](double i) { return std::sqrt(2 * kCharge * i) * n * kBoltzmann * kTemp / (kCharge * i); };
+    auto shot = [&](double i) {
+        return std::sqrt(2 * kCharge * i) * n * kBoltzmann * kTemp / (kCharge * i);
+    };
     EXPECT_NEAR(p.original.spectra.at("onoise_d1_id").front() / shot(current), 1, 1e-6);
     EXPECT_NEAR(p.scaled.spectra.at("onoise_d1_id").front() / shot(current / km), 1, 1e-6);
     EXPECT_NEAR(shot(current / km) / shot(current), std::sqrt(km), 1e-12);
     double worst = worst_law_deviation(p, km, kf, true);
-    RecordProperty("shot", fmt::format("2qI {:.2g}, law {:.2g}",
-                                       p.original.spectra.at("onoise_d1_id").front() / shot(current) - 1, worst));
+    RecordProperty(
+        "shot",
+        fmt::format("2qI {:.2g}, law {:.2g}",
+                    p.original.spectra.at("onoise_d1_id").front() / shot(current) - 1, worst));
 }
 
 // A three-section RC ladder with a load, parts per device reported: every density and every
