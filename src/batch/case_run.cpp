@@ -90,6 +90,7 @@ std::string worst_vector(const VerifyReport& report) {
     const VectorResult* wv = nullptr;
     double worst_ratio = -1;
     for (const auto& c : report.comparisons) {
+        if (!c.decides()) continue;  // flicker noise that cannot agree: shown, never the worst
         for (const auto& v : c.vectors) {
             // A failing vector always ranks above a passing one.
             double ratio = v.worst / tolerance_of(c, report.tolerances) + (v.passed ? 0 : 1e300);

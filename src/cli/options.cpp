@@ -90,6 +90,10 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                     "Write the deck even if some items cannot be scaled; each is left as it was and "
                     "marked by a comment line");
     scale->add_flag("--flatten", s.flatten, "Write one self-contained deck with every include inlined");
+    scale->add_flag(
+        "--follow-flicker", s.follow_flicker,
+        "Rewrite the KF of models with flicker (1/f) noise so that it follows the scaling "
+        "like thermal noise (otherwise KF is kept and the noise line says so)");
     scale->add_flag("--verify", s.verify,
                     "Then simulate both decks and check that they are equivalent (needs -o)");
     scale->add_option("--threads", s.threads,

@@ -20,6 +20,7 @@ struct ScaleOptions {
     bool leave_unscalable = false; // --leave-unscalable
     bool flatten = false;          // --flatten
     bool verify = false;           // --verify (scale, then verify the pair)
+    bool follow_flicker = false;   // --follow-flicker: rewrite KF so flicker noise follows
     unsigned threads = 0;          // --threads N: large decks read on at most N threads (0: cores)
     std::vector<std::string> hold;  // --hold NAME[,NAME...]: parts kept as written
 };

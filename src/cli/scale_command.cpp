@@ -10,6 +10,7 @@
 #include "deck/load.hpp"
 #include "scale/change_report.hpp"
 #include "scale/expression.hpp"
+#include "scale/noise_effect.hpp"
 #include "scale/rescale.hpp"
 #include "write/plan.hpp"
 
@@ -84,6 +85,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
     settings.digits = o.digits;
     settings.mark_unscalable = o.leave_unscalable;
     settings.threads = o.threads;
+    settings.follow_flicker = o.follow_flicker;
     settings.record_changes = o.list_changes || !o.changes_json.empty();
     settings.hold = o.hold;
     try {
@@ -130,7 +132,8 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         }
         if (!o.changes_json.empty()) {
             if (auto e = batch.add(o.changes_json,
-                                   change_list_json(deck, result, settings.factors, plan));
+                                   change_list_json(deck, result, settings.factors, plan,
+                                                    o.follow_flicker));
                 !e.empty()) {
                 err << "deckscale: error: " << e << "\n";
                 return exit_bad_input;
@@ -150,6 +153,8 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         if (o.km == 1 && o.kf == 1)
             err << "deckscale: note: Km = Kf = 1 (no --km or --kf given?): the deck is written "
                    "unchanged\n";
+        if (std::string n = noise_effect(deck, settings.factors, o.follow_flicker).line; !n.empty())
+            err << "deckscale: " << n << "\n";
         err << cautions(settings.factors, !result.held.empty());
         if (o.verify) {
             // Verify the pair just written (the CLI allows --verify only with -o).

@@ -89,7 +89,11 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
         a.tran = t;
     } else if (kw == ".op") {
         a.op = true;
-    } else if (kw == ".dc" || kw == ".noise" || kw == ".disto" || kw == ".pz" ||
+    } else if (kw == ".noise" && !a.noise) {
+        std::string err;
+        a.noise = read_noise_card(c, err);
+        if (!a.noise) a.problems.push_back(fmt::format(".noise card: {}", err));
+    } else if (kw == ".dc" || kw == ".disto" || kw == ".pz" ||
                kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
@@ -127,16 +131,19 @@ DeckAnalyses find_analyses(const Deck& deck) {
         });
     }
     // Analyses in .control count only for a deck with no analysis card.
-    if (!a.ac && !a.tran && !a.op && (control.ac || control.tran || control.op)) {
+    if (!a.ac && !a.tran && !a.op && !a.noise &&
+        (control.ac || control.tran || control.op || control.noise)) {
         a.ac = control.ac;
         a.tran = control.tran;
         a.op = control.op;
+        a.noise = control.noise;
         for (auto& p : control.problems) a.problems.push_back(p);
     }
     for (const auto& kw : control.uncompared)
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
     if (a.ac) a.ac->reltol = deck.symbols.reltol;
+    if (a.noise) a.noise->reltol = deck.symbols.reltol;
     return a;
 }
 

@@ -1,4 +1,4 @@
-// The analyses a deck asks for (.ac, .tran, .op) and the sources that could drive an AC
+// The analyses a deck asks for (.ac, .tran, .op, .noise) and the sources that could drive an AC
 // comparison, read from its cards; and their images under frequency scaling.
 #pragma once
 
@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "deck/load.hpp"
+#include "deck/noise_card.hpp"
 
 namespace deckscale {
 
@@ -30,6 +31,7 @@ struct DeckAnalyses {
     std::optional<AcSweep> ac;
     std::optional<TranSpec> tran;
     bool op = false;
+    std::optional<NoiseSpec> noise;
     std::vector<std::string> uncompared;     // analysis cards verify does not map (".dc", ...)
     std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
     std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)

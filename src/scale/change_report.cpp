@@ -1,9 +1,12 @@
 #include "scale/change_report.hpp"
 
+#include <cmath>
+
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
 #include "scale/expression.hpp"
+#include "scale/noise_effect.hpp"
 
 namespace deckscale {
 
@@ -58,7 +61,7 @@ nlohmann::json diagnostics_json(const std::vector<Diagnostic>& ds) {
 }  // namespace
 
 std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleFactors factors,
-                             const OutputPlan& plan) {
+                             const OutputPlan& plan, bool follow_flicker) {
     nlohmann::json j;
     j["km"] = factors.km;
     j["kf"] = factors.kf;
@@ -87,6 +90,15 @@ std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleF
     j["held"] = held;
     j["unscalable"] = diagnostics_json(result.unscalable);
     j["notes"] = diagnostics_json(result.notes);
+    NoiseEffect n = noise_effect(deck, factors, follow_flicker);
+    j["noise"] = {{"output_density_factor", n.density},
+                  {"output_density_db", 20 * std::log10(n.density)},
+                  {"integrated_factor", n.integrated},
+                  {"integrated_db", 20 * std::log10(n.integrated)},
+                  {"flicker_rewritten", n.flicker_rewritten},
+                  {"flicker_not_following", n.flicker_off},
+                  {"flicker_unknown", n.flicker_unknown},
+                  {"line", n.line}};
     return j.dump(2) + "\n";
 }
 

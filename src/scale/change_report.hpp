@@ -19,8 +19,8 @@ std::string change_list_text(const Deck& deck, const ScaleResult& result);
 std::string held_list_text(const Deck& deck, const ScaleResult& result);
 
 // The whole run as JSON (factors, files written, changes, held parts, unscalable items,
-// notes).
+// notes, and what the factors do to noise: scale/noise_effect.hpp).
 std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleFactors factors,
-                             const OutputPlan& plan);
+                             const OutputPlan& plan, bool follow_flicker = false);
 
 }  // namespace deckscale

@@ -5,6 +5,7 @@
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
 #include "scale/expression.hpp"
+#include "scale/flicker.hpp"
 #include "scale/numparam_names.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
@@ -230,6 +231,7 @@ void scale_model(ScalePass& p) {
                                               "other model-specific types are not known)", c.field_text(2)));
         return;
     }
+    std::optional<double> flicker = flicker_rewrite(p);  // R models (scale/flicker)
     const auto& atoms = p.atoms(3);
     std::set<std::string> given;
     for (const auto& a : atoms) {
@@ -243,7 +245,9 @@ void scale_model(ScalePass& p) {
             continue;
         }
         if (!a.value) continue;
-        if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace)
+        if (flicker && key == "kf")
+            p.scale_by(*a.value, *flicker, "kf (flicker noise follows)", "-");
+        else if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace)
             p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u));
         else
             p.scale_value(*a.value, *u, key);

@@ -85,6 +85,7 @@ public:
     const MosModels& mos_models();
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
+    bool follow_flicker() const { return settings_.follow_flicker; }
     std::size_t file() const { return file_; }  // index of the current card's file
 
     // Scales one value token by the unit's factor; validates numbers either way.

@@ -19,6 +19,9 @@ struct ScaleSettings {
     bool mark_unscalable = false;   // insert a comment line before each unscalable card
     bool record_changes = true;     // fill ScaleResult::changes (the edits are made either way)
     bool brace_bare_params = false; // write a bare parameter value "p" as "{p}" even when k = 1
+    // Rewrite the KF of models with flicker noise so that it follows the scaling like
+    // thermal noise (scale/flicker.hpp); otherwise KF is left and the noise line says so.
+    bool follow_flicker = false;
     // load_and_scale reads a large file in pieces, this many at once (0 = one per core), none
     // smaller than min_piece_bytes; the result is the same whatever the pieces.
     unsigned threads = 0;

@@ -91,6 +91,10 @@ constexpr FieldRule kRules[] = {
     {"model:r", "narrow", U::none}, {"model:r", "short", U::none}, {"model:r", "tc1", U::none},
     {"model:r", "tc2", U::none}, {"model:r", "tce", U::none}, {"model:r", "tnom", U::none},
     {"model:r", "noise", U::none},
+    // Flicker noise (ngspice 39 `devhelp resistor`: KF, AF, EF, LF, WF): no unit that a
+    // rescaled circuit follows; --follow-flicker rewrites KF (scale/flicker.hpp).
+    {"model:r", "kf", U::none}, {"model:r", "af", U::none}, {"model:r", "ef", U::none},
+    {"model:r", "lf", U::none}, {"model:r", "wf", U::none},
     {"model:c", "cap", U::farad}, {"model:c", "c", U::farad}, {"model:c", "cj", U::farad},
     {"model:c", "cjsw", U::farad}, {"model:c", "defw", U::none}, {"model:c", "defl", U::none},
     {"model:c", "w", U::none}, {"model:c", "l", U::none},

@@ -7,6 +7,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/flicker.hpp"
 #include "scale/pass.hpp"
 
 namespace deckscale {
@@ -225,13 +226,15 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                                                  c.text(*a.key), c.field_text(1)));
                 return;
             }
-    if (f.kf == 1) return;  // the instances' m does all of a magnitude change
+    // The instances' m does all of a magnitude change but for flicker noise (below); a
+    // frequency change divides the charges.
+    bool charges = f.kf != 1;
     char family = family_of(type);
     int level = level_of(c, atoms);
-    if (family == 'm') {
+    if (charges && family == 'm') {
         // MOS models that cannot follow Kf stay as they are: their instances are refused.
         if (!mos_refusal(mos_model_of(c, atoms, type), f.kf).empty()) return;
-    } else if (level != 1) {
+    } else if (charges && level != 1) {
         const char* what = family == 'd'   ? "diode"
                            : family == 'q' ? "bipolar transistor"
                            : family == 'j' ? "JFET"
@@ -246,8 +249,14 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                                  kf_text(f.kf)));
         return;
     }
+    std::optional<double> flicker = flicker_rewrite(p);  // scale/flicker.hpp
     for (const auto& a : atoms) {
         if (!a.key || !a.value) continue;
+        if (flicker && iequals(c.text(*a.key), "kf")) {
+            p.scale_by(*a.value, *flicker, "kf (flicker noise follows)", "-");
+            continue;
+        }
+        if (!charges) continue;
         for (const auto& r : kChargeRules)
             if (r.family == family && iequals(c.text(*a.key), r.key)) {
                 double k = r.kf_power > 0 ? f.kf : 1 / f.kf;

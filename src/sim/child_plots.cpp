@@ -7,12 +7,24 @@
 namespace deckscale::child_process {
 namespace {
 
-// ngspice's vector types (enum vector_types in ngspice's include/ngspice/sim.h; sharedspice.h
-// only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3, SV_CURRENT = 4.
+// ngspice's vector types (enum simulation_types in ngspice's include/ngspice/sim.h;
+// sharedspice.h only exposes the int): SV_TIME = 1, SV_FREQUENCY = 2, SV_VOLTAGE = 3,
+// SV_CURRENT = 4, SV_VOLTAGE_DENSITY = 5, SV_CURRENT_DENSITY = 6, SV_SQR_VOLTAGE_DENSITY = 7,
+// SV_SQR_CURRENT_DENSITY = 8, SV_SQR_VOLTAGE = 9, SV_SQR_CURRENT = 10 (ngspice 39's
+// `display` names them "voltage-density", "current^2-density", ... in a .noise run).
 VectorKind kind_of(int v_type) {
-    constexpr VectorKind kinds[] = {VectorKind::other, VectorKind::time, VectorKind::frequency,
-                                    VectorKind::voltage, VectorKind::current};
-    return v_type > 0 && v_type < 5 ? kinds[v_type] : VectorKind::other;
+    constexpr VectorKind kinds[] = {VectorKind::other,
+                                    VectorKind::time,
+                                    VectorKind::frequency,
+                                    VectorKind::voltage,
+                                    VectorKind::current,
+                                    VectorKind::voltage_density,
+                                    VectorKind::current_density,
+                                    VectorKind::voltage_squared_density,
+                                    VectorKind::current_squared_density,
+                                    VectorKind::voltage_squared,
+                                    VectorKind::current_squared};
+    return v_type > 0 && v_type < 11 ? kinds[v_type] : VectorKind::other;
 }
 constexpr short vf_complex = 1 << 1;  // VF_COMPLEX in ngspice's include/ngspice/dvec.h
 

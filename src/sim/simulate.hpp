@@ -24,7 +24,22 @@ struct SimJob {
     std::uint64_t memory_limit_mb = 0;  // address space the child may use (RLIMIT_AS); 0 = none
 };
 
-enum class VectorKind { voltage, current, frequency, time, other };
+// What a vector holds, from ngspice's own vector type. The noise kinds are those of a
+// .noise analysis: spectral densities (V/sqrt(Hz), A/sqrt(Hz)) and, with ngspice's
+// `sqrnoise` option, their squares (V^2/Hz, A^2/Hz; integrated noise then in V^2, A^2).
+enum class VectorKind {
+    voltage,
+    current,
+    frequency,
+    time,
+    voltage_density,
+    current_density,
+    voltage_squared_density,
+    current_squared_density,
+    voltage_squared,
+    current_squared,
+    other,
+};
 
 struct SimVector {
     std::string name;  // as ngspice names it: "out", "v(2)", "v1#branch", "frequency", "time"

@@ -84,6 +84,27 @@ double wrap_degrees(double d) {
 
 }  // namespace
 
+std::size_t check_mapped_sweep(const SimVector& fo, const SimVector& fs, double kf, Comparison& c) {
+    std::size_t n = std::min(fo.values.size(), fs.values.size());
+    if (fo.values.size() != fs.values.size())
+        c.problems.push_back(fmt::format("the sweeps have {} and {} points", fo.values.size(),
+                                         fs.values.size()));
+    for (std::size_t k = 0; k < n; ++k) {
+        double f = fo.values[k].real(), g = fs.values[k].real();
+        if (std::fabs(g - kf * f) > 1e-9 * std::fabs(kf * f)) {
+            c.problems.push_back(fmt::format("point {}: the scaled deck ran at {:.9g} Hz, not at "
+                                             "Kf x {:.9g} Hz", k, g, f));
+            break;
+        }
+    }
+    c.points = n;
+    if (n) {
+        c.first = fo.values.front().real();
+        c.last = fo.values[n - 1].real();
+    }
+    return n;
+}
+
 Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, const Tolerances& tol) {
     Comparison c;
     c.analysis = "ac";
@@ -93,23 +114,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
         c.problems.push_back("an AC plot without a frequency vector");
         return c;
     }
-    std::size_t n = std::min(fo->values.size(), fs->values.size());
-    if (fo->values.size() != fs->values.size())
-        c.problems.push_back(fmt::format("the sweeps have {} and {} points", fo->values.size(),
-                                         fs->values.size()));
-    for (std::size_t k = 0; k < n; ++k) {
-        double f = fo->values[k].real(), g = fs->values[k].real();
-        if (std::fabs(g - kf * f) > 1e-9 * std::fabs(kf * f)) {
-            c.problems.push_back(fmt::format("point {}: the scaled deck ran at {:.9g} Hz, not at "
-                                             "Kf x {:.9g} Hz", k, g, f));
-            break;
-        }
-    }
-    c.points = n;
-    if (n) {
-        c.first = fo->values.front().real();
-        c.last = fo->values[n - 1].real();
-    }
+    std::size_t n = check_mapped_sweep(*fo, *fs, kf, c);
     match_names(o, s, c);
     note_internal_states(o, c);
     for (const auto& vo : o.vectors) {

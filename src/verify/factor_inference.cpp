@@ -192,6 +192,8 @@ std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckA
         return scaled.ac->fstop / original.ac->fstop;
     if (original.tran && scaled.tran && original.tran->tstop > 0 && scaled.tran->tstop > 0)
         return original.tran->tstop / scaled.tran->tstop;
+    if (original.noise && scaled.noise && original.noise->fstop > 0 && scaled.noise->fstop > 0)
+        return scaled.noise->fstop / original.noise->fstop;
     return std::nullopt;
 }
 

@@ -13,6 +13,8 @@
 #include "sim/head_start.hpp"
 #include "verify/compare.hpp"
 #include "verify/factor_inference.hpp"
+#include "verify/flicker_check.hpp"
+#include "verify/noise_compare.hpp"
 #include "verify/sim_cards.hpp"
 
 namespace deckscale {
@@ -21,7 +23,7 @@ namespace {
 namespace fs = std::filesystem;
 
 struct PairJob {
-    std::string analysis;  // "ac", "op", "tran"
+    std::string analysis;  // "ac", "op", "tran", "noise"
     SimJob original, scaled;
 };
 
@@ -63,6 +65,18 @@ std::string take_held(const HeldLine& held, const Deck& original, const PairRequ
     return "";
 }
 
+// A noise run makes two plots: the spectra (with a frequency vector) and the integrated noise.
+const SimPlot* noise_plot(const SimOutcome& o, bool integrated) {
+    for (const auto& p : o.plots) {
+        if (!istarts_with(p.name, "noise")) continue;
+        bool spectra = std::any_of(p.vectors.begin(), p.vectors.end(), [](const SimVector& v) {
+            return v.kind == VectorKind::frequency;
+        });
+        if (spectra != integrated) return &p;
+    }
+    return nullptr;
+}
+
 PairVerification refuse(std::string problem) {
     PairVerification v;
     v.outcome = PairVerification::Outcome::bad_input;
@@ -80,6 +94,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     report.scaled = o.scaled;
     report.tolerances = o.tolerances;
     std::vector<PairJob> pairs;
+    std::vector<std::string> flicker;  // why the noise of the pair cannot agree
     {
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
@@ -106,7 +121,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                 report.kf = *kf;
                 report.notes.push_back(
                     "no matched capacitors or inductors: Kf read off the "
-                    "decks' .ac or .tran cards");
+                    "decks' .ac, .tran or .noise cards");
             } else if (!inf.message.empty()) {
                 report.notes.push_back(inf.message);
             }
@@ -117,8 +132,10 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         DeckAnalyses an = find_analyses(original);
         for (const auto& p : an.problems) report.notes.push_back(p + " (not compared)");
         for (const auto& kw : an.uncompared)
-            report.notes.push_back(fmt::format("the original's {} analysis is not compared (verify maps "
-                                               ".ac, .op and .tran)", kw));
+            report.notes.push_back(
+                fmt::format("the original's {} analysis is not compared (verify maps "
+                            ".ac, .op, .tran and .noise)",
+                            kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
             std::string e;
@@ -134,12 +151,17 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             return refuse(fmt::format("no source of {} has an AC value, so an AC sweep "
                                       "shows nothing; name the source that drives the circuit with "
                                       "--drive NAME (it gets AC 1)", o.original));
-        auto job = [&](const Deck& d, const std::string& path, const std::string& card, double drive_ac) {
+        if (an.noise &&
+            std::find(an.sources.begin(), an.sources.end(), an.noise->source) == an.sources.end())
+            return refuse(fmt::format("the .noise input '{}' is no independent source of {}",
+                                      an.noise->source, o.original));
+        auto job = [&](const Deck& d, const std::string& path, const std::string& card,
+                       double drive_ac, const std::string& driven) {
             SimJob j;
             j.label = path;
             j.cards = simulation_cards(
                 d, SimDeckOptions{
-                       card, drive, drive_ac,
+                       card, driven, drive_ac,
                        &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf}});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = o.timeout;
@@ -149,13 +171,29 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         // An AC current drive of 1 A in the original is 1/Km A in the scaled circuit.
         double scaled_drive = !drive.empty() && drive[0] == 'i' ? 1 / report.km : 1;
         if (sweep)
-            pairs.push_back({"ac", job(original, o.original, ac_card(*sweep), 1),
-                             job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)), scaled_drive)});
+            pairs.push_back({"ac", job(original, o.original, ac_card(*sweep), 1, drive),
+                             job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)),
+                                 scaled_drive, drive)});
         if (an.op || (!sweep && !an.tran))
-            pairs.push_back({"op", job(original, o.original, ".op", 1), job(scaled, o.scaled, ".op", scaled_drive)});
+            pairs.push_back({"op", job(original, o.original, ".op", 1, drive),
+                             job(scaled, o.scaled, ".op", scaled_drive, drive)});
         if (an.tran)
-            pairs.push_back({"tran", job(original, o.original, tran_card(*an.tran), 1),
-                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)), scaled_drive)});
+            pairs.push_back({"tran", job(original, o.original, tran_card(*an.tran), 1, drive),
+                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)),
+                                 scaled_drive, drive)});
+        if (an.noise) {
+            // ngspice 39 refuses a noise input without an AC value ("Noise input source i1 has
+            // no AC value" for a current source); its magnitude does not enter the results.
+            const std::string& in = an.noise->source;
+            bool has_ac =
+                std::find(an.ac_sources.begin(), an.ac_sources.end(), in) != an.ac_sources.end();
+            std::string driven = has_ac ? "" : in;
+            double noise_drive = in[0] == 'i' ? 1 / report.km : 1;
+            pairs.push_back({"noise", job(original, o.original, noise_card(*an.noise), 1, driven),
+                             job(scaled, o.scaled, noise_card(map_noise(*an.noise, report.kf)),
+                                 noise_drive, driven)});
+            flicker = flicker_differences(original, scaled, {report.km, report.kf});
+        }
     }
 
     std::vector<SimJob> jobs;
@@ -175,8 +213,11 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
 
     for (std::size_t i = 0; i < pairs.size(); ++i) {
         const std::string& a = pairs[i].analysis;
-        const SimPlot* po = plot_of(outcomes[2 * i], a);
-        const SimPlot* ps = plot_of(outcomes[2 * i + 1], a);
+        bool noise = a == "noise";
+        const SimPlot* po =
+            noise ? noise_plot(outcomes[2 * i], false) : plot_of(outcomes[2 * i], a);
+        const SimPlot* ps =
+            noise ? noise_plot(outcomes[2 * i + 1], false) : plot_of(outcomes[2 * i + 1], a);
         if (!po || !ps) {
             result.outcome = PairVerification::Outcome::sim_failed;
             result.problems.push_back(fmt::format("the simulator produced no {} plot", a));
@@ -185,6 +226,12 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         if (a == "ac") {
             report.comparisons.push_back(compare_ac(*po, *ps, report.km, report.kf, report.tolerances));
             result.ac_run = 2 * i;
+        } else if (noise) {
+            Comparison c = compare_noise(*po, *ps, noise_plot(outcomes[2 * i], true),
+                                         noise_plot(outcomes[2 * i + 1], true), report.km,
+                                         report.kf, report.tolerances);
+            c.expected_differences = flicker;
+            report.comparisons.push_back(std::move(c));
         } else if (a == "op") {
             report.comparisons.push_back(compare_op(*po, *ps, report.km, report.tolerances));
         } else {

@@ -1,6 +1,6 @@
 // Verifying a pair of decks as one library call: both decks read, the factors taken or
 // inferred, both simulated in isolated child processes at mapped points (the original's .ac
-// sweep or --sweep, .op, .tran), and every vector compared. Never prints; the `verify`
+// sweep or --sweep, .op, .tran, .noise), and every vector compared. Never prints; the `verify`
 // command, batch suites and retargeting all go through here.
 #pragma once
 

@@ -1,6 +1,7 @@
 #include "verify/report.hpp"
 
 #include <algorithm>
+#include <cmath>
 
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
@@ -11,8 +12,11 @@
 namespace deckscale {
 
 bool VerifyReport::passed() const {
-    return !comparisons.empty() &&
-           std::all_of(comparisons.begin(), comparisons.end(), [](const Comparison& c) { return c.passed(); });
+    // Comparisons with expected differences (flicker noise) are shown but do not decide.
+    return std::any_of(comparisons.begin(), comparisons.end(),
+                       [](const Comparison& c) { return c.decides(); }) &&
+           std::all_of(comparisons.begin(), comparisons.end(),
+                       [](const Comparison& c) { return !c.decides() || c.passed(); });
 }
 
 namespace {
@@ -21,6 +25,12 @@ const char* kind_word(VectorKind k) {
     switch (k) {
         case VectorKind::voltage: return "voltage";
         case VectorKind::current: return "current";
+        case VectorKind::voltage_density: return "voltage density";
+        case VectorKind::current_density: return "current density";
+        case VectorKind::voltage_squared_density: return "squared voltage density";
+        case VectorKind::current_squared_density: return "squared current density";
+        case VectorKind::voltage_squared: return "squared voltage";
+        case VectorKind::current_squared: return "squared current";
         default: return "other";
     }
 }
@@ -28,10 +38,32 @@ const char* kind_word(VectorKind k) {
 const char* analysis_title(const std::string& a) {
     if (a == "ac") return "AC sweep";
     if (a == "op") return "Operating point";
+    if (a == "noise") return "Noise";
     return "Transient";
 }
 
-std::string unit_of_axis(const std::string& a) { return a == "ac" ? "Hz" : a == "tran" ? "s" : ""; }
+std::string unit_of_axis(const std::string& a) {
+    return a == "ac" || a == "noise" ? "Hz" : a == "tran" ? "s" : "";
+}
+
+// A noise vector that is integrated over the band (no frequency of its own).
+bool integrated(const VectorResult& v) {
+    return v.kind == VectorKind::voltage || v.kind == VectorKind::current ||
+           v.kind == VectorKind::voltage_squared || v.kind == VectorKind::current_squared;
+}
+
+// How the noise of the scaled deck was mapped back (verify/noise_compare.hpp's factors).
+std::string noise_mapping(const VerifyReport& r, const Comparison& c) {
+    bool current_input = std::any_of(c.vectors.begin(), c.vectors.end(), [](const VectorResult& v) {
+        return v.kind == VectorKind::current_density ||
+               v.kind == VectorKind::current_squared_density;
+    });
+    return fmt::format(
+        "compared as: noise density x sqrt(Km) = x{:.6g} at Kf f, integrated noise "
+        "x sqrt(Km Kf) = x{:.6g}{}",
+        std::sqrt(r.km), std::sqrt(r.km * r.kf),
+        current_input ? "; the current input's input-referred noise / sqrt(Km)" : "");
+}
 
 }  // namespace
 
@@ -71,6 +103,9 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
                              analysis_title(c.analysis), c.points, c.first, axis, c.last, axis,
                              c.vectors.size());
+        if (c.analysis == "noise") s += "    " + noise_mapping(r, c) + "\n";
+        for (const auto& d : c.expected_differences) s += "    not expected to match: " + d + "\n";
+        for (const auto& n : c.notes) s += "    note: " + n + "\n";
         for (const auto& p : c.problems) s += "    problem: " + p + "\n";
         if (!c.not_compared.empty()) {
             std::string names;
@@ -82,16 +117,17 @@ std::string report_text(const VerifyReport& r) {
             s += held_ac_table(c, r);
             continue;
         }
-        // With held parts the operating point and transient are information.
-        auto status = [&](const VectorResult& v) {
-            return !r.held.empty() ? "info" : v.passed ? "ok" : "FAIL";
-        };
+        // With held parts the operating point and transient are information (the verdict
+        // "info" below).
         // The name column fits the longest name shown ("(x Km)" marks a current).
         std::size_t width = 22;
         for (const auto& v : c.vectors) width = std::max(width, v.name.size() + 8);
         if (c.analysis == "ac")
             s += fmt::format("    {:<{}} {:>12} {:>14} {:>12} {:>12}\n", "vector", width, "rel. error", "at Hz",
                              "mag. dB", "phase deg");
+        else if (c.analysis == "noise")
+            s += fmt::format("    {:<{}} {:>12} {:>14} {:>12}\n", "vector", width, "rel. error",
+                             "at Hz", "ratio dB");
         else
             s += fmt::format("    {:<{}} {:>12} {:>14}\n", "vector", width, "rel. error",
                              c.analysis == "tran" ? "at s" : "");
@@ -99,15 +135,26 @@ std::string report_text(const VerifyReport& r) {
         for (const auto& v : c.vectors) {
             if (shown == 8 && v.passed) break;
             ++shown;
-            std::string name = v.kind == VectorKind::current ? v.name + " (x Km)" : v.name;
-            if (c.analysis == "ac")
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name, width, v.worst,
-                                 v.at, v.db_error, v.deg_error, status(v));
+            std::string name = v.kind == VectorKind::current && c.analysis != "noise"
+                                   ? v.name + " (x Km)"
+                                   : v.name;
+            const char* verdict = !r.held.empty() ? "info"
+                                  : v.passed      ? "ok"
+                                  : c.decides()   ? "FAIL"
+                                                  : "differs";
+            if (c.analysis == "noise")
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14} {:>12.3g}  {}\n", name, width,
+                                 v.worst, integrated(v) ? "band" : fmt::format("{:.6g}", v.at),
+                                 v.db_error, verdict);
+            else if (c.analysis == "ac")
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name,
+                                 width, v.worst, v.at, v.db_error, v.deg_error, verdict);
             else if (c.analysis == "tran")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g}  {}\n", name, width, v.worst, v.at,
-                                 status(v));
+                                 verdict);
             else
-                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "", status(v));
+                s += fmt::format("    {:<{}} {:>12.3g} {:>14}  {}\n", name, width, v.worst, "",
+                                 verdict);
         }
         if (shown < c.vectors.size())
             s += fmt::format("    ... and {} more vectors{}\n", c.vectors.size() - shown,
@@ -119,8 +166,9 @@ std::string report_text(const VerifyReport& r) {
     std::string worst;
     for (const auto& c : r.comparisons) {
         double tol = c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
-        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g})", worst.empty() ? "" : ", ", c.analysis,
-                             c.worst() ? c.worst()->worst : 0.0, tol);
+        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
+                             c.analysis, c.worst() ? c.worst()->worst : 0.0, tol,
+                             c.decides() ? "" : "; not judged: flicker noise does not follow");
     }
     if (worst.empty()) worst = "nothing compared";
     if (r.passed())
@@ -160,8 +208,16 @@ std::string report_json(const VerifyReport& r) {
                           {"max_db", v.max_db}, {"max_db_at", v.max_db_at},
                           {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
                           {"passed", v.passed}});
-        an.push_back({{"analysis", c.analysis}, {"points", c.points}, {"first", c.first}, {"last", c.last},
-                      {"passed", c.passed()}, {"problems", c.problems}, {"not_compared", c.not_compared},
+        an.push_back({{"analysis", c.analysis},
+                      {"points", c.points},
+                      {"first", c.first},
+                      {"last", c.last},
+                      {"passed", c.passed()},
+                      {"problems", c.problems},
+                      {"not_compared", c.not_compared},
+                      {"expected_to_match", c.decides()},
+                      {"expected_differences", c.expected_differences},
+                      {"notes", c.notes},
                       {"vectors", vs}});
     }
     j["analyses"] = an;

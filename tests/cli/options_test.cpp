@@ -73,7 +73,11 @@ TEST(Cli, ScaleOptionsAreKept) {
     EXPECT_EQ(inv.scale.output, "out.cir");
     EXPECT_EQ(inv.scale.km_text, "1k");
     EXPECT_FALSE(inv.scale.in_place);
+    EXPECT_FALSE(inv.scale.follow_flicker);
     EXPECT_EQ(inv.scale.threads, 0u);  // one per core
+    inv = parse_command_line({"scale", "d.cir", "--follow-flicker"});
+    ASSERT_EQ(inv.what, W::scale);
+    EXPECT_TRUE(inv.scale.follow_flicker);
     inv = parse_command_line({"scale", "-i", "d.cir", "--threads", "1"});
     ASSERT_EQ(inv.what, W::scale);
     EXPECT_TRUE(inv.scale.in_place);

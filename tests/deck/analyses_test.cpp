@@ -75,8 +75,8 @@ TEST(FindAnalyses, UnreadableCardsAreProblems) {
 }
 
 TEST(FindAnalyses, AnalysesVerifyDoesNotMapAreNamedOnce) {
-    auto a = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1 0.1\n.dc V1 0 2 0.1\n.noise v(a) V1 dec 10 1 1k\n.end\n");
-    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc", ".noise"}));
+    auto a = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1 0.1\n.dc V1 0 2 0.1\n.pz a 0 a 0 vol pz\n.end\n");
+    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc", ".pz"}));
     EXPECT_FALSE(a.ac);
     EXPECT_FALSE(a.op);
 }

@@ -62,6 +62,26 @@ TEST(ChangeReport, JsonHasFactorsFilesChangesAndRefusals) {
     EXPECT_EQ(j["unscalable"][0]["line"], 3);
 }
 
+// The noise consequence of the factors (scale/noise_effect.hpp): output noise density
+// x sqrt(Km), integrated x sqrt(Km Kf) (shared notes "scaling-rules.md" §8), flicker models.
+TEST(ChangeReport, JsonStatesTheNoiseConsequence) {
+    ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nD1 a 0 dn\n.model dn d(kf=1e-15)\n.end\n", 100, 1e4);
+    auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {100, 1e4}, r.plan));
+    const auto& n = j["noise"];
+    EXPECT_DOUBLE_EQ(n["output_density_factor"].get<double>(), 10);
+    EXPECT_DOUBLE_EQ(n["output_density_db"].get<double>(), 20);
+    EXPECT_DOUBLE_EQ(n["integrated_factor"].get<double>(), 1000);
+    EXPECT_DOUBLE_EQ(n["integrated_db"].get<double>(), 60);
+    EXPECT_EQ(n["flicker_not_following"], nlohmann::json::array({"dn (deck.cir:4)"}));
+    EXPECT_TRUE(n["flicker_rewritten"].empty());
+    EXPECT_EQ(n["line"],
+              "noise (thermal, shot): Km = 100: output noise density x10 (+20 dB) at Kf f; integrated "
+              "output noise x1000 (+60 dB) over the Kf = 10000 times wider band; flicker (1/f) noise "
+              "of dn (deck.cir:4) does not follow (--follow-flicker rewrites KF)");
+    j = nlohmann::json::parse(change_list_json(r.deck, r.result, {100, 1e4}, r.plan, true));
+    EXPECT_EQ(j["noise"]["flicker_rewritten"], nlohmann::json::array({"dn (deck.cir:4)"}));
+}
+
 }  // namespace
 }  // namespace deckscale
 

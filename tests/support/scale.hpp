@@ -22,22 +22,27 @@ struct Scaled {
 };
 
 // Scales `deck` (path "deck.cir", plus `extra` files by path) entirely in memory.
-inline Scaled scale_text(const std::string& deck, double km, double kf, int digits = 7,
-                         bool mark = false,
+inline Scaled scale_with(const std::string& deck, const ScaleSettings& s,
                          const std::map<std::string, std::string>& extra = {}) {
     MemoryFileSystem fs;
     fs.add("deck.cir", deck);
     for (const auto& [path, text] : extra) fs.add(path, text);
     Deck d = load_deck("deck.cir", fs);
-    ScaleSettings s;
-    s.factors = {km, kf};
-    s.digits = digits;
-    s.mark_unscalable = mark;
     Scaled out;
     out.result = scale_deck(d, s);
     for (std::size_t i = 0; i < d.files.size(); ++i)
         out.texts.push_back(apply_edits(d.files[i].source->text(), out.result.edits[i]));
     return out;
+}
+
+inline Scaled scale_text(const std::string& deck, double km, double kf, int digits = 7,
+                         bool mark = false,
+                         const std::map<std::string, std::string>& extra = {}) {
+    ScaleSettings s;
+    s.factors = {km, kf};
+    s.digits = digits;
+    s.mark_unscalable = mark;
+    return scale_with(deck, s, extra);
 }
 
 // The value a number token stands for; NaN when it is not a plain number.
