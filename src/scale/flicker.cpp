@@ -94,7 +94,7 @@ std::optional<FlickerModel> flicker_model_of(const Card& c, const std::vector<At
         std::string key = to_lower(c.text(*a.key));
         auto v = plain_value(c, a);
         if (key == "level") {
-            m.level = v ? static_cast<int>(*v) : -1;
+            m.level = v && std::fabs(*v) <= 1000 ? static_cast<int>(*v) : -1;  // 1e30 would overflow
         } else if (key == "kf" || key == "af" || key == "ef") {
             if (!v) {
                 m.plain = false;

@@ -1,4 +1,5 @@
 #include "scale/semiconductors.hpp"
+#include <cmath>
 
 #include <fmt/format.h>
 
@@ -76,7 +77,9 @@ int level_of(const Card& c, const std::vector<Atom>& atoms) {
         if (!a.key || !iequals(c.text(*a.key), "level")) continue;
         if (!a.value) return -1;
         auto n = parse_spice_number(c.text(*a.value));
-        if (!n.number) return -1;
+        // A level is a small whole number; anything else (found by the deck fuzz target:
+        // level=1e30 overflowed the conversion to int) is "not a plain number".
+        if (!n.number || !(std::fabs(n.number->value) <= 1000)) return -1;
         return static_cast<int>(n.number->value);
     }
     return 1;
