@@ -9,7 +9,9 @@
 
 namespace deckscale {
 
-// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]".
+// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]", then one line per parameter
+// saying how it was scaled ("deck.cir:2:8  parameter rbase  scaled at its definition as
+// resistance  x2").
 std::string change_list_text(const Deck& deck, const ScaleResult& result);
 
 // The whole run as JSON (factors, files written, changes, unscalable items, notes).

@@ -244,7 +244,7 @@ void scale_model(ScalePass& p) {
         }
         if (!a.value) continue;
         if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace)
-            p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u));
+            p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u), exponents(*u));
         else
             p.scale_value(*a.value, *u, key);
     }

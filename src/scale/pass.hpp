@@ -12,6 +12,7 @@
 
 #include "deck/spice_number.hpp"
 #include "deck/sweep_rewrite.hpp"
+#include "scale/param_plan.hpp"
 #include "scale/rescale.hpp"
 
 namespace deckscale {
@@ -63,6 +64,11 @@ public:
     bool take_piece(ScalePass& piece, ScaleResult& piece_result, const DeckSymbols& before);
     // Edits of one file are reserved for this many bytes of it (default: the whole file).
     void expect_bytes(std::size_t bytes) { expected_bytes_ = bytes; }
+    // Scale with a parameter plan (scale/param_plan): its definitions rewritten, the uses it
+    // settled left as written. Without one, every use of a parameter is wrapped.
+    void set_param_plan(const ParamPlan* plan) { plan_ = plan; }
+    // Every value naming a parameter this pass met, for making a plan.
+    const std::vector<ParamUse>& param_uses() const { return param_uses_; }
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
@@ -84,12 +90,16 @@ public:
 
     // Scales one value token by the unit's factor; validates numbers either way.
     void scale_value(const Token& t, Unit unit, std::string_view field);
-    // Scales a value by an explicit factor.
-    void scale_by(const Token& t, double factor, std::string_view field, std::string_view unit);
+    // Scales a value by an explicit factor, Km^a Kf^b with (a, b) = `exponents` when the
+    // factor is one of a unit (a parameter plan can follow only those).
+    void scale_by(const Token& t, double factor, std::string_view field, std::string_view unit,
+                  std::optional<UnitExponents> exponents = std::nullopt);
     // A behavioural expression spanning [begin, end) of the card: substitute variables and
     // multiply by out_factor. `delimited` is true for {..} / '..' tokens (kept as such).
+    // `exponents` only when the span is one {..} / '..' value token of a unit.
     void scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
-                          std::string_view field, std::string_view unit);
+                          std::string_view field, std::string_view unit,
+                          std::optional<UnitExponents> exponents = std::nullopt);
     // Replaces a value token by a text worked out elsewhere (the numbers of a sweep).
     void replace(const Token& t, std::string text, std::string_view field, Unit unit);
     ToleranceScan& tolerances() { return tolerances_; }
@@ -129,6 +139,9 @@ public:
 
 private:
     void visit(const Card& card);
+    // Records a value that may name parameters; true when the plan leaves it as written.
+    bool param_use(std::uint32_t begin, std::uint32_t end, std::optional<UnitExponents> exponents,
+                   double factor, std::string_view unit, std::string why);
     void edit(std::uint32_t offset, std::uint32_t length, std::string text, std::string_view field,
               std::string_view unit, double factor);
 
@@ -163,6 +176,9 @@ private:
     mutable std::size_t cached_file_ = ~std::size_t{0};
     mutable const Card* cached_card_ = nullptr;
     ToleranceScan tolerances_;
+    const ParamPlan* plan_ = nullptr;
+    std::vector<ParamUse> param_uses_;
+    bool in_control_ = false;  // visiting a .control block
 };
 
 // Card handlers, one per family.

@@ -7,6 +7,7 @@
 
 #include "deck/diagnostic.hpp"
 #include "deck/load.hpp"
+#include "scale/param_plan.hpp"
 #include "scale/units.hpp"
 #include "write/edit.hpp"
 
@@ -41,6 +42,7 @@ struct ScaleResult {
     std::size_t change_count = 0;         // rewritten values, recorded or not
     std::vector<Diagnostic> unscalable;   // items that cannot be scaled exactly
     std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
+    std::vector<ParamDecision> params;    // how each .param / params: parameter was scaled
 };
 
 // Throws DeckError for bad input (malformed numbers and the like).

@@ -1,0 +1,232 @@
+// The facts of the parameter plan: one equation per use and per definition from other
+// parameters, the numbers that can carry a definition's scaling, and the parameters whose
+// scaling cannot be known (scale/param_facts.hpp).
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+
+#include <fmt/format.h>
+
+#include "deck/param_eval.hpp"
+#include "deck/spice_number.hpp"
+#include "scale/param_facts.hpp"
+
+namespace deckscale {
+
+std::string site_text(const Deck& deck, const ParamSite& s) {
+    const SourceFile& f = *deck.files[s.file].source;
+    return fmt::format(" ({}, {}:{})", s.element, f.path(), f.position(s.offset).line);
+}
+
+namespace {
+
+struct UnionFind {
+    explicit UnionFind(std::size_t n) : parent(n) { std::iota(parent.begin(), parent.end(), 0); }
+    int find(int x) {
+        while (parent[x] != x) x = parent[x] = parent[parent[x]];
+        return x;
+    }
+    void join(int a, int b) { parent[find(a)] = find(b); }
+    std::vector<int> parent;
+};
+
+struct Analysis {
+    DimAnalysis dims;
+    std::uint32_t inner = 0;  // file offset of the text analysed (after a { or ')
+};
+
+// A number that ngspice's parameter reader and its element-line reader read alike
+// (`1mil` is 1e-3 in a .param but 25.4e-6 on an element line: left alone).
+bool same_both_ways(std::string_view text) {
+    NumberParse p = parse_spice_number(text);
+    auto v = evaluate_param_expression(text, [](const std::string&) { return std::optional<double>(); });
+    return p.number && p.problem == NumberProblem::none && v &&
+           std::fabs(*v - p.number->value) <= 1e-12 * std::fabs(*v);
+}
+
+class Gatherer {
+public:
+    Gatherer(const Deck& deck, const std::vector<ParamUse>& uses, ParamFacts& facts)
+        : deck_(deck), uses_(uses), x_(facts) {}
+
+    void run() {
+        x_.index = index_params(deck_);
+        std::size_t n = x_.index.params.size();
+        uf_ = UnionFind(n);
+        next_ghost_ = static_cast<int>(n);
+        x_.opaque.assign(n, "");
+        for (const auto& d : x_.index.definitions) definition(d);
+        std::size_t definitions_end = x_.equations.size();
+        recorded();
+        for (const auto& r : x_.index.refs) reference(r);
+        in_file_order(definitions_end);
+        for (const auto& [name, site] : x_.index.control_words)
+            for (std::size_t p = 0; p < n; ++p)
+                if (x_.index.params[p].name == name)
+                    mark_one(static_cast<int>(p), "used in a .control block" + site_text(deck_, site));
+        for (int p : ambiguous_)
+            mark_one(p, "its name is defined in more than one scope, and ngspice 39 takes it "
+                        "from whichever subcircuit calls");
+        if (!x_.index.no_plan.empty())
+            for (std::size_t p = 0; p < n; ++p) mark_one(static_cast<int>(p), x_.index.no_plan);
+        x_.group.resize(n);
+        for (std::size_t p = 0; p < n; ++p) x_.group[p] = uf_.find(static_cast<int>(p));
+    }
+
+private:
+    Analysis analyze(std::size_t file, std::uint32_t begin, std::uint32_t end, int scope) {
+        std::string_view text = deck_.files[file].source->view(begin, end);
+        Analysis a;
+        a.inner = begin;
+        if (text.size() >= 2 && ((text.front() == '{' && text.back() == '}') ||
+                                 (text.front() == '\'' && text.back() == '\''))) {
+            text = text.substr(1, text.size() - 2);
+            a.inner = begin + 1;
+        }
+        DimContext context{
+            [&](const std::string& name) { return x_.index.resolve(name, scope, ambiguous_); },
+            [&](const std::string& name) { return x_.index.function(name); }};
+        a.dims = analyze_dims(text, context);
+        return a;
+    }
+
+    void mark_one(int p, const std::string& why) {
+        if (x_.opaque[p].empty()) x_.opaque[p] = why;
+    }
+    void mark(const std::set<int>& ps, const std::string& why) {
+        for (int p : ps) mark_one(p, why);
+    }
+
+    // The analysed value plus `extra` equals `rhs`, and the side conditions hold.
+    void equations(const DimAnalysis& d, const LinearForm& extra, Exponents rhs, EquationOrigin o) {
+        std::set<int> params = d.params;
+        for (const auto& [p, c] : extra) params.insert(p);
+        if (params.empty()) return;
+        o.anchor = *params.begin();
+        for (int p : params) uf_.join(p, o.anchor);
+        // The analysis numbers its unit-carrying numbers -1, -2, ...: give them ids of their own
+        // after the parameters' (ParamFacts::equations).
+        std::map<int, int> ghosts;
+        auto renumbered = [&](const LinearForm& f) {
+            LinearForm out;
+            for (const auto& [id, c] : f) {
+                int at = id;
+                if (id < 0) at = ghosts.try_emplace(id, next_ghost_ + static_cast<int>(ghosts.size())).first->second;
+                out[at] = c;
+            }
+            return out;
+        };
+        LinearForm form = d.value;
+        add_scaled(form, extra, Fraction::of(1));
+        x_.equations.push_back(ParamEquation{renumbered(form), rhs});
+        x_.origins.push_back(o);
+        for (const auto& z : d.zero) {
+            x_.equations.push_back(ParamEquation{renumbered(z), Exponents{}});
+            x_.origins.push_back(o);
+        }
+        next_ghost_ += static_cast<int>(ghosts.size());
+    }
+
+    void definition(const ParamDefinition& d) {
+        Analysis a = analyze(d.site.file, d.value.begin, d.value.end, d.scope);
+        if (a.dims.opaque) {
+            std::set<int> ps = a.dims.params;
+            ps.insert(d.param);
+            mark(ps, "its definition uses " + a.dims.why + site_text(deck_, d.site));
+            return;
+        }
+        const SourceFile& file = *deck_.files[d.site.file].source;
+        if (a.dims.params.empty() && a.dims.number) {
+            const auto& num = *a.dims.number;
+            auto begin = static_cast<std::uint32_t>(a.inner + num.offset);
+            auto length = static_cast<std::uint32_t>(num.length);
+            if (same_both_ways(file.view(begin, begin + length))) {
+                std::size_t key_length = x_.index.params[d.param].name.size();
+                x_.editables.push_back(EditableNumber{
+                    d.param, d.site.file, begin, length, num.power,
+                    std::string(file.view(d.site.offset,
+                                          d.site.offset + static_cast<std::uint32_t>(key_length)))});
+                return;
+            }
+        }
+        // Defined by other parameters, or by numbers that cannot carry a factor (then the
+        // parameter keeps its value: dimension 0).
+        equations(a.dims, LinearForm{{d.param, Fraction::of(-1)}}, Exponents{},
+                  EquationOrigin{false, d.site, d.param, ""});
+    }
+
+    void recorded() {
+        std::vector<std::size_t> order(uses_.size());
+        std::iota(order.begin(), order.end(), 0);
+        std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+            return std::tie(uses_[a].file, uses_[a].begin) < std::tie(uses_[b].file, uses_[b].begin);
+        });
+        x_.use_params.resize(uses_.size());
+        x_.use_planned.assign(uses_.size(), false);
+        for (std::size_t i : order) {
+            const ParamUse& u = uses_[i];
+            covered_.insert({u.file, u.begin});
+            ParamSite site{u.file, u.begin, u.element};
+            Analysis a = analyze(u.file, u.begin, u.end, x_.index.scope_at(u.file, u.begin));
+            x_.use_params[i] = a.dims.params;
+            if (!u.exponents) {
+                mark(a.dims.params, "used as " + u.why + site_text(deck_, site));
+            } else if (a.dims.opaque) {
+                mark(a.dims.params, "used with " + a.dims.why + site_text(deck_, site));
+            } else {
+                x_.use_planned[i] = true;
+                Exponents rhs{Fraction::of(u.exponents->km), Fraction::of(u.exponents->kf)};
+                equations(a.dims, {}, rhs, EquationOrigin{true, site, 0, u.unit});
+            }
+        }
+    }
+
+    void reference(const ParamRef& r) {
+        if (covered_.count({r.site.file, r.begin})) return;
+        Analysis a = analyze(r.site.file, r.begin, r.end, r.scope);
+        if (r.kind == ParamRef::Kind::opaque)
+            mark(a.dims.params, r.why + site_text(deck_, r.site));
+        else if (a.dims.opaque)
+            mark(a.dims.params, "used with " + a.dims.why + site_text(deck_, r.site));
+        else  // left as written by the pass, or an .if condition: its value must stay
+            equations(a.dims, {}, Exponents{}, EquationOrigin{true, r.site, 0, ""});
+    }
+
+    // Uses (recorded ones and references) by their place in the deck, for messages that
+    // name the first use that disagrees.
+    void in_file_order(std::size_t from) {
+        std::vector<std::size_t> idx(x_.equations.size() - from);
+        std::iota(idx.begin(), idx.end(), from);
+        std::stable_sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) {
+            const auto& sa = x_.origins[a].site;
+            const auto& sb = x_.origins[b].site;
+            return std::tie(sa.file, sa.offset) < std::tie(sb.file, sb.offset);
+        });
+        std::vector<ParamEquation> eqs(x_.equations.begin(), x_.equations.begin() + from);
+        std::vector<EquationOrigin> origins(x_.origins.begin(), x_.origins.begin() + from);
+        for (std::size_t i : idx) {
+            eqs.push_back(std::move(x_.equations[i]));
+            origins.push_back(std::move(x_.origins[i]));
+        }
+        x_.equations = std::move(eqs);
+        x_.origins = std::move(origins);
+    }
+
+    const Deck& deck_;
+    const std::vector<ParamUse>& uses_;
+    ParamFacts& x_;
+    UnionFind uf_{0};
+    int next_ghost_ = 0;
+    std::vector<int> ambiguous_;
+    std::set<std::pair<std::size_t, std::uint32_t>> covered_;
+};
+
+}  // namespace
+
+ParamFacts gather_param_facts(const Deck& deck, const std::vector<ParamUse>& uses) {
+    ParamFacts facts;
+    Gatherer(deck, uses, facts).run();
+    return facts;
+}
+
+}  // namespace deckscale

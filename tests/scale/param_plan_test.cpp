@@ -1,0 +1,92 @@
+// Parameters written as people write them: a parameter whose every use agrees on one unit is
+// scaled once where it is defined and its uses stay as written; any other is wrapped at its
+// uses as before. The expected decks are worked out by hand from R' = Km R, C' = C/(Km Kf),
+// t' = t/Kf, f' = Kf f (common practice; shared notes "scaling-rules.md" §0 and §5).
+#include <gtest/gtest.h>
+
+#include "support/scale.hpp"
+
+namespace deckscale {
+namespace {
+
+struct DeckCase {
+    int line;
+    const char* what;
+    const char* deck;
+    const char* expected;  // Km = 2, Kf = 1000
+};
+
+TEST(ParamPlan, WritesTheExpectedDeck) {
+    const DeckCase cases[] = {
+        {__LINE__, "global parameter used only as resistances",
+         "t\n.param rbase=10k\nR1 in out {rbase}\nR2 out 0 rbase\nC1 out 0 1n\n.end\n",
+         "t\n.param rbase=20k\nR1 in out {rbase}\nR2 out 0 rbase\nC1 out 0 500f\n.end\n"},
+        {__LINE__, "one parameter as a resistance and a capacitance: wrapped",
+         "t\n.param p=1k\nR1 in out {p}\nC1 out 0 {p*1p}\n.end\n",
+         "t\n.param p=1k\nR1 in out {(p)*2}\nC1 out 0 {(p*1p)/2000}\n.end\n"},
+        {__LINE__, "params: defaults and X-line overrides",
+         "t\n.subckt rcsec a b params: r=1k c=1n\nRser a b {r}\nCsh b 0 {c}\n.ends rcsec\n"
+         "X1 in mid rcsec params: r=2k c=10n\nX2 mid out rcsec r={rload} c=1n\n.param rload=20k\n.end\n",
+         "t\n.subckt rcsec a b params: r=2k c=500f\nRser a b {r}\nCsh b 0 {c}\n.ends rcsec\n"
+         "X1 in mid rcsec params: r=4k c=5p\nX2 mid out rcsec r={rload} c=500f\n.param rload=40k\n.end\n"},
+        {__LINE__, "a chain follows its input",
+         "t\n.param ra=1k rb={ra*2}\nR1 a 0 {rb}\n.end\n",
+         "t\n.param ra=2k rb={ra*2}\nR1 a 0 {rb}\n.end\n"},
+        {__LINE__, "a chain with a number in a sum: wrapped",
+         "t\n.param ra=1k rb={ra+100}\nR1 a 0 {rb}\n.end\n",
+         "t\n.param ra=1k rb={ra+100}\nR1 a 0 {(rb)*2}\n.end\n"},
+        {__LINE__, "a parameter used nowhere is left",
+         "t\n.param spare=47k\nR1 a 0 1k\n.end\n",
+         "t\n.param spare=47k\nR1 a 0 2k\n.end\n"},
+        {__LINE__, "times in a source and in a .tran card",
+         "t\n.param tstop=5m\nV1 a 0 pulse(0 1 0 1u 1u {tstop/2} {tstop})\nR1 a 0 1k\n.tran 1u {tstop}\n.end\n",
+         "t\n.param tstop=5u\nV1 a 0 pulse(0 1 0 1n 1n {tstop/2} {tstop})\nR1 a 0 2k\n.tran 1n {tstop}\n"
+         ".options abstol=5e-13 chgtol=5e-18\n.end\n"},
+        {__LINE__, "a subcircuit's own r is another parameter than the global r",
+         "t\n.param r=1k\nR1 in out {r}\n.subckt cell a b params: r=1n\nC1 a b {r}\n.ends cell\nX1 out 0 cell\n.end\n",
+         "t\n.param r=2k\nR1 in out {r}\n.subckt cell a b params: r=500f\nC1 a b {r}\n.ends cell\nX1 out 0 cell\n.end\n"},
+        {__LINE__, "a frequency written as a product of numbers",
+         "t\n.param w0={2*3.14159265358979*1k} rr=10k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 out 0 {cc}\n.end\n",
+         "t\n.param w0={2*3.14159265358979*1meg} rr=20k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 out 0 {cc}\n.end\n"},
+        {__LINE__, "a voltage keeps its value",
+         "t\n.param vdd=5\nV1 a 0 dc {vdd}\nR1 a 0 1k\n.end\n",
+         "t\n.param vdd=5\nV1 a 0 dc {vdd}\nR1 a 0 2k\n.end\n"},
+        {__LINE__, "alterparam in .control: wrapped",
+         "t\n.param rv=1k\nR1 a 0 {rv}\n.control\nalterparam rv=2k\n.endc\n.end\n",
+         "t\n.param rv=1k\nR1 a 0 {(rv)*2}\n.control\nalterparam rv=2k\n.endc\n.end\n"},
+        {__LINE__, "an .if condition must decide alike: wrapped",
+         "t\n.param rsel=10k\n.if (rsel > 5k)\nR1 a 0 {rsel}\n.endif\n.end\n",
+         "t\n.param rsel=10k\n.if (rsel > 5k)\nR1 a 0 {(rsel)*2}\n.endif\n.end\n"},
+        {__LINE__, "a diode's IS stays (the instance's m scales it): wrapped where a current",
+         "t\n.param isat=1f\nD1 a 0 dmod\n.model dmod d(is={isat})\nI1 0 a {isat}\n.end\n",
+         "t\n.param isat=1f\nD1 a 0 dmod m=0.5\n.model dmod d(is={isat})\nI1 0 a {(isat)/2}\n"
+         ".options gmin=5e-13\n.end\n"},
+        {__LINE__, "a name two scopes define, used where the caller decides: wrapped",
+         "t\n.param r=1k\nR0 in 0 {r}\n.subckt inner p q\nR1 p q {r}\n.ends inner\n"
+         ".subckt outer a b params: r=5k\nX1 a b inner\n.ends outer\nXo in 0 outer\n.end\n",
+         "t\n.param r=1k\nR0 in 0 {(r)*2}\n.subckt inner p q\nR1 p q {(r)*2}\n.ends inner\n"
+         ".subckt outer a b params: r=5k\nX1 a b inner\n.ends outer\nXo in 0 outer\n.end\n"},
+        {__LINE__, "1mil reads 1e-3 in a .param: left, and its uses wrapped",
+         "t\n.param len=1mil\nR1 a 0 {len}\n.end\n",
+         "t\n.param len=1mil\nR1 a 0 {(len)*2}\n.end\n"},
+        {__LINE__, "a .func call",
+         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=3k rb=6k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra + rb'\n.end\n",
+         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=6k rb=12k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra + rb'\n.end\n"},
+        {__LINE__, "a number with a unit beside it does not tell the parameter's unit",
+         "t\n.param ratio=2\nC1 a 0 {1n*ratio}\n.end\n",
+         "t\n.param ratio=2\nC1 a 0 {(1n*ratio)/2000}\n.end\n"},
+        {__LINE__, "... so pi stays pi",
+         "t\n.param pi=3.14159265358979\nC1 a 0 {1/(2*pi*1k)}\nR1 a 0 1k\n.end\n",
+         "t\n.param pi=3.14159265358979\nC1 a 0 {(1/(2*pi*1k))/2000}\nR1 a 0 2k\n.end\n"},
+        {__LINE__, "a run-time expression keeps its parameter wrapped",
+         "t\n.param rload=1k\nR4 a b R = (time<12ms ? {rload} : {2*rload})\n.end\n",
+         "t\n.param rload=1k\nR4 a b R = ((((time*1000)<12ms ? {rload} : {2*rload}))*2)\n.end\n"},
+    };
+    for (const auto& c : cases) {
+        auto s = test::scale_text(c.deck, 2, 1000);
+        EXPECT_EQ(s.text(), c.expected) << "line " << c.line << ": " << c.what;
+    }
+}
+
+}  // namespace
+}  // namespace deckscale
