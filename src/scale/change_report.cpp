@@ -37,6 +37,7 @@ std::string outcome_text(const ParamDecision& d) {
         case ParamOutcome::unchanged:
             return fmt::format("unchanged: {}, factor 1", d.kind);
         case ParamOutcome::wrapped:
+            if (d.wrapped_uses == 0) return "left as written: " + d.why;
             return fmt::format("wrapped at {} use site{}: {}", d.wrapped_uses,
                                d.wrapped_uses == 1 ? "" : "s", d.why);
         case ParamOutcome::unused:

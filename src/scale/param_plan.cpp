@@ -121,11 +121,13 @@ private:
                 }
             fixed.push_back(std::move(e));
         }
-        std::vector<const ParamEquation*> eqs;
+        std::vector<const ParamEquation*> eqs, with_numbers;
         for (const auto& e : fixed) eqs.push_back(&e);
+        for (std::size_t i : g.eqs) with_numbers.push_back(&x_.equations[i]);
         ParamSolution s = solve_params(g.members, eqs);
         switch (s.status) {
-            case ParamSolution::Status::conflict: return wrap(g, conflict_reason(g, s.conflict));
+            case ParamSolution::Status::conflict:
+                return wrap(g, conflict_reason(g, s.conflict));
             case ParamSolution::Status::open: return wrap(g, open_reason(g, s.open));
             case ParamSolution::Status::too_large: return wrap(g, kTooLarge);
             case ParamSolution::Status::solved: break;
@@ -134,9 +136,7 @@ private:
         // with a unit (1k, 10n) is dimensionless (`{1/(2*pi*1k)}` as a capacitance would make
         // pi scale like 1/F).
         if (numbers.size() > g.members.size()) {
-            eqs.clear();
-            for (std::size_t i : g.eqs) eqs.push_back(&x_.equations[i]);
-            ParamSolution free = solve_params(numbers, eqs);
+            ParamSolution free = solve_params(numbers, with_numbers);
             if (free.status == ParamSolution::Status::too_large) return wrap(g, kTooLarge);
             std::vector<int> open;
             for (int p : free.open)
@@ -197,6 +197,27 @@ private:
                                site_text(deck_, was.site), kind_name(eq.rhs.km, eq.rhs.kf, o.unit),
                                site_text(deck_, o.site));
         }
+        // Agreement only if the numbers written with a unit in one definition scaled too
+        // (`{1/(4*9.8696*455k*455k*l)}` as a capacitance, l an inductance: 455k would have to
+        // be a frequency). Tried one place at a time, its numbers as unknowns.
+        int first_number = static_cast<int>(x_.index.params.size());
+        for (std::size_t j = 0; j < g.eqs.size(); ++j) {
+            const auto& with = x_.equations[g.eqs[j]];
+            if (x_.origins[g.eqs[j]].use || with.form.empty() || with.form.rbegin()->first < first_number)
+                continue;
+            std::vector<int> unknowns = g.members;
+            for (const auto& [id, c] : with.form)
+                if (id >= first_number) unknowns.push_back(id);
+            std::vector<const ParamEquation*> eqs;
+            for (std::size_t k = 0; k < g.eqs.size(); ++k)
+                eqs.push_back(k == j ? &with : &g.fixed[k]);
+            auto st = solve_params(unknowns, eqs).status;
+            if (st == ParamSolution::Status::conflict || st == ParamSolution::Status::too_large) continue;
+            return fmt::format("its uses agree only if the numbers written with a unit{} "
+                               "scaled too; deckscale rewrites no number inside an expression "
+                               "of parameters",
+                               site_text(deck_, x_.origins[g.eqs[j]].site));
+        }
         const auto& o = x_.origins[g.eqs[bad]];
         return fmt::format("{}{} does not agree with the {} before it about its unit",
                            o.use ? "the use" : "the definition", site_text(deck_, o.site),
@@ -210,8 +231,8 @@ private:
             const auto& o = x_.origins[i];
             for (int p : open)
                 if (o.use && x_.equations[i].form.count(p))
-                    return fmt::format("its uses do not fix the unit of {} (only products or "
-                                       "ratios with other parameters, as in{})",
+                    return fmt::format("its uses do not fix the unit of {}: only products or "
+                                       "ratios with other parameters are used{}",
                                        names, site_text(deck_, o.site));
         }
         return fmt::format("its uses do not fix the unit of {}", names);
@@ -224,8 +245,8 @@ private:
             bool number = !form.empty() && form.rbegin()->first >= first_number;
             for (int p : open)
                 if (number && form.count(p))
-                    return fmt::format("its unit rests on a number written with a unit of its "
-                                       "own, which deckscale does not read ('{}'{})",
+                    return fmt::format("the unit of '{}' rests on a number written with a unit "
+                                       "of its own{}, which deckscale does not read",
                                        x_.index.params[p].written, site_text(deck_, x_.origins[i].site));
         }
         return fmt::format("its unit rests on numbers written with a unit of their own");
@@ -267,7 +288,7 @@ private:
                 d.outcome = ParamOutcome::wrapped;
                 d.why = g.why;
                 if (g.opaque_member >= 0 && g.opaque_member != p)
-                    d.why = fmt::format("linked to '{}', which is {}",
+                    d.why = fmt::format("linked to '{}': {}",
                                         x_.index.params[g.opaque_member].written, g.why);
                 if (auto w = wrapped.find(p); w != wrapped.end()) d.wrapped_uses = w->second;
             } else {

@@ -88,5 +88,74 @@ TEST(ParamPlan, WritesTheExpectedDeck) {
     }
 }
 
+// Why a parameter stays wrapped, as the change list says it.
+TEST(ParamPlan, SaysWhyAParameterIsWrapped) {
+    struct Case {
+        int line;
+        const char* deck;
+        const char* param;
+        const char* why;
+    };
+    const Case cases[] = {
+        {__LINE__, "t\n.param l=1m c={1/(4*9.8696*1k*1k*l)}\nL1 a 0 {l}\nC1 a 0 {c}\n.end\n", "c",
+         "its uses agree only if the numbers written with a unit (.param, deck.cir:2) scaled too; "
+         "deckscale rewrites no number inside an expression of parameters"},
+        {__LINE__, "t\n.param ratio=2\nC1 a 0 {1n*ratio}\n.end\n", "ratio",
+         "the unit of 'ratio' rests on a number written with a unit of its own (C1, deck.cir:3), "
+         "which deckscale does not read"},
+        {__LINE__, "t\n.param x=2 y=500\nR1 a 0 {x*y}\n.end\n", "y",
+         "its uses do not fix the unit of 'x', 'y': only products or ratios with other "
+         "parameters are used (R1, deck.cir:3)"},
+        {__LINE__, "t\n.param rv=1k\nR1 a 0 {rv}\n.control\nalterparam rv=2k\n.endc\n.end\n", "rv",
+         "used in a .control block (.control, deck.cir:5)"},
+        {__LINE__, "t\n.param rv=1k rw={rv*2}\nR1 a 0 {rw}\n.control\nalterparam rv=2k\n.endc\n.end\n",
+         "rw", "linked to 'rv': used in a .control block (.control, deck.cir:5)"},
+        {__LINE__, "t\n.param g=2\nB1 a 0 V={g}*v(b)\n.end\n", "g",
+         "used as part of a run-time expression (B1, deck.cir:3)"},
+        {__LINE__, "t\n.param r0=1k\nR1 a 0 {agauss(r0, 0.01, 1)}\n.end\n", "r0",
+         "used with the random function agauss() (R1, deck.cir:3)"},
+        {__LINE__, "t\n.param r0=1k\nX1 a 0 nosuch r={r0}\n.end\n", "r0",
+         "given to 'nosuch', a subcircuit this deck does not define (X1, deck.cir:3)"},
+        {__LINE__, "t\n.param r=1k\n.subckt in p q\nR1 p q {r}\n.ends\n.subckt out a b params: r=5k\n"
+                   "X1 a b in\n.ends\nXo x 0 out\n.end\n",
+         "r", "its name is defined in more than one scope, and ngspice 39 takes it from "
+              "whichever subcircuit calls"},
+    };
+    for (const auto& c : cases) {
+        auto s = test::scale_text(c.deck, 2, 1000);
+        bool found = false;
+        for (const auto& d : s.result.params)
+            if (d.name == c.param && d.subckt.empty()) {
+                found = true;
+                EXPECT_EQ(d.outcome, ParamOutcome::wrapped) << "line " << c.line;
+                EXPECT_EQ(d.why, c.why) << "line " << c.line;
+            }
+        EXPECT_TRUE(found) << "line " << c.line;
+    }
+}
+
+// The pass reading the deck and the pass over the finished deck plan alike, also when a
+// parameter is defined after its uses (scale/rescale.hpp load_and_scale).
+TEST(ParamPlan, ReadingOncePlansAsAPassOverTheFinishedDeck) {
+    const std::string deck =
+        "t\nR1 a b {rb}\n.subckt s p q params: c=1n\nC1 p q {c}\n.ends\nX1 b 0 s c=2n\n"
+        ".param rb=1k unused=3\nC2 b 0 {rb*1p}\nR2 b 0 {rb2}\n.param rb2=2k\n.end\n";
+    MemoryFileSystem fs;
+    fs.add("deck.cir", deck);
+    ScaleSettings s;
+    s.factors = {2, 1000};
+    ScaledDeck one = load_and_scale("deck.cir", fs, s);
+    ScaleResult two = scale_deck(one.deck, s);
+    std::string a = apply_edits(deck, one.result.edits[0]), b = apply_edits(deck, two.edits[0]);
+    EXPECT_EQ(a, b);
+    EXPECT_EQ(a, "t\nR1 a b {(rb)*2}\n.subckt s p q params: c=500f\nC1 p q {c}\n.ends\nX1 b 0 s c=1p\n"
+                 ".param rb=1k unused=3\nC2 b 0 {(rb*1p)/2000}\nR2 b 0 {rb2}\n.param rb2=4k\n.end\n");
+    ASSERT_EQ(one.result.params.size(), two.params.size());
+    for (std::size_t i = 0; i < two.params.size(); ++i) {
+        EXPECT_EQ(one.result.params[i].name, two.params[i].name);
+        EXPECT_EQ(one.result.params[i].outcome, two.params[i].outcome);
+    }
+}
+
 }  // namespace
 }  // namespace deckscale
