@@ -78,7 +78,8 @@ bool one_of(const std::string& name, std::initializer_list<const char*> names) {
 }
 
 constexpr int kMaxDepth = 200;     // nested parentheses and operators
-constexpr int kMaxCallDepth = 16;  // .func calls inside .func bodies
+constexpr int kMaxCallDepth = 16;    // .func calls inside .func bodies
+constexpr int kMaxExpansions = 1000;  // .func bodies read for one expression
 
 class Analyzer {
 public:
@@ -393,6 +394,8 @@ private:
         if (args.size() != f.args.size())
             throw Unreadable{fmt::format("{}() takes {} argument(s)", name, f.args.size())};
         if (++calls_ > kMaxCallDepth) throw Opaque{fmt::format("{}() calls itself", name)};
+        if (++expansions_ > kMaxExpansions)
+            throw Opaque{fmt::format("{}() among more nested function calls than deckscale follows", name)};
         std::map<std::string, Node> bound;
         for (std::size_t k = 0; k < args.size(); ++k) bound[f.args[k]] = std::move(args[k]);
         env_.push_back(std::move(bound));
@@ -416,13 +419,14 @@ private:
     std::size_t i_ = 0;
     int depth_ = 0;
     int calls_ = 0;
+    int expansions_ = 0;
     int ghosts_ = 0;  // numbers with a unit of their own: -1, -2, ...
     std::vector<std::map<std::string, Node>> env_;
 };
 
 // Every parameter the text names (also inside .func bodies it calls), for an opaque result.
 void collect_params(std::string_view s, const DimContext& context, std::set<int>& out,
-                    const std::set<std::string>& locals, int depth) {
+                    const std::set<std::string>& locals, std::set<std::string>& seen) {
     std::size_t i = 0;
     while (i < s.size()) {
         if (!ident_start(s[i])) {
@@ -439,9 +443,9 @@ void collect_params(std::string_view s, const DimContext& context, std::set<int>
         if (locals.count(name)) continue;
         if (auto id = context.param ? context.param(name) : std::nullopt) out.insert(*id);
         const UserFunction* f = context.function ? context.function(name) : nullptr;
-        if (f && depth < kMaxCallDepth) {
+        if (f && seen.insert(name).second) {  // each body once
             std::set<std::string> args(f->args.begin(), f->args.end());
-            collect_params(f->body, context, out, args, depth + 1);
+            collect_params(f->body, context, out, args, seen);
         }
     }
 }
@@ -467,7 +471,8 @@ DimAnalysis analyze_dims(std::string_view expr, const DimContext& context) {
         out = DimAnalysis{};
         out.opaque = true;
         out.why = std::move(why);
-        collect_params(expr, context, out.params, {}, 0);
+        std::set<std::string> seen;
+        collect_params(expr, context, out.params, {}, seen);
     };
     try {
         Analyzer a(context, out);

@@ -38,7 +38,8 @@ struct ParamFacts {
     std::vector<EditableNumber> editables;
     std::vector<std::string> opaque;       // per parameter: why it cannot be planned, or empty
     std::vector<int> group;                // per parameter: its group of linked parameters
-    std::vector<std::set<int>> use_params; // per recorded use: the parameters it names
+    std::vector<std::set<int>> named;      // per distinct text analysed: the parameters it names
+    std::vector<std::size_t> use_params;   // per recorded use: its entry in `named`
     std::vector<bool> use_planned;         // per recorded use: it gave an equation
 };
 

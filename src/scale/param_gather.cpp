@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 #include <numeric>
+#include <tuple>
+#include <unordered_map>
 
 #include <fmt/format.h>
 
@@ -31,8 +33,9 @@ struct UnionFind {
 };
 
 struct Analysis {
+    std::size_t id = 0;  // one per distinct (scope, text)
     DimAnalysis dims;
-    std::uint32_t inner = 0;  // file offset of the text analysed (after a { or ')
+    bool delimited = false;  // the text analysed starts one byte in, after a { or '
 };
 
 // A number that ngspice's parameter reader and its element-line reader read alike
@@ -74,31 +77,51 @@ public:
     }
 
 private:
-    Analysis analyze(std::size_t file, std::uint32_t begin, std::uint32_t end, int scope) {
+    // A large deck repeats the same few values: each (scope, text) is analysed once.
+    const Analysis& analyze(std::size_t file, std::uint32_t begin, std::uint32_t end, int scope) {
         std::string_view text = deck_.files[file].source->view(begin, end);
-        Analysis a;
-        a.inner = begin;
-        if (text.size() >= 2 && ((text.front() == '{' && text.back() == '}') ||
-                                 (text.front() == '\'' && text.back() == '\''))) {
-            text = text.substr(1, text.size() - 2);
-            a.inner = begin + 1;
-        }
+        bool delimited = text.size() >= 2 && ((text.front() == '{' && text.back() == '}') ||
+                                              (text.front() == '\'' && text.back() == '\''));
+        if (delimited) text = text.substr(1, text.size() - 2);
+        key_.assign(reinterpret_cast<const char*>(&scope), sizeof scope);
+        key_ += delimited ? '{' : ' ';
+        key_ += text;
+        auto [it, fresh] = analyses_.try_emplace(key_);
+        Analysis& a = it->second;
+        if (!fresh) return a;
+        a.id = x_.named.size();
+        a.delimited = delimited;
         DimContext context{
             [&](const std::string& name) { return x_.index.resolve(name, scope, ambiguous_); },
             [&](const std::string& name) { return x_.index.function(name); }};
         a.dims = analyze_dims(text, context);
+        x_.named.push_back(a.dims.params);
         return a;
     }
 
     void mark_one(int p, const std::string& why) {
         if (x_.opaque[p].empty()) x_.opaque[p] = why;
     }
-    void mark(const std::set<int>& ps, const std::string& why) {
-        for (int p : ps) mark_one(p, why);
+    // `why()` is only worked out when one of the parameters is not marked yet.
+    template <typename Why>
+    void mark(const std::set<int>& ps, const Why& why) {
+        for (int p : ps)
+            if (x_.opaque[p].empty()) {
+                std::string text = why();
+                for (int q : ps) mark_one(q, text);
+                return;
+            }
+    }
+
+    // False when the same equations were added before (the same value with the same unit
+    // elsewhere): they are added once.
+    bool fresh(const Analysis& a, int self, const Exponents& rhs) {
+        return seen_.insert({a.id, self, rhs.km.num, rhs.km.den, rhs.kf.num, rhs.kf.den}).second;
     }
 
     // The analysed value plus `extra` equals `rhs`, and the side conditions hold.
-    void equations(const DimAnalysis& d, const LinearForm& extra, Exponents rhs, EquationOrigin o) {
+    void equations(const Analysis& a, const LinearForm& extra, Exponents rhs, EquationOrigin o) {
+        const DimAnalysis& d = a.dims;
         std::set<int> params = d.params;
         for (const auto& [p, c] : extra) params.insert(p);
         if (params.empty()) return;
@@ -128,17 +151,17 @@ private:
     }
 
     void definition(const ParamDefinition& d) {
-        Analysis a = analyze(d.site.file, d.value.begin, d.value.end, d.scope);
+        const Analysis& a = analyze(d.site.file, d.value.begin, d.value.end, d.scope);
         if (a.dims.opaque) {
             std::set<int> ps = a.dims.params;
             ps.insert(d.param);
-            mark(ps, "its definition uses " + a.dims.why + site_text(deck_, d.site));
+            mark(ps, [&] { return "its definition uses " + a.dims.why + site_text(deck_, d.site); });
             return;
         }
         const SourceFile& file = *deck_.files[d.site.file].source;
         if (a.dims.params.empty() && a.dims.number) {
             const auto& num = *a.dims.number;
-            auto begin = static_cast<std::uint32_t>(a.inner + num.offset);
+            auto begin = static_cast<std::uint32_t>(d.value.begin + (a.delimited ? 1 : 0) + num.offset);
             auto length = static_cast<std::uint32_t>(num.length);
             if (same_both_ways(file.view(begin, begin + length))) {
                 std::size_t key_length = x_.index.params[d.param].name.size();
@@ -151,45 +174,50 @@ private:
         }
         // Defined by other parameters, or by numbers that cannot carry a factor (then the
         // parameter keeps its value: dimension 0).
-        equations(a.dims, LinearForm{{d.param, Fraction::of(-1)}}, Exponents{},
+        if (!fresh(a, d.param, Exponents{})) return;
+        equations(a, LinearForm{{d.param, Fraction::of(-1)}}, Exponents{},
                   EquationOrigin{false, d.site, d.param, ""});
     }
 
     void recorded() {
         std::vector<std::size_t> order(uses_.size());
         std::iota(order.begin(), order.end(), 0);
-        std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+        auto before = [&](std::size_t a, std::size_t b) {
             return std::tie(uses_[a].file, uses_[a].begin) < std::tie(uses_[b].file, uses_[b].begin);
-        });
+        };
+        if (!std::is_sorted(order.begin(), order.end(), before))  // the pass goes in file order
+            std::sort(order.begin(), order.end(), before);
         x_.use_params.resize(uses_.size());
         x_.use_planned.assign(uses_.size(), false);
+        covered_.reserve(uses_.size());
         for (std::size_t i : order) {
             const ParamUse& u = uses_[i];
-            covered_.insert({u.file, u.begin});
-            ParamSite site{u.file, u.begin, u.element};
-            Analysis a = analyze(u.file, u.begin, u.end, x_.index.scope_at(u.file, u.begin));
-            x_.use_params[i] = a.dims.params;
+            covered_.emplace_back(u.file, u.begin);
+            auto site = [&] { return ParamSite{u.file, u.begin, u.element}; };
+            const Analysis& a = analyze(u.file, u.begin, u.end, x_.index.scope_at(u.file, u.begin));
+            x_.use_params[i] = a.id;
             if (!u.exponents) {
-                mark(a.dims.params, "used as " + u.why + site_text(deck_, site));
+                mark(a.dims.params, [&] { return "used as " + u.why + site_text(deck_, site()); });
             } else if (a.dims.opaque) {
-                mark(a.dims.params, "used with " + a.dims.why + site_text(deck_, site));
+                mark(a.dims.params, [&] { return "used with " + a.dims.why + site_text(deck_, site()); });
             } else {
                 x_.use_planned[i] = true;
                 Exponents rhs{Fraction::of(u.exponents->km), Fraction::of(u.exponents->kf)};
-                equations(a.dims, {}, rhs, EquationOrigin{true, site, 0, u.unit});
+                if (fresh(a, -1, rhs)) equations(a, {}, rhs, EquationOrigin{true, site(), 0, u.unit});
             }
         }
     }
 
     void reference(const ParamRef& r) {
-        if (covered_.count({r.site.file, r.begin})) return;
-        Analysis a = analyze(r.site.file, r.begin, r.end, r.scope);
+        if (std::binary_search(covered_.begin(), covered_.end(), std::make_pair(r.site.file, r.begin)))
+            return;
+        const Analysis& a = analyze(r.site.file, r.begin, r.end, r.scope);
         if (r.kind == ParamRef::Kind::opaque)
-            mark(a.dims.params, r.why + site_text(deck_, r.site));
+            mark(a.dims.params, [&] { return r.why + site_text(deck_, r.site); });
         else if (a.dims.opaque)
-            mark(a.dims.params, "used with " + a.dims.why + site_text(deck_, r.site));
-        else  // left as written by the pass, or an .if condition: its value must stay
-            equations(a.dims, {}, Exponents{}, EquationOrigin{true, r.site, 0, ""});
+            mark(a.dims.params, [&] { return "used with " + a.dims.why + site_text(deck_, r.site); });
+        else if (fresh(a, -1, Exponents{}))  // left as written by the pass, or an .if condition
+            equations(a, {}, Exponents{}, EquationOrigin{true, r.site, 0, ""});
     }
 
     // Uses (recorded ones and references) by their place in the deck, for messages that
@@ -197,11 +225,13 @@ private:
     void in_file_order(std::size_t from) {
         std::vector<std::size_t> idx(x_.equations.size() - from);
         std::iota(idx.begin(), idx.end(), from);
-        std::stable_sort(idx.begin(), idx.end(), [&](std::size_t a, std::size_t b) {
+        auto before = [&](std::size_t a, std::size_t b) {
             const auto& sa = x_.origins[a].site;
             const auto& sb = x_.origins[b].site;
             return std::tie(sa.file, sa.offset) < std::tie(sb.file, sb.offset);
-        });
+        };
+        if (std::is_sorted(idx.begin(), idx.end(), before)) return;
+        std::stable_sort(idx.begin(), idx.end(), before);
         std::vector<ParamEquation> eqs(x_.equations.begin(), x_.equations.begin() + from);
         std::vector<EquationOrigin> origins(x_.origins.begin(), x_.origins.begin() + from);
         for (std::size_t i : idx) {
@@ -217,8 +247,11 @@ private:
     ParamFacts& x_;
     UnionFind uf_{0};
     int next_ghost_ = 0;
-    std::vector<int> ambiguous_;
-    std::set<std::pair<std::size_t, std::uint32_t>> covered_;
+    std::set<int> ambiguous_;
+    std::vector<std::pair<std::size_t, std::uint32_t>> covered_;  // recorded uses, sorted
+    std::unordered_map<std::string, Analysis> analyses_;
+    std::string key_;
+    std::set<std::tuple<std::size_t, int, std::int64_t, std::int64_t, std::int64_t, std::int64_t>> seen_;
 };
 
 }  // namespace

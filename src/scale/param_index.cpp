@@ -18,12 +18,12 @@ int ParamIndex::scope_at(std::size_t file, std::uint32_t offset) const {
 }
 
 std::optional<int> ParamIndex::resolve(const std::string& name, int scope,
-                                       std::vector<int>& ambiguous) const {
+                                       std::set<int>& ambiguous) const {
     if (auto it = by_key_.find({scope, name}); it != by_key_.end()) return it->second;
     if (scope == 0) return std::nullopt;  // the top level sees global parameters only
     auto it = by_name_.find(name);
     if (it == by_name_.end()) return std::nullopt;
-    if (it->second.size() > 1) ambiguous.insert(ambiguous.end(), it->second.begin(), it->second.end());
+    if (it->second.size() > 1) ambiguous.insert(it->second.begin(), it->second.end());
     return it->second.front();
 }
 
@@ -74,42 +74,77 @@ class Indexer {
 public:
     Indexer(const Deck& deck, ParamIndex& index) : deck_(deck), x_(index) {}
 
+    // One reading of each file (a reading runs the grammar again); X lines wait until every
+    // subcircuit is known, since they may come before their .subckt.
     void run() {
         x_.transitions.resize(deck_.files.size());
-        for (std::size_t f = 0; f < deck_.files.size(); ++f) definitions(f);
-        for (const auto& p : x_.params) names_.insert(p.name);
-        for (std::size_t f = 0; f < deck_.files.size(); ++f) uses(f);
+        for (std::size_t f = 0; f < deck_.files.size(); ++f) read(f);
+        for (const auto& x : instances_) instance(x);
     }
 
 private:
-    // First pass: scopes, .param and params: definitions, .func.
-    void definitions(std::size_t file) {
+    struct Override {
+        std::string key;  // lower case
+        std::string written;
+        ParamSite site;
+        Token value{};
+    };
+    // What an X line says, kept beyond the card.
+    struct Instance {
+        std::size_t file = 0;
+        int scope = 0;
+        std::string subckt;
+        std::vector<Override> overrides;
+        std::vector<ParamRef> braces;  // {..} fields that are not overrides
+    };
+
+    void read(std::size_t file) {
         std::vector<int> open{0};
         auto& trans = x_.transitions[file];
         deck_.visit_file(file, [&](const Card& c) {
-            if (c.kind != CardKind::dot || c.fields.empty()) return;
+            if (c.kind == CardKind::control) return control(file, c);
+            if (c.fields.empty() || (c.kind != CardKind::element && c.kind != CardKind::dot)) return;
+            int scope = open.back();
+            if (c.kind == CardKind::element) {
+                if (ascii_lower(c.field_text(0)[0]) == 'x')
+                    instances_.push_back(instance_of(file, c, scope));
+                else
+                    values(file, c, 1, scope);
+                return;
+            }
             std::string kw = card_keyword(c);
             if (kw == ".subckt" && c.fields.size() > 1) {
-                int scope = static_cast<int>(x_.scopes.size());
+                int inner = static_cast<int>(x_.scopes.size());
                 std::string name = to_lower(c.field_text(1));
                 x_.scopes.push_back(ParamScope{name});
-                x_.subckts[name].push_back(scope);
-                open.push_back(scope);
-                trans.emplace_back(c.begin(), scope);
-                define_all(file, c, 2, scope);
+                x_.subckts[name].push_back(inner);
+                open.push_back(inner);
+                trans.emplace_back(c.begin(), inner);
+                define_all(file, c, 2, inner);
             } else if (kw == ".ends" && open.size() > 1) {
                 open.pop_back();
                 trans.emplace_back(c.end(), open.back());
             } else if (kw == ".param") {
-                define_all(file, c, 1, open.back());
+                define_all(file, c, 1, scope);
             } else if (kw == ".func") {
                 function(c);
-            } else if ((kw == ".include" || kw == ".inc" || kw == ".lib") && open.size() > 1 &&
-                       x_.no_plan.empty()) {
-                auto pos = c.file->position(c.begin());
-                x_.no_plan = fmt::format("{} inside a .subckt at {}:{} brings in cards whose scope "
-                                         "deckscale does not follow",
-                                         c.field_text(0), c.file->path(), pos.line);
+            } else if ((kw == ".include" || kw == ".inc" || kw == ".lib") && open.size() > 1) {
+                if (x_.no_plan.empty())
+                    x_.no_plan = fmt::format("{} inside a .subckt at {}:{} brings in cards whose "
+                                             "scope deckscale does not follow",
+                                             c.field_text(0), c.file->path(),
+                                             c.file->position(c.begin()).line);
+            } else if (kw == ".if" || kw == ".elseif") {
+                if (c.fields.size() > 1)
+                    ref(file, c, ParamRef::Kind::condition, c.fields[1].begin, c.fields.back().end,
+                        scope, "");
+            } else if (kw == ".csparam") {
+                for (std::size_t i = 1; i < c.fields.size(); ++i)
+                    if (const Token* v = keyed_value(c, i))
+                        ref(file, c, ParamRef::Kind::opaque, v->begin, v->end, scope,
+                            "copied by .csparam for .control scripts");
+            } else if (!names_only(kw) && kw != ".subckt") {
+                values(file, c, kw == ".model" ? 3 : 1, scope);
             }
         });
     }
@@ -144,47 +179,13 @@ private:
         x_.functions[to_lower(c.field_text(1))].back().body = std::string(body);
     }
 
-    // Second pass: X-line overrides and every other value.
-    void uses(std::size_t file) {
-        deck_.visit_file(file, [&](const Card& c) {
-            if (c.kind == CardKind::control) {
-                control(file, c);
-                return;
-            }
-            if (c.fields.empty() || (c.kind != CardKind::element && c.kind != CardKind::dot))
-                return;
-            int scope = x_.scope_at(file, c.begin());
-            if (c.kind == CardKind::element) {
-                if (ascii_lower(c.field_text(0)[0]) == 'x')
-                    instance(file, c, scope);
-                else
-                    values(file, c, 1, scope);
-                return;
-            }
-            std::string kw = card_keyword(c);
-            if (names_only(kw) || kw == ".param" || kw == ".subckt") return;
-            if (kw == ".if" || kw == ".elseif") {
-                if (c.fields.size() > 1)
-                    ref(file, c, ParamRef::Kind::condition, c.fields[1].begin, c.fields.back().end,
-                        scope, "");
-            } else if (kw == ".csparam") {
-                for (std::size_t i = 1; i < c.fields.size(); ++i)
-                    if (const Token* v = keyed_value(c, i))
-                        ref(file, c, ParamRef::Kind::opaque, v->begin, v->end, scope,
-                            "copied by .csparam for .control scripts");
-            } else {
-                values(file, c, kw == ".model" ? 3 : 1, scope);
-            }
-        });
-    }
-
     // Values of an element or dot card: every {expr}, 'expr' and word naming a parameter.
     void values(std::size_t file, const Card& c, std::size_t first, int scope) {
         const auto& f = c.fields;
         for (std::size_t i = first; i < f.size(); ++i) {
             bool key = i + 1 < f.size() && f[i + 1].kind == TokenKind::equals;
             bool expr = f[i].kind == TokenKind::brace || f[i].kind == TokenKind::squote;
-            bool name = f[i].kind == TokenKind::word && !key && names_.count(to_lower(c.field_text(i)));
+            bool name = f[i].kind == TokenKind::word && !key && named(c.field_text(i));
             if (expr || name)
                 ref(file, c, ParamRef::Kind::value, f[i].begin, f[i].end, scope, "");
         }
@@ -192,39 +193,45 @@ private:
 
     // X name nodes... subckt [params:] key=value...: overrides define the subcircuit's
     // parameters; their expressions are read where the X line is.
-    void instance(std::size_t file, const Card& c, int scope) {
+    Instance instance_of(std::size_t file, const Card& c, int scope) {
         const auto& f = c.fields;
-        std::string subckt;
+        Instance x{file, scope, "", {}, {}};
         std::size_t i = 1;
         for (; i < f.size() && !keyed_value(c, i); ++i)
             if (f[i].kind == TokenKind::word && !iequals(c.field_text(i), "params:"))
-                subckt = to_lower(c.field_text(i));
-        auto defs = x_.subckts.find(subckt);
+                x.subckt = to_lower(c.field_text(i));
         for (; i < f.size(); ++i) {
-            const Token* v = keyed_value(c, i);
-            if (!v) {
-                if (f[i].kind == TokenKind::brace || f[i].kind == TokenKind::squote)
-                    ref(file, c, ParamRef::Kind::value, f[i].begin, f[i].end, scope, "");
-                continue;
+            if (const Token* v = keyed_value(c, i)) {
+                x.overrides.push_back(Override{to_lower(c.field_text(i)), std::string(c.field_text(i)),
+                                               site_of(file, c, f[i].begin), *v});
+                i += 2;
+            } else if (f[i].kind == TokenKind::brace || f[i].kind == TokenKind::squote) {
+                x.braces.push_back(ParamRef{ParamRef::Kind::value, site_of(file, c, f[i].begin),
+                                            f[i].begin, f[i].end, scope, ""});
             }
-            std::string key = to_lower(c.field_text(i));
-            ParamSite site = site_of(file, c, f[i].begin);
+        }
+        return x;
+    }
+
+    void instance(const Instance& x) {
+        for (const auto& r : x.braces) x_.refs.push_back(r);
+        auto defs = x_.subckts.find(x.subckt);
+        for (const auto& o : x.overrides) {
             bool defined = false;
             if (defs != x_.subckts.end())
                 for (int s : defs->second)
-                    if (x_.has_param(s, key)) {
-                        int id = x_.param(s, key, site, c.field_text(i));
-                        x_.definitions.push_back(ParamDefinition{id, site, *v, scope});
+                    if (x_.has_param(s, o.key)) {
+                        int id = x_.param(s, o.key, o.site, o.written);
+                        x_.definitions.push_back(ParamDefinition{id, o.site, o.value, x.scope});
                         defined = true;
                     }
-            if (defined)
-                ;
-            else if (defs == x_.subckts.end())
-                ref(file, c, ParamRef::Kind::opaque, v->begin, v->end, scope,
-                    fmt::format("given to '{}', a subcircuit this deck does not define", subckt));
-            else
-                ref(file, c, ParamRef::Kind::value, v->begin, v->end, scope, "");
-            i += 2;
+            if (defined) continue;
+            ParamRef r{ParamRef::Kind::value, o.site, o.value.begin, o.value.end, x.scope, ""};
+            if (defs == x_.subckts.end()) {
+                r.kind = ParamRef::Kind::opaque;
+                r.why = fmt::format("given to '{}', a subcircuit this deck does not define", x.subckt);
+            }
+            x_.refs.push_back(std::move(r));
         }
     }
 
@@ -243,7 +250,7 @@ private:
             bool word_start = i == 0 || !(std::isalnum(static_cast<unsigned char>(s[i - 1])) ||
                                           s[i - 1] == '.');
             std::string name = to_lower(s.substr(i, j - i));
-            if (word_start && names_.count(name))
+            if (word_start && deck_.symbols.params.count(name))
                 x_.control_words.emplace_back(
                     name, ParamSite{file, static_cast<std::uint32_t>(c.begin() + i), ".control"});
             i = j;
@@ -255,9 +262,18 @@ private:
         x_.refs.push_back(ParamRef{kind, site_of(file, c, begin), begin, end, scope, std::move(why)});
     }
 
+    // A word that is some parameter's name (numbers and most nodes are not).
+    bool named(std::string_view w) {
+        if (w.empty() || !(std::isalpha(static_cast<unsigned char>(w[0])) || w[0] == '_')) return false;
+        lower_.assign(w);
+        for (char& ch : lower_) ch = ascii_lower(ch);
+        return deck_.symbols.params.count(lower_) != 0;
+    }
+
     const Deck& deck_;
     ParamIndex& x_;
-    std::set<std::string> names_;
+    std::string lower_;
+    std::vector<Instance> instances_;
 };
 
 }  // namespace

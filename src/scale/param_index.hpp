@@ -10,6 +10,7 @@
 #include <cstdint>
 #include <map>
 #include <optional>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -72,7 +73,7 @@ public:
     // The parameter `name` (lower case) stands for in `scope`. With several candidates (a
     // subcircuit using a name that more than one scope defines) they are all added to
     // `ambiguous` and the first is returned.
-    std::optional<int> resolve(const std::string& name, int scope, std::vector<int>& ambiguous) const;
+    std::optional<int> resolve(const std::string& name, int scope, std::set<int>& ambiguous) const;
     // The .func of that name (nullptr if none, or defined more than once).
     const UserFunction* function(const std::string& name) const;
     // Parameter id of (scope, name), created on first use.

@@ -255,11 +255,12 @@ private:
     bool solved(int p) const { return groups_.at(x_.group[p]).state == Group::State::solved; }
 
     void settle() {
+        settled_.assign(uses_.size(), false);
         for (std::size_t i = 0; i < uses_.size(); ++i) {
-            const auto& ps = x_.use_params[i];
+            const auto& ps = x_.named[x_.use_params[i]];
             if (!x_.use_planned[i] || ps.empty() || !solved(*ps.begin())) continue;
             plan_.settled.emplace_back(uses_[i].file, uses_[i].begin);
-            settled_.insert(i);
+            settled_[i] = true;
             if (uses_[i].factor != 1) plan_.changes_output = true;
         }
         std::sort(plan_.settled.begin(), plan_.settled.end());
@@ -272,8 +273,8 @@ private:
     void describe() {
         std::map<int, std::size_t> wrapped;  // uses wrapped, per parameter
         for (std::size_t u = 0; u < uses_.size(); ++u)
-            if (!settled_.count(u) && uses_[u].factor != 1)
-                for (int p : x_.use_params[u]) ++wrapped[p];
+            if (!settled_[u] && uses_[u].factor != 1)
+                for (int p : x_.named[x_.use_params[u]]) ++wrapped[p];
         for (std::size_t i = 0; i < x_.index.params.size(); ++i) {
             int p = static_cast<int>(i);
             const ParamInfo& info = x_.index.params[i];
@@ -316,7 +317,7 @@ private:
     std::map<int, std::vector<const EditableNumber*>> editables_;
     std::map<int, Exponents> dims_;
     std::map<int, double> factor_;
-    std::set<std::size_t> settled_;
+    std::vector<bool> settled_;  // per recorded use
 };
 
 }  // namespace

@@ -253,6 +253,7 @@ bool ScalePass::param_use(std::uint32_t begin, std::uint32_t end,
                           std::optional<UnitExponents> exponents, double factor,
                           std::string_view unit, std::string why) {
     if (in_control_) return false;  // .control blocks see parameters only through the plan's refusal
+    if (plan_) return exponents && plan_->settled_at(file_, begin);  // planned already
     param_uses_.push_back(ParamUse{file_, begin, end, exponents, factor,
                                    std::string(card_->field_text(0)), std::string(unit),
                                    std::move(why)});
