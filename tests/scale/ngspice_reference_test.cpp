@@ -171,9 +171,9 @@ TEST(ScaleReferenceTest, NgspiceAgreesAtMappedFrequencies) {
           "i(vsense)", "i(vin)"},
          75, 2 * pi * 2.5e5},
         // A parameter used as a resistance and (times 1p) as a capacitance: wrapped at its uses.
-        {__LINE__, "netlists/params/shared_value_param.cir", {"v(a)", "v(out)", "i(v1)"}, 10, 1000},
+        {__LINE__, "netlists/corpus/param_shared_value.cir", {"v(a)", "v(out)", "i(v1)"}, 10, 1000},
         // Parameters each with one unit: scaled where they are defined (scale/param_plan).
-        {__LINE__, "netlists/params/resistance_params.cir", {"v(a)", "v(b)", "v(out)", "i(v1)"}, 10, 1000},
+        {__LINE__, "netlists/corpus/param_one_unit_each.cir", {"v(a)", "v(b)", "v(out)", "i(v1)"}, 10, 1000},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "ngspice_reference_test.cpp:" << c.line << ": " << c.deck);
