@@ -140,7 +140,12 @@ private:
             return out;
         };
         LinearForm form = d.value;
-        add_scaled(form, extra, Fraction::of(1));
+        try {
+            add_scaled(form, extra, Fraction::of(1));
+        } catch (const ExponentOverflow&) {
+            mark(params, [&] { return "powers too large to follow" + site_text(deck_, o.site); });
+            return;
+        }
         x_.equations.push_back(ParamEquation{renumbered(form), rhs});
         x_.origins.push_back(o);
         for (const auto& z : d.zero) {
