@@ -145,12 +145,5 @@ TEST(ParamDims, PicksTheNumberThatCarriesAProductOfNumbers) {
     }
 }
 
-TEST(ParamDims, FractionsStayExactAndReduced) {
-    EXPECT_EQ(Fraction::of(2, -4), (Fraction{-1, 2}));
-    EXPECT_EQ(Fraction::of(1, 3) + Fraction::of(1, 6), Fraction::of(1, 2));
-    EXPECT_EQ(Fraction::of(3, 4) / Fraction::of(3, 8), Fraction::of(2));
-    EXPECT_THROW(Fraction::of(INT64_MAX) * Fraction::of(2), ExponentOverflow);
-}
-
 }  // namespace
 }  // namespace deckscale
