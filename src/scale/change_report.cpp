@@ -31,9 +31,11 @@ const char* outcome_key(ParamOutcome o) {
 std::string outcome_text(const ParamDecision& d) {
     switch (d.outcome) {
         case ParamOutcome::definition:
-            return fmt::format("scaled at its definition as {}  x{}", d.kind, factor_text(d.factor));
+            return fmt::format("scaled at its definition as {}  x{}", d.kind,
+                               factor_text(d.factor));
         case ParamOutcome::follows:
-            return fmt::format("follows from its definition as {}  x{}", d.kind, factor_text(d.factor));
+            return fmt::format("follows from its definition as {}  x{}", d.kind,
+                               factor_text(d.factor));
         case ParamOutcome::unchanged:
             return fmt::format("unchanged: {}, factor 1", d.kind);
         case ParamOutcome::wrapped:
@@ -105,9 +107,9 @@ std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleF
     for (const auto& d : result.params) {
         const SourceFile& f = *deck.files[d.defined.file].source;
         auto pos = f.position(d.defined.offset);
-        nlohmann::json p{{"name", d.name},        {"subckt", d.subckt},
-                         {"file", f.path()},      {"line", pos.line},
-                         {"column", pos.column},  {"outcome", outcome_key(d.outcome)}};
+        nlohmann::json p{{"name", d.name},       {"subckt", d.subckt},
+                         {"file", f.path()},     {"line", pos.line},
+                         {"column", pos.column}, {"outcome", outcome_key(d.outcome)}};
         if (!d.kind.empty()) p["kind"] = d.kind;
         if (d.outcome == ParamOutcome::definition || d.outcome == ParamOutcome::follows ||
             d.outcome == ParamOutcome::unchanged)

@@ -283,7 +283,8 @@ void scale_controlled(ScalePass& p, char letter) {
             const Token& t = *a.value;
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace)
                 p.scale_by(t, factor_of(*find_rule(scope, "value"), f), "gain",
-                           unit_name(*find_rule(scope, "value")), exponents(*find_rule(scope, "value")));
+                           unit_name(*find_rule(scope, "value")),
+                           exponents(*find_rule(scope, "value")));
             else
                 p.scale_value(t, *find_rule(scope, "value"), "gain");
         } else if (i > gain_index) {

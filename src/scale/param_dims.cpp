@@ -34,8 +34,8 @@ bool one_of(const std::string& name, std::initializer_list<const char*> names) {
     return false;
 }
 
-constexpr int kMaxDepth = 200;     // nested parentheses and operators
-constexpr int kMaxCallDepth = 16;    // .func calls inside .func bodies
+constexpr int kMaxDepth = 200;        // nested parentheses and operators
+constexpr int kMaxCallDepth = 16;     // .func calls inside .func bodies
 constexpr int kMaxExpansions = 1000;  // .func bodies read for one expression
 
 class Analyzer {
@@ -65,8 +65,8 @@ private:
     };
 
     void skip() {
-        while (i_ < s_.size() && (s_[i_] == ' ' || s_[i_] == '\t' || s_[i_] == '\n' ||
-                                  s_[i_] == '\r'))
+        while (i_ < s_.size() &&
+               (s_[i_] == ' ' || s_[i_] == '\t' || s_[i_] == '\n' || s_[i_] == '\r'))
             ++i_;
     }
     bool eat(std::string_view op) {
@@ -282,9 +282,8 @@ private:
         while (j < s_.size() && ident_char(s_[j])) ++j;
         i_ = j;
         std::string_view text = s_.substr(start, j - start);
-        auto value = evaluate_param_expression(text, [](const std::string&) {
-            return std::optional<double>();
-        });
+        auto value = evaluate_param_expression(
+            text, [](const std::string&) { return std::optional<double>(); });
         if (!value) throw Unreadable{fmt::format("cannot read the number '{}'", text)};
         Node n;
         n.constant = *value;
@@ -333,9 +332,9 @@ private:
             unscaled(args[0]);
             equal(args[1], args[2]);
             n.form = args[1].form;
-        } else if (one_of(name, {"exp", "ln", "log", "log10", "sin", "cos", "tan", "asin", "acos",
-                                 "atan", "sinh", "cosh", "tanh", "asinh", "acosh", "atanh",
-                                 "floor", "ceil", "int", "nint", "sgn"})) {
+        } else if (one_of(name, {"exp",   "ln",    "log",   "log10", "sin",  "cos",  "tan",
+                                 "asin",  "acos",  "atan",  "sinh",  "cosh", "tanh", "asinh",
+                                 "acosh", "atanh", "floor", "ceil",  "int",  "nint", "sgn"})) {
             for (const auto& a : args) unscaled(a);
         } else if (one_of(name, {"gauss", "agauss", "unif", "aunif", "limit"})) {
             throw Opaque{fmt::format("the random function {}()", name)};
@@ -352,7 +351,8 @@ private:
             throw Unreadable{fmt::format("{}() takes {} argument(s)", name, f.args.size())};
         if (++calls_ > kMaxCallDepth) throw Opaque{fmt::format("{}() calls itself", name)};
         if (++expansions_ > kMaxExpansions)
-            throw Opaque{fmt::format("{}() among more nested function calls than deckscale follows", name)};
+            throw Opaque{
+                fmt::format("{}() among more nested function calls than deckscale follows", name)};
         std::map<std::string, Node> bound;
         for (std::size_t k = 0; k < args.size(); ++k) bound[f.args[k]] = std::move(args[k]);
         env_.push_back(std::move(bound));

@@ -7,11 +7,11 @@
 // number written with a suffix or an exponent (1k, 10n, 1e-9) usually carries a unit of its
 // own, so each such number also gets an unknown of its own in the forms (a negative id). The
 // plan must then find every parameter's dimension without those unknowns being 0, or it does
-// not rest the parameter on them (scale/param_plan.hpp). Where the rule breaks -- the two sides of a sum, the operands of a
-// comparison or of min/max, the argument of exp/log/sin/floor... -- the dimensions must be
-// equal, or zero, so the expression reads side conditions off those places. Anything whose
-// scaling is not known (a run-time variable, a random function, an unknown name) makes the
-// expression opaque: its parameters are then never scaled at their definition.
+// not rest the parameter on them (scale/param_plan.hpp). Where the rule breaks -- the two sides of
+// a sum, the operands of a comparison or of min/max, the argument of exp/log/sin/floor... -- the
+// dimensions must be equal, or zero, so the expression reads side conditions off those places.
+// Anything whose scaling is not known (a run-time variable, a random function, an unknown name)
+// makes the expression opaque: its parameters are then never scaled at their definition.
 #pragma once
 
 #include <cstdint>
@@ -32,15 +32,15 @@ struct ScalableNumber {
     std::size_t offset = 0;  // in the expression text
     std::size_t length = 0;
     int power = 1;
-    bool suffix = false;     // written with a scale suffix ("1k", "10n")
+    bool suffix = false;  // written with a scale suffix ("1k", "10n")
 };
 
 struct DimAnalysis {
     bool opaque = false;
-    std::string why;                  // when opaque: what has no known scaling
-    LinearForm value;                 // the expression's dimension
-    std::vector<LinearForm> zero;     // side conditions: each must come out 0
-    std::set<int> params;             // every parameter the text names, opaque or not
+    std::string why;               // when opaque: what has no known scaling
+    LinearForm value;              // the expression's dimension
+    std::vector<LinearForm> zero;  // side conditions: each must come out 0
+    std::set<int> params;          // every parameter the text names, opaque or not
     // For an expression of numbers only that is a product/quotient: the number to rescale
     // (the one with a suffix if exactly one has, else the last one).
     std::optional<ScalableNumber> number;

@@ -16,7 +16,7 @@ namespace deckscale {
 struct EquationOrigin {
     bool use = true;  // false: a definition's relation
     ParamSite site;
-    int anchor = 0;   // a parameter it names
+    int anchor = 0;    // a parameter it names
     std::string unit;  // of the use ("Ohm", "V", "-"), empty if not known
 };
 
@@ -34,13 +34,13 @@ struct ParamFacts {
     // Definitions' relations first, then uses in file order. Ids from params.size() on are
     // numbers written with a unit of their own (scale/param_dims.hpp), one id per number.
     std::vector<ParamEquation> equations;
-    std::vector<EquationOrigin> origins;   // one per equation
+    std::vector<EquationOrigin> origins;  // one per equation
     std::vector<EditableNumber> editables;
-    std::vector<std::string> opaque;       // per parameter: why it cannot be planned, or empty
-    std::vector<int> group;                // per parameter: its group of linked parameters
-    std::vector<std::set<int>> named;      // per distinct text analysed: the parameters it names
-    std::vector<std::size_t> use_params;   // per recorded use: its entry in `named`
-    std::vector<bool> use_planned;         // per recorded use: it gave an equation
+    std::vector<std::string> opaque;      // per parameter: why it cannot be planned, or empty
+    std::vector<int> group;               // per parameter: its group of linked parameters
+    std::vector<std::set<int>> named;     // per distinct text analysed: the parameters it names
+    std::vector<std::size_t> use_params;  // per recorded use: its entry in `named`
+    std::vector<bool> use_planned;        // per recorded use: it gave an equation
 };
 
 ParamFacts gather_param_facts(const Deck& deck, const std::vector<ParamUse>& uses);

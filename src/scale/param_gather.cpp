@@ -42,7 +42,8 @@ struct Analysis {
 // (`1mil` is 1e-3 in a .param but 25.4e-6 on an element line: left alone).
 bool same_both_ways(std::string_view text) {
     NumberParse p = parse_spice_number(text);
-    auto v = evaluate_param_expression(text, [](const std::string&) { return std::optional<double>(); });
+    auto v =
+        evaluate_param_expression(text, [](const std::string&) { return std::optional<double>(); });
     return p.number && p.problem == NumberProblem::none && v &&
            std::fabs(*v - p.number->value) <= 1e-12 * std::fabs(*v);
 }
@@ -66,10 +67,12 @@ public:
         for (const auto& [name, site] : x_.index.control_words)
             for (std::size_t p = 0; p < n; ++p)
                 if (x_.index.params[p].name == name)
-                    mark_one(static_cast<int>(p), "used in a .control block" + site_text(deck_, site));
+                    mark_one(static_cast<int>(p),
+                             "used in a .control block" + site_text(deck_, site));
         for (int p : ambiguous_)
-            mark_one(p, "its name is defined in more than one scope, and ngspice 39 takes it "
-                        "from whichever subcircuit calls");
+            mark_one(p,
+                     "its name is defined in more than one scope, and ngspice 39 takes it "
+                     "from whichever subcircuit calls");
         if (!x_.index.no_plan.empty())
             for (std::size_t p = 0; p < n; ++p) mark_one(static_cast<int>(p), x_.index.no_plan);
         x_.group.resize(n);
@@ -134,7 +137,9 @@ private:
             LinearForm out;
             for (const auto& [id, c] : f) {
                 int at = id;
-                if (id < 0) at = ghosts.try_emplace(id, next_ghost_ + static_cast<int>(ghosts.size())).first->second;
+                if (id < 0)
+                    at = ghosts.try_emplace(id, next_ghost_ + static_cast<int>(ghosts.size()))
+                             .first->second;
                 out[at] = c;
             }
             return out;
@@ -160,20 +165,22 @@ private:
         if (a.dims.opaque) {
             std::set<int> ps = a.dims.params;
             ps.insert(d.param);
-            mark(ps, [&] { return "its definition uses " + a.dims.why + site_text(deck_, d.site); });
+            mark(ps,
+                 [&] { return "its definition uses " + a.dims.why + site_text(deck_, d.site); });
             return;
         }
         const SourceFile& file = *deck_.files[d.site.file].source;
         if (a.dims.params.empty() && a.dims.number) {
             const auto& num = *a.dims.number;
-            auto begin = static_cast<std::uint32_t>(d.value.begin + (a.delimited ? 1 : 0) + num.offset);
+            auto begin =
+                static_cast<std::uint32_t>(d.value.begin + (a.delimited ? 1 : 0) + num.offset);
             auto length = static_cast<std::uint32_t>(num.length);
             if (same_both_ways(file.view(begin, begin + length))) {
                 std::size_t key_length = x_.index.params[d.param].name.size();
                 x_.editables.push_back(EditableNumber{
                     d.param, d.site.file, begin, length, num.power,
-                    std::string(file.view(d.site.offset,
-                                          d.site.offset + static_cast<std::uint32_t>(key_length)))});
+                    std::string(file.view(
+                        d.site.offset, d.site.offset + static_cast<std::uint32_t>(key_length)))});
                 return;
             }
         }
@@ -188,7 +195,8 @@ private:
         std::vector<std::size_t> order(uses_.size());
         std::iota(order.begin(), order.end(), 0);
         auto before = [&](std::size_t a, std::size_t b) {
-            return std::tie(uses_[a].file, uses_[a].begin) < std::tie(uses_[b].file, uses_[b].begin);
+            return std::tie(uses_[a].file, uses_[a].begin) <
+                   std::tie(uses_[b].file, uses_[b].begin);
         };
         if (!std::is_sorted(order.begin(), order.end(), before))  // the pass goes in file order
             std::sort(order.begin(), order.end(), before);
@@ -204,23 +212,27 @@ private:
             if (!u.exponents) {
                 mark(a.dims.params, [&] { return "used as " + u.why + site_text(deck_, site()); });
             } else if (a.dims.opaque) {
-                mark(a.dims.params, [&] { return "used with " + a.dims.why + site_text(deck_, site()); });
+                mark(a.dims.params,
+                     [&] { return "used with " + a.dims.why + site_text(deck_, site()); });
             } else {
                 x_.use_planned[i] = true;
                 Exponents rhs{Fraction::of(u.exponents->km), Fraction::of(u.exponents->kf)};
-                if (fresh(a, -1, rhs)) equations(a, {}, rhs, EquationOrigin{true, site(), 0, u.unit});
+                if (fresh(a, -1, rhs))
+                    equations(a, {}, rhs, EquationOrigin{true, site(), 0, u.unit});
             }
         }
     }
 
     void reference(const ParamRef& r) {
-        if (std::binary_search(covered_.begin(), covered_.end(), std::make_pair(r.site.file, r.begin)))
+        if (std::binary_search(covered_.begin(), covered_.end(),
+                               std::make_pair(r.site.file, r.begin)))
             return;
         const Analysis& a = analyze(r.site.file, r.begin, r.end, r.scope);
         if (r.kind == ParamRef::Kind::opaque)
             mark(a.dims.params, [&] { return r.why + site_text(deck_, r.site); });
         else if (a.dims.opaque)
-            mark(a.dims.params, [&] { return "used with " + a.dims.why + site_text(deck_, r.site); });
+            mark(a.dims.params,
+                 [&] { return "used with " + a.dims.why + site_text(deck_, r.site); });
         else if (fresh(a, -1, Exponents{}))  // left as written by the pass, or an .if condition
             equations(a, {}, Exponents{}, EquationOrigin{true, r.site, 0, ""});
     }
@@ -256,7 +268,8 @@ private:
     std::vector<std::pair<std::size_t, std::uint32_t>> covered_;  // recorded uses, sorted
     std::unordered_map<std::string, Analysis> analyses_;
     std::string key_;
-    std::set<std::tuple<std::size_t, int, std::int64_t, std::int64_t, std::int64_t, std::int64_t>> seen_;
+    std::set<std::tuple<std::size_t, int, std::int64_t, std::int64_t, std::int64_t, std::int64_t>>
+        seen_;
 };
 
 }  // namespace

@@ -63,10 +63,9 @@ ParamSite site_of(std::size_t file, const Card& c, std::uint32_t offset) {
 
 // Cards whose words are names, files or output variables, never parameter values.
 bool names_only(const std::string& kw) {
-    static const std::set<std::string> k{".include", ".inc",  ".lib",   ".endl",  ".title",
-                                         ".end",     ".ends", ".global", ".save", ".print",
-                                         ".plot",    ".probe", ".width", ".else", ".endif",
-                                         ".op",      ".func"};
+    static const std::set<std::string> k{
+        ".include", ".inc",  ".lib",   ".endl",  ".title", ".end",   ".ends", ".global", ".save",
+        ".print",   ".plot", ".probe", ".width", ".else",  ".endif", ".op",   ".func"};
     return k.count(kw) != 0;
 }
 
@@ -103,7 +102,8 @@ private:
         auto& trans = x_.transitions[file];
         deck_.visit_file(file, [&](const Card& c) {
             if (c.kind == CardKind::control) return control(file, c);
-            if (c.fields.empty() || (c.kind != CardKind::element && c.kind != CardKind::dot)) return;
+            if (c.fields.empty() || (c.kind != CardKind::element && c.kind != CardKind::dot))
+                return;
             int scope = open.back();
             if (c.kind == CardKind::element) {
                 if (ascii_lower(c.field_text(0)[0]) == 'x')
@@ -130,10 +130,10 @@ private:
                 function(c);
             } else if ((kw == ".include" || kw == ".inc" || kw == ".lib") && open.size() > 1) {
                 if (x_.no_plan.empty())
-                    x_.no_plan = fmt::format("{} inside a .subckt at {}:{} brings in cards whose "
-                                             "scope deckscale does not follow",
-                                             c.field_text(0), c.file->path(),
-                                             c.file->position(c.begin()).line);
+                    x_.no_plan = fmt::format(
+                        "{} inside a .subckt at {}:{} brings in cards whose "
+                        "scope deckscale does not follow",
+                        c.field_text(0), c.file->path(), c.file->position(c.begin()).line);
             } else if (kw == ".if" || kw == ".elseif") {
                 if (c.fields.size() > 1)
                     ref(file, c, ParamRef::Kind::condition, c.fields[1].begin, c.fields.back().end,
@@ -186,8 +186,7 @@ private:
             bool key = i + 1 < f.size() && f[i + 1].kind == TokenKind::equals;
             bool expr = f[i].kind == TokenKind::brace || f[i].kind == TokenKind::squote;
             bool name = f[i].kind == TokenKind::word && !key && named(c.field_text(i));
-            if (expr || name)
-                ref(file, c, ParamRef::Kind::value, f[i].begin, f[i].end, scope, "");
+            if (expr || name) ref(file, c, ParamRef::Kind::value, f[i].begin, f[i].end, scope, "");
         }
     }
 
@@ -202,7 +201,8 @@ private:
                 x.subckt = to_lower(c.field_text(i));
         for (; i < f.size(); ++i) {
             if (const Token* v = keyed_value(c, i)) {
-                x.overrides.push_back(Override{to_lower(c.field_text(i)), std::string(c.field_text(i)),
+                x.overrides.push_back(Override{to_lower(c.field_text(i)),
+                                               std::string(c.field_text(i)),
                                                site_of(file, c, f[i].begin), *v});
                 i += 2;
             } else if (f[i].kind == TokenKind::brace || f[i].kind == TokenKind::squote) {
@@ -229,7 +229,8 @@ private:
             ParamRef r{ParamRef::Kind::value, o.site, o.value.begin, o.value.end, x.scope, ""};
             if (defs == x_.subckts.end()) {
                 r.kind = ParamRef::Kind::opaque;
-                r.why = fmt::format("given to '{}', a subcircuit this deck does not define", x.subckt);
+                r.why =
+                    fmt::format("given to '{}', a subcircuit this deck does not define", x.subckt);
             }
             x_.refs.push_back(std::move(r));
         }
@@ -247,8 +248,8 @@ private:
             std::size_t j = i;
             while (j < s.size() && (std::isalnum(static_cast<unsigned char>(s[j])) || s[j] == '_'))
                 ++j;
-            bool word_start = i == 0 || !(std::isalnum(static_cast<unsigned char>(s[i - 1])) ||
-                                          s[i - 1] == '.');
+            bool word_start =
+                i == 0 || !(std::isalnum(static_cast<unsigned char>(s[i - 1])) || s[i - 1] == '.');
             std::string name = to_lower(s.substr(i, j - i));
             if (word_start && deck_.symbols.params.count(name))
                 x_.control_words.emplace_back(
@@ -259,12 +260,14 @@ private:
 
     void ref(std::size_t file, const Card& c, ParamRef::Kind kind, std::uint32_t begin,
              std::uint32_t end, int scope, std::string why) {
-        x_.refs.push_back(ParamRef{kind, site_of(file, c, begin), begin, end, scope, std::move(why)});
+        x_.refs.push_back(
+            ParamRef{kind, site_of(file, c, begin), begin, end, scope, std::move(why)});
     }
 
     // A word that is some parameter's name (numbers and most nodes are not).
     bool named(std::string_view w) {
-        if (w.empty() || !(std::isalpha(static_cast<unsigned char>(w[0])) || w[0] == '_')) return false;
+        if (w.empty() || !(std::isalpha(static_cast<unsigned char>(w[0])) || w[0] == '_'))
+            return false;
         lower_.assign(w);
         for (char& ch : lower_) ch = ascii_lower(ch);
         return deck_.symbols.params.count(lower_) != 0;

@@ -27,18 +27,18 @@ struct ParamSite {
 };
 
 struct ParamInfo {
-    int scope = 0;         // 0: global; else a subcircuit (ParamIndex::scopes)
-    std::string name;      // lower case
-    std::string written;   // as first written
-    ParamSite defined;     // the name in its first definition
+    int scope = 0;        // 0: global; else a subcircuit (ParamIndex::scopes)
+    std::string name;     // lower case
+    std::string written;  // as first written
+    ParamSite defined;    // the name in its first definition
 };
 
 // A place that gives a parameter its value.
 struct ParamDefinition {
     int param = 0;
     ParamSite site;
-    Token value{};   // the value token (word, {expr} or 'expr')
-    int scope = 0;   // where the value's names are looked up
+    Token value{};  // the value token (word, {expr} or 'expr')
+    int scope = 0;  // where the value's names are looked up
 };
 
 // A value that is not a definition and may name parameters.

@@ -36,7 +36,8 @@ std::string kind_name(Fraction km, Fraction kf, std::string_view unit) {
     if (is(e, 0, 1)) return "frequency";
     if (is(e, -1, 0))
         return unit == "A" ? "current" : unit == "S" ? "conductance" : "current or conductance";
-    if (is(e, 0, 0)) return unit == "V" ? "voltage" : unit == "-" ? "dimensionless" : "voltage or ratio";
+    if (is(e, 0, 0))
+        return unit == "V" ? "voltage" : unit == "-" ? "dimensionless" : "voltage or ratio";
     return fmt::format("Km^{} Kf^{}", fraction_text(km), fraction_text(kf));
 }
 
@@ -126,8 +127,7 @@ private:
         for (std::size_t i : g.eqs) with_numbers.push_back(&x_.equations[i]);
         ParamSolution s = solve_params(g.members, eqs);
         switch (s.status) {
-            case ParamSolution::Status::conflict:
-                return wrap(g, conflict_reason(g, s.conflict));
+            case ParamSolution::Status::conflict: return wrap(g, conflict_reason(g, s.conflict));
             case ParamSolution::Status::open: return wrap(g, open_reason(g, s.open));
             case ParamSolution::Status::too_large: return wrap(g, kTooLarge);
             case ParamSolution::Status::solved: break;
@@ -153,7 +153,8 @@ private:
             auto found = editables_.find(p);
             if (found == editables_.end()) continue;
             for (const EditableNumber* n : found->second) {
-                std::string_view old = deck_.files[n->file].source->view(n->begin, n->begin + n->length);
+                std::string_view old =
+                    deck_.files[n->file].source->view(n->begin, n->begin + n->length);
                 NumberParse np = parse_spice_number(old);
                 double v = np.number->value * int_power(k, n->power);
                 if (!std::isfinite(v) || (v != 0 && std::fabs(v) < DBL_MIN) ||
@@ -162,8 +163,8 @@ private:
                                                old, int_power(k, n->power)));
                 std::string text = respell(*np.number, v, digits_);
                 if (text != old)
-                    edits.push_back(DefinitionEdit{n->file, n->begin, n->length, std::move(text), n->key,
-                                                   unit_symbol(e, direct_unit(g, p)), k});
+                    edits.push_back(DefinitionEdit{n->file, n->begin, n->length, std::move(text),
+                                                   n->key, unit_symbol(e, direct_unit(g, p)), k});
             }
         }
         for (auto& e : edits) plan_.edits.push_back(std::move(e));
@@ -188,12 +189,14 @@ private:
         for (std::size_t j = 0; j < g.eqs.size(); ++j) {
             const auto& eq = g.fixed[j];
             const auto& o = x_.origins[g.eqs[j]];
-            if (!o.use || eq.form.size() != 1 || eq.form.begin()->second != Fraction::of(1)) continue;
+            if (!o.use || eq.form.size() != 1 || eq.form.begin()->second != Fraction::of(1))
+                continue;
             auto [it, fresh] = first.try_emplace(eq.form.begin()->first, j);
             const auto& before = g.fixed[it->second];
             const auto& was = x_.origins[g.eqs[it->second]];
             if (fresh || before.rhs == eq.rhs) continue;
-            return fmt::format("used as {}{} and as {}{}", kind_name(before.rhs.km, before.rhs.kf, was.unit),
+            return fmt::format("used as {}{} and as {}{}",
+                               kind_name(before.rhs.km, before.rhs.kf, was.unit),
                                site_text(deck_, was.site), kind_name(eq.rhs.km, eq.rhs.kf, o.unit),
                                site_text(deck_, o.site));
         }
@@ -203,7 +206,8 @@ private:
         int first_number = static_cast<int>(x_.index.params.size());
         for (std::size_t j = 0; j < g.eqs.size(); ++j) {
             const auto& with = x_.equations[g.eqs[j]];
-            if (x_.origins[g.eqs[j]].use || with.form.empty() || with.form.rbegin()->first < first_number)
+            if (x_.origins[g.eqs[j]].use || with.form.empty() ||
+                with.form.rbegin()->first < first_number)
                 continue;
             std::vector<int> unknowns = g.members;
             for (const auto& [id, c] : with.form)
@@ -212,11 +216,13 @@ private:
             for (std::size_t k = 0; k < g.eqs.size(); ++k)
                 eqs.push_back(k == j ? &with : &g.fixed[k]);
             auto st = solve_params(unknowns, eqs).status;
-            if (st == ParamSolution::Status::conflict || st == ParamSolution::Status::too_large) continue;
-            return fmt::format("its uses agree only if the numbers written with a unit{} "
-                               "scaled too; deckscale rewrites no number inside an expression "
-                               "of parameters",
-                               site_text(deck_, x_.origins[g.eqs[j]].site));
+            if (st == ParamSolution::Status::conflict || st == ParamSolution::Status::too_large)
+                continue;
+            return fmt::format(
+                "its uses agree only if the numbers written with a unit{} "
+                "scaled too; deckscale rewrites no number inside an expression "
+                "of parameters",
+                site_text(deck_, x_.origins[g.eqs[j]].site));
         }
         const auto& o = x_.origins[g.eqs[bad]];
         return fmt::format("{}{} does not agree with the {} before it about its unit",
@@ -226,14 +232,16 @@ private:
 
     std::string open_reason(const Group& g, const std::vector<int>& open) const {
         std::string names;
-        for (int p : open) names += (names.empty() ? "'" : ", '") + x_.index.params[p].written + "'";
+        for (int p : open)
+            names += (names.empty() ? "'" : ", '") + x_.index.params[p].written + "'";
         for (std::size_t i : g.eqs) {
             const auto& o = x_.origins[i];
             for (int p : open)
                 if (o.use && x_.equations[i].form.count(p))
-                    return fmt::format("its uses do not fix the unit of {}: only products or "
-                                       "ratios with other parameters are used{}",
-                                       names, site_text(deck_, o.site));
+                    return fmt::format(
+                        "its uses do not fix the unit of {}: only products or "
+                        "ratios with other parameters are used{}",
+                        names, site_text(deck_, o.site));
         }
         return fmt::format("its uses do not fix the unit of {}", names);
     }
@@ -245,9 +253,10 @@ private:
             bool number = !form.empty() && form.rbegin()->first >= first_number;
             for (int p : open)
                 if (number && form.count(p))
-                    return fmt::format("the unit of '{}' rests on a number written with a unit "
-                                       "of its own{}, which deckscale does not read",
-                                       x_.index.params[p].written, site_text(deck_, x_.origins[i].site));
+                    return fmt::format(
+                        "the unit of '{}' rests on a number written with a unit "
+                        "of its own{}, which deckscale does not read",
+                        x_.index.params[p].written, site_text(deck_, x_.origins[i].site));
         }
         return fmt::format("its unit rests on numbers written with a unit of their own");
     }
@@ -296,15 +305,17 @@ private:
                 const Exponents& e = dims_.at(p);
                 d.kind = kind_name(e.km, e.kf, direct_unit(g, p));
                 d.factor = factor_.at(p);
-                d.outcome = d.factor == 1            ? ParamOutcome::unchanged
+                d.outcome = d.factor == 1              ? ParamOutcome::unchanged
                             : editables_.count(p) != 0 ? ParamOutcome::definition
-                                                     : ParamOutcome::follows;
+                                                       : ParamOutcome::follows;
             }
             plan_.decisions.push_back(std::move(d));
         }
-        std::stable_sort(plan_.decisions.begin(), plan_.decisions.end(), [](const auto& a, const auto& b) {
-            return std::tie(a.defined.file, a.defined.offset) < std::tie(b.defined.file, b.defined.offset);
-        });
+        std::stable_sort(plan_.decisions.begin(), plan_.decisions.end(),
+                         [](const auto& a, const auto& b) {
+                             return std::tie(a.defined.file, a.defined.offset) <
+                                    std::tie(b.defined.file, b.defined.offset);
+                         });
     }
 
     const Deck& deck_;

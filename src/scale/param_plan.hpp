@@ -48,7 +48,7 @@ struct ParamDecision {
     std::string subckt;  // empty for a global parameter
     ParamSite defined;
     ParamOutcome outcome = ParamOutcome::unused;
-    std::string kind;    // definition, follows, unchanged: "resistance", "time", ...
+    std::string kind;  // definition, follows, unchanged: "resistance", "time", ...
     double factor = 1;
     std::size_t wrapped_uses = 0;  // wrapped: values rewritten
     std::string why;               // wrapped: the reason

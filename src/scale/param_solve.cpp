@@ -36,7 +36,8 @@ public:
         add_scaled(norm.form, row.form, inv);
         norm.rhs = Exponents{row.rhs.km * inv, row.rhs.kf * inv};
         for (auto& [q, other] : pivots_)
-            if (auto it = other.form.find(p); it != other.form.end()) subtract(other, norm, it->second);
+            if (auto it = other.form.find(p); it != other.form.end())
+                subtract(other, norm, it->second);
         pivots_.emplace(p, std::move(norm));
         return true;
     }

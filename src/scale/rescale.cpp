@@ -154,10 +154,9 @@ void ScalePass::visit(const Card& c) {
     in_control_ = c.kind == CardKind::control;
     if (plan_) {
         // The plan's rewritten definitions on this card (.param, .subckt params:, X lines).
-        auto it = std::lower_bound(plan_->edits.begin(), plan_->edits.end(),
-                                   std::make_pair(file_, c.begin()), [](const auto& e, const auto& at) {
-                                       return std::make_pair(e.file, e.begin) < at;
-                                   });
+        auto it = std::lower_bound(
+            plan_->edits.begin(), plan_->edits.end(), std::make_pair(file_, c.begin()),
+            [](const auto& e, const auto& at) { return std::make_pair(e.file, e.begin) < at; });
         for (; it != plan_->edits.end() && it->file == file_ && it->begin < c.end(); ++it)
             edit(it->begin, it->length, it->text, it->param, it->unit, it->factor);
     }
@@ -252,7 +251,8 @@ void ScalePass::scale_value(const Token& t, Unit unit, std::string_view field) {
 bool ScalePass::param_use(std::uint32_t begin, std::uint32_t end,
                           std::optional<UnitExponents> exponents, double factor,
                           std::string_view unit, std::string why) {
-    if (in_control_) return false;  // .control blocks see parameters only through the plan's refusal
+    if (in_control_)
+        return false;  // .control blocks see parameters only through the plan's refusal
     if (plan_) return exponents && plan_->settled_at(file_, begin);  // planned already
     param_uses_.push_back(ParamUse{file_, begin, end, exponents, factor,
                                    std::string(card_->field_text(0)), std::string(unit),
@@ -263,9 +263,12 @@ bool ScalePass::param_use(std::uint32_t begin, std::uint32_t end,
 void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
                          std::string_view unit, std::optional<UnitExponents> exponents) {
     std::string_view s = card_->text(t);
-    auto own_rule = [&] { return fmt::format("'{}', which is scaled by a rule of its own", field); };
+    auto own_rule = [&] {
+        return fmt::format("'{}', which is scaled by a rule of its own", field);
+    };
     if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
-        bool settled = param_use(t.begin, t.end, exponents, factor, unit, exponents ? "" : own_rule());
+        bool settled =
+            param_use(t.begin, t.end, exponents, factor, unit, exponents ? "" : own_rule());
         if (factor == 1 || settled) return;
         // {expr} -> {(expr)*k}: exact whatever the parameters are.
         insert(t.begin + 1, "(", field, factor);

@@ -3,9 +3,9 @@
 // and the constructs whose scaling is not known. The rules are those of dimensional analysis
 // (common practice): a product adds exponents, sqrt halves them, a sum and a comparison need
 // equal ones, a transcendental function a dimensionless argument.
-#include <gtest/gtest.h>
-
 #include "scale/param_dims.hpp"
+
+#include <gtest/gtest.h>
 
 namespace deckscale {
 namespace {
@@ -84,8 +84,10 @@ TEST(ParamDims, ReadsTheScalingOfAnExpression) {
         {__LINE__, "time*a", "opaque: 'time' is not a parameter"},
         {__LINE__, "me(a)", "opaque: me() calls itself"},
         {__LINE__, "a*(", "opaque: an expression deckscale cannot read (an operand is missing)"},
-        {__LINE__, "1k5*a", "opaque: an expression deckscale cannot read (cannot read the number '1k5')"},
-        {__LINE__, "par(a)", "opaque: an expression deckscale cannot read (par() takes 2 argument(s))"},
+        {__LINE__, "1k5*a",
+         "opaque: an expression deckscale cannot read (cannot read the number '1k5')"},
+        {__LINE__, "par(a)",
+         "opaque: an expression deckscale cannot read (par() takes 2 argument(s))"},
     };
     for (const auto& c : cases)
         EXPECT_EQ(describe(analyze_dims(c.expr, context())), c.expected) << "line " << c.line;

@@ -26,28 +26,34 @@ TEST(ParamPlan, WritesTheExpectedDeck) {
          "t\n.param p=1k\nR1 in out {(p)*2}\nC1 out 0 {(p*1p)/2000}\n.end\n"},
         {__LINE__, "params: defaults and X-line overrides",
          "t\n.subckt rcsec a b params: r=1k c=1n\nRser a b {r}\nCsh b 0 {c}\n.ends rcsec\n"
-         "X1 in mid rcsec params: r=2k c=10n\nX2 mid out rcsec r={rload} c=1n\n.param rload=20k\n.end\n",
+         "X1 in mid rcsec params: r=2k c=10n\nX2 mid out rcsec r={rload} c=1n\n.param "
+         "rload=20k\n.end\n",
          "t\n.subckt rcsec a b params: r=2k c=500f\nRser a b {r}\nCsh b 0 {c}\n.ends rcsec\n"
-         "X1 in mid rcsec params: r=4k c=5p\nX2 mid out rcsec r={rload} c=500f\n.param rload=40k\n.end\n"},
-        {__LINE__, "a chain follows its input",
-         "t\n.param ra=1k rb={ra*2}\nR1 a 0 {rb}\n.end\n",
+         "X1 in mid rcsec params: r=4k c=5p\nX2 mid out rcsec r={rload} c=500f\n.param "
+         "rload=40k\n.end\n"},
+        {__LINE__, "a chain follows its input", "t\n.param ra=1k rb={ra*2}\nR1 a 0 {rb}\n.end\n",
          "t\n.param ra=2k rb={ra*2}\nR1 a 0 {rb}\n.end\n"},
         {__LINE__, "a chain with a number in a sum: wrapped",
          "t\n.param ra=1k rb={ra+100}\nR1 a 0 {rb}\n.end\n",
          "t\n.param ra=1k rb={ra+100}\nR1 a 0 {(rb)*2}\n.end\n"},
-        {__LINE__, "a parameter used nowhere is left",
-         "t\n.param spare=47k\nR1 a 0 1k\n.end\n",
+        {__LINE__, "a parameter used nowhere is left", "t\n.param spare=47k\nR1 a 0 1k\n.end\n",
          "t\n.param spare=47k\nR1 a 0 2k\n.end\n"},
         {__LINE__, "times in a source and in a .tran card",
-         "t\n.param tstop=5m\nV1 a 0 pulse(0 1 0 1u 1u {tstop/2} {tstop})\nR1 a 0 1k\n.tran 1u {tstop}\n.end\n",
-         "t\n.param tstop=5u\nV1 a 0 pulse(0 1 0 1n 1n {tstop/2} {tstop})\nR1 a 0 2k\n.tran 1n {tstop}\n"
+         "t\n.param tstop=5m\nV1 a 0 pulse(0 1 0 1u 1u {tstop/2} {tstop})\nR1 a 0 1k\n.tran 1u "
+         "{tstop}\n.end\n",
+         "t\n.param tstop=5u\nV1 a 0 pulse(0 1 0 1n 1n {tstop/2} {tstop})\nR1 a 0 2k\n.tran 1n "
+         "{tstop}\n"
          ".options abstol=5e-13 chgtol=5e-18\n.end\n"},
         {__LINE__, "a subcircuit's own r is another parameter than the global r",
-         "t\n.param r=1k\nR1 in out {r}\n.subckt cell a b params: r=1n\nC1 a b {r}\n.ends cell\nX1 out 0 cell\n.end\n",
-         "t\n.param r=2k\nR1 in out {r}\n.subckt cell a b params: r=500f\nC1 a b {r}\n.ends cell\nX1 out 0 cell\n.end\n"},
+         "t\n.param r=1k\nR1 in out {r}\n.subckt cell a b params: r=1n\nC1 a b {r}\n.ends cell\nX1 "
+         "out 0 cell\n.end\n",
+         "t\n.param r=2k\nR1 in out {r}\n.subckt cell a b params: r=500f\nC1 a b {r}\n.ends "
+         "cell\nX1 out 0 cell\n.end\n"},
         {__LINE__, "a frequency written as a product of numbers",
-         "t\n.param w0={2*3.14159265358979*1k} rr=10k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 out 0 {cc}\n.end\n",
-         "t\n.param w0={2*3.14159265358979*1meg} rr=20k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 out 0 {cc}\n.end\n"},
+         "t\n.param w0={2*3.14159265358979*1k} rr=10k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 "
+         "out 0 {cc}\n.end\n",
+         "t\n.param w0={2*3.14159265358979*1meg} rr=20k\n.param cc={1/(w0*rr)}\nR1 in out {rr}\nC1 "
+         "out 0 {cc}\n.end\n"},
         {__LINE__, "a voltage keeps its value",
          "t\n.param vdd=5\nV1 a 0 dc {vdd}\nR1 a 0 1k\n.end\n",
          "t\n.param vdd=5\nV1 a 0 dc {vdd}\nR1 a 0 2k\n.end\n"},
@@ -70,8 +76,10 @@ TEST(ParamPlan, WritesTheExpectedDeck) {
          "t\n.param len=1mil\nR1 a 0 {len}\n.end\n",
          "t\n.param len=1mil\nR1 a 0 {(len)*2}\n.end\n"},
         {__LINE__, "a .func call",
-         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=3k rb=6k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra + rb'\n.end\n",
-         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=6k rb=12k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra + rb'\n.end\n"},
+         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=3k rb=6k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra "
+         "+ rb'\n.end\n",
+         "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=6k rb=12k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra "
+         "+ rb'\n.end\n"},
         {__LINE__, "a number with a unit beside it does not tell the parameter's unit",
          "t\n.param ratio=2\nC1 a 0 {1n*ratio}\n.end\n",
          "t\n.param ratio=2\nC1 a 0 {(1n*ratio)/2000}\n.end\n"},
@@ -108,18 +116,21 @@ TEST(ParamPlan, SaysWhyAParameterIsWrapped) {
          "parameters are used (R1, deck.cir:3)"},
         {__LINE__, "t\n.param rv=1k\nR1 a 0 {rv}\n.control\nalterparam rv=2k\n.endc\n.end\n", "rv",
          "used in a .control block (.control, deck.cir:5)"},
-        {__LINE__, "t\n.param rv=1k rw={rv*2}\nR1 a 0 {rw}\n.control\nalterparam rv=2k\n.endc\n.end\n",
-         "rw", "linked to 'rv': used in a .control block (.control, deck.cir:5)"},
+        {__LINE__,
+         "t\n.param rv=1k rw={rv*2}\nR1 a 0 {rw}\n.control\nalterparam rv=2k\n.endc\n.end\n", "rw",
+         "linked to 'rv': used in a .control block (.control, deck.cir:5)"},
         {__LINE__, "t\n.param g=2\nB1 a 0 V={g}*v(b)\n.end\n", "g",
          "used as part of a run-time expression (B1, deck.cir:3)"},
         {__LINE__, "t\n.param r0=1k\nR1 a 0 {agauss(r0, 0.01, 1)}\n.end\n", "r0",
          "used with the random function agauss() (R1, deck.cir:3)"},
         {__LINE__, "t\n.param r0=1k\nX1 a 0 nosuch r={r0}\n.end\n", "r0",
          "given to 'nosuch', a subcircuit this deck does not define (X1, deck.cir:3)"},
-        {__LINE__, "t\n.param r=1k\n.subckt in p q\nR1 p q {r}\n.ends\n.subckt out a b params: r=5k\n"
-                   "X1 a b in\n.ends\nXo x 0 out\n.end\n",
-         "r", "its name is defined in more than one scope, and ngspice 39 takes it from "
-              "whichever subcircuit calls"},
+        {__LINE__,
+         "t\n.param r=1k\n.subckt in p q\nR1 p q {r}\n.ends\n.subckt out a b params: r=5k\n"
+         "X1 a b in\n.ends\nXo x 0 out\n.end\n",
+         "r",
+         "its name is defined in more than one scope, and ngspice 39 takes it from "
+         "whichever subcircuit calls"},
     };
     for (const auto& c : cases) {
         auto s = test::scale_text(c.deck, 2, 1000);
@@ -148,8 +159,9 @@ TEST(ParamPlan, ReadingOncePlansAsAPassOverTheFinishedDeck) {
     ScaleResult two = scale_deck(one.deck, s);
     std::string a = apply_edits(deck, one.result.edits[0]), b = apply_edits(deck, two.edits[0]);
     EXPECT_EQ(a, b);
-    EXPECT_EQ(a, "t\nR1 a b {(rb)*2}\n.subckt s p q params: c=500f\nC1 p q {c}\n.ends\nX1 b 0 s c=1p\n"
-                 ".param rb=1k unused=3\nC2 b 0 {(rb*1p)/2000}\nR2 b 0 {rb2}\n.param rb2=4k\n.end\n");
+    EXPECT_EQ(a,
+              "t\nR1 a b {(rb)*2}\n.subckt s p q params: c=500f\nC1 p q {c}\n.ends\nX1 b 0 s c=1p\n"
+              ".param rb=1k unused=3\nC2 b 0 {(rb*1p)/2000}\nR2 b 0 {rb2}\n.param rb2=4k\n.end\n");
     ASSERT_EQ(one.result.params.size(), two.params.size());
     for (std::size_t i = 0; i < two.params.size(); ++i) {
         EXPECT_EQ(one.result.params[i].name, two.params[i].name);
