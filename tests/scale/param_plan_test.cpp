@@ -80,6 +80,14 @@ TEST(ParamPlan, WritesTheExpectedDeck) {
          "+ rb'\n.end\n",
          "t\n.func par(a,b) {a*b/(a+b)}\n.param ra=6k rb=12k\nR1 in out {par(ra,rb)}\nR2 out 0 'ra "
          "+ rb'\n.end\n"},
+        {__LINE__, "a model parameter",
+         "t\n.param rsw=1\nS1 a 0 c 0 swm\n.model swm sw(vt=1 ron={rsw})\n.end\n",
+         "t\n.param rsw=2\nS1 a 0 c 0 swm\n.model swm sw(vt=1 ron={rsw} roff=2e+12)\n.end\n"},
+        {__LINE__, "a subcircuit defined inside the one whose parameter it uses",
+         "t\n.subckt outer a b params: r=1k\n.subckt inner p q\nR1 p q {r}\n.ends inner\n"
+         "X1 a m inner\nR2 m b {r/2}\n.ends outer\nXo in 0 outer r=3k\n.end\n",
+         "t\n.subckt outer a b params: r=2k\n.subckt inner p q\nR1 p q {r}\n.ends inner\n"
+         "X1 a m inner\nR2 m b {r/2}\n.ends outer\nXo in 0 outer r=6k\n.end\n"},
         {__LINE__, "a number with a unit beside it does not tell the parameter's unit",
          "t\n.param ratio=2\nC1 a 0 {1n*ratio}\n.end\n",
          "t\n.param ratio=2\nC1 a 0 {(1n*ratio)/2000}\n.end\n"},
