@@ -3,6 +3,7 @@
 // scaling cannot be known (scale/param_facts.hpp).
 #include <algorithm>
 #include <cmath>
+#include <map>
 #include <numeric>
 #include <tuple>
 #include <unordered_map>
@@ -60,6 +61,7 @@ public:
         next_ghost_ = static_cast<int>(n);
         x_.opaque.assign(n, "");
         for (const auto& d : x_.index.definitions) definition(d);
+        same_value();
         std::size_t definitions_end = x_.equations.size();
         recorded();
         for (const auto& r : x_.index.refs) reference(r);
@@ -189,6 +191,22 @@ private:
         if (!fresh(a, d.param, Exponents{})) return;
         equations(a, LinearForm{{d.param, Fraction::of(-1)}}, Exponents{},
                   EquationOrigin{false, d.site, d.param, ""});
+    }
+
+    // An X-line override given to a subcircuit name that is defined more than once defines
+    // a parameter of each: one number, one factor, so they scale alike.
+    void same_value() {
+        std::map<std::pair<std::size_t, std::uint32_t>, int> first;
+        for (const auto& d : x_.index.definitions) {
+            auto [it, fresh] = first.try_emplace({d.site.file, d.value.begin}, d.param);
+            if (fresh || it->second == d.param) continue;
+            uf_.join(d.param, it->second);
+            x_.equations.push_back(ParamEquation{
+                LinearForm{{std::min(d.param, it->second), Fraction::of(1)},
+                           {std::max(d.param, it->second), Fraction::of(-1)}},
+                Exponents{}});
+            x_.origins.push_back(EquationOrigin{false, d.site, d.param, ""});
+        }
     }
 
     void recorded() {

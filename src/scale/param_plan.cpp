@@ -276,6 +276,12 @@ private:
         std::sort(plan_.edits.begin(), plan_.edits.end(), [](const auto& a, const auto& b) {
             return std::tie(a.file, a.begin) < std::tie(b.file, b.begin);
         });
+        // One number can define two parameters linked to scale alike: written once.
+        plan_.edits.erase(std::unique(plan_.edits.begin(), plan_.edits.end(),
+                                      [](const auto& a, const auto& b) {
+                                          return a.file == b.file && a.begin == b.begin;
+                                      }),
+                          plan_.edits.end());
         if (!plan_.edits.empty()) plan_.changes_output = true;
     }
 

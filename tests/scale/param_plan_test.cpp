@@ -88,6 +88,11 @@ TEST(ParamPlan, WritesTheExpectedDeck) {
          "X1 a m inner\nR2 m b {r/2}\n.ends outer\nXo in 0 outer r=3k\n.end\n",
          "t\n.subckt outer a b params: r=2k\n.subckt inner p q\nR1 p q {r}\n.ends inner\n"
          "X1 a m inner\nR2 m b {r/2}\n.ends outer\nXo in 0 outer r=6k\n.end\n"},
+        {__LINE__, "an override given to a subcircuit name defined twice is rewritten once",
+         "t\n.subckt sec a b params: c=1n\nC1 a b {c}\n.ends\n.subckt sec a b params: c=2n\n"
+         "C2 a b {c}\n.ends\nX1 in 0 sec c=10n\n.end\n",
+         "t\n.subckt sec a b params: c=500f\nC1 a b {c}\n.ends\n.subckt sec a b params: c=1p\n"
+         "C2 a b {c}\n.ends\nX1 in 0 sec c=5p\n.end\n"},
         {__LINE__, "a number with a unit beside it does not tell the parameter's unit",
          "t\n.param ratio=2\nC1 a 0 {1n*ratio}\n.end\n",
          "t\n.param ratio=2\nC1 a 0 {(1n*ratio)/2000}\n.end\n"},
