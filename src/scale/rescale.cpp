@@ -260,6 +260,18 @@ bool ScalePass::param_use(std::uint32_t begin, std::uint32_t end,
     return plan_ && exponents && plan_->settled_at(file_, begin);
 }
 
+namespace {
+
+// `{}` or `''`: ngspice 39 stops on it ("Expression err", tried with `ngspice -b`).
+void refuse_empty(const ScalePass& p, std::uint32_t begin, std::uint32_t end,
+                  std::string_view inner) {
+    if (inner.find_first_not_of(" \t") == std::string_view::npos)
+        p.fail(Token{TokenKind::word, begin, end},
+               "an empty expression: ngspice 39 stops with \"Expression err\"; write a value");
+}
+
+}  // namespace
+
 void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
                          std::string_view unit, std::optional<UnitExponents> exponents) {
     std::string_view s = card_->text(t);
@@ -267,6 +279,7 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
         return fmt::format("'{}', which is scaled by a rule of its own", field);
     };
     if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
+        refuse_empty(*this, t.begin, t.end, s.substr(1, s.size() - 2));
         bool settled =
             param_use(t.begin, t.end, exponents, factor, unit, exponents ? "" : own_rule());
         if (factor == 1 || settled) return;
@@ -333,6 +346,7 @@ void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double 
     std::string_view expr = card_->file->view(begin, end);
     bool delimited = !expr.empty() && (expr.front() == '{' || expr.front() == '\'');
     std::string_view inner = delimited ? expr.substr(1, expr.size() - 2) : expr;
+    if (delimited) refuse_empty(*this, begin, end, inner);
     auto sub = substitute_variables(inner, settings_.factors);
     // A parse-time value of a unit can be left to the plan; anything evaluated while the
     // simulation runs (time, hertz, i(), ddt()) keeps its parameters wrapped.

@@ -341,6 +341,22 @@ TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
 namespace deckscale {
 namespace {
 
+// An empty expression stops ngspice 39 ("Expression err", tried with `ngspice -b` on a G
+// gain of '' and of {}): refused with its place, never rewritten into two edits at one byte
+// (found by the deck fuzz target).
+TEST(ScalerTest, EmptyExpressionsAreRefused) {
+    for (const std::string card : {"G1 a 0 b 0 ''", "R1 a 0 { }"}) {
+        SCOPED_TRACE(card);
+        try {
+            test::scale_text("t\n" + card + "\n.end\n", 7, 3);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(e.diagnostic().message,
+                      "an empty expression: ngspice 39 stops with \"Expression err\"; write a value");
+        }
+    }
+}
+
 // Absurd factors never write 'inf' or a value that silently became 0: the value is named.
 TEST(ScalerTest, ValuesPushedOutOfRangeAreRefusedWithTheValueNamed) {
     struct {
