@@ -19,6 +19,42 @@ std::string one_line(const std::string& s) {
     return out;
 }
 
+const char* outcome_key(ParamOutcome o) {
+    switch (o) {
+        case ParamOutcome::definition: return "definition";
+        case ParamOutcome::follows: return "follows";
+        case ParamOutcome::unchanged: return "unchanged";
+        case ParamOutcome::wrapped: return "wrapped";
+        case ParamOutcome::unused: return "unused";
+    }
+    return "unused";
+}
+
+// "scaled at its definition as resistance  x2", "wrapped at 2 use sites: ..."
+std::string outcome_text(const ParamDecision& d) {
+    switch (d.outcome) {
+        case ParamOutcome::definition:
+            return fmt::format("scaled at its definition as {}  x{}", d.kind,
+                               factor_text(d.factor));
+        case ParamOutcome::follows:
+            return fmt::format("follows from its definition as {}  x{}", d.kind,
+                               factor_text(d.factor));
+        case ParamOutcome::unchanged:
+            return fmt::format("unchanged: {}, factor 1", d.kind);
+        case ParamOutcome::wrapped:
+            if (d.wrapped_uses == 0) return "left as written: " + d.why;
+            return fmt::format("wrapped at {} use site{}: {}", d.wrapped_uses,
+                               d.wrapped_uses == 1 ? "" : "s", d.why);
+        case ParamOutcome::unused:
+            return "used nowhere: left as it is";
+    }
+    return "";
+}
+
+std::string param_title(const ParamDecision& d) {
+    return d.subckt.empty() ? d.name : fmt::format("{} of {}", d.name, d.subckt);
+}
+
 }  // namespace
 
 std::string change_list_text(const Deck& deck, const ScaleResult& result) {
@@ -30,6 +66,12 @@ std::string change_list_text(const Deck& deck, const ScaleResult& result) {
                            c.element, c.field, c.old_text.empty() ? "(none)" : one_line(c.old_text),
                            one_line(c.new_text), factor_text(c.factor),
                            c.unit.empty() || c.unit == "-" ? "" : " [" + c.unit + "]");
+    }
+    for (const auto& d : result.params) {
+        const SourceFile& f = *deck.files[d.defined.file].source;
+        auto pos = f.position(d.defined.offset);
+        out += fmt::format("{}:{}:{}  parameter {}  {}\n", f.path(), pos.line, pos.column,
+                           param_title(d), outcome_text(d));
     }
     return out + held_list_text(deck, result);
 }
@@ -88,6 +130,24 @@ std::string change_list_json(const Deck& deck, const ScaleResult& result, ScaleF
                         {"copy", h.copy}, {"could_not_follow", diagnostics_json(h.could_not_follow)}});
     }
     j["held"] = held;
+    auto params = nlohmann::json::array();
+    for (const auto& d : result.params) {
+        const SourceFile& f = *deck.files[d.defined.file].source;
+        auto pos = f.position(d.defined.offset);
+        nlohmann::json p{{"name", d.name},       {"subckt", d.subckt},
+                         {"file", f.path()},     {"line", pos.line},
+                         {"column", pos.column}, {"outcome", outcome_key(d.outcome)}};
+        if (!d.kind.empty()) p["kind"] = d.kind;
+        if (d.outcome == ParamOutcome::definition || d.outcome == ParamOutcome::follows ||
+            d.outcome == ParamOutcome::unchanged)
+            p["factor"] = d.factor;
+        if (d.outcome == ParamOutcome::wrapped) {
+            p["wrapped_uses"] = d.wrapped_uses;
+            p["why"] = d.why;
+        }
+        params.push_back(std::move(p));
+    }
+    j["parameters"] = params;
     j["unscalable"] = diagnostics_json(result.unscalable);
     j["notes"] = diagnostics_json(result.notes);
     NoiseEffect n = noise_effect(deck, factors, follow_flicker);

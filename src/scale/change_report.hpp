@@ -9,8 +9,9 @@
 
 namespace deckscale {
 
-// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]", then the held parts
-// (held_list_text).
+// Lines like "deck.cir:7:10  R1  value  1 -> 50  x50 [Ohm]", then one line per parameter
+// saying how it was scaled ("deck.cir:2:8  parameter rbase  scaled at its definition as
+// resistance  x2"), then the held parts (held_list_text).
 std::string change_list_text(const Deck& deck, const ScaleResult& result);
 
 // One line per part kept as written (scale --hold), with why, the scaled copy the scaled

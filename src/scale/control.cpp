@@ -218,7 +218,8 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
         return refuse_literal(p, c, 1, kUseTells);
     if (cmd == "foreach") return refuse_literal(p, c, 2, kUseTells);
     if (cmd == "compose") return refuse_literal(p, c, 1, kUseTells);
-    // alterparam: every use of a parameter is written {(p)*k}, so its new value stays as
+    // alterparam: a parameter a .control block names is never scaled at its definition
+    // (scale/param_plan); every use of it is written {(p)*k}, so its new value stays as
     // written (notes A.2, checked there with ngspice).
     if (cmd == "alterparam") return;
     refuse_literal(p, c, 1, "a number in a command whose arguments deckscale does not know");

@@ -248,7 +248,7 @@ void scale_model(ScalePass& p) {
         if (flicker && key == "kf")
             p.scale_by(*a.value, *flicker, "kf (flicker noise follows)", "-");
         else if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace)
-            p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u));
+            p.scale_by(*a.value, factor_of(*u, p.factors()), key, unit_name(*u), exponents(*u));
         else
             p.scale_value(*a.value, *u, key);
     }

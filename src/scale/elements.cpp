@@ -22,7 +22,7 @@ void scale_keyed(ScalePass& p, const Atom& a, std::string_view scope) {
     if (!a.value) p.fail(*a.key, fmt::format("parameter '{}' has no value", p.text(*a.key)));
     if (a.value->kind == TokenKind::squote || a.value->kind == TokenKind::brace) {
         p.scale_expression(a.value->begin, a.value->end, factor_of(*unit, p.factors()), key,
-                           unit_name(*unit));
+                           unit_name(*unit), exponents(*unit));
         return;
     }
     p.scale_value(*a.value, *unit, key);
@@ -136,7 +136,7 @@ void scale_passive(ScalePass& p, char letter) {
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace) {
                 check_numparam_names(p, t);
                 p.scale_expression(t.begin, t.end, factor_of(value_unit, p.factors()), "value",
-                                   unit_name(value_unit));
+                                   unit_name(value_unit), exponents(value_unit));
             } else {
                 warn_suffix_trap(p, t, letter);
                 p.scale_value(t, value_unit, "value");
@@ -256,8 +256,10 @@ void scale_controlled(ScalePass& p, char letter) {
                 int d = poly_degree(k, nd);
                 double in_factor = current_in ? 1 / f.km : 1;
                 double factor = out_factor / std::pow(in_factor, d);
+                // Km exponent: output (-1 for a current) minus d times the input's.
+                int km_power = (letter == 'f' || letter == 'g' ? -1 : 0) + (current_in ? d : 0);
                 p.scale_by(*atoms[j].value, factor, fmt::format("poly coefficient {}", k),
-                           fmt::format("degree {}", d));
+                           fmt::format("degree {}", d), UnitExponents{km_power, 0});
             }
             return;
         }
@@ -281,7 +283,8 @@ void scale_controlled(ScalePass& p, char letter) {
             const Token& t = *a.value;
             if (t.kind == TokenKind::squote || t.kind == TokenKind::brace)
                 p.scale_by(t, factor_of(*find_rule(scope, "value"), f), "gain",
-                           unit_name(*find_rule(scope, "value")));
+                           unit_name(*find_rule(scope, "value")),
+                           exponents(*find_rule(scope, "value")));
             else
                 p.scale_value(t, *find_rule(scope, "value"), "gain");
         } else if (i > gain_index) {

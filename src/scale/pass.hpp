@@ -12,6 +12,7 @@
 
 #include "deck/spice_number.hpp"
 #include "deck/sweep_rewrite.hpp"
+#include "scale/param_plan.hpp"
 #include "scale/rescale.hpp"
 
 namespace deckscale {
@@ -68,6 +69,11 @@ public:
     // Parts to keep as written (scale/hold_plan.hpp); run() then renders each card as the
     // plan says (scale/hold_pass.cpp). The plan must outlive the pass.
     void hold(HoldPlan& plan) { hold_ = &plan; }
+    // Scale with a parameter plan (scale/param_plan): its definitions rewritten, the uses it
+    // settled left as written. Without one, every use of a parameter is wrapped.
+    void set_param_plan(const ParamPlan* plan) { plan_ = plan; }
+    // Every value naming a parameter this pass met, for making a plan.
+    const std::vector<ParamUse>& param_uses() const { return param_uses_; }
 
     // ---- used by the card handlers ----
     const Card& card() const { return *card_; }
@@ -90,12 +96,16 @@ public:
 
     // Scales one value token by the unit's factor; validates numbers either way.
     void scale_value(const Token& t, Unit unit, std::string_view field);
-    // Scales a value by an explicit factor.
-    void scale_by(const Token& t, double factor, std::string_view field, std::string_view unit);
+    // Scales a value by an explicit factor, Km^a Kf^b with (a, b) = `exponents` when the
+    // factor is one of a unit (a parameter plan can follow only those).
+    void scale_by(const Token& t, double factor, std::string_view field, std::string_view unit,
+                  std::optional<UnitExponents> exponents = std::nullopt);
     // A behavioural expression spanning [begin, end) of the card: substitute variables and
     // multiply by out_factor. `delimited` is true for {..} / '..' tokens (kept as such).
+    // `exponents` only when the span is one {..} / '..' value token of a unit.
     void scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
-                          std::string_view field, std::string_view unit);
+                          std::string_view field, std::string_view unit,
+                          std::optional<UnitExponents> exponents = std::nullopt);
     // Replaces a value token by a text worked out elsewhere (the numbers of a sweep).
     void replace(const Token& t, std::string text, std::string_view field, Unit unit);
     ToleranceScan& tolerances() { return tolerances_; }
@@ -155,6 +165,9 @@ private:
     void finish_holding();
     void note_held_refusal(const Token& at, std::string why);
     EditSet& target();
+    // Records a value that may name parameters; true when the plan leaves it as written.
+    bool param_use(std::uint32_t begin, std::uint32_t end, std::optional<UnitExponents> exponents,
+                   double factor, std::string_view unit, std::string why);
     void edit(std::uint32_t offset, std::uint32_t length, std::string text, std::string_view field,
               std::string_view unit, double factor);
 
@@ -195,6 +208,9 @@ private:
     std::size_t render_part_ = 0;      // Render::held: the part its refusals go to
     std::string copy_name_;            // Render::copy: the copy's name, for the change list
     std::vector<EditSet> region_copies_;  // per HoldPlan::regions entry with a copy
+    const ParamPlan* plan_ = nullptr;
+    std::vector<ParamUse> param_uses_;
+    bool in_control_ = false;  // visiting a .control block
 };
 
 // Card handlers, one per family.

@@ -1,5 +1,6 @@
 #include "scale/rescale.hpp"
 
+#include <algorithm>
 #include <cfloat>
 #include <cmath>
 
@@ -113,6 +114,7 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     missed_params_.merge(piece.missed_params_);
     missed_models_.merge(piece.missed_models_);
     missed_inductors_.merge(piece.missed_inductors_);
+    for (auto& u : piece.param_uses_) param_uses_.push_back(std::move(u));
     if (result_.edits.size() < r.edits.size()) result_.edits.resize(r.edits.size());
     for (std::size_t f = 0; f < r.edits.size(); ++f) result_.edits[f].append(std::move(r.edits[f]));
     for (auto& c : r.changes) result_.changes.push_back(std::move(c));
@@ -155,6 +157,15 @@ double ScalePass::reltol() const {
 void ScalePass::visit(const Card& c) {
     card_ = &c;
     card_marked_ = false;
+    in_control_ = c.kind == CardKind::control;
+    if (plan_) {
+        // The plan's rewritten definitions on this card (.param, .subckt params:, X lines).
+        auto it = std::lower_bound(
+            plan_->edits.begin(), plan_->edits.end(), std::make_pair(file_, c.begin()),
+            [](const auto& e, const auto& at) { return std::make_pair(e.file, e.begin) < at; });
+        for (; it != plan_->edits.end() && it->file == file_ && it->begin < c.end(); ++it)
+            edit(it->begin, it->length, it->text, it->param, it->unit, it->factor);
+    }
     if (c.kind == CardKind::control) {
         scale_control_block(*this);
         return;
@@ -240,19 +251,45 @@ bool ScalePass::is_value_token(const Token& t) const {
 }
 
 void ScalePass::scale_value(const Token& t, Unit unit, std::string_view field) {
-    scale_by(t, factor_of(unit, settings_.factors), field, unit_name(unit));
+    scale_by(t, factor_of(unit, settings_.factors), field, unit_name(unit), exponents(unit));
 }
 
+bool ScalePass::param_use(std::uint32_t begin, std::uint32_t end,
+                          std::optional<UnitExponents> exponents, double factor,
+                          std::string_view unit, std::string why) {
+    if (in_control_)
+        return false;  // .control blocks see parameters only through the plan's refusal
+    if (plan_) return exponents && plan_->settled_at(file_, begin);  // planned already
+    param_uses_.push_back(ParamUse{file_, begin, end, exponents, factor,
+                                   std::string(card_->field_text(0)), std::string(unit),
+                                   std::move(why)});
+    return plan_ && exponents && plan_->settled_at(file_, begin);
+}
+
+namespace {
+
+// `{}` or `''` (blanks and continuation breaks aside): ngspice 39 stops on it ("Expression
+// err", tried with `ngspice -b`), and the two halves of its wrap would sit at one offset.
+void refuse_empty(const ScalePass& p, std::uint32_t begin, std::uint32_t end,
+                  std::string_view inner) {
+    if (inner.find_first_not_of(" \t\r\n+") == std::string_view::npos)
+        p.fail(Token{TokenKind::word, begin, end},
+               "an empty expression: ngspice 39 stops with \"Expression err\"; write a value");
+}
+
+}  // namespace
+
 void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
-                         std::string_view unit) {
+                         std::string_view unit, std::optional<UnitExponents> exponents) {
     std::string_view s = card_->text(t);
+    auto own_rule = [&] {
+        return fmt::format("'{}', which is scaled by a rule of its own", field);
+    };
     if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
-        if (s.find_first_not_of(" \t\r\n+", 1) >= s.size() - 1)
-            // Two halves of a wrap at one offset would also be ambiguous for the writer.
-            fail(t, fmt::format("empty expression {}: ngspice 39 stops on it (\"Expression "
-                                "err\"); write the value inside",
-                                s));
-        if (factor == 1) return;
+        refuse_empty(*this, t.begin, t.end, s.substr(1, s.size() - 2));
+        bool settled =
+            param_use(t.begin, t.end, exponents, factor, unit, exponents ? "" : own_rule());
+        if (factor == 1 || settled) return;
         // {expr} -> {(expr)*k}: exact whatever the parameters are.
         insert(t.begin + 1, "(", field, factor);
         edit(t.end - 1, 0, ")" + times_factor(factor), field, unit, factor);
@@ -302,7 +339,8 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
     }
     if (!is_param(to_lower(s)))
         fail(t, fmt::format("'{}' is neither a number nor a parameter defined by .param", s));
-    if (factor == 1) {
+    bool settled = param_use(t.begin, t.end, exponents, factor, unit, exponents ? "" : own_rule());
+    if (factor == 1 || settled) {
         if (settings_.brace_bare_params) edit(t.begin, t.size(), fmt::format("{{{}}}", s), field, unit, 1);
         return;
     }
@@ -310,11 +348,19 @@ void ScalePass::scale_by(const Token& t, double factor, std::string_view field,
 }
 
 void ScalePass::scale_expression(std::uint32_t begin, std::uint32_t end, double out_factor,
-                                 std::string_view field, std::string_view unit) {
+                                 std::string_view field, std::string_view unit,
+                                 std::optional<UnitExponents> exponents) {
     std::string_view expr = card_->file->view(begin, end);
     bool delimited = !expr.empty() && (expr.front() == '{' || expr.front() == '\'');
     std::string_view inner = delimited ? expr.substr(1, expr.size() - 2) : expr;
+    if (delimited) refuse_empty(*this, begin, end, inner);
     auto sub = substitute_variables(inner, settings_.factors);
+    // A parse-time value of a unit can be left to the plan; anything evaluated while the
+    // simulation runs (time, hertz, i(), ddt()) keeps its parameters wrapped.
+    if (sub.changed || !sub.unsupported.empty()) exponents.reset();
+    if (param_use(begin, end, exponents, out_factor, unit,
+                  exponents ? "" : "part of a run-time expression"))
+        return;
     if (!sub.unsupported.empty()) {
         Token at{TokenKind::word, begin, end};
         unscalable(at, fmt::format("expression uses {} whose scaling is unknown", sub.unsupported.front()));
@@ -411,6 +457,33 @@ void ScalePass::fail(const Token& at, std::string why) const {
     throw DeckError(card_->file->diagnose(Severity::error, at.begin, at.size(), std::move(why)));
 }
 
+namespace {
+
+// After a pass over the whole deck: plans its parameters from the uses the pass met and, when
+// the plan rewrites a definition or leaves a use as written, scales the deck again with it.
+// Finishes the result either way.
+void plan_and_finish(const Deck& deck, const ScaleSettings& settings, ScalePass& pass,
+                     ScaleResult& result) {
+    bool unit_factors = settings.factors.km == 1 && settings.factors.kf == 1;
+    // With parts held, a parameter shared by a held and a scaled part must keep its
+    // definition: every use stays wrapped, as without a plan.
+    ParamPlan plan = (unit_factors && !settings.record_changes) || !settings.hold.empty()
+                         ? ParamPlan{}
+                         : plan_params(deck, pass.param_uses(), settings.factors, settings.digits);
+    if (plan.changes_output) {
+        result = ScaleResult{};
+        ScalePass again(settings, result);
+        again.set_param_plan(&plan);
+        again.run(deck);
+        again.finish(deck);
+    } else {
+        pass.finish(deck);
+    }
+    result.params = std::move(plan.decisions);
+}
+
+}  // namespace
+
 ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
     ScaleResult result;
     ScalePass pass(settings, result);
@@ -420,7 +493,7 @@ ScaleResult scale_deck(const Deck& deck, const ScaleSettings& settings) {
         pass.hold(plan);
     }
     pass.run(deck);
-    pass.finish(deck);
+    plan_and_finish(deck, settings, pass, result);
     return result;
 }
 
@@ -466,8 +539,10 @@ ScaledDeck load_and_scale(const std::string& path, const FileSystem& fs,
         pieces);
     // A name used before it was declared: the answers given then may be wrong, so scale
     // the (now complete) deck again from scratch.
-    if (pass.relied_on_missing(out.deck.symbols)) out.result = scale_deck(out.deck, settings);
-    if (!pass.relied_on_missing(out.deck.symbols)) pass.finish(out.deck);  // scale_deck did
+    if (pass.relied_on_missing(out.deck.symbols))
+        out.result = scale_deck(out.deck, settings);
+    else
+        plan_and_finish(out.deck, settings, pass, out.result);
     out.result.edits.resize(out.deck.files.size());
     return out;
 }

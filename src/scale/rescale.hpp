@@ -8,6 +8,7 @@
 #include "deck/diagnostic.hpp"
 #include "deck/load.hpp"
 #include "scale/held_part.hpp"
+#include "scale/param_plan.hpp"
 #include "scale/units.hpp"
 #include "write/edit.hpp"
 
@@ -50,6 +51,7 @@ struct ScaleResult {
     std::vector<Diagnostic> unscalable;   // items that cannot be scaled exactly
     std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
     std::vector<HeldPart> held;           // parts kept as written, and why (ScaleSettings::hold)
+    std::vector<ParamDecision> params;    // how each .param / params: parameter was scaled
 };
 
 // Throws DeckError for bad input (malformed numbers and the like).

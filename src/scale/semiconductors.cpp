@@ -203,12 +203,12 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // J d g s model [area]: a positional area right after the model name.
     if (letter == 'j' && c.fields.size() > 5 && p.is_value_token(c.fields[5]) &&
         (c.fields.size() == 6 || c.fields[6].kind != TokenKind::equals)) {
-        p.scale_by(c.fields[5], k, "area", "-");
+        p.scale_by(c.fields[5], k, "area", "-", UnitExponents{-1, 0});
         return;
     }
     for (const auto& a : p.atoms(1)) {
         if (!a.key || !iequals(c.text(*a.key), by)) continue;
-        if (a.value) p.scale_by(*a.value, k, by, "-");
+        if (a.value) p.scale_by(*a.value, k, by, "-", UnitExponents{-1, 0});
         return;
     }
     p.insert(c.fields.back().end, fmt::format(" {}={}", by, format_plain(k, p.digits())),
@@ -263,7 +263,8 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
         for (const auto& r : kChargeRules)
             if (r.family == family && iequals(c.text(*a.key), r.key)) {
                 double k = r.kf_power > 0 ? f.kf : 1 / f.kf;
-                p.scale_by(*a.value, k, to_lower(c.text(*a.key)), r.unit);
+                p.scale_by(*a.value, k, to_lower(c.text(*a.key)), r.unit,
+                           UnitExponents{0, r.kf_power > 0 ? 1 : -1});
                 break;
             }
     }

@@ -30,7 +30,8 @@ TEST(ChangeReport, OneLinePerRewrittenValue) {
     ScaleRun r = run_scale_in_memory("t\nR1 a 0 1k\nC1 a 0 {c0}\n.param c0=1n\nY1 a 0 b 0 tm\n.end\n", 50, 2);
     EXPECT_EQ(change_list_text(r.deck, r.result),
               "deck.cir:2:8  R1  value  1k -> 50k  x50 [Ohm]\n"
-              "deck.cir:3:8  C1  value  {c0} -> {(c0)/100}  x0.01 [F]\n");
+              "deck.cir:4:11  .param  c0  1n -> 10p  x0.01 [F]\n"
+              "deck.cir:4:8  parameter c0  scaled at its definition as capacitance  x0.01\n");
 }
 
 // A card written out on a line of its own (the solver tolerances before .end) stays on one
@@ -121,6 +122,35 @@ TEST(ChangeReport, HeldPartsAreListedWithWhy) {
     EXPECT_EQ(j["held"][2]["copy"], "f_scaled");
     EXPECT_EQ(j["held"][1]["could_not_follow"].size(), 1u);
     EXPECT_EQ(j["held"][1]["could_not_follow"][0]["line"], 4);
+}
+
+// Every parameter gets a line after the changes: scaled at its definition, following from
+// other parameters, unchanged (a voltage), wrapped at its uses and why, or used nowhere.
+TEST(ChangeReport, SaysHowEachParameterWasScaled) {
+    ScaleRun r = run_scale_in_memory(
+        "t\n.param rb=1k rs={rb/10} spare=3 vdd=5 mix=2k\nR1 a 0 {rs}\nR2 a b rb\nV1 b 0 {vdd}\n"
+        "R3 b 0 {mix}\nC3 b 0 {mix*1p}\n.subckt cell p q params: cx=1n\nC1 p q {cx}\n.ends\n"
+        "X1 a 0 cell\n.end\n",
+        50, 2);
+    std::string text = change_list_text(r.deck, r.result);
+    EXPECT_EQ(text.substr(text.find("deck.cir:2:8  parameter")),
+              "deck.cir:2:8  parameter rb  scaled at its definition as resistance  x50\n"
+              "deck.cir:2:14  parameter rs  follows from its definition as resistance  x50\n"
+              "deck.cir:2:25  parameter spare  used nowhere: left as it is\n"
+              "deck.cir:2:33  parameter vdd  unchanged: voltage, factor 1\n"
+              "deck.cir:2:39  parameter mix  wrapped at 2 use sites: used as resistance (R3, "
+              "deck.cir:6) and as capacitance (C3, deck.cir:7)\n"
+              "deck.cir:8:26  parameter cx of cell  scaled at its definition as capacitance  x0.01\n");
+    auto j = nlohmann::json::parse(change_list_json(r.deck, r.result, {50, 2}, r.plan));
+    ASSERT_EQ(j["parameters"].size(), 6u);
+    EXPECT_EQ(j["parameters"][0]["name"], "rb");
+    EXPECT_EQ(j["parameters"][0]["outcome"], "definition");
+    EXPECT_EQ(j["parameters"][0]["kind"], "resistance");
+    EXPECT_DOUBLE_EQ(j["parameters"][0]["factor"].get<double>(), 50);
+    EXPECT_EQ(j["parameters"][4]["outcome"], "wrapped");
+    EXPECT_EQ(j["parameters"][4]["wrapped_uses"], 2);
+    EXPECT_EQ(j["parameters"][5]["subckt"], "cell");
+    EXPECT_EQ(j["parameters"][5]["line"], 8);
 }
 
 }  // namespace

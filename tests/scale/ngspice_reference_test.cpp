@@ -170,6 +170,10 @@ TEST(ScaleReferenceTest, NgspiceAgreesAtMappedFrequencies) {
          {"v(n2)", "v(y1)", "v(e2)", "v(g1)", "v(f1)", "v(h2)", "v(t1)", "v(o1)", "v(u1)", "v(b1)",
           "i(vsense)", "i(vin)"},
          75, 2 * pi * 2.5e5},
+        // A parameter used as a resistance and (times 1p) as a capacitance: wrapped at its uses.
+        {__LINE__, "netlists/corpus/param_shared_value.cir", {"v(a)", "v(out)", "i(v1)"}, 10, 1000},
+        // Parameters each with one unit: scaled where they are defined (scale/param_plan).
+        {__LINE__, "netlists/corpus/param_one_unit_each.cir", {"v(a)", "v(b)", "v(out)", "i(v1)"}, 10, 1000},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "ngspice_reference_test.cpp:" << c.line << ": " << c.deck);

@@ -105,13 +105,18 @@ std::vector<LineCase> line_cases() {
          ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e10 scale=1e-6"},
         {__LINE__, "", ".options rseries=1m cshunt=1p reltol=1e-4 method=gear",
          ".options rseries=10m cshunt=1e-16 reltol=1e-4 method=gear"},
-        // ---- parameters and expressions: wrapped, never evaluated ----
-        {__LINE__, ".param rv=1k\n", "R1 in a {rv*2}", "R1 in a {(rv*2)*10}"},
-        {__LINE__, ".param rv=1k\n", "R2 a 0 'rv/2'", "R2 a 0 '(rv/2)*10'"},
-        {__LINE__, ".param rv=1k\n", "R3 a 0 rv", "R3 a 0 {(rv)*10}"},
-        {__LINE__, ".param cv=2n\n", "C1 a 0 cv", "C1 a 0 {(cv)/10000}"},
-        {__LINE__, ".param lv=1m\n", "L1 a 0 {lv}", "L1 a 0 {(lv)/100}"},
-        {__LINE__, ".subckt blk p q params: rr=1k\n", "Rx p q {rr}", "Rx p q {(rr)*10}"},
+        // ---- parameters and expressions: with one unit in every use, the definition is
+        // scaled and the use stays (scale/param_plan); used as two units, the use is wrapped,
+        // never evaluated ----
+        {__LINE__, ".param rv=1k\n", "R1 in a {rv*2}", "R1 in a {rv*2}"},
+        {__LINE__, ".param rv=1k\n", "R3 a 0 rv", "R3 a 0 rv"},
+        {__LINE__, ".subckt blk p q params: rr=1k\n", "Rx p q {rr}", "Rx p q {rr}"},
+        {__LINE__, ".param rv=1k\nC9 z 0 {rv*1p}\n", "R1 in a {rv*2}", "R1 in a {(rv*2)*10}"},
+        {__LINE__, ".param rv=1k\nC9 z 0 {rv*1p}\n", "R2 a 0 'rv/2'", "R2 a 0 '(rv/2)*10'"},
+        {__LINE__, ".param rv=1k\nC9 z 0 {rv*1p}\n", "R3 a 0 rv", "R3 a 0 {(rv)*10}"},
+        {__LINE__, ".param cv=2n\nR9 z 0 cv\n", "C1 a 0 cv", "C1 a 0 {(cv)/10000}"},
+        {__LINE__, ".param lv=1m\nR9 z 0 lv\n", "L1 a 0 {lv}", "L1 a 0 {(lv)/100}"},
+        {__LINE__, ".subckt blk p q params: rr=1k\nC9 p 0 {rr*1p}\n", "Rx p q {rr}", "Rx p q {(rr)*10}"},
     };
 }
 
@@ -136,8 +141,9 @@ TEST(ScalerTest, LinesScaleAsTheRulesSay) {
 }
 
 TEST(ScalerTest, WrappedExpressionsAreInTheChangeList) {
-    auto s = test::scale_text("t\n.param rv=1k\nR1 a 0 {rv*2}\nR2 a 0 rv\n.end\n", 10, 1);
-    ASSERT_EQ(s.result.changes.size(), 2u);
+    // rv is a resistance in R1, R2 and a capacitance in C1: its uses are wrapped.
+    auto s = test::scale_text("t\n.param rv=1k\nR1 a 0 {rv*2}\nR2 a 0 rv\nC1 a 0 {rv*1p}\n.end\n", 10, 1);
+    ASSERT_EQ(s.result.changes.size(), 3u);
     EXPECT_EQ(s.result.changes[0].element, "R1");
     EXPECT_EQ(s.result.changes[0].new_text, "{(rv*2)*10}");
     EXPECT_EQ(s.result.changes[1].element, "R2");
@@ -335,6 +341,22 @@ TEST(ScalerTest, MarkingKeepsTheByteOrderMarkFirst) {
 namespace deckscale {
 namespace {
 
+// An empty expression stops ngspice 39 ("Expression err", tried with `ngspice -b` on a G
+// gain of '' and of {}): refused with its place, never rewritten into two edits at one byte
+// (found by the deck fuzz target).
+TEST(ScalerTest, EmptyExpressionsAreRefused) {
+    for (const std::string card : {"G1 a 0 b 0 ''", "R1 a 0 { }"}) {
+        SCOPED_TRACE(card);
+        try {
+            test::scale_text("t\n" + card + "\n.end\n", 7, 3);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(e.diagnostic().message,
+                      "an empty expression: ngspice 39 stops with \"Expression err\"; write a value");
+        }
+    }
+}
+
 // Absurd factors never write 'inf' or a value that silently became 0: the value is named.
 TEST(ScalerTest, ValuesPushedOutOfRangeAreRefusedWithTheValueNamed) {
     struct {
@@ -377,6 +399,8 @@ TEST(ScalerTest, ValidFormsOnceRefusedAreScaled) {
         {__LINE__, ".param thr=0.5\n", ".meas tran t1 when v(a)=thr",
          ".meas tran t1 when v(a)=thr"},
         {__LINE__, ".param tset=4m\n", ".meas tran v1 find v(a) at=tset",
+         ".meas tran v1 find v(a) at=tset"},  // .param tset=4u (scale/param_plan)
+        {__LINE__, ".param tset=4m\nR9 a 0 tset\n", ".meas tran v1 find v(a) at=tset",
          ".meas tran v1 find v(a) at={(tset)/1000}"},
         {__LINE__, ".param Rload=1k\n", "R4 out2 OUT R = (time<12ms ? {Rload} : {2*Rload})",
          "R4 out2 OUT R = ((((time*1000)<12ms ? {Rload} : {2*Rload}))*10)"},
@@ -458,7 +482,7 @@ TEST(ScalerTest, AnEmptyExpressionIsAnError) {
             ADD_FAILURE() << "no error";
         } catch (const DeckError& e) {
             std::string text = render(e.diagnostic());
-            EXPECT_EQ(text.substr(0, 36), "deck.cir:2:18: error: empty expressi") << text;
+            EXPECT_EQ(text.substr(0, 38), "deck.cir:2:18: error: an empty express") << text;
         }
     }
     auto s = test::scale_text("t\nV1 a 0 pulse(0 1 {1m}{2m} 1n 1n 1m 2m)\n.end\n", 7, 3);

@@ -31,8 +31,13 @@ TEST(SemiconductorsTest, InstancesAndModelsAreRewritten) {
         // An m of its own is divided; an area stays (m scales area and sidewall alike).
         {__LINE__, "D1 a 0 dm area=2 m=4\n.model dm d cj0=1p cjp=3p\n",
          "D1 a 0 dm area=2 m=0.4\n.model dm d cj0=1f cjp=3f\n.options gmin=1e-13\n", 10, 1000},
+        // m from a parameter used nowhere else: divided where it is defined (scale/param_plan).
         {__LINE__, "D1 a 0 dm m={mm}\n.param mm=2\n.model dm d cj=1p\n",
-         "D1 a 0 dm m={(mm)/10}\n.param mm=2\n.model dm d cj=1f\n.options gmin=1e-13\n", 10, 1000},
+         "D1 a 0 dm m={mm}\n.param mm=0.2\n.model dm d cj=1f\n.options gmin=1e-13\n", 10, 1000},
+        // ... or, also used as a resistance, divided where it is used.
+        {__LINE__, "D1 a 0 dm m={mm}\n.param mm=2\nR1 a 0 mm\n.model dm d cj=1p\n",
+         "D1 a 0 dm m={(mm)/10}\n.param mm=2\nR1 a 0 {(mm)*10}\n.model dm d cj=1f\n"
+         ".options gmin=1e-13\n", 10, 1000},
         // BJT with a substrate node and a positional area.
         {__LINE__,
          "Q1 c b e s qm 2\n.model qm npn(bf=100 cje=1p cjc=2p cjs=3p tf=100p tr=10n ptf=30 "

@@ -48,9 +48,11 @@ TEST(SweepCards, SweepsAreWrittenSoNgspiceStepsExactly) {
         // Voltage and temperature sweeps do not move.
         {__LINE__, 7, 1000, "t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1.3 0.1 TEMP -40 85 5\n.end\n",
          "t\nV1 a 0 1\nR1 a 0 7k\n.dc V1 0 1.3 0.1 TEMP -40 85 5\n.end\n"},
-        // Parameters keep the one-by-one path.
+        // Parameters keep the one-by-one path (fa, a frequency only, scaled where defined).
         {__LINE__, 1, 1000, "t\n.param fa=1\nV1 a 0 ac 1\nR1 a 0 1k\n.ac dec 10 {fa} 1k\n.end\n",
-         "t\n.param fa=1\nV1 a 0 ac 1\nR1 a 0 1k\n.ac dec 10 {(fa)*1000} 1meg\n.end\n"},
+         "t\n.param fa=1000\nV1 a 0 ac 1\nR1 a 0 1k\n.ac dec 10 {fa} 1meg\n.end\n"},
+        {__LINE__, 1, 1000, "t\n.param fa=1\nV1 a 0 ac 1\nR1 a 0 fa\n.ac dec 10 {fa} 1k\n.end\n",
+         "t\n.param fa=1\nV1 a 0 ac 1\nR1 a 0 fa\n.ac dec 10 {(fa)*1000} 1meg\n.end\n"},
     };
     for (const auto& r : rows) {
         SCOPED_TRACE(testing::Message() << "sweep_cards_test.cpp:" << r.line);

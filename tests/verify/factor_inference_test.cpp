@@ -8,6 +8,8 @@
 #include <gtest/gtest.h>
 
 #include "deck/load.hpp"
+#include "scale/rescale.hpp"
+#include "write/edit.hpp"
 #include "verify/factor_inference.hpp"
 
 namespace deckscale {
@@ -151,6 +153,29 @@ TEST(InferFactors, FromParameterisedValuesOfBothDecks) {
     EXPECT_NEAR(r.kf, 1000, 1e-6);
     EXPECT_EQ(r.resistor_pairs, 2);
     EXPECT_EQ(r.reactive_pairs, 2);
+}
+
+// A deck written with parameters, scaled by deckscale: each parameter is rewritten where it is
+// defined (scale/param_plan), and the factors read back from the evaluated values.
+TEST(InferFactors, FromParametersScaledAtTheirDefinitions) {
+    const std::string text =
+        "o\n.param rv=1k cv=1n lv={2*rv*rv*cv}\nR1 a b {rv}\nC1 b 0 cv\n"
+        ".subckt two p q params: rx=2k\nRx p q {rx}\n.ends\nL1 b c 'lv'\nR2 c 0 {2*rv}\n.end\n";
+    MemoryFileSystem fs;
+    fs.add("o.cir", text);
+    Deck deck = load_deck("o.cir", fs);
+    ScaleSettings settings;
+    settings.factors = {50, 1000};
+    ScaleResult result = scale_deck(deck, settings);
+    std::string scaled = apply_edits(text, result.edits[0]);
+    ASSERT_NE(scaled.find(".param rv=50k cv=20f"), std::string::npos) << scaled;
+    auto r = infer_factors(values_of("o.cir", text), values_of("s.cir", scaled));
+    ASSERT_TRUE(r.ok) << r.message;
+    EXPECT_NEAR(r.km, 50, 1e-9);
+    EXPECT_NEAR(r.kf, 1000, 1e-6);
+    EXPECT_EQ(r.resistor_pairs, 2);  // Rx varies per instance and is left out
+    EXPECT_EQ(r.reactive_pairs, 2);
+    EXPECT_TRUE(check_ratios(values_of("o.cir", text), values_of("s.cir", scaled), 50, 1000, 1e-9).empty());
 }
 
 // The original scaled by hand with Km = 50, Kf = 2e6 (C / 1e8, L x 2.5e-5).
