@@ -299,7 +299,7 @@ py::dict batch(py::handle suite_path, unsigned jobs, py::tuple shard) {
 py::dict survey(py::handle folder, py::handle km, py::handle kf, unsigned jobs) {
     std::string path = path_of(folder);
     FactorTarget f{factor_of(km), factor_of(kf), py::str(km).cast<std::string>(),
-                   py::str(kf).cast<std::string>()};
+                   py::str(kf).cast<std::string>(), {}};
     return run_suite(survey_suite(path, f), path, jobs, Shard{});
 }
 

@@ -6,6 +6,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/control_script.hpp"
+#include "deck/deck_params.hpp"
 #include "deck/spice_number.hpp"
 #include "deck/sweep_rewrite.hpp"
 #include "deck/sweep_steps.hpp"
@@ -24,13 +25,25 @@ std::vector<std::string_view> words_of(const Card& c) {
     return w;
 }
 
-std::optional<double> number(std::string_view s) {
+// A word of an analysis card: a number, or an expression or parameter name evaluated with the
+// deck's parameters. `text` is what verify writes for it: the word itself when it is a plain
+// number, else the value in full precision (ngspice then reads the double the deck meant).
+std::optional<double> number(std::string_view s, const ParamTable* params,
+                             std::string* text = nullptr) {
     auto p = parse_spice_number(s);
-    if (!p.number) return std::nullopt;
-    return p.number->value;
+    if (p.number) {
+        if (text) *text = std::string(s);
+        return p.number->value;
+    }
+    // A bare name in a dot card is read as 0 by ngspice 39 (scale refuses it): braces only.
+    if (!params || s.empty() || (s.front() != '{' && s.front() != '\'')) return std::nullopt;
+    auto v = value_with_params(s, *params);
+    if (v && text) *text = fmt::format("{:.17g}", *v);
+    return v;
 }
 
-std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::string& error) {
+std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::string& error,
+                                  const ParamTable* params) {
     if (w.size() < 4) {
         error = "needs dec|oct|lin, a point count and two frequencies";
         return std::nullopt;
@@ -41,9 +54,12 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
         error = fmt::format("unknown sweep type '{}'", w[0]);
         return std::nullopt;
     }
-    auto n = number(w[1]), f1 = number(w[2]), f2 = number(w[3]);
+    auto n = number(w[1], params, &s.points_text), f1 = number(w[2], params, &s.fstart_text),
+         f2 = number(w[3], params, &s.fstop_text);
     if (!n || !f1 || !f2) {
-        error = "the point count and frequencies must be plain numbers (parameters are not evaluated)";
+        error = params ? "the point count and frequencies must be numbers or expressions of "
+                         "the deck's top-level parameters"
+                       : "the point count and frequencies must be numbers";
         return std::nullopt;
     }
     if (*n < 1 || *f1 <= 0 || *f2 < *f1) {
@@ -53,18 +69,15 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
     s.points = clamped_long(*n);
     s.fstart = *f1;
     s.fstop = *f2;
-    s.points_text = w[1];
-    s.fstart_text = w[2];
-    s.fstop_text = w[3];
     return s;
 }
 
 // Records one analysis card (or a .control command read as one) in `a`.
-void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
+void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTable& params) {
     auto w = words_of(c);
     if (kw == ".ac" && !a.ac) {
         std::string err;
-        a.ac = sweep_from(w, err);
+        a.ac = sweep_from(w, err, &params);
         if (!a.ac) a.problems.push_back(fmt::format(".ac card: {}", err));
     } else if (kw == ".tran" && !a.tran) {
         TranSpec t;
@@ -75,11 +88,13 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
                 t.uic = true;
                 continue;
             }
-            if (auto x = number(s)) v.push_back(*x);
+            if (auto x = number(s, &params)) v.push_back(*x);
             else ok = false;
         }
         if (!ok || v.size() < 2) {
-            a.problems.push_back(".tran card: its times must be plain numbers");
+            a.problems.push_back(
+                ".tran card: its times must be numbers or expressions of the deck's top-level "
+                "parameters");
             return;
         }
         t.tstep = v[0];
@@ -91,7 +106,7 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
         a.op = true;
     } else if (kw == ".noise" && !a.noise) {
         std::string err;
-        a.noise = read_noise_card(c, err);
+        a.noise = read_noise_card(c, err, &params);
         if (!a.noise) a.problems.push_back(fmt::format(".noise card: {}", err));
     } else if (kw == ".dc" || kw == ".disto" || kw == ".pz" ||
                kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
@@ -104,6 +119,7 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c) {
 
 DeckAnalyses find_analyses(const Deck& deck) {
     DeckAnalyses a, control;
+    const ParamTable params = top_level_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         deck.visit_file(f, [&](const Card& c) {
             if (c.kind == CardKind::control) {
@@ -111,7 +127,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
                 if (const Token* t = control_token(c))
                     for (const auto& cmd : control_commands(*c.file, *t)) {
                         Card cc = cmd.as_card(*c.file);
-                        take(control, "." + to_lower(cc.field_text(0)), cc);
+                        take(control, "." + to_lower(cc.field_text(0)), cc, params);
                     }
                 return;
             }
@@ -127,7 +143,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
                 return;
             }
             if (c.kind != CardKind::dot) return;
-            take(a, kw, c);
+            take(a, kw, c, params);
         });
     }
     // Analyses in .control count only for a deck with no analysis card.
@@ -149,7 +165,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
 
 std::optional<AcSweep> parse_sweep(const std::vector<std::string>& words, std::string& error) {
     std::vector<std::string_view> w(words.begin(), words.end());
-    return sweep_from(w, error);
+    return sweep_from(w, error, nullptr);
 }
 
 AcSweep map_sweep(const AcSweep& s, double kf) {

@@ -16,8 +16,9 @@ struct AcSweep {
     long points = 0;
     double fstart = 0;
     double fstop = 0;
-    // The fields as written ("10", "1k"), when known: the cards are written from these, so
-    // ngspice reads what the deck says and steps the mapped sweep exactly (deck/sweep_rewrite).
+    // The fields as written ("10", "1k"; an expression's value in full precision), when
+    // known: the cards are written from these, so ngspice reads what the deck says and steps
+    // the mapped sweep exactly (deck/sweep_rewrite).
     std::string points_text, fstart_text, fstop_text;
     double reltol = 1e-3;  // the deck's .options reltol: the stop test of the sweep uses it
 };

@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
+#include "deck/deck_params.hpp"
 #include "deck/spice_number.hpp"
 #include "deck/sweep_rewrite.hpp"
 #include "deck/sweep_steps.hpp"
@@ -12,15 +13,26 @@
 namespace deckscale {
 namespace {
 
-std::optional<double> plain_number(std::string_view s) {
+// A number, or an expression or parameter name evaluated with the deck's parameters; `text`
+// is what verify writes for it (the value in full precision for an expression).
+std::optional<double> plain_number(std::string_view s, const ParamTable* params,
+                                   std::string& text) {
     auto p = parse_spice_number(s);
-    if (!p.number) return std::nullopt;
-    return p.number->value;
+    if (p.number) {
+        text = std::string(s);
+        return p.number->value;
+    }
+    // A bare name in a dot card is read as 0 by ngspice 39 (scale refuses it): braces only.
+    if (!params || s.empty() || (s.front() != '{' && s.front() != '\'')) return std::nullopt;
+    auto v = value_with_params(s, *params);
+    if (v) text = fmt::format("{:.17g}", *v);
+    return v;
 }
 
 }  // namespace
 
-std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error) {
+std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error,
+                                         const ParamTable* params) {
     // v ( node [, ref] ) — the only output form ngspice 39 accepts for noise.
     const auto& f = c.fields;
     std::size_t i = 1;
@@ -65,21 +77,22 @@ std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error) {
         error = fmt::format("unknown sweep type '{}'", w[1]);
         return std::nullopt;
     }
-    auto n = plain_number(w[2]), f1 = plain_number(w[3]), f2 = plain_number(w[4]);
-    std::optional<double> pts = w.size() == 6 ? plain_number(w[5]) : std::optional<double>(0);
+    std::string summary;
+    auto n = plain_number(w[2], params, s.points_text),
+         f1 = plain_number(w[3], params, s.fstart_text),
+         f2 = plain_number(w[4], params, s.fstop_text);
+    std::optional<double> pts =
+        w.size() == 6 ? plain_number(w[5], params, summary) : std::optional<double>(0);
     if (!n || !f1 || !f2 || !pts) {
-        error =
-            "the point counts and frequencies must be plain numbers (parameters are not evaluated)";
+        error = "the point counts and frequencies must be numbers or expressions of the deck's "
+                "top-level parameters";
         return std::nullopt;
     }
     if (*n < 1 || *f1 <= 0 || *f2 < *f1) {
         error = "the sweep must have at least one point and 0 < fstart <= fstop";
         return std::nullopt;
     }
-    s.points_text = w[2];
-    s.fstart_text = w[3];
-    s.fstop_text = w[4];
-    if (w.size() == 6) s.summary_text = w[5];
+    if (w.size() == 6) s.summary_text = summary;
     s.fstart = *f1;
     s.fstop = *f2;
     return s;

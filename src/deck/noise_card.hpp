@@ -7,6 +7,7 @@
 #include <string>
 
 #include "deck/card.hpp"
+#include "deck/param_eval.hpp"
 
 namespace deckscale {
 
@@ -14,7 +15,8 @@ struct NoiseSpec {
     std::string output;  // the output as ngspice reads it: "v(out)" or "v(out,ref)"
     std::string source;  // the input source, lower case
     std::string type;    // "dec", "oct" or "lin"
-    // The numbers as written ("20", "1k"), and as read.
+    // The numbers as written ("20", "1k"; an expression's value in full precision), and as
+    // read.
     std::string points_text, fstart_text, fstop_text;
     std::string summary_text;  // points per summary; "" when not given
     double fstart = 0, fstop = 0;
@@ -22,8 +24,10 @@ struct NoiseSpec {
 };
 
 // The noise analysis of a `.noise` card (or a `noise` command read as one); nullopt with
-// `error` set when it cannot be read.
-std::optional<NoiseSpec> read_noise_card(const Card& card, std::string& error);
+// `error` set when it cannot be read. With `params`, expressions and parameter names are
+// evaluated with them.
+std::optional<NoiseSpec> read_noise_card(const Card& card, std::string& error,
+                                         const ParamTable* params = nullptr);
 
 // The mapped analysis of the scaled deck: frequencies x Kf, written so that ngspice 39 steps
 // through as many points as in the original (deck/sweep_rewrite).

@@ -6,6 +6,7 @@
 #include <set>
 
 #include "base/text_util.hpp"
+#include "deck/deck_params.hpp"
 #include "deck/param_eval.hpp"
 #include "deck/spice_number.hpp"
 
@@ -25,43 +26,6 @@ double predicted_ratio(char letter, double km, double kf) {
         case 'l': return km / kf;
     }
     return 1;
-}
-
-// Top-level `.param name=value` definitions of every file (those inside a .subckt are the
-// subcircuit's own and are left out).
-ParamTable deck_params(const Deck& deck) {
-    ParamTable table;
-    for (std::size_t f = 0; f < deck.files.size(); ++f) {
-        int depth = 0;
-        deck.visit_file(f, [&](const Card& c) {
-            if (c.kind != CardKind::dot) return;
-            std::string kw = card_keyword(c);
-            if (kw == ".subckt") ++depth;
-            if (kw == ".ends" && depth > 0) --depth;
-            if (kw != ".param" || depth > 0) return;
-            const auto& fl = c.fields;
-            for (std::size_t i = 1; i + 2 < fl.size(); ++i)
-                if (fl[i].kind == TokenKind::word && fl[i + 1].kind == TokenKind::equals &&
-                    fl[i + 2].kind != TokenKind::equals)
-                    table.define(to_lower(c.field_text(i)), std::string(c.field_text(i + 2)));
-        });
-    }
-    return table;
-}
-
-// A literal number, a `{…}`/`'…'` expression or a bare parameter name, evaluated with the
-// deck's parameters. Names in `local` (the parameters of the enclosing .subckt cards and the
-// .param cards inside them) vary per instance: a value that uses one gives nothing.
-std::optional<double> literal_or_param_value(std::string_view text, const ParamTable& params,
-                                             const std::set<std::string>& local) {
-    auto p = parse_spice_number(text);
-    if (p.number) return p.number->value;
-    if (p.problem != NumberProblem::not_a_number) return std::nullopt;
-    if (text.front() == '{' || text.front() == '\'') text = text.substr(1, text.size() - 2);
-    return evaluate_param_expression(text, [&](const std::string& name) -> std::optional<double> {
-        if (local.count(name)) return std::nullopt;
-        return params.value(name);
-    });
 }
 
 // Keys of `key=value` pairs of a card (lower case).
@@ -85,7 +49,7 @@ std::map<std::pair<std::string, int>, const ElementValue*> by_occurrence(
 
 std::vector<ElementValue> element_values(const Deck& deck) {
     std::vector<ElementValue> out;
-    ParamTable params = deck_params(deck);
+    ParamTable params = top_level_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         // Parameters of the enclosing .subckt cards, one set per open .subckt.
         std::vector<std::set<std::string>> open;
@@ -128,7 +92,7 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 } else {
                     continue;
                 }
-                auto value = literal_or_param_value(value_text, params, local);
+                auto value = value_with_params(value_text, params, local);
                 // `C1 a b cmod 1n`: a model name may come before the value.
                 if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
                 if (!value) return;

@@ -61,17 +61,38 @@ TEST(FindAnalyses, UnreadableCardsAreProblems) {
         std::string problem;
     };
     const std::vector<Case> cases{
-        {__LINE__, ".ac dec 10 {fl} 1meg",
-         ".ac card: the point count and frequencies must be plain numbers (parameters are not evaluated)"},
+        {__LINE__, ".ac dec 10 {fx} 1meg",
+         ".ac card: the point count and frequencies must be numbers or expressions of the deck's "
+         "top-level parameters"},
         {__LINE__, ".ac log 10 1 1meg", ".ac card: unknown sweep type 'log'"},
         {__LINE__, ".ac dec 10 1meg 1k", ".ac card: the sweep must have at least one point and 0 < fstart <= fstop"},
-        {__LINE__, ".tran 1u {tend}", ".tran card: its times must be plain numbers"},
+        {__LINE__, ".tran 1u {tend*time}",
+         ".tran card: its times must be numbers or expressions of the deck's top-level "
+         "parameters"},
     };
     for (const auto& k : cases) {
         SCOPED_TRACE(k.line);
         auto a = analyses_of("p\n.param fl=1 tend=1m\nV1 a 0 ac 1\nR1 a 0 1\n" + k.card + "\n.end\n");
         EXPECT_EQ(a.problems, std::vector<std::string>{k.problem});
     }
+}
+
+// Parameters a deck's analyses use are evaluated with its top-level .param cards (as ngspice
+// does before it runs them), and the cards verify writes carry the values in full precision.
+TEST(FindAnalyses, ParametersInAnalysesAreEvaluated) {
+    auto a = analyses_of(
+        "p\n.param fc=10k n=20 tend={10/fc}\nV1 a 0 ac 1\nR1 a 0 1\n"
+        ".ac dec {n} {fc/10} 'fc*10'\n.tran {tend/1000} {tend}\n.end\n");
+    EXPECT_TRUE(a.problems.empty());
+    ASSERT_TRUE(a.ac);
+    EXPECT_EQ(ac_card(*a.ac), ".ac dec 20 1000 100000");
+    EXPECT_EQ(a.ac->points, 20);
+    ASSERT_TRUE(a.tran);
+    EXPECT_EQ(a.tran->tstop, 10 / 10e3);
+    EXPECT_EQ(a.tran->tstep, 10 / 10e3 / 1000);
+    // A bare name in a dot card is 0 to ngspice 39, so it is not a value here.
+    auto b = analyses_of("p\n.param fl=1\nV1 a 0 ac 1\nR1 a 0 1\n.ac dec 10 fl 1meg\n.end\n");
+    EXPECT_FALSE(b.ac);
 }
 
 TEST(FindAnalyses, AnalysesVerifyDoesNotMapAreNamedOnce) {
@@ -102,7 +123,7 @@ TEST(ParseSweep, WordsOfTheOption) {
     ASSERT_TRUE(s) << e;
     EXPECT_EQ(ac_card(*s), ".ac lin 7 100 1.6k");  // as written
     EXPECT_FALSE(parse_sweep({"dec", "x", "1", "2"}, e));
-    EXPECT_EQ(e, "the point count and frequencies must be plain numbers (parameters are not evaluated)");
+    EXPECT_EQ(e, "the point count and frequencies must be numbers");
 }
 
 TEST(MapAnalyses, TheMappedSweepStepsLikeTheOriginal) {

@@ -31,6 +31,9 @@ TEST(NoiseCard, ReadsOutputSourceSweepAndSummary) {
         {__LINE__, ".NOISE V(b, a) v1 OCT 8 10 20k 4", "v(b,a)", "v1", "oct", "8", "10", "20k",
          "4"},
         {__LINE__, ".noise v(b) I1 lin 5 1k 2k", "v(b)", "i1", "lin", "5", "1k", "2k", ""},
+        // Top-level parameters are evaluated; verify writes their values in full precision.
+        {__LINE__, ".param fn=3k np=7\n.noise v(b) V1 dec {np} {fn/3} 'fn*10' {np}", "v(b)", "v1",
+         "dec", "7", "1000", "30000", "7"},
     };
     for (const auto& k : cases) {
         SCOPED_TRACE(k.line);
@@ -62,9 +65,9 @@ TEST(NoiseCard, UnreadableCardsAreProblems) {
         {__LINE__, ".noise v(b) V1 log 10 1 1k", ".noise card: unknown sweep type 'log'"},
         {__LINE__, ".noise v(b) V1 dec 10 1",
          ".noise card: needs an input source, dec|oct|lin, a point count and two frequencies"},
-        {__LINE__, ".noise v(b) V1 dec 10 {fl} 1k",
-         ".noise card: the point counts and frequencies must be plain numbers (parameters are not "
-         "evaluated)"},
+        {__LINE__, ".noise v(b) V1 dec 10 {fx} 1k",
+         ".noise card: the point counts and frequencies must be numbers or expressions of the "
+         "deck's top-level parameters"},
         {__LINE__, ".noise v(b) V1 dec 10 1k 1",
          ".noise card: the sweep must have at least one point and 0 < fstart <= fstop"},
     };

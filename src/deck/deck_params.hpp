@@ -1,0 +1,24 @@
+// The deck-wide parameters of a deck and the values of words that may use them: what a card
+// outside any subcircuit (an element value, an analysis card) means by `{fc/10}` or `rbase`.
+#pragma once
+
+#include <optional>
+#include <set>
+#include <string>
+#include <string_view>
+
+#include "deck/load.hpp"
+#include "deck/param_eval.hpp"
+
+namespace deckscale {
+
+// Top-level `.param name=value` definitions of every file (those inside a .subckt are the
+// subcircuit's own and are left out).
+ParamTable top_level_params(const Deck& deck);
+
+// A literal number, a `{…}`/`'…'` expression or a bare parameter name, evaluated with
+// `params`. Names in `local` (parameters that vary per subcircuit instance) give no value.
+std::optional<double> value_with_params(std::string_view text, const ParamTable& params,
+                                        const std::set<std::string>& local = {});
+
+}  // namespace deckscale
