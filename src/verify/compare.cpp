@@ -247,8 +247,29 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
             double t0 = tmap[j], t1 = tmap[j + 1];
             double w = t1 > t0 ? (t - t0) / (t1 - t0) : 0;
             w = std::clamp(w, 0.0, 1.0);
-            double y = ((1 - w) * vs->values[j].real() + w * vs->values[j + 1].real()) * back;
-            double e = std::fabs(y - vo.values[k].real()) / floor;
+            double y0 = vs->values[j].real(), y1 = vs->values[j + 1].real();
+            double linear = ((1 - w) * y0 + w * y1) * back;
+            double e = std::fabs(linear - vo.values[k].real());
+            // Between two time points the scaled run's waveform is known only from its
+            // neighbours: where one run took a long step over a smooth curve (a sine), the
+            // straight line between its points misses the curve by ~h^2 y''/8, which is no
+            // error of the rewrite. A parabola through the nearer third point follows such a
+            // curve; at a corner (a PWL breakpoint) the line does. The closer of the two counts:
+            // a wrong value is wrong in both.
+            std::size_t third = j == 0 ? j + 2
+                                : j + 2 >= tmap.size()
+                                    ? j - 1
+                                    : (t - tmap[j - 1] <= tmap[j + 2] - t ? j - 1 : j + 2);
+            if (e > 0 && third < tmap.size() && third < vs->values.size()) {
+                double t2 = tmap[third], y2 = vs->values[third].real();
+                if (t0 != t1 && t0 != t2 && t1 != t2) {
+                    double q = y0 * (t - t1) * (t - t2) / ((t0 - t1) * (t0 - t2)) +
+                               y1 * (t - t0) * (t - t2) / ((t1 - t0) * (t1 - t2)) +
+                               y2 * (t - t0) * (t - t1) / ((t2 - t0) * (t2 - t1));
+                    e = std::min(e, std::fabs(q * back - vo.values[k].real()));
+                }
+            }
+            e /= floor;
             if (e > r.worst) {
                 r.worst = e;
                 r.at = t;
