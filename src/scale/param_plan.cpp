@@ -32,12 +32,17 @@ std::string kind_name(Fraction km, Fraction kf, std::string_view unit) {
     if (is(e, 1, 0)) return "resistance";
     if (is(e, -1, -1)) return "capacitance";
     if (is(e, 1, -1)) return "inductance";
-    if (is(e, 0, -1)) return "time";
+    // A junction capacitance or current of a .model card: the instances' m (or area) carries
+    // Km, so the model's own value follows Kf alone.
+    if (is(e, 0, -1)) return unit == "F" ? "model capacitance (m carries Km)" : "time";
     if (is(e, 0, 1)) return "frequency";
     if (is(e, -1, 0))
         return unit == "A" ? "current" : unit == "S" ? "conductance" : "current or conductance";
     if (is(e, 0, 0))
-        return unit == "V" ? "voltage" : unit == "-" ? "dimensionless" : "voltage or ratio";
+        return unit == "V"   ? "voltage"
+               : unit == "-" ? "dimensionless"
+               : unit == "A" ? "model current (m carries Km)"
+                             : "voltage or ratio";
     return fmt::format("Km^{} Kf^{}", fraction_text(km), fraction_text(kf));
 }
 

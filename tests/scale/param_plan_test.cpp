@@ -196,5 +196,15 @@ TEST(ParamPlan, HeldPartsKeepEveryDefinition) {
     EXPECT_TRUE(out.result.params.empty());
 }
 
+// A junction capacitance of a .model card follows Kf alone (the instances' m carries Km):
+// the change list names it so rather than calling it a time.
+TEST(ParamPlan, AModelCapacitanceIsNamedSo) {
+    auto out = test::scale_text(
+        "t\n.param cj=2p\nD1 a 0 dm\n.model dm d(cjo={cj})\n.end\n", 10, 100);
+    ASSERT_EQ(out.result.params.size(), 1u);
+    EXPECT_EQ(out.result.params[0].kind, "model capacitance (m carries Km)");
+    EXPECT_EQ(test::line_fields(out.text(), 1), (std::vector<std::string>{".param", "cj", "20f"}));
+}
+
 }  // namespace
 }  // namespace deckscale
