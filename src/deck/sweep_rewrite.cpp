@@ -112,9 +112,9 @@ SweepRewrite rewrite_frequencies(SweepKind kind, const std::vector<std::string_v
     if (!number(fields[1]) || !start || !stop)
         return refuse("the sweep's fields are not plain numbers");
     double n = ngspice_read(fields[1]), x0 = ngspice_read(fields[2]), x1 = ngspice_read(fields[3]);
-    auto points = [&](double a, double b) {
-        return kind == SweepKind::ac ? ac_points(type, n, a, b, reltol)
-                                     : noise_points(type, n, a, b, reltol);
+    auto points = [&](double a, double b, bool count_only = false) {
+        return kind == SweepKind::ac ? ac_points(type, n, a, b, reltol, count_only)
+                                     : noise_points(type, n, a, b, reltol, count_only);
     };
     SweepPoints original = points(x0, x1);
     if (original.endless)
@@ -143,8 +143,8 @@ SweepRewrite rewrite_frequencies(SweepKind kind, const std::vector<std::string_v
     } else {
         // Every other sweep counts by its stop test f <= fstop + tolerance.
         ok = [&](const std::string& s) {
-            SweepPoints p = points(y0, ngspice_read(s));
-            return !p.endless && p.values.size() == original.values.size();
+            SweepPoints p = points(y0, ngspice_read(s), true);
+            return !p.endless && p.count == original.values.size();
         };
     }
     if (!ok(s1)) {

@@ -98,12 +98,13 @@ namespace {
 // without end (".ac lin 2e40 0.01 2" adds 1e-40 to 0.01; the deck fuzz target found that
 // counting such a sweep to the limit, for every candidate of a nudge search, was slow).
 bool push(SweepPoints& p, double v) {
-    if (!p.values.empty() && p.values.back() == v) {
+    if (p.count > 0 && p.last == v) {
         p.endless = true;
         return false;
     }
-    p.values.push_back(v);
-    if (p.values.size() > kSweepPointLimit) {
+    if (!p.count_only) p.values.push_back(v);
+    p.last = v;
+    if (++p.count > kSweepPointLimit) {
         p.endless = true;
         return false;
     }
@@ -125,9 +126,10 @@ const double kDcTolerance = std::numeric_limits<double>::epsilon() * 1e3;
 }  // namespace
 
 SweepPoints ac_points(std::string_view type, double points, double fstart, double fstop,
-                      double reltol) {
+                      double reltol, bool count_only) {
     // acan.c:78-112 (setup), 226-256 (stop test), 346-382 (next frequency).
     SweepPoints p;
+    p.count_only = count_only;
     long n = std::max(count_field(points), 1L);
     bool log_sweep = type != "lin";
     double delta = 0;
@@ -156,9 +158,10 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
 }
 
 SweepPoints noise_points(std::string_view type, double points, double fstart, double fstop,
-                         double reltol) {
+                         double reltol, bool count_only) {
     // noisean.c:49-73, 108-128 (setup), 226-243, 302-318 (stepping).
     SweepPoints p;
+    p.count_only = count_only;
     long n = count_field(points);
     if (n < 1) return p;
     bool lin = type == "lin";

@@ -16,19 +16,24 @@ namespace deckscale {
 double ngspice_read(std::string_view text);
 
 // The points of one sweep; `endless` when ngspice's loop would never stop (then `values`
-// holds the first kSweepPointLimit + 1 of them).
+// holds the first kSweepPointLimit + 1 of them). `count` is the number of points, also when
+// only counted (values empty then): a nudge search that only compares counts of sweeps of
+// millions of points spent its time storing them (found by the deck fuzz target).
 struct SweepPoints {
     std::vector<double> values;
     bool endless = false;
+    std::size_t count = 0;
+    double last = 0;  // the last point, when count > 0
+    bool count_only = false;
 };
 inline constexpr std::size_t kSweepPointLimit = 1 << 22;
 
 // `type` is "dec", "oct" or "lin" (lower case); `points` as read (rounded like ngspice's
 // integer fields); empty when ngspice rejects the sweep (fstart <= 0 on a log sweep ...).
 SweepPoints ac_points(std::string_view type, double points, double fstart, double fstop,
-                      double reltol = 1e-3);
+                      double reltol = 1e-3, bool count_only = false);
 SweepPoints noise_points(std::string_view type, double points, double fstart, double fstop,
-                         double reltol = 1e-3);
+                         double reltol = 1e-3, bool count_only = false);
 // One level of a .dc sweep.
 SweepPoints dc_points(double start, double stop, double step);
 // Number of points `linearize` makes of a transient; 0 when it refuses the times.

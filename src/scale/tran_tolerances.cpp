@@ -136,7 +136,9 @@ void ScalePass::finish(const Deck& deck) {
         if (!text.empty() && text.back() != '\n') line = at.eol + line;
     }
     if (result_.edits.size() <= at.file) result_.edits.resize(at.file + 1);
-    result_.edits[at.file].add(text, at.offset, 0, line);
+    // At the file's end the last card may have an insertion of its own (an `area=` or `m=`
+    // added to a last line without a newline; found by the deck fuzz target): after it.
+    result_.edits[at.file].add_after(text, at.offset, line);
     ++result_.change_count;
     if (!settings_.record_changes) return;
     Change ch;

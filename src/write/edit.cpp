@@ -103,6 +103,22 @@ void EditSet::add(std::string_view original, std::uint32_t offset, std::uint32_t
     ++size_;
 }
 
+void EditSet::add_after(std::string_view original, std::uint32_t offset, std::string_view text) {
+    merge_segments();
+    if (!segments_.empty()) {
+        Segment& seg = segments_.back();
+        std::size_t i = seg.lower_bound(offset);
+        if (i < seg.slots.size() && seg.slots[i].offset == offset && seg.slots[i].length == 0) {
+            std::string joined = std::string(seg.view(i).text) + std::string(text);
+            seg.slots[i].text_begin = static_cast<std::uint32_t>(seg.texts.size());
+            seg.slots[i].text_size = static_cast<std::uint32_t>(joined.size());
+            seg.texts += joined;
+            return;
+        }
+    }
+    add(original, offset, 0, text);
+}
+
 void EditSet::append(EditSet&& later) {
     if (later.empty()) return;
     if (!empty()) {

@@ -33,6 +33,11 @@ public:
     void add(std::string_view original, std::uint32_t offset, std::uint32_t length,
              std::string_view text);
 
+    // An insertion at `offset` that follows any insertion already stored there (the two
+    // become one); otherwise as add(). For text appended at a file's end, where the last
+    // card may already have an insertion.
+    void add_after(std::string_view original, std::uint32_t offset, std::string_view text);
+
     // Appends the edits of a set whose edits all lie after this set's (throws std::logic_error
     // if the first of them overlaps the last of these). Its storage is taken over, not copied.
     void append(EditSet&& later);

@@ -209,6 +209,14 @@ TEST(SemiconductorsTest, RefusalsSayWhy) {
 
 // Reading and scaling in one pass gives what the complete deck gives, also when the MOS
 // model is declared after its instance.
+// A last card without a newline gets `area=` at the file's end, where the GMIN line goes
+// too: the line follows it (found by the deck fuzz target, which stopped on two insertions
+// at one offset).
+TEST(SemiconductorsTest, ALastDeviceLineWithoutNewlineKeepsItsAreaBeforeTheOptions) {
+    auto s = test::scale_text("t\n.model jm njf\nJ1 d g 0 jm", 7, 3);
+    EXPECT_EQ(s.text(), "t\n.model jm njf\nJ1 d g 0 jm area=0.1428571\n.options gmin=1.428571e-13\n");
+}
+
 TEST(SemiconductorsTest, OnePassEqualsTwoPasses) {
     for (const char* deck : {"t\nM1 d g 0 0 nb\n.model nb nmos level=8\nM2 d g 0 0 n1\n"
                              ".model n1 nmos vto=1 kp=1u gamma=0 phi=0.6 tox=10n\n.end\n",

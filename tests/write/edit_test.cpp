@@ -171,5 +171,19 @@ TEST(EditSet, InsertionAtTheVeryEndIsApplied) {
     EXPECT_EQ(apply_edits(kText, edits), kText + ".end\n");
 }
 
+// Text for a file's end follows an insertion already there (the last card's own, when the
+// file ends without a newline); elsewhere add_after is add.
+TEST(EditSet, AddAfterFollowsAnInsertionAtTheSameOffset) {
+    EditSet edits;
+    edits.add(kText, {21, 0, " m=2"});
+    edits.add_after(kText, 21, "\n.options gmin=1e-13\n");
+    EXPECT_EQ(edits.size(), 1u);
+    EXPECT_EQ(apply_edits(kText, edits), kText + " m=2\n.options gmin=1e-13\n");
+    EditSet alone;
+    alone.add_after(kText, 21, ".end\n");
+    EXPECT_EQ(apply_edits(kText, alone), kText + ".end\n");
+    EXPECT_THROW(alone.add(kText, {21, 0, "x"}), std::logic_error);
+}
+
 }  // namespace
 }  // namespace deckscale
