@@ -144,6 +144,14 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
         delta = n - 1 > 1 ? (fstop - fstart) / static_cast<double>(n - 1) : 0;
     }
     double tol = log_sweep ? delta * fstop * reltol : delta * reltol;
+    // Room for the expected count at once (untouched room costs no memory): a sweep of
+    // millions of points otherwise spends its time copying while it grows.
+    double expected = 0;
+    if (type == "lin") expected = static_cast<double>(n);
+    if (type == "dec") expected = std::log(fstop / fstart) / std::log(delta) + 2;
+    if (!count_only && expected > 0)  // NaN and inf aside
+        p.values.reserve(static_cast<std::size_t>(
+            std::min(expected, static_cast<double>(kSweepPointLimit) + 1)));
     for (double f = fstart; f <= fstop + tol;) {
         if (!push(p, f)) break;
         if (log_sweep) {
