@@ -25,23 +25,6 @@ std::vector<std::string_view> words_of(const Card& c) {
     return w;
 }
 
-// A word of an analysis card: a number, or an expression or parameter name evaluated with the
-// deck's parameters. `text` is what verify writes for it: the word itself when it is a plain
-// number, else the value in full precision (ngspice then reads the double the deck meant).
-std::optional<double> number(std::string_view s, const ParamTable* params,
-                             std::string* text = nullptr) {
-    auto p = parse_spice_number(s);
-    if (p.number) {
-        if (text) *text = std::string(s);
-        return p.number->value;
-    }
-    // A bare name in a dot card is read as 0 by ngspice 39 (scale refuses it): braces only.
-    if (!params || s.empty() || (s.front() != '{' && s.front() != '\'')) return std::nullopt;
-    auto v = value_with_params(s, *params);
-    if (v && text) *text = fmt::format("{:.17g}", *v);
-    return v;
-}
-
 std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::string& error,
                                   const ParamTable* params) {
     if (w.size() < 4) {
@@ -54,8 +37,9 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
         error = fmt::format("unknown sweep type '{}'", w[0]);
         return std::nullopt;
     }
-    auto n = number(w[1], params, &s.points_text), f1 = number(w[2], params, &s.fstart_text),
-         f2 = number(w[3], params, &s.fstop_text);
+    auto n = analysis_value(w[1], params, &s.points_text);
+    auto f1 = analysis_value(w[2], params, &s.fstart_text);
+    auto f2 = analysis_value(w[3], params, &s.fstop_text);
     if (!n || !f1 || !f2) {
         error = params ? "the point count and frequencies must be numbers or expressions of "
                          "the deck's top-level parameters"
@@ -88,7 +72,7 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTabl
                 t.uic = true;
                 continue;
             }
-            if (auto x = number(s, &params)) v.push_back(*x);
+            if (auto x = analysis_value(s, &params)) v.push_back(*x);
             else ok = false;
         }
         if (!ok || v.size() < 2) {

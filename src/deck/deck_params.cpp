@@ -1,5 +1,7 @@
 #include "deck/deck_params.hpp"
 
+#include <fmt/format.h>
+
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
 
@@ -40,6 +42,20 @@ std::optional<double> value_with_params(std::string_view text, const ParamTable&
         if (local.count(name)) return std::nullopt;
         return params.value(name);
     });
+}
+
+std::optional<double> analysis_value(std::string_view word, const ParamTable* params,
+                                     std::string* text) {
+    auto p = parse_spice_number(word);
+    if (p.number) {
+        if (text) *text = std::string(word);
+        return p.number->value;
+    }
+    if (!params || word.empty() || (word.front() != '{' && word.front() != '\''))
+        return std::nullopt;
+    auto v = value_with_params(word, *params);
+    if (v && text) *text = fmt::format("{:.17g}", *v);
+    return v;
 }
 
 }  // namespace deckscale

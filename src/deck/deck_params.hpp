@@ -21,4 +21,11 @@ ParamTable top_level_params(const Deck& deck);
 std::optional<double> value_with_params(std::string_view text, const ParamTable& params,
                                         const std::set<std::string>& local = {});
 
+// A word of an analysis card: a number, or a `{…}`/`'…'` expression evaluated with `params`
+// (none: numbers only). A bare name is no value: ngspice 39 reads it as 0 in a dot card.
+// `text` (if given) is what verify writes for it: the word itself for a number, the value in
+// full precision for an expression (ngspice then reads the double the deck meant).
+std::optional<double> analysis_value(std::string_view word, const ParamTable* params,
+                                     std::string* text = nullptr);
+
 }  // namespace deckscale

@@ -11,26 +11,6 @@
 #include "deck/sweep_steps.hpp"
 
 namespace deckscale {
-namespace {
-
-// A number, or an expression or parameter name evaluated with the deck's parameters; `text`
-// is what verify writes for it (the value in full precision for an expression).
-std::optional<double> plain_number(std::string_view s, const ParamTable* params,
-                                   std::string& text) {
-    auto p = parse_spice_number(s);
-    if (p.number) {
-        text = std::string(s);
-        return p.number->value;
-    }
-    // A bare name in a dot card is read as 0 by ngspice 39 (scale refuses it): braces only.
-    if (!params || s.empty() || (s.front() != '{' && s.front() != '\'')) return std::nullopt;
-    auto v = value_with_params(s, *params);
-    if (v) text = fmt::format("{:.17g}", *v);
-    return v;
-}
-
-}  // namespace
-
 std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error,
                                          const ParamTable* params) {
     // v ( node [, ref] ) — the only output form ngspice 39 accepts for noise.
@@ -78,11 +58,11 @@ std::optional<NoiseSpec> read_noise_card(const Card& c, std::string& error,
         return std::nullopt;
     }
     std::string summary;
-    auto n = plain_number(w[2], params, s.points_text),
-         f1 = plain_number(w[3], params, s.fstart_text),
-         f2 = plain_number(w[4], params, s.fstop_text);
+    auto n = analysis_value(w[2], params, &s.points_text),
+         f1 = analysis_value(w[3], params, &s.fstart_text),
+         f2 = analysis_value(w[4], params, &s.fstop_text);
     std::optional<double> pts =
-        w.size() == 6 ? plain_number(w[5], params, summary) : std::optional<double>(0);
+        w.size() == 6 ? analysis_value(w[5], params, &summary) : std::optional<double>(0);
     if (!n || !f1 || !f2 || !pts) {
         error = "the point counts and frequencies must be numbers or expressions of the deck's "
                 "top-level parameters";
