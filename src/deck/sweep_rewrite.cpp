@@ -117,6 +117,10 @@ SweepRewrite rewrite_frequencies(SweepKind kind, const std::vector<std::string_v
                                      : noise_points(type, n, a, b, reltol, count_only);
     };
     SweepPoints original = points(x0, x1);
+    if (original.over_limit)
+        return refuse(fmt::format("this sweep asks for {:.6g} points, more than the {} this "
+                                  "check steps through: write fewer points",
+                                  n, kSweepPointLimit));
     if (original.endless)
         return refuse(
             "ngspice 39 never ends this sweep (its frequency runs away): the original "

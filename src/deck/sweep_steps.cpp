@@ -143,6 +143,10 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
     } else {
         delta = n - 1 > 1 ? (fstop - fstart) / static_cast<double>(n - 1) : 0;
     }
+    if (!log_sweep && static_cast<std::size_t>(n) > kSweepPointLimit + 1) {
+        p.endless = p.over_limit = true;
+        return p;
+    }
     double tol = log_sweep ? delta * fstop * reltol : delta * reltol;
     // Room for the expected count at once (untouched room costs no memory): a sweep of
     // millions of points otherwise spends its time copying while it grows.
@@ -184,6 +188,10 @@ SweepPoints noise_points(std::string_view type, double points, double fstart, do
         delta = std::exp(std::log(2.0) / static_cast<double>(n));
     else
         delta = n == 1 ? 0 : (fstop - fstart) / static_cast<double>(n - 1);
+    if (lin && static_cast<std::size_t>(n) > kSweepPointLimit + 1) {
+        p.endless = p.over_limit = true;
+        return p;
+    }
     double tol = lin ? delta * reltol : delta * fstop * reltol;
     for (double f = fstart; f <= fstop + tol;) {
         if (!push(p, f)) break;

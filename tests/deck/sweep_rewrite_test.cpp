@@ -196,6 +196,18 @@ TEST(SweepRewrite, RefusesWhatNgspiceCannotStep) {
          {"dec", "10", "{fa}", "1k"},
          "the sweep's fields are not plain numbers"},
         {__LINE__, SweepKind::ac, {"log", "10", "1", "1k"}, "unknown sweep type 'log'"},
+        // 201.t is 2.01e14 points (t = tera; found by the deck fuzz target): known from the
+        // count, without stepping millions of points first.
+        {__LINE__,
+         SweepKind::ac,
+         {"lin", "201.t", "400k", "510k"},
+         "this sweep asks for 2.01e+14 points, more than the 4194304 this check steps through: "
+         "write fewer points"},
+        {__LINE__,
+         SweepKind::noise,
+         {"lin", "5e6", "1", "2"},
+         "this sweep asks for 5e+06 points, more than the 4194304 this check steps through: "
+         "write fewer points"},
     };
     for (const auto& r : rows) {
         SCOPED_TRACE(testing::Message() << "sweep_rewrite_test.cpp:" << r.line);

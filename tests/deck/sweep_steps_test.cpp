@@ -131,12 +131,20 @@ namespace {
 // rather than at the point limit (ngspice's loops, acan.c:346-382, dctrcurv.c:453-466, keep no
 // state but the point, so it would repeat forever). A slow input of the deck fuzz target.
 TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
-    SweepPoints lin = ac_points("lin", 2e40, 0.01, 2);
+    // A step of 100 at 1e20, where neighbouring doubles are 16384 apart.
+    SweepPoints lin = ac_points("lin", 1000, 1e20, 1e20 + 1e5);
     EXPECT_TRUE(lin.endless);
+    EXPECT_FALSE(lin.over_limit);
     EXPECT_EQ(lin.values.size(), 1u);
-    SweepPoints noise = noise_points("lin", 1e30, 1, 2);
+    SweepPoints noise = noise_points("lin", 1000, 1e20, 1e20 + 1e5);
     EXPECT_TRUE(noise.endless);
     EXPECT_EQ(noise.values.size(), 1u);
+    // More points than the limit: known from the count alone, nothing stepped.
+    for (SweepPoints many : {ac_points("lin", 2e40, 0.01, 2), noise_points("lin", 1e30, 1, 2)}) {
+        EXPECT_TRUE(many.endless);
+        EXPECT_TRUE(many.over_limit);
+        EXPECT_TRUE(many.values.empty());
+    }
     SweepPoints dc = dc_points(1e20, 2e20, 1);  // 1e20 + 1 == 1e20
     EXPECT_TRUE(dc.endless);
     EXPECT_EQ(dc.values.size(), 1u);
