@@ -200,7 +200,10 @@ TEST(Corpus, NgspiceMeasuresTheSameOnTheRewrittenDeck) {
                              corpus_dir());
     ASSERT_EQ(s.exit_code, exit_ok) << s.err;
     auto ngspice = [&](const std::string& path, const std::string& log) {
-        std::string cmd = "cd " + test::shell_quote(dir.path().string()) + " && ngspice -b " +
+        // test::ngspice_batch() (-n): no start-up file, so that the test that puts a hostile
+        // ~/.spiceinit in place while others run cannot be triggered from here.
+        std::string cmd = "cd " + test::shell_quote(dir.path().string()) + " && " +
+                          test::ngspice_batch() +
                           test::shell_quote(path) + " >" + test::shell_quote(log) + " 2>&1";
         EXPECT_EQ(std::system(cmd.c_str()), 0) << read_bytes(log);
         return read_bytes(log);
