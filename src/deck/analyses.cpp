@@ -56,6 +56,46 @@ std::optional<AcSweep> sweep_from(const std::vector<std::string_view>& w, std::s
     return s;
 }
 
+// `.dc item start stop step [item2 start2 stop2 step2]`.
+std::optional<DcSweep> dc_from(const std::vector<std::string_view>& w, std::string& error,
+                               const ParamTable& params) {
+    if (w.size() != 4 && w.size() != 8) {
+        error = "needs an item and its start, stop and step, once or twice";
+        return std::nullopt;
+    }
+    DcSweep s;
+    for (std::size_t i = 0; i < w.size(); i += 4) {
+        DcLevel l;
+        l.item = to_lower(w[i]);
+        auto start = analysis_value(w[i + 1], &params, &l.start);
+        auto stop = analysis_value(w[i + 2], &params, &l.stop);
+        auto step = analysis_value(w[i + 3], &params, &l.step);
+        if (!start || !stop || !step) {
+            error = "its start, stop and step must be numbers or expressions of the deck's "
+                    "top-level parameters";
+            return std::nullopt;
+        }
+        s.levels.push_back(std::move(l));
+    }
+    return s;
+}
+
+// `.tf v(a) src`, `.tf v(a,b) src` or `.tf i(vx) src`, as plain words.
+std::optional<TfSpec> tf_from(const std::vector<std::string_view>& w) {
+    if (w.size() < 3) return std::nullopt;
+    TfSpec t;
+    t.source = to_lower(w.back());
+    if (iequals(w[0], "v") && (w.size() == 3 || w.size() == 4))
+        t.output = w.size() == 3 ? fmt::format("v({})", w[1])
+                                 : fmt::format("v({},{})", w[1], w[2]);
+    else if (iequals(w[0], "i") && w.size() == 3)
+        t.output = fmt::format("i({})", w[1]);
+    else
+        return std::nullopt;
+    t.current_output = iequals(w[0], "i");
+    return t;
+}
+
 // Records one analysis card (or a .control command read as one) in `a`.
 void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTable& params) {
     auto w = words_of(c);
@@ -92,8 +132,16 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTabl
         std::string err;
         a.noise = read_noise_card(c, err, &params);
         if (!a.noise) a.problems.push_back(fmt::format(".noise card: {}", err));
-    } else if (kw == ".dc" || kw == ".disto" || kw == ".pz" ||
-               kw == ".sens" || kw == ".tf" || kw == ".sp" || kw == ".pss" || kw == ".four") {
+    } else if (kw == ".dc" && !a.dc) {
+        std::string err;
+        a.dc = dc_from(w, err, params);
+        if (!a.dc) a.problems.push_back(fmt::format(".dc card: {}", err));
+    } else if (kw == ".tf" && !a.tf) {
+        a.tf = tf_from(w);
+        if (!a.tf) a.problems.push_back(".tf card: needs v(node), v(node,node) or i(source), and "
+                                        "an input source");
+    } else if (kw == ".disto" || kw == ".pz" || kw == ".sens" || kw == ".sp" || kw == ".pss" ||
+               kw == ".four") {
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
     }
@@ -131,12 +179,15 @@ DeckAnalyses find_analyses(const Deck& deck) {
         });
     }
     // Analyses in .control count only for a deck with no analysis card.
-    if (!a.ac && !a.tran && !a.op && !a.noise &&
-        (control.ac || control.tran || control.op || control.noise)) {
+    if (!a.ac && !a.tran && !a.op && !a.noise && !a.dc && !a.tf &&
+        (control.ac || control.tran || control.op || control.noise || control.dc ||
+         control.tf)) {
         a.ac = control.ac;
         a.tran = control.tran;
         a.op = control.op;
         a.noise = control.noise;
+        a.dc = control.dc;
+        a.tf = control.tf;
         for (auto& p : control.problems) a.problems.push_back(p);
     }
     for (const auto& kw : control.uncompared)
@@ -189,5 +240,13 @@ std::string tran_card(const TranSpec& t) {
     if (t.uic) s += " uic";
     return s;
 }
+
+std::string dc_card(const DcSweep& s) {
+    std::string c = ".dc";
+    for (const auto& l : s.levels) c += fmt::format(" {} {} {} {}", l.item, l.start, l.stop, l.step);
+    return c;
+}
+
+std::string tf_card(const TfSpec& t) { return fmt::format(".tf {} {}", t.output, t.source); }
 
 }  // namespace deckscale

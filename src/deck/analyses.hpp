@@ -1,5 +1,5 @@
-// The analyses a deck asks for (.ac, .tran, .op, .noise) and the sources that could drive an AC
-// comparison, read from its cards; and their images under frequency scaling.
+// The analyses a deck asks for (.ac, .tran, .op, .noise, .dc, .tf) and the sources that could
+// drive an AC comparison, read from its cards; and their images under frequency scaling.
 #pragma once
 
 #include <optional>
@@ -28,11 +28,34 @@ struct TranSpec {
     bool uic = false;
 };
 
+// One level of a .dc sweep: the swept item (a V, I or R name in lower case, or "temp") and its
+// start, stop and step as ngspice is to read them (the words as written; an expression's value
+// in full precision).
+struct DcLevel {
+    std::string item;
+    std::string start, stop, step;
+};
+
+// `.dc item start stop step [item2 start2 stop2 step2]` (ngspice 39 manual 15.3.2).
+struct DcSweep {
+    std::vector<DcLevel> levels;  // one or two; the first is the inner loop
+};
+
+// `.tf outvar insrc` (ngspice 39 manual 15.3.9): outvar as written back, `v(a)`, `v(a,b)` or
+// `i(vx)`, and the input source in lower case.
+struct TfSpec {
+    std::string output;
+    bool current_output = false;
+    std::string source;
+};
+
 struct DeckAnalyses {
     std::optional<AcSweep> ac;
     std::optional<TranSpec> tran;
     bool op = false;
     std::optional<NoiseSpec> noise;
+    std::optional<DcSweep> dc;
+    std::optional<TfSpec> tf;
     std::vector<std::string> uncompared;     // analysis cards verify does not map (".dc", ...)
     std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
     std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)
@@ -51,5 +74,7 @@ TranSpec map_tran(const TranSpec& t, double kf);
 
 std::string ac_card(const AcSweep& s);
 std::string tran_card(const TranSpec& t);
+std::string dc_card(const DcSweep& s);
+std::string tf_card(const TfSpec& t);
 
 }  // namespace deckscale

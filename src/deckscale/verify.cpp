@@ -33,12 +33,15 @@ PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOpt
 }
 
 AnalysisComparison comparison_of(const Comparison& c) {
-    // Only node voltages and branch currents are compared (verify/compare).
+    // Node voltages and branch currents; noise densities and the .tf results are "other".
     AnalysisComparison a{c.analysis, c.points,   c.first,        c.last,
-                         c.passed(), c.problems, c.not_compared, {}};
+                         c.passed(), c.problems, c.not_compared, {},       c.axis_unit};
     for (const auto& v : c.vectors)
-        a.vectors.push_back({v.name, v.kind == VectorKind::current ? "current" : "voltage", v.worst,
-                             v.at, v.db_error, v.deg_error, v.peak, v.passed});
+        a.vectors.push_back({v.name,
+                             v.kind == VectorKind::current   ? "current"
+                             : v.kind == VectorKind::voltage ? "voltage"
+                                                             : "other",
+                             v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed});
     return a;
 }
 

@@ -30,22 +30,25 @@ struct VerifyOptions {
 // One compared vector's worst point.
 struct VectorError {
     std::string name;  // as ngspice names it: "v(n3)", "vsrc#branch"
-    std::string kind;  // "voltage" or "current" (scaled currents are multiplied by Km)
+    std::string kind;  // "voltage", "current" (scaled currents are multiplied by Km) or "other"
     double worst = 0;  // relative error at the worst point
-    double at = 0;     // its frequency (Hz) or time (s), in the original's units
+    double at = 0;     // its frequency, time or swept value, in the original's units
     double db_error = 0, deg_error = 0;  // AC: magnitude and phase error there
     double peak = 0;                     // the magnitude errors are relative to
     bool passed = true;
 };
 
 struct AnalysisComparison {
-    std::string analysis;  // "ac", "op", "tran"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep) or "tf"
     std::size_t points = 0;
     double first = 0, last = 0;
     bool passed = true;
     std::vector<std::string> problems;      // each fails the comparison by itself
     std::vector<std::string> not_compared;  // device-internal vectors
     std::vector<VectorError> vectors;       // worst first
+    // The unit of first, last and each vector's `at`: "Hz", "s", or for "dc" the swept
+    // quantity's ("V", "A", "Ohm", "degC"); "" for "op" and "tf".
+    std::string unit;
 };
 
 struct SimulationFailure {

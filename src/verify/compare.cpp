@@ -40,9 +40,12 @@ bool internal_state(const SimVector& v, const SimPlot& p) {
            translation_state(v, p);
 }
 
+// The swept quantity of a DC plot ("v-sweep", "i-sweep", "res-sweep", "temp-sweep").
+bool sweep_vector(const SimVector& v) { return v.name.ends_with("-sweep"); }
+
 bool compared(const SimVector& v, const SimPlot& p) {
     return (v.kind == VectorKind::voltage || v.kind == VectorKind::current) &&
-           !internal_state(v, p);
+           !internal_state(v, p) && !sweep_vector(v);
 }
 
 void note_internal_states(const SimPlot& o, Comparison& c) {
@@ -108,6 +111,7 @@ std::size_t check_mapped_sweep(const SimVector& fo, const SimVector& fs, double 
 Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, const Tolerances& tol) {
     Comparison c;
     c.analysis = "ac";
+    c.axis_unit = "Hz";
     const SimVector* fo = scale_vector(o);
     const SimVector* fs = scale_vector(s);
     if (!fo || !fs) {
@@ -207,9 +211,72 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     return c;
 }
 
+Comparison compare_dc(const SimPlot& o, const SimPlot& s, double km, double sweep_factor,
+                      const std::string& unit, const Tolerances& tol) {
+    Comparison c;
+    c.analysis = "dc";
+    c.axis_unit = unit;
+    auto sweep_of = [](const SimPlot& p) -> const SimVector* {
+        for (const auto& v : p.vectors)
+            if (sweep_vector(v)) return &v;
+        return nullptr;
+    };
+    const SimVector* xo = sweep_of(o);
+    const SimVector* xs = sweep_of(s);
+    if (!xo || !xs || xo->values.empty()) {
+        c.problems.push_back("a DC plot without its swept values");
+        return c;
+    }
+    std::size_t n = std::min(xo->values.size(), xs->values.size());
+    if (xo->values.size() != xs->values.size())
+        c.problems.push_back(fmt::format("the sweeps have {} and {} points", xo->values.size(),
+                                         xs->values.size()));
+    // A sweep through 0 steps onto values like 1e-17 instead: the points are judged against
+    // the sweep's largest value.
+    double span = 0;
+    for (const auto& x : xo->values) span = std::max(span, std::fabs(x.real() * sweep_factor));
+    for (std::size_t k = 0; k < n; ++k) {
+        double want = xo->values[k].real() * sweep_factor, got = xs->values[k].real();
+        if (std::fabs(got - want) > 1e-9 * std::max(std::fabs(want), span)) {
+            c.problems.push_back(fmt::format("point {}: the scaled deck swept {:.9g} {}, not "
+                                             "{:.9g} x {:.9g} {}",
+                                             k, got, unit, sweep_factor, xo->values[k].real(), unit));
+            break;
+        }
+    }
+    c.points = n;
+    c.first = xo->values.front().real();
+    c.last = xo->values[n - 1].real();
+    match_names(o, s, c);
+    note_internal_states(o, c);
+    for (const auto& vo : o.vectors) {
+        if (!compared(vo, o)) continue;
+        const SimVector* vs = s.find(vo.name);
+        if (!vs) continue;
+        VectorResult r{vo.name, vo.kind};
+        double back = back_factor(vo, km);
+        for (std::size_t k = 0; k < n && k < vo.values.size(); ++k)
+            r.peak = std::max(r.peak, std::fabs(vo.values[k].real()));
+        double floor = std::max(r.peak, noise_floor(vo.kind));
+        if (floor == 0) floor = 1e-300;
+        for (std::size_t k = 0; k < n && k < vo.values.size() && k < vs->values.size(); ++k) {
+            double e = std::fabs(vs->values[k].real() * back - vo.values[k].real()) / floor;
+            if (e > r.worst || k == 0) {
+                r.worst = e;
+                r.at = xo->values[k].real();
+            }
+        }
+        r.passed = r.worst <= tol.relative || tol.held;
+        c.vectors.push_back(r);
+    }
+    sort_worst_first(c);
+    return c;
+}
+
 Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf, const Tolerances& tol) {
     Comparison c;
     c.analysis = "tran";
+    c.axis_unit = "s";
     const SimVector* to = scale_vector(o);
     const SimVector* ts = scale_vector(s);
     if (!to || !ts || to->values.empty() || ts->values.empty()) {

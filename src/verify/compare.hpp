@@ -39,9 +39,10 @@ struct VectorResult {
 };
 
 struct Comparison {
-    std::string analysis;          // "ac", "op", "tran" or "noise"
+    std::string analysis;          // "ac", "op", "tran", "noise", "dc" or "tf"
     std::size_t points = 0;
     double first = 0, last = 0;    // sweep or time range of the original
+    std::string axis_unit;  // of first, last and each `at`: "Hz", "s", "V", "A", "Ohm", "degC"
     std::vector<VectorResult> vectors;  // worst first
     std::vector<std::string> problems;  // anything that makes the comparison fail by itself
     std::vector<std::string> not_compared;  // device-internal vectors (e.g. "t1#i1")
@@ -62,6 +63,11 @@ Comparison compare_ac(const SimPlot& original, const SimPlot& scaled, double km,
                       const Tolerances& tol);
 Comparison compare_op(const SimPlot& original, const SimPlot& scaled, double km,
                       const Tolerances& tol);
+// A DC sweep: the scaled run's swept values must be `sweep_factor` times the original's
+// (`unit`: the swept quantity's, for the report); each vector is then compared point by point
+// as the operating point is, relative to its largest magnitude over the sweep.
+Comparison compare_dc(const SimPlot& original, const SimPlot& scaled, double km,
+                      double sweep_factor, const std::string& unit, const Tolerances& tol);
 Comparison compare_tran(const SimPlot& original, const SimPlot& scaled, double km, double kf,
                         const Tolerances& tol);
 

@@ -154,6 +154,7 @@ Comparison compare_noise(const SimPlot& so, const SimPlot& ss, const SimPlot* to
                          double km, double kf, const Tolerances& tol) {
     Comparison c;
     c.analysis = "noise";
+    c.axis_unit = "Hz";
     const SimVector* fo = frequencies(so);
     const SimVector* fs = frequencies(ss);
     if (!fo || !fs) {

@@ -12,10 +12,12 @@
 #include "scale/hold_plan.hpp"
 #include "sim/head_start.hpp"
 #include "verify/compare.hpp"
+#include "verify/dc_sweep.hpp"
 #include "verify/factor_inference.hpp"
 #include "verify/flicker_check.hpp"
 #include "verify/noise_compare.hpp"
 #include "verify/sim_cards.hpp"
+#include "verify/tf_compare.hpp"
 
 namespace deckscale {
 namespace {
@@ -23,7 +25,7 @@ namespace {
 namespace fs = std::filesystem;
 
 struct PairJob {
-    std::string analysis;  // "ac", "op", "tran", "noise"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf"
     SimJob original, scaled;
 };
 
@@ -95,6 +97,8 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     report.tolerances = o.tolerances;
     std::vector<PairJob> pairs;
     std::vector<std::string> flicker;  // why the noise of the pair cannot agree
+    DcLevel dc_level;                  // the inner level of the .dc sweep compared
+    std::optional<TfSpec> tf;
     {
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
@@ -134,7 +138,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         for (const auto& kw : an.uncompared)
             report.notes.push_back(
                 fmt::format("the original's {} analysis is not compared (verify maps "
-                            ".ac, .op, .tran and .noise)",
+                            ".ac, .op, .tran, .noise, .dc and .tf)",
                             kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
@@ -194,6 +198,21 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                                  noise_drive, driven)});
             flicker = flicker_differences(original, scaled, {report.km, report.kf});
         }
+        if (an.dc) {
+            std::string problem;
+            if (auto mapped = map_dc(*an.dc, report.km, original.symbols.reltol, problem)) {
+                pairs.push_back({"dc", job(original, o.original, dc_card(*an.dc), 1, ""),
+                                 job(scaled, o.scaled, dc_card(*mapped), 1, "")});
+                dc_level = an.dc->levels.front();
+            } else {
+                report.notes.push_back(problem + " (not compared)");
+            }
+        }
+        if (an.tf) {
+            pairs.push_back({"tf", job(original, o.original, tf_card(*an.tf), 1, ""),
+                             job(scaled, o.scaled, tf_card(*an.tf), 1, "")});
+            tf = an.tf;
+        }
     }
 
     std::vector<SimJob> jobs;
@@ -234,6 +253,12 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             report.comparisons.push_back(std::move(c));
         } else if (a == "op") {
             report.comparisons.push_back(compare_op(*po, *ps, report.km, report.tolerances));
+        } else if (a == "dc") {
+            report.comparisons.push_back(compare_dc(*po, *ps, report.km,
+                                                    dc_item_factor(dc_level, report.km).value_or(1),
+                                                    dc_item_unit(dc_level), report.tolerances));
+        } else if (a == "tf") {
+            report.comparisons.push_back(compare_tf(*po, *ps, *tf, report.km, report.tolerances));
         } else {
             report.comparisons.push_back(compare_tran(*po, *ps, report.km, report.kf, report.tolerances));
         }

@@ -39,12 +39,20 @@ const char* analysis_title(const std::string& a) {
     if (a == "ac") return "AC sweep";
     if (a == "op") return "Operating point";
     if (a == "noise") return "Noise";
+    if (a == "dc") return "DC sweep";
+    if (a == "tf") return "Transfer function";
     return "Transient";
 }
 
-std::string unit_of_axis(const std::string& a) {
-    return a == "ac" || a == "noise" ? "Hz" : a == "tran" ? "s" : "";
+
+// The unit of a comparison's axis; one made without it (by hand) gets its analysis's own.
+std::string axis_of(const Comparison& c) {
+    if (!c.axis_unit.empty()) return c.axis_unit;
+    return c.analysis == "ac" || c.analysis == "noise" ? "Hz" : c.analysis == "tran" ? "s" : "";
 }
+
+// A comparison at one point (no sweep or time axis).
+bool single_point(const Comparison& c) { return c.analysis == "op" || c.analysis == "tf"; }
 
 // A noise vector that is integrated over the band (no frequency of its own).
 bool integrated(const VectorResult& v) {
@@ -96,8 +104,8 @@ std::string report_text(const VerifyReport& r) {
     for (const auto& n : r.notes) s += "  note       " + n + "\n";
     for (const auto& c : r.comparisons) {
         s += "\n";
-        std::string axis = unit_of_axis(c.analysis);
-        if (c.analysis == "op")
+        std::string axis = axis_of(c);
+        if (single_point(c))
             s += fmt::format("  {}: {} vectors\n", analysis_title(c.analysis), c.vectors.size());
         else
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
@@ -130,7 +138,7 @@ std::string report_text(const VerifyReport& r) {
                              "at Hz", "ratio dB");
         else
             s += fmt::format("    {:<{}} {:>12} {:>14}\n", "vector", width, "rel. error",
-                             c.analysis == "tran" ? "at s" : "");
+                             single_point(c) ? "" : "at " + axis);
         std::size_t shown = 0;
         for (const auto& v : c.vectors) {
             if (shown == 8 && v.passed) break;
@@ -149,7 +157,7 @@ std::string report_text(const VerifyReport& r) {
             else if (c.analysis == "ac")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name,
                                  width, v.worst, v.at, v.db_error, v.deg_error, verdict);
-            else if (c.analysis == "tran")
+            else if (!single_point(c))
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g}  {}\n", name, width, v.worst, v.at,
                                  verdict);
             else
@@ -209,6 +217,7 @@ std::string report_json(const VerifyReport& r) {
                           {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
                           {"passed", v.passed}});
         an.push_back({{"analysis", c.analysis},
+                      {"unit", axis_of(c)},
                       {"points", c.points},
                       {"first", c.first},
                       {"last", c.last},

@@ -96,21 +96,72 @@ TEST(FindAnalyses, ParametersInAnalysesAreEvaluated) {
 }
 
 TEST(FindAnalyses, AnalysesVerifyDoesNotMapAreNamedOnce) {
-    auto a = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1 0.1\n.dc V1 0 2 0.1\n.pz a 0 a 0 vol pz\n.end\n");
-    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc", ".pz"}));
+    auto a = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1 0.1\n.dc V1 0 2 0.1\n.pz a 0 a 0 vol pz\n"
+                         ".sens v(a)\n.disto dec 5 1 1k\n.sens v(a)\n.end\n");
+    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".pz", ".sens", ".disto"}));
     EXPECT_FALSE(a.ac);
     EXPECT_FALSE(a.op);
+    ASSERT_TRUE(a.dc);  // the first .dc card
+    EXPECT_EQ(dc_card(*a.dc), ".dc v1 0 1 0.1");
+}
+
+TEST(FindAnalyses, DcSweepsOfOneAndTwoLevels) {
+    // ngspice 39 manual 15.3.2: .dc srcnam vstart vstop vincr [src2 start2 stop2 incr2]; the
+    // item may be a V or I source, a resistor or TEMP.
+    auto a = analyses_of("t\n.param vmax=5\nV1 a 0 1\nI1 0 a 1m\nR1 a 0 1k\n"
+                         ".dc V1 0 {vmax} 0.25 I1 1m 3m 1m\n.end\n");
+    ASSERT_TRUE(a.dc);
+    ASSERT_EQ(a.dc->levels.size(), 2u);
+    EXPECT_EQ(a.dc->levels[0].item, "v1");
+    EXPECT_EQ(a.dc->levels[0].stop, "5");  // the expression's value in full precision
+    EXPECT_EQ(a.dc->levels[1].item, "i1");
+    EXPECT_EQ(dc_card(*a.dc), ".dc v1 0 5 0.25 i1 1m 3m 1m");
+    auto t = analyses_of("t\nR1 a 0 1k\nI1 0 a 1m\n.dc TEMP -40 125 5\n.end\n");
+    ASSERT_TRUE(t.dc);
+    EXPECT_EQ(dc_card(*t.dc), ".dc temp -40 125 5");
+    // A bare name reads as 0 in ngspice 39's dot cards: no value (a card of too few fields is
+    // refused by the reader already).
+    auto bad = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 x 1\n.end\n");
+    EXPECT_FALSE(bad.dc);
+    ASSERT_EQ(bad.problems.size(), 1u);
+    EXPECT_NE(bad.problems[0].find(".dc card: its start, stop and step must be numbers"),
+              std::string::npos)
+        << bad.problems[0];
+}
+
+TEST(FindAnalyses, TransferFunctionCards) {
+    // ngspice 39 manual 15.3.9: .tf outvar insrc, outvar V(O<,REF>) or I(VSRC).
+    auto v = analyses_of("t\nV1 a 0 1\nR1 a b 1k\nR2 b 0 1k\n.tf V(b) V1\n.end\n");
+    ASSERT_TRUE(v.tf);
+    EXPECT_FALSE(v.tf->current_output);
+    EXPECT_EQ(tf_card(*v.tf), ".tf v(b) v1");
+    auto d = analyses_of("t\nV1 a 0 1\nR1 a b 1k\nR2 b 0 1k\n.tf v(a, b) V1\n.end\n");
+    ASSERT_TRUE(d.tf);
+    EXPECT_EQ(tf_card(*d.tf), ".tf v(a,b) v1");
+    auto i = analyses_of("t\nI1 0 a 1m\nR1 a b 1k\nVm b 0 0\n.tf i(Vm) I1\n.end\n");
+    ASSERT_TRUE(i.tf);
+    EXPECT_TRUE(i.tf->current_output);
+    EXPECT_EQ(i.tf->source, "i1");
+    EXPECT_EQ(tf_card(*i.tf), ".tf i(Vm) i1");
+    auto bad = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.tf v(a)\n.end\n");
+    EXPECT_FALSE(bad.tf);
+    ASSERT_EQ(bad.problems.size(), 1u);
+    EXPECT_NE(bad.problems[0].find(".tf card"), std::string::npos);
 }
 
 TEST(FindAnalyses, ControlBlockAnalysesCountWhenNoCardAsks) {
     // Read as the dot cards they stand for (ngspice-39.3 src/frontend/spiceif.c:241), never run.
     auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.control\nset x = 1\nac dec 20 1 1meg\n"
-                         "tran 1u\n+ 2m\ndc V1 0 1 0.1\n.endc\n.end\n");
+                         "tran 1u\n+ 2m\ndc V1 0 1 0.1\ntf v(a) V1\npz a 0 a 0 vol pz\n.endc\n.end\n");
     ASSERT_TRUE(a.ac);
     EXPECT_EQ(ac_card(*a.ac), ".ac dec 20 1 1meg");  // the texts as written
     ASSERT_TRUE(a.tran);
     EXPECT_EQ(tran_card(*a.tran), ".tran 9.9999999999999995e-07 0.002");
-    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".dc"}));
+    ASSERT_TRUE(a.dc);
+    EXPECT_EQ(dc_card(*a.dc), ".dc v1 0 1 0.1");
+    ASSERT_TRUE(a.tf);
+    EXPECT_EQ(tf_card(*a.tf), ".tf v(a) v1");
+    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".pz"}));
     // A deck with an analysis card keeps only the card's.
     auto b = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.op\n.control\nac dec 20 1 1meg\n.endc\n.end\n");
     EXPECT_TRUE(b.op);

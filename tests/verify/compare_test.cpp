@@ -465,5 +465,61 @@ TEST(CompareAc, HeldPartsReportTheLargestDeviation) {
     EXPECT_TRUE(compare_ac(original, scaled, 1, kf, held).passed());
 }
 
+// A DC sweep of a current source into 1 kOhm (V = 1k I) and the same at Km: the source's
+// values / Km, the resistor x Km, so every voltage stays and the branch current / Km.
+SimPlot dc_plot(const std::vector<double>& amps, double ohms, std::string sweep = "i-sweep") {
+    SimPlot p{"dc1", "DC transfer characteristic", {}};
+    std::vector<cd> v, i;
+    for (double a : amps) {
+        v.push_back(a * ohms);
+        i.push_back(a);
+    }
+    p.vectors.push_back(vec(sweep, VectorKind::current, reals(amps)));
+    p.vectors.push_back(vec("out", VectorKind::voltage, v));
+    p.vectors.push_back(vec("vm#branch", VectorKind::current, i));
+    return p;
+}
+
+TEST(CompareDc, TheSweptValuesAndEveryPointFollowTheFactors) {
+    const double km = 20;
+    const std::vector<double> amps{-1e-3, -0.5e-3, 1e-20, 0.5e-3, 1e-3};  // through 0
+    SimPlot original = dc_plot(amps, 1e3);
+    SimPlot scaled = dc_plot(times(amps, 1 / km), 1e3 * km);
+    Comparison c = compare_dc(original, scaled, km, 1 / km, "A", Tolerances{});
+    EXPECT_TRUE(c.problems.empty()) << c.problems.front();
+    EXPECT_TRUE(c.passed());
+    EXPECT_EQ(c.analysis, "dc");
+    EXPECT_EQ(c.axis_unit, "A");
+    EXPECT_EQ(c.points, 5u);
+    EXPECT_EQ(c.first, -1e-3);
+    EXPECT_EQ(c.last, 1e-3);
+    ASSERT_EQ(c.vectors.size(), 2u);  // the swept values themselves are not a vector compared
+    EXPECT_LT(c.worst()->worst, 1e-12);
+}
+
+TEST(CompareDc, AWrongPointOrAWrongSweepFails) {
+    const double km = 20;
+    const std::vector<double> amps{0, 1e-3, 2e-3};
+    SimPlot original = dc_plot(amps, 1e3);
+    SimPlot scaled = dc_plot(times(amps, 1 / km), 1e3 * km);
+    scaled.vectors[1].values[2] *= 1.001;  // one voltage 0.1 % off at the last point
+    Comparison c = compare_dc(original, scaled, km, 1 / km, "A", Tolerances{});
+    EXPECT_FALSE(c.passed());
+    EXPECT_EQ(c.worst()->name, "out");
+    EXPECT_NEAR(c.worst()->worst, 1e-3, 1e-9);
+    EXPECT_EQ(c.worst()->at, 2e-3);
+    // The scaled deck swept the source unscaled: the sweep check says so.
+    SimPlot unswept = dc_plot(amps, 1e3 * km);
+    Comparison d = compare_dc(original, unswept, km, 1 / km, "A", Tolerances{});
+    ASSERT_FALSE(d.problems.empty());
+    EXPECT_NE(d.problems[0].find("point 1: the scaled deck swept 0.001 A"), std::string::npos)
+        << d.problems[0];
+    // A point more in one run.
+    SimPlot longer = dc_plot({0, 0.05e-3, 0.1e-3, 0.15e-3}, 1e3 * km);
+    Comparison e = compare_dc(original, longer, km, 1 / km, "A", Tolerances{});
+    ASSERT_FALSE(e.problems.empty());
+    EXPECT_EQ(e.problems[0], "the sweeps have 3 and 4 points");
+}
+
 }  // namespace
 }  // namespace deckscale

@@ -59,5 +59,59 @@ TEST(VerifyPair, ProblemsAndFailuresComeBackAsData) {
     EXPECT_NE(v.failures[0].message.find("nosuch"), std::string::npos) << v.failures[0].message;
 }
 
+// A diode clamp fed by a current source, swept over the current and the load, and its
+// transresistance; scaled here by hand at Km = 10 by the laws (common practice: R x Km,
+// currents / Km; a junction by area 1/Km, shared notes "scaling-rules.md"). The deck's own .dc
+// card does not matter: verify sweeps the scaled deck over the mapped values.
+const char* kClamp =
+    "clamp\n.model DC1 D(IS=1e-14 N=1.5 RS=2)\nI1 0 a 1m\nR1 a b 1k\nD1 b 0 DC1\nRl b 0 4.7k\n"
+    ".dc I1 0 2m 0.1m Rl 1k 5k 2k\n.tf v(b) I1\n.end\n";
+const char* kClampKm10 =
+    "clamp\n.model DC1 D(IS=1e-14 N=1.5 RS=2)\nI1 0 a 100u\nR1 a b 10k\nD1 b 0 DC1 area=0.1\n"
+    "Rl b 0 47k\n.dc I1 0 2m 0.1m Rl 1k 5k 2k\n.tf v(b) I1\n.end\n";
+
+TEST(VerifyPair, DcSweepsAndTransferFunctionsAreCompared) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("o.cir"), kClamp);
+    test::write_bytes(dir.file("s.cir"), kClampKm10);
+    PairRequest r;
+    r.original = dir.file("o.cir");
+    r.scaled = dir.file("s.cir");
+    r.km = 10;
+    r.kf = 1;
+    r.factors_given = true;
+    DiskFileSystem disk;
+    PairVerification v = verify_pair(r, disk);
+    ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
+    const Comparison* dc = nullptr;
+    const Comparison* tf = nullptr;
+    for (const auto& c : v.report.comparisons) {
+        if (c.analysis == "dc") dc = &c;
+        if (c.analysis == "tf") tf = &c;
+    }
+    ASSERT_NE(dc, nullptr);
+    ASSERT_NE(tf, nullptr);
+    EXPECT_TRUE(dc->problems.empty()) << dc->problems.front();
+    EXPECT_EQ(dc->points, 21u * 3u);  // 0 .. 2 mA in 0.1 mA, for 1k, 3k and 5k
+    EXPECT_EQ(dc->axis_unit, "A");
+    EXPECT_NEAR(dc->last, 2e-3, 1e-15);  // twenty steps of 0.1m added up
+    EXPECT_TRUE(dc->passed()) << dc->worst()->name << " " << dc->worst()->worst;
+    EXPECT_EQ(tf->vectors.size(), 3u);
+    EXPECT_TRUE(tf->passed()) << tf->worst()->name << " " << tf->worst()->worst;
+    EXPECT_TRUE(v.report.passed());
+    for (const auto& n : v.report.notes) EXPECT_EQ(n.find("not compared"), std::string::npos) << n;
+
+    // R1 left at 1k (the load would not do: the sweep sets it): both analyses show it.
+    std::string wrong = kClampKm10;
+    wrong.replace(wrong.find("R1 a b 10k"), 10, "R1 a b 1k");
+    test::write_bytes(dir.file("w.cir"), wrong);
+    r.scaled = dir.file("w.cir");
+    v = verify_pair(r, disk);
+    ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
+    EXPECT_FALSE(v.report.passed());
+    for (const auto& c : v.report.comparisons)
+        if (c.analysis == "dc" || c.analysis == "tf") EXPECT_FALSE(c.passed()) << c.analysis;
+}
+
 }  // namespace
 }  // namespace deckscale
