@@ -1,5 +1,8 @@
 // Card handlers for dot cards (analyses, options, initial conditions, measurements), model
 // cards and .control blocks (ngspice 39 manual ch. 15; shared notes "scaling-rules.md" §3-§6).
+#include <algorithm>
+#include <cmath>
+
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
@@ -75,6 +78,33 @@ std::optional<Unit> output_unit(std::string_view w) {
     return std::nullopt;
 }
 
+// AT= on the first or last point of the sweep a measurement reads: ngspice 39 finds a value
+// only between two points it stepped through ("find(AT) : out of interval" otherwise, tried).
+// The scaled sweep ends on the sum of its rewritten steps or on its rewritten stop, which the
+// scaled AT= rounded to `digits` can overshoot by a rounding: `.meas tran v find v(a) at=1m`
+// with `.tran 1u 1m` at Kf = 7 gave at=142.857143u past a last point of 142.857142857143u.
+// Such a value is written 1e-10 of the sweep's span inside it, with 15 digits. Returns false
+// for any other value (scaled as usual).
+bool at_sweep_end(ScalePass& p, const Token& value, Unit unit, const std::string& analysis) {
+    double factor = factor_of(unit, p.factors());
+    if (factor == 1 || value.kind != TokenKind::word) return false;
+    auto n = parse_spice_number(p.card().text(value));
+    if (!n.number) return false;
+    auto bounds = p.sweep_bounds(analysis);
+    if (!bounds || bounds->first == bounds->second) return false;
+    auto [first, last] = *bounds;
+    double v = n.number->value;
+    double span = last - first;
+    double inward;
+    if (std::fabs(v - last) <= 1e-12 * std::fabs(span)) inward = -span;
+    else if (std::fabs(v - first) <= 1e-12 * std::fabs(span)) inward = span;
+    else return false;
+    double scaled = (v + 1e-10 * inward) * factor;
+    if (!std::isfinite(scaled) || scaled == 0) return false;  // refused as usual
+    p.replace(value, respell(*n.number, scaled, std::max(15, p.digits())), "at", unit);
+    return true;
+}
+
 void scale_meas(ScalePass& p) {
     const Card& c = p.card();
     const auto& fl = c.fields;
@@ -115,7 +145,9 @@ void scale_meas(ScalePass& p) {
             u = p.dc_swept_unit(before, key);
             if (!u) continue;
         }
-        if (u) {
+        if (u && key == "at" && at_sweep_end(p, value, *u, analysis)) {
+            // written inside the scaled sweep
+        } else if (u) {
             if (p.is_value_token(value)) p.scale_value(value, *u, key);
         } else if (key == "at" || key == "from" || key == "to" || key == "td") {
             p.unscalable(before, fmt::format("{}= in a .meas {} (sweep units are not known)", key, analysis));

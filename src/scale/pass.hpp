@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "deck/analyses.hpp"
 #include "deck/spice_number.hpp"
 #include "deck/sweep_rewrite.hpp"
 #include "scale/param_plan.hpp"
@@ -136,6 +137,10 @@ public:
     // The x unit of the plots the deck's analysis cards make (see card_plot_scales); nullopt
     // when they do not agree (or decided once the whole deck is read).
     std::optional<Unit> card_plot_scale();
+    // The first and last value the deck's `analysis` ("tran", "ac" or "dc": the inner level)
+    // steps through, in the original's units; nullopt when the deck has no such analysis (or
+    // decided once the whole deck is read).
+    std::optional<std::pair<double, double>> sweep_bounds(std::string_view analysis);
     std::optional<Unit> block_dc_unit;  // set by a 'dc' command of the block being read
     bool block_dc_seen = false;
 
@@ -192,6 +197,7 @@ private:
     bool deck_dc_read_ = false;
     std::size_t deck_dc_found_ = 0;
     std::optional<Unit> deck_dc_unit_;
+    std::shared_ptr<const DeckAnalyses> analyses_;  // the deck's, read once (sweep_bounds)
     bool deck_plot_read_ = false;
     std::optional<Unit> deck_plot_unit_;
     std::vector<Atom> atoms_;

@@ -6,6 +6,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/control_script.hpp"
+#include "deck/sweep_steps.hpp"
 #include "scale/pass.hpp"
 
 namespace deckscale {
@@ -108,6 +109,22 @@ std::optional<Unit> ScalePass::dc_swept_unit(const Token& at, std::string_view k
                        : fmt::format("{}= of a DC measurement: the deck's DC sweeps are not all of "
                                      "V, I or R sources or TEMP, or differ in unit",
                                      key));
+    return std::nullopt;
+}
+
+std::optional<std::pair<double, double>> ScalePass::sweep_bounds(std::string_view analysis) {
+    if (observing_) {
+        rescan_ = true;  // the analysis card may follow
+        return std::nullopt;
+    }
+    if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
+    const DeckAnalyses& a = *analyses_;
+    if (analysis == "tran" && a.tran) return std::pair{a.tran->tstart, a.tran->tstop};
+    if (analysis == "ac" && a.ac) return std::pair{a.ac->fstart, a.ac->fstop};
+    if (analysis == "dc" && a.dc) {
+        const DcLevel& l = a.dc->levels.front();
+        return std::pair{ngspice_read(l.start), ngspice_read(l.stop)};
+    }
     return std::nullopt;
 }
 

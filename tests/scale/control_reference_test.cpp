@@ -2,6 +2,7 @@
 // with `ngspice -b`; vectors written by wrdata are compared at mapped frequencies and times
 // (f' = Kf f, t' = t / Kf, V' = V, I' = I / Km) and measurement results by their unit (shared
 // notes "control-and-sweeps.md" A.2 and A.5; ngspice 39 manual 15.4 for the results).
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -201,6 +202,41 @@ TEST(ControlReference, DcSweepsAndMeasurementsInTheSweptUnit) {
     NgspiceRun c = run_ngspice(as_cards, dir, "cards_orig", {});
     NgspiceRun d = run_ngspice(t.text(), dir, "cards_scaled", {});
     compare_results(c, d, {{"vcard", 1}, {"icard", 1 / km}}, 2e-6);
+}
+
+// AT= on the first or last point of a sweep: ngspice 39 reads a value only between points it
+// stepped through ("find(AT) : out of interval" otherwise, tried). Rounded to the default 9
+// digits, at=1m of `.tran 1u 1m` became at=142.857143u at Kf = 7, past the scaled run's last
+// point 142.857142857143u, and the measurement was lost; likewise the end of a current sweep
+// at Km = 3. Each is now written just inside the scaled sweep.
+TEST(ControlReference, MeasurementsAtTheEndsOfASweepAreKept) {
+    const std::string tran =
+        "rc charge\nV1 in 0 DC 0 PULSE(0 1 0 1n 1n 1 2)\nR1 in a 1k\nC1 a 0 100n\n"
+        ".tran 1u 1m\n.meas tran v_first find v(a) at=0\n.meas tran v_end find v(a) at=1m\n.end\n";
+    const std::string dc =
+        "current divider\nI1 0 a 1m\nRsh a 0 3k\nR1 a b 1k\nR2 b 0 2k\n.dc I1 0.5m 2m 0.5m\n"
+        ".meas dc vb_first find v(b) at=0.5m\n.meas dc vb_end find v(b) at=2m\n.end\n";
+    const std::string ac =
+        "rc corner\nV1 in 0 DC 0 AC 1\nR1 in a 1k\nC1 a 0 100n\n.control\nac lin 11 1k 3k\n"
+        "meas ac g_first find vdb(a) at=1k\nmeas ac g_end find vdb(a) at=3k\n.endc\n.end\n";
+    const double km = 3, kf = 7;
+    test::TempDir dir;
+    int k = 0;
+    for (const auto& [deck, names] :
+         {std::pair{tran, std::vector<std::string>{"v_first", "v_end"}},
+          std::pair{dc, std::vector<std::string>{"vb_first", "vb_end"}},
+          std::pair{ac, std::vector<std::string>{"g_first", "g_end"}}}) {
+        auto s = test::scale_text(deck, km, kf, 9);  // the default digits
+        ASSERT_TRUE(s.result.unscalable.empty());
+        ++k;
+        NgspiceRun a = run_ngspice(deck, dir, fmt::format("orig{}", k), {});
+        NgspiceRun b = run_ngspice(s.text(), dir, fmt::format("scaled{}", k), {});
+        for (const auto& n : names) {
+            ASSERT_TRUE(a.results.count(n)) << n << " in the original";
+            ASSERT_TRUE(b.results.count(n)) << n << " lost in the scaled deck:\n" << s.text();
+            EXPECT_NEAR(b.results[n], a.results[n], 1e-6 * std::fabs(a.results[n]) + 1e-9) << n;
+        }
+    }
 }
 
 }  // namespace
