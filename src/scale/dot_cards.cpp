@@ -188,9 +188,19 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
     } else if (kw == ".sens") {
         scale_sweep(p, atoms, ".sens");
     } else if (kw == ".dc") {
-        // .dc src start stop step [src2 start2 stop2 step2]
-        for (std::size_t i = 0; i + 3 < atoms.size() + 0; i += 4) {
-            if (atoms[i].key) break;
+        // .dc src start stop step [src2 start2 stop2 step2]. ngspice 39 reads '=' as a blank:
+        // `x=2` is two more fields (tried: "named "x" is not in the circuit"), and a second
+        // level without its step runs without end (tried): both refused.
+        for (const auto& a : atoms)
+            if (a.key)
+                p.fail(*a.key, fmt::format("a .dc card takes 'source start stop step', once or "
+                                           "twice; ngspice 39 reads '{}=' as more fields",
+                                           p.text(*a.key)));
+        if (atoms.size() % 4 != 0)
+            p.fail(*atoms[atoms.size() / 4 * 4].value,
+                   "a .dc card takes 'source start stop step', once or twice: this sweep has no "
+                   "stop or step (ngspice 39 runs it without end)");
+        for (std::size_t i = 0; i + 3 < atoms.size(); i += 4) {
             bool known = false;
             Unit u = dc_sweep_unit(p, *atoms[i].value, known);
             if (!known) {

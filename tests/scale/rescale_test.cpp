@@ -357,6 +357,26 @@ TEST(ScalerTest, EmptyExpressionsAreRefused) {
     }
 }
 
+// A .dc card other than 'source start stop step' once or twice: ngspice 39 reads '=' as a
+// blank (`.dc I1 0 1 x=0.5` stops it: "named "x" is not in the circuit") and runs a second
+// level without its step without end (tried). The keyed field once crashed the scaler (a
+// `VALUE==1e-14` with no value; found by the deck fuzz target, tests/fuzz/regressions).
+TEST(ScalerTest, MalformedDcCardsAreRefused) {
+    for (const auto& [card, message] : std::vector<std::pair<std::string, std::string>>{
+             {".dc I1 0 1 x=0.5", "ngspice 39 reads 'x=' as more fields"},
+             {".dc I1 0 1m 0.1m VALUE==1e-14", "ngspice 39 reads 'VALUE=' as more fields"},
+             {".dc I1 0 1m 0.1m V1 0 1", "this sweep has no stop or step"}}) {
+        SCOPED_TRACE(card);
+        try {
+            test::scale_text("t\nV1 b 0 1\nI1 0 a 1m\nR1 a b 1k\n" + card + "\n.end\n", 2, 3);
+            ADD_FAILURE() << "no error";
+        } catch (const DeckError& e) {
+            EXPECT_NE(e.diagnostic().message.find(message), std::string::npos)
+                << e.diagnostic().message;
+        }
+    }
+}
+
 // Absurd factors never write 'inf' or a value that silently became 0: the value is named.
 TEST(ScalerTest, ValuesPushedOutOfRangeAreRefusedWithTheValueNamed) {
     struct {
