@@ -120,7 +120,7 @@ SweepRewrite rewrite_frequencies(SweepKind kind, const std::vector<std::string_v
     if (original.over_limit)
         return refuse(fmt::format("this sweep asks for {:.6g} points, more than the {} this "
                                   "check steps through: write fewer points",
-                                  n, kSweepPointLimit));
+                                  original.asked, kSweepPointLimit));
     if (original.endless)
         return refuse(
             "ngspice 39 never ends this sweep (its frequency runs away): the original "

@@ -120,6 +120,17 @@ bool almost_equal_ulps(double a, double b, std::int64_t max_ulps) {
     return std::llabs(ia - ib) <= max_ulps;
 }
 
+// A log sweep from fstart by `ratio` that asks for more than twice kSweepPointLimit points:
+// marks `p` as over the limit (stepping could never end below it).
+bool over_log_limit(SweepPoints& p, double fstart, double fstop, double ratio) {
+    if (!(ratio > 1) || !(fstart > 0) || !(fstop > fstart)) return false;
+    double asked = std::log(fstop / fstart) / std::log(ratio) + 1;
+    if (!(asked > 2.0 * static_cast<double>(kSweepPointLimit))) return false;
+    p.endless = p.over_limit = true;
+    p.asked = asked;
+    return true;
+}
+
 // DBL_EPSILON * 1e3, the absolute stop tolerance of a DC level (dctrcurv.c:218).
 const double kDcTolerance = std::numeric_limits<double>::epsilon() * 1e3;
 
@@ -145,8 +156,10 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
     }
     if (!log_sweep && static_cast<std::size_t>(n) > kSweepPointLimit + 1) {
         p.endless = p.over_limit = true;
+        p.asked = static_cast<double>(n);
         return p;
     }
+    if (log_sweep && over_log_limit(p, fstart, fstop, delta)) return p;
     double tol = log_sweep ? delta * fstop * reltol : delta * reltol;
     // Room for the expected count at once (untouched room costs no memory): a sweep of
     // millions of points otherwise spends its time copying while it grows.
@@ -190,8 +203,10 @@ SweepPoints noise_points(std::string_view type, double points, double fstart, do
         delta = n == 1 ? 0 : (fstop - fstart) / static_cast<double>(n - 1);
     if (lin && static_cast<std::size_t>(n) > kSweepPointLimit + 1) {
         p.endless = p.over_limit = true;
+        p.asked = static_cast<double>(n);
         return p;
     }
+    if (!lin && over_log_limit(p, fstart, fstop, delta)) return p;
     double tol = lin ? delta * reltol : delta * fstop * reltol;
     for (double f = fstart; f <= fstop + tol;) {
         if (!push(p, f)) break;

@@ -140,11 +140,17 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
     EXPECT_TRUE(noise.endless);
     EXPECT_EQ(noise.values.size(), 1u);
     // More points than the limit: known from the count alone, nothing stepped.
-    for (SweepPoints many : {ac_points("lin", 2e40, 0.01, 2), noise_points("lin", 1e30, 1, 2)}) {
+    for (SweepPoints many : {ac_points("lin", 2e40, 0.01, 2), noise_points("lin", 1e30, 1, 2),
+                             ac_points("dec", 1e9, 1, 1e3), ac_points("oct", 1e9, 1, 8),
+                             noise_points("dec", 1e8, 1, 1e3)}) {
         EXPECT_TRUE(many.endless);
         EXPECT_TRUE(many.over_limit);
         EXPECT_TRUE(many.values.empty());
     }
+    // A log sweep near the limit is still stepped: flagged from twice the limit only.
+    SweepPoints near = ac_points("dec", 1.5e6, 1, 10, 1e-3, true);
+    EXPECT_FALSE(near.over_limit);
+    EXPECT_GE(near.count, 1500001u);  // the stop test lets reltol past fstop (acan.c)
     SweepPoints dc = dc_points(1e20, 2e20, 1);  // 1e20 + 1 == 1e20
     EXPECT_TRUE(dc.endless);
     EXPECT_EQ(dc.values.size(), 1u);
