@@ -79,6 +79,20 @@ void match_names(const SimPlot& o, const SimPlot& s, Comparison& c) {
             c.problems.push_back(fmt::format("'{}' exists in the scaled deck but not in the original", v.name));
 }
 
+// The vectors compared in both plots, in the original's order; the names only one plot has
+// and the original's device-internal vectors go into `c`.
+std::vector<std::pair<const SimVector*, const SimVector*>> pairs_to_compare(const SimPlot& o,
+                                                                            const SimPlot& s,
+                                                                            Comparison& c) {
+    match_names(o, s, c);
+    note_internal_states(o, c);
+    std::vector<std::pair<const SimVector*, const SimVector*>> pairs;
+    for (const auto& vo : o.vectors)
+        if (compared(vo, o))
+            if (const SimVector* vs = s.find(vo.name)) pairs.emplace_back(&vo, vs);
+    return pairs;
+}
+
 double wrap_degrees(double d) {
     while (d > 180) d -= 360;
     while (d < -180) d += 360;
@@ -119,12 +133,8 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
         return c;
     }
     std::size_t n = check_mapped_sweep(*fo, *fs, kf, c);
-    match_names(o, s, c);
-    note_internal_states(o, c);
-    for (const auto& vo : o.vectors) {
-        if (!compared(vo, o)) continue;
-        const SimVector* vs = s.find(vo.name);
-        if (!vs) continue;
+    for (const auto& [po, vs] : pairs_to_compare(o, s, c)) {
+        const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
         double back = back_factor(vo, km);
         // Magnitudes (hypot), dB and phases are costly: each is computed where it can matter.
@@ -181,8 +191,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     Comparison c;
     c.analysis = "op";
     c.points = 1;
-    match_names(o, s, c);
-    note_internal_states(o, c);
+    auto pairs = pairs_to_compare(o, s, c);
     // The largest value of each kind in either deck (scaled currents mapped back): an original
     // at 0 V everywhere must not hide a scaled deck that is not.
     double vmax = 0, imax = 0;
@@ -193,10 +202,9 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
                 double& m = v.kind == VectorKind::current ? imax : vmax;
                 m = std::max(m, x);
             }
-    for (const auto& vo : o.vectors) {
-        if (!compared(vo, o) || vo.values.empty()) continue;
-        const SimVector* vs = s.find(vo.name);
-        if (!vs || vs->values.empty()) continue;
+    for (const auto& [po, vs] : pairs) {
+        const SimVector& vo = *po;
+        if (vo.values.empty() || vs->values.empty()) continue;
         VectorResult r{vo.name, vo.kind};
         double a = vo.values[0].real(), b = vs->values[0].real() * back_factor(vo, km);
         // Relative to the value itself, but never to less than a millionth of the largest
@@ -247,12 +255,8 @@ Comparison compare_dc(const SimPlot& o, const SimPlot& s, double km, double swee
     c.points = n;
     c.first = xo->values.front().real();
     c.last = xo->values[n - 1].real();
-    match_names(o, s, c);
-    note_internal_states(o, c);
-    for (const auto& vo : o.vectors) {
-        if (!compared(vo, o)) continue;
-        const SimVector* vs = s.find(vo.name);
-        if (!vs) continue;
+    for (const auto& [po, vs] : pairs_to_compare(o, s, c)) {
+        const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
         double back = back_factor(vo, km);
         for (std::size_t k = 0; k < n && k < vo.values.size(); ++k)
@@ -286,8 +290,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
     c.points = to->values.size();
     c.first = to->values.front().real();
     c.last = to->values.back().real();
-    match_names(o, s, c);
-    note_internal_states(o, c);
+    auto pairs = pairs_to_compare(o, s, c);
     // Scaled times mapped back onto the original time axis.
     std::vector<double> tmap(ts->values.size());
     for (std::size_t j = 0; j < tmap.size(); ++j) tmap[j] = ts->values[j].real() * kf;
@@ -297,10 +300,8 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
         c.problems.push_back(fmt::format("the scaled run covers {:.6g} s .. {:.6g} s of the original's "
                                          "time, not {:.6g} s .. {:.6g} s",
                                          tmap.front(), tmap.back(), c.first, c.last));
-    for (const auto& vo : o.vectors) {
-        if (!compared(vo, o)) continue;
-        const SimVector* vs = s.find(vo.name);
-        if (!vs) continue;
+    for (const auto& [po, vs] : pairs) {
+        const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
         double back = back_factor(vo, km);
         for (const auto& x : vo.values) r.peak = std::max(r.peak, std::fabs(x.real()));
