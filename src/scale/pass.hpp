@@ -183,6 +183,10 @@ private:
     mutable std::set<std::string> missed_params_, missed_models_, missed_inductors_;
     mutable std::optional<double> gmin_used_;
     mutable std::optional<double> reltol_used_;
+    // A lookup of GMIN or RELTOL answered differently from an earlier one (an .options card
+    // between two uses): the earlier use may differ from the final symbols, scale again.
+    mutable bool lookups_varied_ = false;
+    void remember(std::optional<double>& used, double value) const;
     bool observing_ = false;  // inside observe(): the deck is not complete yet
     bool rescan_ = false;     // a decision was left to a scan of the complete deck
     std::size_t file_ = 0;

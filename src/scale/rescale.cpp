@@ -85,7 +85,7 @@ void ScalePass::observe(const Deck& so_far, std::size_t file, const Card& card) 
 }
 
 bool ScalePass::relied_on_missing(const DeckSymbols& s) const {
-    if (rescan_) return true;
+    if (rescan_ || lookups_varied_) return true;
     for (const auto& n : missed_params_)
         if (s.params.count(n)) return true;
     for (const auto& n : missed_models_)
@@ -109,7 +109,7 @@ bool ScalePass::take_piece(ScalePass& piece, ScaleResult& r, const DeckSymbols& 
     if (!gmin_used_) gmin_used_ = piece.gmin_used_;
     if (reltol_used_ && piece.reltol_used_ && *reltol_used_ != *piece.reltol_used_) rescan_ = true;
     if (!reltol_used_) reltol_used_ = piece.reltol_used_;
-    rescan_ = rescan_ || piece.rescan_;
+    rescan_ = rescan_ || piece.rescan_ || piece.lookups_varied_;
     tolerances_.merge(piece.tolerances_);
     missed_params_.merge(piece.missed_params_);
     missed_models_.merge(piece.missed_models_);
@@ -144,13 +144,20 @@ bool ScalePass::is_inductor(const std::string& name) const {
 }
 
 
+// Remembers the first value a lookup gave, and whether a later one gave another (a value
+// set between two uses): either can differ from the final symbols.
+void ScalePass::remember(std::optional<double>& used, double value) const {
+    if (used && *used != value) lookups_varied_ = true;
+    if (!used) used = value;
+}
+
 double ScalePass::gmin() const {
-    gmin_used_ = symbols_->gmin;
+    remember(gmin_used_, symbols_->gmin);
     return symbols_->gmin;
 }
 
 double ScalePass::reltol() const {
-    reltol_used_ = symbols_->reltol;
+    remember(reltol_used_, symbols_->reltol);
     return symbols_->reltol;
 }
 

@@ -80,6 +80,25 @@ TEST(SweepCards, AReltolSetAfterTheSweepCountsInOnePass) {
               ".options reltol=0.3\n.end\n");
 }
 
+// The same with a second sweep after the .options: the last lookup of RELTOL then agreed with
+// the final one, and the first sweep kept the rewrite made for the default (found by the deck
+// fuzz target: the pass while reading and the pass over the finished deck disagreed).
+TEST(SweepCards, AReltolSetBetweenTwoSweepsCountsForBoth) {
+    const std::string deck =
+        "t\nV1 a 0 ac 1\n.ac oct 1 1 2.5\n.options reltol=0.3\n.ac oct 1 1 2.5\n.end\n";
+    MemoryFileSystem fs;
+    fs.add("deck.cir", deck);
+    ScaleSettings settings;
+    settings.factors = {1, 1.0 / 7};
+    ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+    ScaleResult two = scale_deck(one.deck, settings);
+    std::string streamed = apply_edits(one.deck.top().text(), one.result.edits[0]);
+    EXPECT_EQ(streamed, apply_edits(one.deck.top().text(), two.edits[0]));
+    EXPECT_EQ(streamed,
+              "t\nV1 a 0 ac 1\n.ac oct 1 0.142857142857143 0.357142857142858\n"
+              ".options reltol=0.3\n.ac oct 1 0.142857142857143 0.357142857142858\n.end\n");
+}
+
 TEST(SweepCards, ASweepNgspiceCannotStepIsReportedAtItsCard) {
     auto s = test::scale_text("t\nV1 a 0 ac 1\nR1 a 0 1k\n.ac dec 1 1 5\n.dc R1 1k 2k 0\n.end\n", 2,
                               1000);
