@@ -120,11 +120,19 @@ bool almost_equal_ulps(double a, double b, std::int64_t max_ulps) {
     return std::llabs(ia - ib) <= max_ulps;
 }
 
-// A log sweep from fstart by `ratio` that asks for more than twice kSweepPointLimit points:
-// marks `p` as over the limit (stepping could never end below it).
-bool over_log_limit(SweepPoints& p, double fstart, double fstop, double ratio) {
-    if (!(ratio > 1) || !(fstart > 0) || !(fstop > fstart)) return false;
-    double asked = std::log(fstop / fstart) / std::log(ratio) + 1;
+// A sweep from fstart by `step` (a ratio for a log sweep) whose stop test lets it run to `end`
+// (fstop plus the tolerance reltol gives) over more than twice kSweepPointLimit points: marks
+// `p` as over the limit (stepping could never end below it). A reltol of 1e9 (".options
+// reltol=1g") let a 201-point lin sweep run to the limit, at every step of the nudge search.
+bool over_limit_to(SweepPoints& p, double fstart, double end, double step, bool log_sweep) {
+    double asked = 0;
+    if (log_sweep) {
+        if (!(step > 1) || !(fstart > 0) || !(end > fstart)) return false;
+        asked = std::log(end / fstart) / std::log(step) + 1;
+    } else {
+        if (!(step > 0) || !(end > fstart)) return false;
+        asked = (end - fstart) / step + 1;
+    }
     if (!(asked > 2.0 * static_cast<double>(kSweepPointLimit))) return false;
     p.endless = p.over_limit = true;
     p.asked = asked;
@@ -159,8 +167,8 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
         p.asked = static_cast<double>(n);
         return p;
     }
-    if (log_sweep && over_log_limit(p, fstart, fstop, delta)) return p;
     double tol = log_sweep ? delta * fstop * reltol : delta * reltol;
+    if (over_limit_to(p, fstart, fstop + tol, delta, log_sweep)) return p;
     // Room for the expected count at once (untouched room costs no memory): a sweep of
     // millions of points otherwise spends its time copying while it grows.
     double expected = 0;
@@ -206,8 +214,8 @@ SweepPoints noise_points(std::string_view type, double points, double fstart, do
         p.asked = static_cast<double>(n);
         return p;
     }
-    if (!lin && over_log_limit(p, fstart, fstop, delta)) return p;
     double tol = lin ? delta * reltol : delta * fstop * reltol;
+    if (over_limit_to(p, fstart, fstop + tol, delta, !lin)) return p;
     for (double f = fstart; f <= fstop + tol;) {
         if (!push(p, f)) break;
         if (lin)

@@ -147,6 +147,12 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
         EXPECT_TRUE(many.over_limit);
         EXPECT_TRUE(many.values.empty());
     }
+    // A reltol of 1e9 (".options reltol=1g") lets a 201-point lin sweep's stop test run on for
+    // about 1e9 steps: known from the count, nothing stepped (a fuzz target timeout, 14 s).
+    SweepPoints loose = ac_points("lin", 201, 400e3, 510e3, 1e9);
+    EXPECT_TRUE(loose.over_limit);
+    EXPECT_TRUE(loose.values.empty());
+    EXPECT_TRUE(noise_points("lin", 201, 400e3, 510e3, 1e9).over_limit);
     // A log sweep near the limit is still stepped: flagged from twice the limit only.
     SweepPoints near = ac_points("dec", 1.5e6, 1, 10, 1e-3, true);
     EXPECT_FALSE(near.over_limit);
