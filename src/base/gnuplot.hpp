@@ -9,8 +9,9 @@ namespace deckscale {
 // `s` as a gnuplot single-quoted string ('' inside for a quote).
 std::string gnuplot_quote(const std::string& s);
 
-// Runs gnuplot on `script` in the folder `dir`, its standard output discarded; returns an
-// error text, or "" when gnuplot exited with 0.
+// Runs gnuplot on `script` in the folder `dir`. Its output and its warnings are kept from the
+// user's terminal; returns an error text ending in gnuplot's own message, or "" when gnuplot
+// exited with 0.
 std::string run_gnuplot(const std::string& script, const std::string& dir);
 
 }  // namespace deckscale

@@ -32,6 +32,7 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     std::string data = "# frequency of the original deck, then per vector: original dB, original deg,\n"
                        "# scaled (mapped back: current x Km) dB, scaled deg, relative error\n";
     std::vector<const SimVector*> vo, vs;
+    double worst = 0;  // the largest error drawn
     for (const auto& name : r.vectors) {
         const SimVector* a = o.find(name);
         const SimVector* b = s.find(name);
@@ -49,6 +50,7 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
             auto a = vo[i]->values[k];
             auto b = vs[i]->values[k] * back;
             double err = peak > 0 ? std::abs(b - a) / peak : 0;
+            worst = std::max(worst, err);
             data += fmt::format(" {:.10e} {:.10e} {:.10e} {:.10e} {:.6e}", db(a), deg(a), db(b), deg(b),
                                 std::max(err, 1e-18));
         }
@@ -96,7 +98,11 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     gp += "set ylabel 'magnitude / dB'\n" + series(0, 2, "dB");
     gp += "set x2label ''\nset format x2 ''\nset ylabel 'phase / deg'\n" + series(1, 3, "deg");
     gp += "set xlabel 'frequency of the scaled deck / Hz'\n";
-    gp += "set ylabel 'relative error'\nset logscale y\nset format y '%.0e'\nplot ";
+    gp += "set ylabel 'relative error'\nset logscale y\nset format y '%.0e'\n";
+    // Errors of exactly zero are drawn at the 1e-18 floor; a range around the floor keeps an
+    // all-zero trace from being an empty autoscaled range.
+    if (worst <= 1e-18) gp += "set yrange [1e-19:1e-15]\n";
+    gp += "plot ";
     for (std::size_t i = 0; i < vo.size(); ++i) {
         if (i) gp += ", \\\n     ";
         gp +=
