@@ -66,7 +66,8 @@ py::dict snap(py::handle deck_arg, const std::string& series, py::object output,
     for (const auto& p : r.parts)
         parts.append(py::dict("name"_a = p.name, "file"_a = p.file, "line"_a = p.line,
                               "old"_a = p.old_text, "new"_a = p.new_text, "ideal"_a = p.ideal,
-                              "rounded"_a = p.rounded, "error"_a = p.error()));
+                              "rounded"_a = p.rounded, "error"_a = p.error(),
+                              "parameter_of"_a = p.elements));
     return py::dict("files"_a = out.files, "text"_a = text_of(out.text()), "parts"_a = parts,
                     "left_alone"_a = diagnostics(r.left_alone),
                     "warnings"_a = diagnostics(deck.warnings()),

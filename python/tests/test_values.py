@@ -33,15 +33,18 @@ class ValuesTest(unittest.TestCase):
         with TempDir() as d:
             path = os.path.join(d, "d.cir")
             write_bytes(path, deck)
-            ran = cli("snap", path, "--series", "R=E96,C=E12", "-o", os.path.join(d, "cli.cir"))
+            ran = cli("snap", path, "--series", "R=E96,C=E12,L=E6", "-o", os.path.join(d, "cli.cir"))
             self.assertEqual(ran.returncode, 0, ran.stderr)
             target = os.path.join(d, "py.cir")
-            r = deckscale.snap(path, "R=E96,C=E12", output=target)
+            r = deckscale.snap(path, "R=E96,C=E12,L=E6", output=target)
             self.assertEqual(read_bytes(target), read_bytes(os.path.join(d, "cli.cir")))
             self.assertEqual(read_bytes(path), deck.encode())
         parts = {p["name"]: p for p in r["parts"]}
         self.assertEqual((parts["R1"]["new"], parts["C1"]["new"]), ("1.24k", "3.3n"))
         self.assertAlmostEqual(parts["R1"]["error"], 1.24 / 1.234 - 1)
+        self.assertEqual(parts["R1"]["parameter_of"], [])
+        # L1's value is the parameter lval alone: it is rounded at its definition.
+        self.assertEqual((parts["lval"]["new"], parts["lval"]["parameter_of"]), ("1u", ["L1"]))
         self.assertIn("R1 in out 1.24k\nC1 out 0 3.3n\n", r["text"])
         self.assertIn("local codes and", r["cautions"])
         with self.assertRaises(deckscale.DeckError):

@@ -1,6 +1,7 @@
 #include "cli/snap_command.hpp"
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include <cmath>
 #include <filesystem>
@@ -104,8 +105,11 @@ int run_snap(const SnapOptions& o, std::ostream& out, std::ostream& err) {
         out << fmt::format("  {:<10} {:>14} {:>14} {:>9}\n", "part", "ideal", "rounded", "error");
         const SnappedPart* worst = nullptr;
         for (const auto& p : snapped.parts) {
-            out << fmt::format("  {:<10} {:>14} {:>14} {:>+8.3f}%\n", p.name, p.old_text,
-                               p.new_text, 100 * p.error());
+            out << fmt::format("  {:<10} {:>14} {:>14} {:>+8.3f}%", p.name, p.old_text, p.new_text,
+                               100 * p.error());
+            if (!p.elements.empty())
+                out << fmt::format("  .param, the value of {}", fmt::join(p.elements, ", "));
+            out << "\n";
             if (!worst || std::abs(p.error()) > std::abs(worst->error())) worst = &p;
         }
         if (worst)

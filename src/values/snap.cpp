@@ -2,8 +2,14 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <cmath>
+#include <optional>
+#include <utility>
+
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
+#include "values/snap_params.hpp"
 
 namespace deckscale {
 namespace {
@@ -38,6 +44,27 @@ Diagnostic left_alone(const Card& c, const Token& t, std::string_view text) {
     return d;
 }
 
+// The value field of an R, C or L element: the third positional field, or "R=" / "C=" /
+// "L=" (as verify reads it).
+std::optional<std::size_t> value_field(const Card& c, char letter) {
+    int positional = 0;
+    const auto& fl = c.fields;
+    for (std::size_t i = 1; i < fl.size(); ++i) {
+        bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
+        if (expression && positional == 2) return i;  // the value itself is an expression
+        if (fl[i].kind != TokenKind::word) continue;
+        bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
+        if (keyed) {
+            std::string key = to_lower(c.field_text(i));
+            if (key.size() == 1 && key[0] == letter && i + 2 < fl.size()) return i + 2;
+            i += 2;
+            continue;
+        }
+        if (++positional == 3) return i;
+    }
+    return std::nullopt;
+}
+
 }  // namespace
 
 std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string& error) {
@@ -68,6 +95,24 @@ std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string
 SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
     SnapResult r;
     r.edits.resize(deck.files.size());
+    std::vector<std::pair<std::size_t, std::uint32_t>> order;  // per part: where it is written
+    auto add_part = [&](SnappedPart part, const ESeries& chosen, std::string_view text,
+                        const SpiceNumber& number, std::size_t file, std::uint32_t begin,
+                        std::uint32_t end) {
+        part.rounded = nearest(chosen, part.ideal);
+        part.new_text =
+            std::abs(part.error()) < 1e-12 ? part.old_text : respell(number, part.rounded, kDigits);
+        if (part.new_text != part.old_text)
+            r.edits[file].add(text, Edit{begin, end - begin, part.new_text});
+        order.emplace_back(file, begin);
+        r.parts.push_back(std::move(part));
+    };
+    // Values written as an expression: whole-value parameter uses may be rounded at the
+    // parameter's definition (values/snap_params); the rest are left alone.
+    std::vector<ParamValueUse> uses;
+    std::vector<std::pair<std::pair<std::size_t, std::uint32_t>, Diagnostic>> notes;
+    std::vector<Diagnostic> expression_notes;
+    std::vector<std::string> expression_texts;
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         std::string_view text = deck.files[f].source->text();
         deck.visit_file(f, [&](const Card& c) {
@@ -75,53 +120,68 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
             std::string name = card_keyword(c);
             const auto* chosen = series_for(series, name[0]);
             if (!chosen || !*chosen) return;
-            // The value: the third positional field, or "R=" / "C=" / "L=" (as verify reads it).
-            int positional = 0;
             const auto& fl = c.fields;
-            for (std::size_t i = 1; i < fl.size(); ++i) {
-                bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
-                if (expression && positional == 2) {  // the value itself is an expression
-                    r.left_alone.push_back(left_alone(c, fl[i], c.field_text(i)));
-                    return;
-                }
-                if (fl[i].kind != TokenKind::word) continue;
-                bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
-                std::size_t at = i;
-                if (keyed) {
-                    std::string key = to_lower(c.field_text(i));
-                    if (key.size() != 1 || key[0] != name[0] || i + 2 >= fl.size()) {
-                        i += 2;
-                        continue;
-                    }
-                    at = i + 2;
-                } else if (++positional != 3) {
-                    continue;
-                }
-                std::string_view value_text = c.field_text(at);
-                auto p = parse_spice_number(value_text);
-                if (!p.number || !(p.number->value > 0)) {
-                    r.left_alone.push_back(left_alone(c, fl[at], value_text));
-                    return;
-                }
-                double rounded = nearest(**chosen, p.number->value);
-                SnappedPart part{std::string(c.field_text(0)),
-                                 c.file->path(),
-                                 c.file->position(fl[0].begin).line,
-                                 std::string(value_text),
-                                 "",
-                                 p.number->value,
-                                 rounded};
-                part.new_text = std::abs(part.error()) < 1e-12
-                                    ? part.old_text
-                                    : respell(*p.number, rounded, kDigits);
-                if (part.new_text != part.old_text)
-                    r.edits[f].add(text,
-                                   Edit{fl[at].begin, fl[at].end - fl[at].begin, part.new_text});
-                r.parts.push_back(std::move(part));
+            std::optional<std::size_t> at = value_field(c, name[0]);
+            if (!at) return;
+            const Token& t = fl[*at];
+            std::string_view value_text = c.field_text(*at);
+            if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
+                uses.push_back(ParamValueUse{f, t.begin, name[0], std::string(c.field_text(0))});
+                expression_notes.push_back(left_alone(c, t, value_text));
+                expression_texts.emplace_back(value_text);
                 return;
             }
+            auto p = parse_spice_number(value_text);
+            if (!p.number || !(p.number->value > 0)) {
+                notes.emplace_back(std::pair{f, t.begin}, left_alone(c, t, value_text));
+                return;
+            }
+            SnappedPart part{std::string(c.field_text(0)),
+                             c.file->path(),
+                             c.file->position(fl[0].begin).line,
+                             std::string(value_text),
+                             "",
+                             p.number->value,
+                             0};
+            add_part(std::move(part), **chosen, text, *p.number, f, t.begin, t.end);
         });
     }
+    ParamSnapPlan plan = plan_param_snap(deck, uses);
+    for (const auto& sp : plan.params) {
+        const SourceFile& file = *deck.files[sp.file].source;
+        std::string_view value_text = file.view(sp.begin, sp.end);
+        SnappedPart part{sp.name,
+                         file.path(),
+                         file.position(sp.begin).line,
+                         std::string(value_text),
+                         "",
+                         sp.value,
+                         0};
+        part.elements = sp.elements;
+        add_part(std::move(part), **series_for(series, sp.kind), file.text(),
+                 *parse_spice_number(value_text).number, sp.file, sp.begin, sp.end);
+    }
+    for (std::size_t i = 0; i < uses.size(); ++i) {
+        std::pair<std::size_t, std::uint32_t> key{uses[i].file, uses[i].begin};
+        auto use = plan.use_of.find(key);
+        if (use != plan.use_of.end() && use->second >= 0) continue;
+        Diagnostic d = std::move(expression_notes[i]);
+        if (auto why = plan.why.find(key); why != plan.why.end())
+            d.message = fmt::format("'{}' is {}: {} is left as written", expression_texts[i],
+                                    why->second, uses[i].element);
+        notes.emplace_back(key, std::move(d));
+    }
+    // Parts and notes in file order.
+    std::vector<std::size_t> idx(r.parts.size());
+    for (std::size_t i = 0; i < idx.size(); ++i) idx[i] = i;
+    std::stable_sort(idx.begin(), idx.end(),
+                     [&](std::size_t a, std::size_t b) { return order[a] < order[b]; });
+    std::vector<SnappedPart> sorted;
+    for (std::size_t i : idx) sorted.push_back(std::move(r.parts[i]));
+    r.parts = std::move(sorted);
+    std::stable_sort(notes.begin(), notes.end(),
+                     [](const auto& a, const auto& b) { return a.first < b.first; });
+    for (auto& n : notes) r.left_alone.push_back(std::move(n.second));
     return r;
 }
 

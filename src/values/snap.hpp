@@ -1,8 +1,10 @@
 // Snapping a deck to parts you can buy: every R, C and L with a plain numeric value is
 // rounded to the nearest member of the series chosen for its kind (values/series), and the
 // new value keeps the deck's spelling style (deck/spice_number respell: a suffix stays a
-// suffix). The result is edits in write's terms plus each part's error; values written as
-// parameters or expressions are listed as left alone, never skipped silently.
+// suffix). The result is edits in write's terms plus each part's error. A value written as
+// `{NAME}` is rounded at NAME's `.param` definition when that parameter is nothing but such
+// values (values/snap_params); other parameters and expressions are listed as left alone, never
+// skipped silently.
 #pragma once
 
 #include <optional>
@@ -29,6 +31,9 @@ struct SnappedPart {
     std::uint32_t line = 0;
     std::string old_text, new_text;
     double ideal = 0, rounded = 0;
+    // A parameter (values/snap_params): the parts whose whole value it is ("R1", "R2");
+    // empty for a part whose own value is rounded.
+    std::vector<std::string> elements{};
     double error() const { return rounded / ideal - 1; }
 };
 

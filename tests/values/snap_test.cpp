@@ -52,15 +52,87 @@ TEST(Snap, RoundsEachKindInItsSeriesKeepingTheSpelling) {
     }
 }
 
-TEST(Snap, APartWithoutANumberIsLeftAloneAndSaidSo) {
+TEST(Snap, AnExpressionIsLeftAloneAndSaidSo) {
     SnapResult r;
     std::string out =
-        snapped_text("t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.234k\n.end\n", "R=E24", &r);
-    EXPECT_EQ(out, "t\n.param rv=1.234k\nR1 a b {rv}\nR2 a 0 1.2k\n.end\n");
+        snapped_text("t\n.param rv=1.234k\nR1 a b {2*rv}\nR2 a 0 1.234k\n.end\n", "R=E24", &r);
+    EXPECT_EQ(out, "t\n.param rv=1.234k\nR1 a b {2*rv}\nR2 a 0 1.2k\n.end\n");
     ASSERT_EQ(r.left_alone.size(), 1u);
-    EXPECT_EQ(r.left_alone[0].message, "'{rv}' is not a plain number: R1 is left as written");
+    EXPECT_EQ(r.left_alone[0].message, "'{2*rv}' is not a plain number: R1 is left as written");
     ASSERT_EQ(r.parts.size(), 1u);
     EXPECT_NEAR(r.parts[0].error(), 1.2 / 1.234 - 1, 1e-12);
+}
+
+TEST(Snap, AParameterThatIsOnlyPartsValuesIsRoundedAtItsDefinition) {
+    SnapResult r;
+    std::string out = snapped_text(
+        "t\n.param rv=1.234k cv=3.3n\nR1 a b {rv}\nC1 b 0 ' CV '\nR2 b c r={rv}\nR3 c 0 "
+        "4.99k\n.end\n",
+        "R=E24,C=E6", &r);
+    EXPECT_EQ(out,
+              "t\n.param rv=1.2k cv=3.3n\nR1 a b {rv}\nC1 b 0 ' CV '\nR2 b c r={rv}\nR3 c 0 "
+              "5.1k\n.end\n");
+    EXPECT_TRUE(r.left_alone.empty());
+    ASSERT_EQ(r.parts.size(), 3u);  // in file order: rv and cv at their definitions, then R3
+    EXPECT_EQ(r.parts[0].name, "rv");
+    EXPECT_EQ(r.parts[0].line, 2u);
+    EXPECT_EQ(r.parts[0].elements, (std::vector<std::string>{"R1", "R2"}));
+    EXPECT_EQ(r.parts[1].name, "cv");
+    EXPECT_EQ(r.parts[1].new_text, "3.3n");  // an E6 member stays as written
+    EXPECT_EQ(r.parts[1].elements, (std::vector<std::string>{"C1"}));
+    EXPECT_EQ(r.parts[2].name, "R3");
+    EXPECT_TRUE(r.parts[2].elements.empty());
+}
+
+// A parameter is rounded only when nothing but the whole value of parts of one kind uses it;
+// otherwise every part using it is left alone, with the first other use named.
+TEST(Snap, AParameterWithOtherUsesIsLeftAloneWithTheUseNamed) {
+    struct {
+        int line;
+        const char* cards;
+        const char* message;
+    } rows[] = {
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\nR2 b 0 {rv/2}\n",
+         "'{rv}' is parameter rv, which is also used in '{rv/2}' (R2, d.cir:4): R1 is left as "
+         "written"},
+        {__LINE__, ".param rv=1.234k\n.param rw={rv*3}\nR1 a b {rv}\n",
+         "'{rv}' is parameter rv, which is used in the definition of rw (.param, d.cir:3): R1 is "
+         "left as written"},
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\nC1 b 0 {rv}\n",
+         "'{rv}' is parameter rv, which is the value of both a resistor (R1) and a capacitor (C1): "
+         "R1 is left as written"},
+        {__LINE__, ".param rv=1.234k\n.param rv=1.5k\nR1 a b {rv}\n",
+         "'{rv}' is parameter rv, which is defined more than once: R1 is left as written"},
+        {__LINE__, ".param rv={1k+234}\nR1 a b {rv}\n",
+         "'{rv}' is parameter rv, which is defined as '{1k+234}', not as a plain number (.param, "
+         "d.cir:2): R1 is left as written"},
+        // '1mil' is 1e-3 in a .param but 25.4e-6 on an element line (deck-syntax notes).
+        {__LINE__, ".param rv=1mil\nR1 a b {rv}\n",
+         "'{rv}' is parameter rv, which is defined as '1mil', not as a plain number (.param, "
+         "d.cir:2): R1 is left as written"},
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\n.ac dec 10 1 {rv}\n",
+         "'{rv}' is parameter rv, which is also used in '{rv}' (.ac, d.cir:4): R1 is left as "
+         "written"},
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\n.model rm r(rsh={rv})\n",
+         "'{rv}' is parameter rv, which is also used in '{rv}' (.model, d.cir:4): R1 is left as "
+         "written"},
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\n.if (rv > 1k)\n.endif\n",
+         "'{rv}' is parameter rv, which decides an .if (.if, d.cir:4): R1 is left as written"},
+        {__LINE__, ".param rv=1.234k\nR1 a b {rv}\n.control\nalterparam rv=2k\n.endc\n",
+         "'{rv}' is parameter rv, which is used in a .control block (.control, d.cir:5): R1 is "
+         "left as written"},
+        {__LINE__, ".subckt arm a b params: rv=1.234k\nR1 a b {rv}\n.ends\n",
+         "'{rv}' is parameter rv, which is a parameter of subcircuit arm: R1 is left as written"},
+    };
+    for (const auto& row : rows) {
+        SnapResult r;
+        std::string deck = std::string("t\n") + row.cards + ".end\n";
+        EXPECT_EQ(snapped_text(deck, "R=E24,C=E12", &r), deck) << "line " << row.line;
+        ASSERT_FALSE(r.left_alone.empty()) << "line " << row.line;
+        std::string message =
+            std::regex_replace(r.left_alone[0].message, std::regex("/[^ ]*/d\\.cir"), "d.cir");
+        EXPECT_EQ(message, row.message) << "line " << row.line;
+    }
 }
 
 TEST(Snap, SeriesOption) {
@@ -159,6 +231,41 @@ TEST(SnapCommand, ChebyshevRippleChangeIsConfirmedByNgspice) {
     EXPECT_NE(svg.find("out ideal dB"), std::string::npos);
     EXPECT_NE(svg.find("out rounded dB"), std::string::npos);
     EXPECT_NE(svg.find("rounded corner 10.3"), std::string::npos);
+}
+
+// The same ladder with its values as parameters (the symmetric C1 = C5 and L2 = L4 share one
+// each): snap rounds the parameters, and ngspice reads the rounded parameter deck exactly
+// as the rounded deck of written values.
+TEST(SnapCommand, AParameterDeckRoundsAsTheDeckOfWrittenValues) {
+    test::TempDir dir;
+    std::string params = std::regex_replace(
+        std::regex_replace(std::regex_replace(kChebyshev, std::regex(" 542\\.9635p"), " {cend}"),
+                           std::regex(" 978\\.5059n"), " 'lmid'"),
+        std::regex(" 808\\.7704p"), " {cmid}");
+    params.insert(params.find("V1"), ".param cend=542.9635p lmid=978.5059n cmid=808.7704p\n");
+    test::write_bytes(dir.file("cheb.cir"), kChebyshev);
+    test::write_bytes(dir.file("param.cir"), params);
+    for (const char* deck : {"cheb", "param"}) {
+        test::RunResult r = test::run_binary({"snap", std::string(deck) + ".cir", "--series",
+                                              "C=E24,L=E24", "-o", std::string(deck) + "_e24.cir"},
+                                             dir.path());
+        ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
+        EXPECT_EQ(r.err.find("left as written"), std::string::npos) << r.err;
+        if (std::string(deck) == "param")
+            EXPECT_NE(
+                r.out.find("  cend            542.9635p           560p   +3.138%  .param, the "
+                           "value of C1, C5"),
+                std::string::npos)
+                << r.out;
+    }
+    EXPECT_NE(
+        test::read_bytes(dir.file("param_e24.cir")).find(".param cend=560p lmid=1u cmid=820p\n"),
+        std::string::npos);
+    std::string cards = ".save all\n.ac lin 3 1meg 20meg\n.meas ac at9 find vdb(out) at=9meg\n";
+    double written = ngspice_number(dir, dir.file("cheb_e24.cir"), cards, "at9");
+    double param = ngspice_number(dir, dir.file("param_e24.cir"), cards, "at9");
+    EXPECT_NEAR(written, param, 1e-9);
+    EXPECT_NE(written, ngspice_number(dir, dir.file("cheb.cir"), cards, "at9"));
 }
 
 }  // namespace
