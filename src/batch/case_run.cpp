@@ -9,6 +9,7 @@
 #include "deck/diagnostic.hpp"
 #include "scale/rescale.hpp"
 #include "verify/held_report.hpp"
+#include "verify/noise_compare.hpp"
 #include "verify/pair.hpp"
 #include "write/plan.hpp"
 
@@ -102,7 +103,13 @@ std::string worst_vector(const VerifyReport& report) {
         }
     }
     if (!wv) return "";
-    std::string at = wc->analysis == "op" ? "" : fmt::format(" at {:.6g}", wv->at);
+    // Where it is worst, in the analysis's own unit ("at 1.6e+07 Hz", "at 0.0031 s").
+    std::string at;
+    if (wc->analysis == "noise" && integrated_noise(*wv))
+        at = " over the band";
+    else if (wc->analysis != "op" && wc->analysis != "tf")
+        at = wc->axis_unit.empty() ? fmt::format(" at {:.6g}", wv->at)
+                                   : fmt::format(" at {:.6g} {}", wv->at, wc->axis_unit);
     return fmt::format("{} {}: relative error {:.3g}{} (tolerance {:.3g})", wc->analysis, wv->name,
                        wv->worst, at, tolerance_of(*wc, report.tolerances));
 }

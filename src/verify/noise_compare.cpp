@@ -175,4 +175,9 @@ Comparison compare_noise(const SimPlot& so, const SimPlot& ss, const SimPlot* to
     return c;
 }
 
+bool integrated_noise(const VectorResult& v) {
+    return v.kind == VectorKind::voltage || v.kind == VectorKind::current ||
+           v.kind == VectorKind::voltage_squared || v.kind == VectorKind::current_squared;
+}
+
 }  // namespace deckscale

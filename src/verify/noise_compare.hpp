@@ -20,6 +20,10 @@ namespace deckscale {
 // noise quantity.
 std::optional<double> noise_factor(VectorKind kind, bool integrated, double km, double kf);
 
+// A vector of a noise comparison that is integrated over the band (onoise_total, ...): it
+// has no frequency of its own. Its kind is a voltage, a current or the square of either.
+bool integrated_noise(const VectorResult& v);
+
 // Compares ngspice's two noise plots of each run: the spectra ("noise1": frequency,
 // onoise_spectrum, inoise_spectrum and, with points per summary, each device's part) at
 // mapped frequencies, and the integrated noise ("noise2": onoise_total, inoise_total, ...).

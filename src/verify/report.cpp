@@ -8,6 +8,7 @@
 
 #include "scale/expression.hpp"
 #include "verify/held_report.hpp"
+#include "verify/noise_compare.hpp"
 
 namespace deckscale {
 
@@ -53,12 +54,6 @@ std::string axis_of(const Comparison& c) {
 
 // A comparison at one point (no sweep or time axis).
 bool single_point(const Comparison& c) { return c.analysis == "op" || c.analysis == "tf"; }
-
-// A noise vector that is integrated over the band (no frequency of its own).
-bool integrated(const VectorResult& v) {
-    return v.kind == VectorKind::voltage || v.kind == VectorKind::current ||
-           v.kind == VectorKind::voltage_squared || v.kind == VectorKind::current_squared;
-}
 
 // How the noise of the scaled deck was mapped back (verify/noise_compare.hpp's factors).
 std::string noise_mapping(const VerifyReport& r, const Comparison& c) {
@@ -152,7 +147,7 @@ std::string report_text(const VerifyReport& r) {
                                                   : "differs";
             if (c.analysis == "noise")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14} {:>12.3g}  {}\n", name, width,
-                                 v.worst, integrated(v) ? "band" : fmt::format("{:.6g}", v.at),
+                                 v.worst, integrated_noise(v) ? "band" : fmt::format("{:.6g}", v.at),
                                  v.db_error, verdict);
             else if (c.analysis == "ac")
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name,
