@@ -10,7 +10,9 @@
 
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
+#include "deck/deck_params.hpp"
 #include "deck/load.hpp"
+#include "deck/rcl_fields.hpp"
 #include "deck/spice_number.hpp"
 #include "verify/sim_cards.hpp"
 
@@ -24,9 +26,11 @@ struct TwoTerminal {
     double value = 0;
 };
 
-// The R, C and L elements of the top level with a plain value; the others in `held`.
+// The R, C and L elements of the top level whose value is a number or evaluates with the
+// deck's top-level parameters; the others in `held`.
 std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string>& held) {
     std::vector<TwoTerminal> out;
+    ParamTable params = top_level_params(deck);
     int depth = 0;
     deck.visit_file(0, [&](const Card& c) {
         std::string kw = card_keyword(c);
@@ -35,15 +39,15 @@ std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string
             if (kw == ".ends" && depth > 0) --depth;
             return;
         }
-        if (c.kind != CardKind::element || kw.empty() ||
-            (kw[0] != 'r' && kw[0] != 'c' && kw[0] != 'l'))
-            return;
+        auto rcl = rcl_fields(c);
+        if (!rcl) return;
         if (depth > 0) return held.push_back(kw + " (inside a subcircuit)");
-        if (c.fields.size() < 4) return held.push_back(kw + " (no value)");
-        NumberParse p = parse_spice_number(c.field_text(3));
-        if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0))
-            return held.push_back(kw + " (its value is not a plain number)");
-        out.push_back({kw, to_lower(c.field_text(1)), to_lower(c.field_text(2)), p.number->value});
+        if (!rcl->value) return held.push_back(kw + " (no value)");
+        auto value = value_with_params(c.field_text(*rcl->value), params);
+        if (!value || !(*value > 0) || !std::isfinite(*value))
+            return held.push_back(kw + " (its value is not a positive number)");
+        out.push_back({kw, to_lower(c.field_text(rcl->node_a)), to_lower(c.field_text(rcl->node_b)),
+                       *value});
     });
     return out;
 }

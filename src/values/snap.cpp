@@ -8,6 +8,7 @@
 #include <utility>
 
 #include "base/text_util.hpp"
+#include "deck/rcl_fields.hpp"
 #include "deck/spice_number.hpp"
 #include "values/snap_params.hpp"
 
@@ -42,27 +43,6 @@ Diagnostic left_alone(const Card& c, const Token& t, std::string_view text) {
     d.message =
         fmt::format("'{}' is not a plain number: {} is left as written", text, c.field_text(0));
     return d;
-}
-
-// The value field of an R, C or L element: the third positional field, or "R=" / "C=" /
-// "L=" (as verify reads it).
-std::optional<std::size_t> value_field(const Card& c, char letter) {
-    int positional = 0;
-    const auto& fl = c.fields;
-    for (std::size_t i = 1; i < fl.size(); ++i) {
-        bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
-        if (expression && positional == 2) return i;  // the value itself is an expression
-        if (fl[i].kind != TokenKind::word) continue;
-        bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
-        if (keyed) {
-            std::string key = to_lower(c.field_text(i));
-            if (key.size() == 1 && key[0] == letter && i + 2 < fl.size()) return i + 2;
-            i += 2;
-            continue;
-        }
-        if (++positional == 3) return i;
-    }
-    return std::nullopt;
 }
 
 }  // namespace
@@ -121,8 +101,9 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
             const auto* chosen = series_for(series, name[0]);
             if (!chosen || !*chosen) return;
             const auto& fl = c.fields;
-            std::optional<std::size_t> at = value_field(c, name[0]);
-            if (!at) return;
+            auto rcl = rcl_fields(c);
+            if (!rcl || !rcl->value) return;
+            std::optional<std::size_t> at = rcl->value;
             const Token& t = fl[*at];
             std::string_view value_text = c.field_text(*at);
             if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {

@@ -8,6 +8,7 @@
 #include "base/text_util.hpp"
 #include "deck/deck_params.hpp"
 #include "deck/param_eval.hpp"
+#include "deck/rcl_fields.hpp"
 #include "deck/spice_number.hpp"
 
 namespace deckscale {
@@ -63,44 +64,19 @@ std::vector<ElementValue> element_values(const Deck& deck) {
                 local.clear();
                 for (const auto& names : open) local.insert(names.begin(), names.end());
             }
-            if (c.kind != CardKind::element || c.fields.empty()) return;
-            std::string name = card_keyword(c);
-            char letter = name[0];
-            if (letter != 'r' && letter != 'c' && letter != 'l') return;
-            int positional = 0;
-            const auto& fl = c.fields;
-            for (std::size_t i = 1; i < fl.size(); ++i) {
-                bool expression = fl[i].kind == TokenKind::brace || fl[i].kind == TokenKind::squote;
-                if (fl[i].kind != TokenKind::word && !expression) continue;
-                std::string_view w = c.field_text(i);
-                bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
-                std::string_view value_text;
-                if (keyed) {
-                    std::string key = to_lower(w);
-                    bool value_key = (key.size() == 1 && key[0] == letter) ||
-                                     key == (letter == 'r'   ? "resistance"
-                                             : letter == 'c' ? "capacitance"
-                                                             : "inductance");
-                    if (value_key && i + 2 < fl.size())
-                        value_text = c.field_text(i + 2);
-                    else {
-                        i += 2;
-                        continue;
-                    }
-                } else if (++positional >= 3) {
-                    value_text = w;
-                } else {
-                    continue;
-                }
-                auto value = value_with_params(value_text, params, local);
-                // `C1 a b cmod 1n`: a model name may come before the value.
-                if (!value && positional == 3 && !keyed && fl[i].kind == TokenKind::word) continue;
-                if (!value) return;
-                auto pos = c.file->position(c.fields[0].begin);
-                out.push_back({name, letter, *value, c.file->path(), pos.line,
-                               std::string(value_text), !open.empty()});
-                return;
+            auto rcl = rcl_fields(c);
+            if (!rcl || !rcl->value) return;
+            std::size_t at = *rcl->value;
+            auto value = value_with_params(c.field_text(at), params, local);
+            // `C1 a b cmod 1n`: a model name may come before the value.
+            if (!value && !rcl->keyed && c.fields[at].kind == TokenKind::word && rcl->after_value) {
+                at = *rcl->after_value;
+                value = value_with_params(c.field_text(at), params, local);
             }
+            if (!value) return;
+            auto pos = c.file->position(c.fields[0].begin);
+            out.push_back({card_keyword(c), rcl->letter, *value, c.file->path(), pos.line,
+                           std::string(c.field_text(at)), !open.empty()});
         });
     }
     return out;

@@ -4,16 +4,10 @@
 
 #include <set>
 
+#include "deck/rcl_fields.hpp"
 #include "deck/spice_number.hpp"
 
 namespace deckscale {
-namespace {
-
-bool is_rcl(const std::string& keyword) {
-    return !keyword.empty() && (keyword[0] == 'r' || keyword[0] == 'c' || keyword[0] == 'l');
-}
-
-}  // namespace
 
 PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
     PartList out;
@@ -28,7 +22,8 @@ PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
                 if (kw == ".ends" && depth > 0) --depth;
                 return;
             }
-            if (c.kind != CardKind::element || !is_rcl(kw)) return;
+            auto rcl = rcl_fields(c);
+            if (!rcl) return;
             auto hold = [&](std::string why) {
                 const Token& t = c.fields[0];
                 out.held.push_back(file.diagnose(Severity::note, t.begin, t.size(),
@@ -36,8 +31,11 @@ PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
             };
             if (depth > 0) return hold("it is inside a subcircuit");
             if (f != 0) return hold("it is in an included file");
-            if (c.fields.size() < 4) return hold("it has no value field");
-            NumberParse p = parse_spice_number(c.field_text(3));
+            if (!rcl->value) return hold("it has no value field");
+            const Token& v = c.fields[*rcl->value];
+            if (v.kind != TokenKind::word)
+                return hold("its value is an expression (a trial varies written numbers only)");
+            NumberParse p = parse_spice_number(c.field_text(*rcl->value));
             if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0))
                 return hold("its value is not a positive number");
             seen.insert(kw);

@@ -97,6 +97,34 @@ TEST(StressMeasure, ATransientGivesPeaksAndAveragePower) {
     EXPECT_NEAR(row.current_ratio, 10, 1e-6);
 }
 
+// The divider in the field spellings ngspice 39 accepts (manual §2.1.4.1: ',', '(' and ')'
+// separate fields) and with a value from a top-level parameter: every part is measured. 10 V
+// over 1k in series with 1k || 1k gives 10/3 V at the midpoint, 1.667 mA in each lower
+// resistor (Ohm's law, common practice).
+TEST(StressMeasure, EveryFieldSpellingAndAParameterValueIsMeasured) {
+    test::TempDir dir;
+    const char* deck =
+        "spellings\nV1 in 0 DC 10\nR1 (in mid) 1k\nR2 mid,0,1k\n.param rv=1k\nR3 mid 0 {rv}\n"
+        "C1 mid 0 c=1n\n.end\n";
+    test::write_bytes(dir.file("o.cir"), deck);
+    test::write_bytes(dir.file("s.cir"), deck);
+    StressRequest r;
+    r.original = dir.file("o.cir");
+    r.scaled = dir.file("s.cir");
+    DiskFileSystem disk;
+    StressResult s = run_stress(r, disk);
+    ASSERT_EQ(s.outcome, StressResult::Outcome::done) << (s.problems.empty() ? "" : s.problems[0]);
+    EXPECT_TRUE(s.held.empty()) << s.held[0];
+    ASSERT_EQ(s.rows.size(), 4u);
+    EXPECT_EQ(s.rows[0].part, "r1");
+    EXPECT_NEAR(s.rows[0].scaled.dc_current, 20.0 / 3 / 1000, 1e-9);
+    EXPECT_NEAR(s.rows[1].scaled.dc_voltage, 10.0 / 3, 1e-6);
+    EXPECT_NEAR(s.rows[1].scaled.dc_current, 10.0 / 3 / 1000, 1e-9);
+    EXPECT_EQ(s.rows[2].part, "r3");
+    EXPECT_NEAR(s.rows[2].scaled.dc_power, 100.0 / 9 / 1000, 1e-9);
+    EXPECT_NEAR(s.rows[3].value, 1e-9, 1e-21);
+}
+
 TEST(StressMeasure, RatingTextsAreReadOrRefused) {
     struct Case {
         int line;
