@@ -4,8 +4,17 @@
 
 #include "base/text_util.hpp"
 #include "deck/load.hpp"
+#include "deck/spice_number.hpp"
 
 namespace deckscale {
+namespace {
+
+bool number(std::string_view text) {
+    NumberParse p = parse_spice_number(text);
+    return p.number && p.problem == NumberProblem::none;
+}
+
+}  // namespace
 
 std::optional<RclFields> rcl_fields(const Card& c) {
     if (c.kind != CardKind::element || c.fields.empty()) return std::nullopt;
@@ -39,6 +48,13 @@ std::optional<RclFields> rcl_fields(const Card& c) {
         if (positional == 2) out.node_b = i;
         if (positional == 3 && !out.value) out.value = i;
         if (positional == 4 && out.value && !out.keyed) out.after_value = i;
+        // On an R line a later bare number overrides the value: `R1 a b 1,5` is 5 Ohm
+        // (shared deck-syntax notes §1, tried with ngspice 39).
+        if (positional >= 4 && out.letter == 'r' && out.value && !out.keyed &&
+            number(c.field_text(*out.value)) && number(c.field_text(i))) {
+            out.value = i;
+            out.after_value.reset();
+        }
     }
     if (positional < 2) return std::nullopt;
     return out;

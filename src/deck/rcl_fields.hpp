@@ -2,7 +2,8 @@
 // line: fields are separated by blanks, ',', '=', '(' and ')' (ngspice 39 manual §2.1.4.1;
 // shared deck-syntax notes §1, tried: `R12 (n0 0) 12k` and `R13 n0,0,13k` work), and the value
 // is the third positional field or a value key (`r=`, `resistance=`, `c=`, `capacitance=`,
-// `l=`, `inductance=`; ngspice 39 manual §3.3.1, §3.3.6, §3.3.10). Used by the commands that
+// `l=`, `inductance=`; ngspice 39 manual §3.3.1, §3.3.6, §3.3.10); on an R line a later bare
+// number overrides the value (`R1 a b 1,5` is 5 Ohm). Used by the commands that
 // read part values (verify's factor inference, snap, yield, stress).
 #pragma once
 

@@ -54,6 +54,10 @@ TEST(RclFields, NodesAndValueInEverySpelling) {
         {__LINE__, "C3 a b cmod 1n", "a|b|cmod|1n"},        // a model name before the value
         {__LINE__, "C4 a b cmod c=1n", "a|b|1n|-|keyed"},   // a value key wins
         {__LINE__, "R4 a b tc1=0.01 1k", "a|b|1k|-"},       // another key is skipped
+        // On an R line a later bare number overrides the value (deck-syntax notes §1, tried).
+        {__LINE__, "R6 a b 1,5", "a|b|5|-"},
+        {__LINE__, "R7 a b 1k rmod", "a|b|1k|rmod"},
+        {__LINE__, "C6 a b 1n 2n", "a|b|1n|2n"},
         {__LINE__, "V1 a 0 1", "(none)"},                   // not R, C or L
     };
     for (const auto& r : rows) EXPECT_EQ(fields_of(r.card), r.expected) << "line " << r.line;
