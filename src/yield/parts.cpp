@@ -2,16 +2,18 @@
 
 #include <fmt/format.h>
 
+#include <cmath>
 #include <set>
 
+#include "deck/deck_params.hpp"
 #include "deck/rcl_fields.hpp"
-#include "deck/spice_number.hpp"
 
 namespace deckscale {
 
 PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
     PartList out;
     std::set<std::string> seen;
+    ParamTable params = top_level_params(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         int depth = 0;
         const SourceFile& file = *deck.files[f].source;
@@ -32,21 +34,22 @@ PartList find_parts(const Deck& deck, const ToleranceSpec& tolerances) {
             if (depth > 0) return hold("it is inside a subcircuit");
             if (f != 0) return hold("it is in an included file");
             if (!rcl->value) return hold("it has no value field");
-            const Token& v = c.fields[*rcl->value];
-            if (v.kind != TokenKind::word)
-                return hold("its value is an expression (a trial varies written numbers only)");
-            NumberParse p = parse_spice_number(c.field_text(*rcl->value));
-            if (!p.number || p.problem != NumberProblem::none || !(p.number->value > 0))
-                return hold("its value is not a positive number");
+            // A value written with the deck's top-level parameters is drawn like a number:
+            // `alter` sets the part itself, and each part of a shared parameter is a part of
+            // its own with its own tolerance.
+            auto value = value_with_params(c.field_text(*rcl->value), params);
+            if (!value || !std::isfinite(*value))
+                return hold("its value does not evaluate with the deck's top-level parameters");
+            if (!(*value > 0)) return hold("its value is not a positive number");
             seen.insert(kw);
-            out.parts.push_back({kw, p.number->value, tolerances.of(kw)});
+            out.parts.push_back({kw, *value, tolerances.of(kw)});
         });
     }
     for (const auto& [name, tol] : tolerances.by_part)
         if (!seen.count(name))
             out.errors.push_back(
                 fmt::format("--tolerance {}: no R, C or L of that name with a "
-                            "plain value at the deck's top level",
+                            "value at the deck's top level",
                             name));
     return out;
 }

@@ -1,7 +1,8 @@
 // The parts a yield run varies: the R, C and L elements of a deck's top level whose value is
-// a plain number. Every other R, C or L is held at its value and said so (never skipped
-// silently): one inside a .subckt, one valued by an expression or a parameter, one in an
-// included file.
+// a number or evaluates with the deck's top-level parameters (`{rbase}`, `{2*rbase}`); each
+// part is drawn on its own, also where parts share a parameter, as physical parts do. Every
+// other R, C or L is held at its value and said so (never skipped silently): one inside a
+// .subckt, one in an included file, one whose value does not evaluate (a behavioural one).
 #pragma once
 
 #include <string>
@@ -15,7 +16,7 @@ namespace deckscale {
 
 struct Part {
     std::string name;      // lower case, as ngspice's alter names it
-    double nominal = 0;    // the value as written
+    double nominal = 0;    // the value as written (evaluated)
     double tolerance = 0;  // relative; 0: the part keeps its value (no alter)
 };
 

@@ -103,6 +103,28 @@ TEST(YieldRun, DividerRatioFollowsItsAnalyticDistribution) {
     EXPECT_LT(y.deviation.max, 20 * std::log10(1.01));
 }
 
+// The divider with its lower resistor valued by a parameter: the part is varied like a
+// written one, and ngspice's ratio in each trial is that of the drawn values.
+TEST(YieldRun, APartValuedByAParameterIsVaried) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("div.cir"),
+                      "divider\nV1 in 0 DC 0 AC 1\n.param rbot=10k\nR1 in out 10k\n"
+                      "R2 out 0 {rbot}\n.ac dec 1 1k 10k\n.end\n");
+    YieldRequest r = request_for(dir.file("div.cir"), 50);
+    ASSERT_EQ(parse_tolerances("R=1%", r.tolerances), "");
+    DiskFileSystem disk;
+    YieldResult y = run_yield(r, disk);
+    ASSERT_EQ(y.outcome, YieldResult::Outcome::done) << (y.problems.empty() ? "" : y.problems[0]);
+    ASSERT_EQ(y.parts.size(), 2u);
+    EXPECT_EQ(y.parts[1].name, "r2");
+    EXPECT_DOUBLE_EQ(y.parts[1].nominal, 10e3);
+    ASSERT_EQ(y.trials.size(), 50u);
+    for (const TrialResult& t : y.trials) {
+        std::vector<double> v = trial_values(y.parts, r.seed, t.trial, r.spread);
+        EXPECT_NEAR(std::pow(10, t.figures.gain_db / 20), v[1] / (v[0] + v[1]), 1e-9) << t.trial;
+    }
+}
+
 TEST(YieldRun, AFixedSeedGivesTheSameFiguresForOneAndTwoWorkers) {
     test::TempDir dir;
     test::write_bytes(dir.file("rc.cir"), kLowPass);
@@ -160,7 +182,7 @@ TEST(YieldRun, BadInputComesBackAsData) {
     };
     const Case cases[] = {
         {__LINE__, "rc.cir", "R9=1%", "",
-         "--tolerance r9: no R, C or L of that name with a plain value at "
+         "--tolerance r9: no R, C or L of that name with a value at "
          "the deck's top level"},
         {__LINE__, "rc.cir", "", "V7",
          "--drive V7: no independent source of that name in {}rc.cir"},
