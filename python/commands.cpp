@@ -4,12 +4,15 @@
 
 #include <filesystem>
 
+#include "base/text_util.hpp"
 #include "batch/report.hpp"
 #include "batch/summary.hpp"
 #include "batch/workers.hpp"
 #include "cli/retarget_command.hpp"
 #include "deckscale/internal.hpp"
 #include "python/convert.hpp"
+#include "deck/analyses.hpp"
+#include "retarget/response_change.hpp"
 #include "retarget/retarget.hpp"
 #include "stress/report.hpp"
 #include "values/snap.hpp"
@@ -47,7 +50,50 @@ void refuse_overwriting(const std::string& output, const std::string& deck) {
         raise_request_error("'" + output + "' is the input deck; it is never overwritten");
 }
 
-py::dict snap(py::handle deck_arg, const std::string& series, py::object output, bool write) {
+// The response change rounding caused, as the snap command reports it: nullopt when the
+// deck has no sweep or no driven source (with `why`), a dict with "problem" when the
+// simulation failed.
+py::object snap_response(const Deck& ideal, const std::string& ideal_path,
+                         const std::string& rounded_path, const std::string& node,
+                         py::handle sweep, py::handle drive, double timeout,
+                         std::uint64_t memory_mb) {
+    DeckAnalyses an = find_analyses(ideal);
+    std::optional<AcSweep> ac = an.ac;
+    if (std::vector<std::string> words = sweep_of(sweep); !words.empty()) {
+        std::string error;
+        ac = parse_sweep(words, error);
+        if (!ac) raise_request_error("sweep: " + error);
+    }
+    std::string source = drive.is_none() ? "" : to_lower(drive.cast<std::string>());
+    if (!ac || (an.ac_sources.empty() && source.empty())) return py::none();
+    ProbeSettings probe{node, source, 1, std::chrono::milliseconds(static_cast<long>(timeout * 1000)),
+                        memory_mb};
+    ResponseChange c;
+    {
+        py::gil_scoped_release unlocked;
+        DiskFileSystem disk;
+        Deck rounded = load_deck(rounded_path, disk);
+        c = response_change(ideal, ideal_path, rounded, rounded_path, probe, *ac);
+    }
+    if (!c.problem.empty()) return py::dict("problem"_a = c.problem);
+    auto ripple = [](const Ripple& r) {
+        return r.valley_hz > 0 ? py::dict("db"_a = r.db, "valley_hz"_a = r.valley_hz)
+                               : py::dict("db"_a = py::none(), "valley_hz"_a = py::none());
+    };
+    auto optional = [](const std::optional<double>& x) {
+        return x ? py::object(py::float_(*x)) : py::object(py::none());
+    };
+    return py::dict("node"_a = node, "points"_a = c.points, "max_db"_a = c.max_db,
+                    "max_db_hz"_a = c.max_db_hz, "max_deg"_a = c.max_deg,
+                    "max_deg_hz"_a = c.max_deg_hz, "ripple_ideal"_a = ripple(c.ripple_ideal),
+                    "ripple_rounded"_a = ripple(c.ripple_rounded),
+                    "corner_ideal_hz"_a = optional(c.corner_ideal),
+                    "corner_rounded_hz"_a = optional(c.corner_rounded));
+}
+
+py::dict snap(py::handle deck_arg, const std::string& series, py::object output, bool write,
+              const std::string& node, py::object sweep, py::object drive, double timeout,
+              std::uint64_t memory_mb) {
     SnapSeries s = snap_series(series);
     api::Deck deck = deck_of(deck_arg);
     api::Scaled out;  // the written files, in the form write() takes
@@ -68,9 +114,14 @@ py::dict snap(py::handle deck_arg, const std::string& series, py::object output,
                               "old"_a = p.old_text, "new"_a = p.new_text, "ideal"_a = p.ideal,
                               "rounded"_a = p.rounded, "error"_a = p.error(),
                               "parameter_of"_a = p.elements));
+    // The response change needs the rounded deck on disk: it is simulated from there.
+    py::object change = py::none();
+    if (write && !path.empty())
+        change = snap_response(deck.impl().deck, deck.path(), path, node, sweep, drive, timeout,
+                               memory_mb);
     return py::dict("files"_a = out.files, "text"_a = text_of(out.text()), "parts"_a = parts,
                     "left_alone"_a = diagnostics(r.left_alone),
-                    "warnings"_a = diagnostics(deck.warnings()),
+                    "warnings"_a = diagnostics(deck.warnings()), "response_change"_a = change,
                     "cautions"_a = nominal_value_cautions());
 }
 
@@ -318,10 +369,12 @@ void add_commands(py::module_& m) {
         "value"_a, "series"_a,
         "The member of the series nearest to value on a logarithmic scale (midway goes up).");
     m.def("snap", &snap, "deck"_a, "series"_a = "R=E96,C=E12,L=E12", py::kw_only(),
-          "output"_a = py::none(), "write"_a = true,
+          "output"_a = py::none(), "write"_a = true, "node"_a = "out", "sweep"_a = py::none(),
+          "drive"_a = py::none(), "timeout"_a = 60.0, "memory_mb"_a = 8192,
           "Rounds every R, C and L to the nearest member of its series; returns the files' "
           "text, each part's error and what was left alone. With `output` the deck is written "
-          "there (unless write=False).");
+          "there (unless write=False), and `response_change` holds the change rounding caused "
+          "at `node` over the deck's .ac sweep (or `sweep`), as the snap command reports it.");
     m.def("retarget", &retarget, "deck"_a, "output"_a, py::kw_only(), "impedance"_a = py::none(),
           "impedance_map"_a = py::none(), "impedance_range"_a = py::none(), "series"_a = py::none(),
           "corner"_a = py::none(), "center"_a = py::none(), "notch"_a = py::none(),

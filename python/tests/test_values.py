@@ -1,6 +1,7 @@
 """Preferred values (IEC 60063) and snapping a deck to them."""
 import math
 import os
+import re
 import unittest
 
 import deckscale
@@ -49,6 +50,32 @@ class ValuesTest(unittest.TestCase):
         self.assertIn("local codes and", r["cautions"])
         with self.assertRaises(deckscale.DeckError):
             deckscale.snap(deckscale.read_text(deck), "R=E97")
+
+
+    def test_snap_reports_the_response_change_as_the_command_line(self):
+        # A second-order RC low-pass whose parts round off their ideal values.
+        deck = ("rc ladder\nV1 in 0 dc 0 ac 1\nR1 in m 1.234k\nC1 m 0 3.1n\nR2 m out 2.345k\n"
+                "C2 out 0 1.3n\n.ac dec 20 100 10meg\n.end\n")
+        with TempDir() as d:
+            path = os.path.join(d, "rc.cir")
+            write_bytes(path, deck)
+            ran = cli("snap", path, "--series", "R=E12,C=E6", "-o", os.path.join(d, "cli.cir"))
+            self.assertEqual(ran.returncode, 0, ran.stderr)
+            r = deckscale.snap(path, "R=E12,C=E6", output=os.path.join(d, "py.cir"))
+            unwritten = deckscale.snap(path, "R=E12,C=E6", output=os.path.join(d, "no.cir"),
+                                       write=False)
+        change = r["response_change"]
+        self.assertIsNone(unwritten["response_change"])
+        self.assertEqual(change["node"], "out")
+        stdout = ran.stdout.decode()
+        printed = re.search(r"magnitude  max (\S+) dB", stdout)
+        self.assertIsNotNone(printed, stdout)
+        self.assertEqual(float(printed.group(1)), float(f"{change['max_db']:.4g}"))
+        printed = re.search(r"phase      max (\S+) deg", stdout)
+        self.assertEqual(float(printed.group(1)), float(f"{change['max_deg']:.4g}"))
+        self.assertGreater(change["max_db"], 0)
+        self.assertIsNotNone(change["corner_ideal_hz"])
+        self.assertNotEqual(change["corner_ideal_hz"], change["corner_rounded_hz"])
 
 
 if __name__ == "__main__":
