@@ -26,29 +26,31 @@ struct TwoTerminal {
     double value = 0;
 };
 
-// The R, C and L elements of the top level whose value is a number or evaluates with the
-// deck's top-level parameters; the others in `held`.
+// The R, C and L elements of the top level (in the deck and the files it includes) whose value
+// is a number or evaluates with the deck's top-level parameters; the others in `held`.
 std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string>& held) {
     std::vector<TwoTerminal> out;
     ParamTable params = top_level_params(deck);
-    int depth = 0;
-    deck.visit_file(0, [&](const Card& c) {
-        std::string kw = card_keyword(c);
-        if (c.kind == CardKind::dot) {
-            if (kw == ".subckt") ++depth;
-            if (kw == ".ends" && depth > 0) --depth;
-            return;
-        }
-        auto rcl = rcl_fields(c);
-        if (!rcl) return;
-        if (depth > 0) return held.push_back(kw + " (inside a subcircuit)");
-        if (!rcl->value) return held.push_back(kw + " (no value)");
-        auto value = value_with_params(c.field_text(*rcl->value), params);
-        if (!value || !(*value > 0) || !std::isfinite(*value))
-            return held.push_back(kw + " (its value is not a positive number)");
-        out.push_back({kw, to_lower(c.field_text(rcl->node_a)), to_lower(c.field_text(rcl->node_b)),
-                       *value});
-    });
+    for (std::size_t f = 0; f < deck.files.size(); ++f) {
+        int depth = 0;
+        deck.visit_file(f, [&](const Card& c) {
+            std::string kw = card_keyword(c);
+            if (c.kind == CardKind::dot) {
+                if (kw == ".subckt") ++depth;
+                if (kw == ".ends" && depth > 0) --depth;
+                return;
+            }
+            auto rcl = rcl_fields(c);
+            if (!rcl) return;
+            if (depth > 0) return held.push_back(kw + " (inside a subcircuit)");
+            if (!rcl->value) return held.push_back(kw + " (no value)");
+            auto value = value_with_params(c.field_text(*rcl->value), params);
+            if (!value || !(*value > 0) || !std::isfinite(*value))
+                return held.push_back(kw + " (its value is not a positive number)");
+            out.push_back({kw, to_lower(c.field_text(rcl->node_a)),
+                           to_lower(c.field_text(rcl->node_b)), *value});
+        });
+    }
     return out;
 }
 
@@ -57,6 +59,14 @@ std::complex<double> node_value(const SimPlot& p, const std::string& node, std::
     const SimVector* v = p.find(node);
     if (!v) v = p.find("v(" + node + ")");
     return v && k < v->values.size() ? v->values[k] : std::complex<double>(0);
+}
+
+// Whether the run has both of the part's nodes (a part of a file included inside a .subckt
+// has nodes of the subcircuit's instances instead).
+bool nodes_known(const SimPlot& p, const TwoTerminal& t) {
+    for (const std::string* n : {&t.a, &t.b})
+        if (*n != "0" && *n != "gnd" && !p.find(*n) && !p.find("v(" + *n + ")")) return false;
+    return true;
 }
 
 const SimPlot* plot_of(const SimOutcome& o, const char* prefix) {
@@ -211,6 +221,10 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
     const SimPlot* op_o = plot_of(outcomes[0], "op");
     const SimPlot* op_s = plot_of(outcomes[1], "op");
     for (const TwoTerminal& t : parts_s) {
+        if (op_s && !nodes_known(*op_s, t)) {
+            result.held.push_back(t.name + " (its nodes are not in the results)");
+            continue;
+        }
         PartStressRow row;
         row.part = t.name;
         row.value = t.value;

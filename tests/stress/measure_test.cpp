@@ -125,6 +125,29 @@ TEST(StressMeasure, EveryFieldSpellingAndAParameterValueIsMeasured) {
     EXPECT_NEAR(s.rows[3].value, 1e-9, 1e-21);
 }
 
+// A part in an included file is measured like one in the deck; one whose file is included
+// inside a .subckt has no nodes of its own in the results and is listed as not measured.
+// 10 V over 1k and 1k || 1k: 10/3 V at the midpoint (Ohm's law, common practice).
+TEST(StressMeasure, PartsOfIncludedFilesAreMeasured) {
+    test::TempDir dir;
+    const char* deck =
+        "included\nV1 in 0 DC 10\nR1 in mid 1k\n.include lower.inc\n.subckt arm a b\n"
+        ".include arm.inc\n.ends\nX1 mid 0 arm\n.end\n";
+    test::write_bytes(dir.file("o.cir"), deck);
+    test::write_bytes(dir.file("lower.inc"), "R2 mid 0 1k\n");
+    test::write_bytes(dir.file("arm.inc"), "R3 a b 1k\n");
+    StressRequest r;
+    r.original = dir.file("o.cir");
+    r.scaled = dir.file("o.cir");
+    DiskFileSystem disk;
+    StressResult s = run_stress(r, disk);
+    ASSERT_EQ(s.outcome, StressResult::Outcome::done) << (s.problems.empty() ? "" : s.problems[0]);
+    ASSERT_EQ(s.rows.size(), 2u);
+    EXPECT_EQ(s.rows[1].part, "r2");
+    EXPECT_NEAR(s.rows[1].scaled.dc_voltage, 10.0 / 3, 1e-6);
+    EXPECT_EQ(s.held, std::vector<std::string>{"r3 (its nodes are not in the results)"});
+}
+
 TEST(StressMeasure, RatingTextsAreReadOrRefused) {
     struct Case {
         int line;
