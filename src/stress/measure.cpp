@@ -10,6 +10,7 @@
 
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
+#include "deck/circuit_cards.hpp"
 #include "deck/deck_params.hpp"
 #include "deck/load.hpp"
 #include "deck/rcl_fields.hpp"
@@ -26,31 +27,24 @@ struct TwoTerminal {
     double value = 0;
 };
 
-// The R, C and L elements of the top level (in the deck and the files it includes) whose value
-// is a number or evaluates with the deck's top-level parameters; the others in `held`.
+// The R, C and L elements of the circuit's top level (in the deck and the files it includes)
+// whose value is a number or evaluates with the deck's top-level parameters; the others in
+// `held`.
 std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string>& held) {
     std::vector<TwoTerminal> out;
     ParamTable params = top_level_params(deck);
-    for (std::size_t f = 0; f < deck.files.size(); ++f) {
-        int depth = 0;
-        deck.visit_file(f, [&](const Card& c) {
-            std::string kw = card_keyword(c);
-            if (c.kind == CardKind::dot) {
-                if (kw == ".subckt") ++depth;
-                if (kw == ".ends" && depth > 0) --depth;
-                return;
-            }
-            auto rcl = rcl_fields(c);
-            if (!rcl) return;
-            if (depth > 0) return held.push_back(kw + " (inside a subcircuit)");
-            if (!rcl->value) return held.push_back(kw + " (no value)");
-            auto value = value_with_params(c.field_text(*rcl->value), params);
-            if (!value || !(*value > 0) || !std::isfinite(*value))
-                return held.push_back(kw + " (its value is not a positive number)");
-            out.push_back({kw, to_lower(c.field_text(rcl->node_a)),
-                           to_lower(c.field_text(rcl->node_b)), *value});
-        });
-    }
+    visit_circuit_elements(deck, [&](std::size_t, const Card& c, bool in_subckt) {
+        auto rcl = rcl_fields(c);
+        if (!rcl) return;
+        std::string kw = card_keyword(c);
+        if (in_subckt) return held.push_back(kw + " (inside a subcircuit)");
+        if (!rcl->value) return held.push_back(kw + " (no value)");
+        auto value = value_with_params(c.field_text(*rcl->value), params);
+        if (!value || !(*value > 0) || !std::isfinite(*value))
+            return held.push_back(kw + " (its value is not a positive number)");
+        out.push_back({kw, to_lower(c.field_text(rcl->node_a)), to_lower(c.field_text(rcl->node_b)),
+                       *value});
+    });
     return out;
 }
 

@@ -126,7 +126,7 @@ TEST(StressMeasure, EveryFieldSpellingAndAParameterValueIsMeasured) {
 }
 
 // A part in an included file is measured like one in the deck; one whose file is included
-// inside a .subckt has no nodes of its own in the results and is listed as not measured.
+// inside a .subckt is listed as not measured.
 // 10 V over 1k and 1k || 1k: 10/3 V at the midpoint (Ohm's law, common practice).
 TEST(StressMeasure, PartsOfIncludedFilesAreMeasured) {
     test::TempDir dir;
@@ -145,7 +145,7 @@ TEST(StressMeasure, PartsOfIncludedFilesAreMeasured) {
     ASSERT_EQ(s.rows.size(), 2u);
     EXPECT_EQ(s.rows[1].part, "r2");
     EXPECT_NEAR(s.rows[1].scaled.dc_voltage, 10.0 / 3, 1e-6);
-    EXPECT_EQ(s.held, std::vector<std::string>{"r3 (its nodes are not in the results)"});
+    EXPECT_EQ(s.held, std::vector<std::string>{"r3 (inside a subcircuit)"});
 }
 
 TEST(StressMeasure, RatingTextsAreReadOrRefused) {
