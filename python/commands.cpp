@@ -11,6 +11,7 @@
 #include "cli/retarget_command.hpp"
 #include "deckscale/internal.hpp"
 #include "python/convert.hpp"
+#include "python/interrupt.hpp"
 #include "deck/analyses.hpp"
 #include "retarget/response_change.hpp"
 #include "retarget/retarget.hpp"
@@ -70,11 +71,12 @@ py::object snap_response(const Deck& ideal, const std::string& ideal_path,
                         memory_mb};
     ResponseChange c;
     {
-        py::gil_scoped_release unlocked;
+        Simulating unlocked;
         DiskFileSystem disk;
         Deck rounded = load_deck(rounded_path, disk);
         c = response_change(ideal, ideal_path, rounded, rounded_path, probe, *ac);
     }
+    raise_if_interrupted();
     if (!c.problem.empty()) return py::dict("problem"_a = c.problem);
     auto ripple = [](const Ripple& r) {
         return r.valley_hz > 0 ? py::dict("db"_a = r.db, "valley_hz"_a = r.valley_hz)
@@ -187,10 +189,11 @@ py::dict retarget(py::handle deck, py::handle output, py::object impedance,
     q.memory_mb = memory_mb;
     RetargetResult r;
     {
-        py::gil_scoped_release unlocked;
+        Simulating unlocked;
         DiskFileSystem disk;
         r = deckscale::retarget(q, disk);
     }
+    raise_if_interrupted();
     using Outcome = RetargetResult::Outcome;
     const char* outcome = r.outcome == Outcome::done         ? "done"
                           : r.outcome == Outcome::refused    ? "refused"
@@ -259,9 +262,10 @@ py::dict tolerance_yield(py::handle deck, std::uint64_t trials, std::uint64_t se
     q.memory_mb = memory_mb;
     YieldResult r;
     {
-        py::gil_scoped_release unlocked;
+        Simulating unlocked;
         r = run_yield(q, disk);
     }
+    raise_if_interrupted();
     if (r.outcome == YieldResult::Outcome::bad_input) {
         std::string why;
         for (const auto& p : r.problems) why += (why.empty() ? "" : "; ") + p;
@@ -300,10 +304,11 @@ py::dict stress(py::handle original, py::handle scaled, double ratio, py::object
     q.memory_mb = memory_mb;
     StressResult r;
     {
-        py::gil_scoped_release unlocked;
+        Simulating unlocked;
         DiskFileSystem disk;
         r = run_stress(q, disk);
     }
+    raise_if_interrupted();
     if (r.outcome == StressResult::Outcome::bad_input) {
         std::string why;
         for (const auto& p : r.problems) why += (why.empty() ? "" : "; ") + p;

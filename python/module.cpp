@@ -8,6 +8,7 @@
 #include "deckscale/verify.hpp"
 #include "python/commands.hpp"
 #include "python/convert.hpp"
+#include "python/interrupt.hpp"
 
 namespace deckscale::python {
 namespace {
@@ -80,9 +81,10 @@ py::dict verify(py::handle original, py::handle scaled, py::object km, py::objec
     api::Deck a = pair_member(original), b = pair_member(scaled);
     api::Verification v;
     {
-        py::gil_scoped_release unlocked;
+        Simulating unlocked;
         v = api::verify(a, b, o);
     }
+    raise_if_interrupted();
     return verification_dict(v);
 }
 

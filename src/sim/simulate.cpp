@@ -19,6 +19,7 @@
 #include "sim/child.hpp"
 #include "sim/end.hpp"
 #include "sim/head_start.hpp"
+#include "sim/interrupt.hpp"
 #include "sim/template.hpp"
 #include "sim/wire.hpp"
 
@@ -160,6 +161,8 @@ const char* to_string(SimStatus s) {
             return "crashed";
         case SimStatus::timed_out:
             return "timed out";
+        case SimStatus::interrupted:
+            return "interrupted";
     }
     return "unknown";
 }
@@ -178,6 +181,28 @@ const SimVector* SimPlot::find(const std::string& wanted) const {
 }
 
 namespace {
+
+SimOutcome interrupted(const SimJob& job) {
+    SimOutcome o;
+    o.status = SimStatus::interrupted;
+    o.message = fmt::format("{}: stopped on request", job.label);
+    return o;
+}
+
+// Kills every running child with what it started (its process group) and waits for it; a
+// child whose verdict was not in yet ends as interrupted.
+void stop_all(std::vector<Running>& running, const std::vector<SimJob>& jobs,
+              std::vector<SimOutcome>& outcomes) {
+    for (Running& r : running) {
+        if (::kill(-r.pid, SIGKILL) != 0) ::kill(r.pid, SIGKILL);
+        int status = 0;
+        reap(r.pid, status, false);
+        close_fd(r.fd);
+        close_fd(r.pidfd);
+        if (!r.judged) outcomes[r.index] = interrupted(jobs[r.index]);
+    }
+    running.clear();
+}
 
 // Runs the jobs, cloned from a template process (see sim/template.hpp) if `how` says so.
 std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned parallel,
@@ -203,6 +228,11 @@ std::vector<SimOutcome> run_jobs(const std::vector<SimJob>& jobs, unsigned paral
             std::count_if(running.begin(), running.end(), [](const Running& r) { return !r.judged; }));
     };
     while (next < jobs.size() || !running.empty()) {
+        if (interrupt_requested()) {
+            stop_all(running, jobs, outcomes);
+            for (; next < jobs.size(); ++next) outcomes[next] = interrupted(jobs[next]);
+            break;
+        }
         while (busy() < parallel && next < jobs.size()) {
             Running r;
             if (auto direct =

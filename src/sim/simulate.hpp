@@ -61,6 +61,7 @@ enum class SimStatus {
     controlled_exit,  // ngspice asked to exit (fatal error or 'quit')
     crashed,          // the child died from a signal or exited unexpectedly
     timed_out,        // killed after job.timeout
+    interrupted,      // stopped on request (sim/interrupt) before it ended
 };
 
 struct SimOutcome {
