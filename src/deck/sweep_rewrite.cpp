@@ -42,6 +42,7 @@ std::string faithful(const SpiceNumber& like, double x) {
 // The 15-digit text of x with k added to its last digit (in magnitude); nullopt when the
 // result would need a 16th digit or is not positive.
 std::optional<std::string> nudged(const SpiceNumber& like, double x, long long k) {
+    if (!std::isfinite(x)) return std::nullopt;
     Decimal d = to_decimal(x, kMaxDigits);
     std::string digits = d.digits;
     digits.resize(kMaxDigits, '0');
@@ -255,6 +256,14 @@ SweepRewrite rewrite_tran(const std::vector<std::string_view>& fields, double fa
 
 SweepRewrite rewrite_sweep(SweepKind kind, const std::vector<std::string_view>& fields,
                            double factor, double reltol) {
+    // A value the factor pushes out of a double's range has no text to write.
+    for (std::string_view f : fields)
+        if (auto x = number(f)) {
+            double y = factor * x->value;
+            if (!std::isfinite(y) || (x->value != 0 && y == 0))
+                return refuse(fmt::format("'{}' times {:.6g} is out of the range of numbers", f,
+                                          factor));
+        }
     switch (kind) {
         case SweepKind::ac:
         case SweepKind::noise:

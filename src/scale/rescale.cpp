@@ -451,7 +451,9 @@ void ScalePass::unscalable(const Token& at, std::string why) {
         std::uint32_t at_line = mark_at_ ? *mark_at_ : card_->begin();
         if (!card_->tokens.empty() && card_->tokens.front().kind == TokenKind::bom)
             at_line = card_->tokens.front().end;
-        target().add(card_->file->text(), Edit{at_line, 0, "* deckscale: left unscaled: " + why + eol});
+        // After an insertion already there (a code model's copy for other port types ends
+        // where this card begins).
+        target().add_after(card_->file->text(), at_line, "* deckscale: left unscaled: " + why + eol);
     }
 }
 

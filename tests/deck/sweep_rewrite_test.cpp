@@ -230,3 +230,20 @@ TEST(SweepRewrite, RefusesWhatNgspiceCannotStep) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// A value the factor pushes past the largest double (or to zero) is refused with the value
+// named; the nudge search once met an infinite stop and stopped the tool (found by the deck
+// fuzz run; tests/fuzz/regressions/deck-sweep-value-scaled-to-infinity.bin).
+TEST(SweepRewrite, AValueScaledOutOfRangeIsRefused) {
+    SweepRewrite r = rewrite_sweep(SweepKind::ac, {"lin", "20", "1", "4d300k"}, 6.283185307179586e7);
+    EXPECT_TRUE(r.fields.empty());
+    EXPECT_EQ(r.refusal, "'4d300k' times 6.28319e+07 is out of the range of numbers");
+    r = rewrite_sweep(SweepKind::tran, {"1e-300", "1e-290"}, 1e-30);
+    EXPECT_EQ(r.refusal, "'1e-300' times 1e-30 is out of the range of numbers");
+}
+
+}  // namespace
+}  // namespace deckscale
