@@ -55,14 +55,6 @@ std::complex<double> node_value(const SimPlot& p, const std::string& node, std::
     return v && k < v->values.size() ? v->values[k] : std::complex<double>(0);
 }
 
-// Whether the run has both of the part's nodes (a part of a file included inside a .subckt
-// has nodes of the subcircuit's instances instead).
-bool nodes_known(const SimPlot& p, const TwoTerminal& t) {
-    for (const std::string* n : {&t.a, &t.b})
-        if (*n != "0" && *n != "gnd" && !p.find(*n) && !p.find("v(" + *n + ")")) return false;
-    return true;
-}
-
 const SimPlot* plot_of(const SimOutcome& o, const char* prefix) {
     for (const auto& p : o.plots)
         if (istarts_with(p.name, prefix)) return &p;
@@ -215,10 +207,6 @@ StressResult run_stress(const StressRequest& o, const FileSystem& files) {
     const SimPlot* op_o = plot_of(outcomes[0], "op");
     const SimPlot* op_s = plot_of(outcomes[1], "op");
     for (const TwoTerminal& t : parts_s) {
-        if (op_s && !nodes_known(*op_s, t)) {
-            result.held.push_back(t.name + " (its nodes are not in the results)");
-            continue;
-        }
         PartStressRow row;
         row.part = t.name;
         row.value = t.value;

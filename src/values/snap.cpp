@@ -91,8 +91,7 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
     // parameter's definition (values/snap_params); the rest are left alone.
     std::vector<ParamValueUse> uses;
     std::vector<std::pair<std::pair<std::size_t, std::uint32_t>, Diagnostic>> notes;
-    std::vector<Diagnostic> expression_notes;
-    std::vector<std::string> expression_texts;
+    std::vector<std::pair<Diagnostic, std::string>> expression_notes;  // per use: note, text
     for (std::size_t f = 0; f < deck.files.size(); ++f) {
         std::string_view text = deck.files[f].source->text();
         deck.visit_file(f, [&](const Card& c) {
@@ -103,13 +102,11 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
             const auto& fl = c.fields;
             auto rcl = rcl_fields(c);
             if (!rcl || !rcl->value) return;
-            std::optional<std::size_t> at = rcl->value;
-            const Token& t = fl[*at];
-            std::string_view value_text = c.field_text(*at);
+            const Token& t = fl[*rcl->value];
+            std::string_view value_text = c.field_text(*rcl->value);
             if (t.kind == TokenKind::brace || t.kind == TokenKind::squote) {
                 uses.push_back(ParamValueUse{f, t.begin, name[0], std::string(c.field_text(0))});
-                expression_notes.push_back(left_alone(c, t, value_text));
-                expression_texts.emplace_back(value_text);
+                expression_notes.emplace_back(left_alone(c, t, value_text), value_text);
                 return;
             }
             auto p = parse_spice_number(value_text);
@@ -146,10 +143,10 @@ SnapResult snap_deck(const Deck& deck, const SnapSeries& series) {
         std::pair<std::size_t, std::uint32_t> key{uses[i].file, uses[i].begin};
         auto use = plan.use_of.find(key);
         if (use != plan.use_of.end() && use->second >= 0) continue;
-        Diagnostic d = std::move(expression_notes[i]);
+        auto& [d, written] = expression_notes[i];
         if (auto why = plan.why.find(key); why != plan.why.end())
-            d.message = fmt::format("'{}' is {}: {} is left as written", expression_texts[i],
-                                    why->second, uses[i].element);
+            d.message = fmt::format("'{}' is {}: {} is left as written", written, why->second,
+                                    uses[i].element);
         notes.emplace_back(key, std::move(d));
     }
     // Parts and notes in file order.
