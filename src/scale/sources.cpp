@@ -1,5 +1,7 @@
 // Card handler for independent V and I sources: DC, AC, DISTOF and every transient
 // function (ngspice 39 manual 4.1; shared notes "scaling-rules.md" §2).
+#include <cmath>
+
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
@@ -20,6 +22,65 @@ Unit resolve(Unit u, char letter) {
     return letter == 'i' ? Unit::ampere : Unit::volt;
 }
 
+bool is_port_field(const std::string& w) {
+    return w == "portnum" || w == "z0" || w == "pwr" || w == "freq" || w == "phase";
+}
+
+// A V source that is an RF port (ngspice 39 manual 4.1.11; vsrc.c, vsrcpar.c, vsrctemp.c
+// in ngspice-39.3): "portnum n" makes it one, and then its reference impedance z0 (default
+// 50 Ohm, taken when portnum meets no positive z0 set before it), and, for a transient,
+// its available power pwr (default 1 mW) and frequency freq (default 1 GHz), which drive
+// it with a sine of amplitude sqrt(4 pwr z0). Each field is "name value" or "name=value",
+// applied in card order. S-parameters stay with z0 x Km (shared notes "scaling-rules.md"
+// §2, verified there); the sine keeps its voltage with pwr / Km and follows with freq x Kf.
+class RfPort {
+public:
+    void field(ScalePass& p, const std::string& w, const Token* value) {
+        if (w == "portnum") {
+            bool off = value && p.is_number(*value) &&
+                       std::floor(0.5 + parse_spice_number(p.text(*value)).number->value) <= 0;
+            if (value) p.scale_value(*value, Unit::none, "portnum");
+            if (off) return;
+            port_ = true;
+            if (z0_ != Z0::positive) z0_ = Z0::by_default;
+        } else if (w == "z0") {
+            if (!value) return;
+            p.scale_value(*value, Unit::ohm, "z0");
+            bool not_positive =
+                p.is_number(*value) && parse_spice_number(p.text(*value)).number->value <= 0;
+            z0_ = not_positive ? Z0::not_positive : Z0::positive;
+        } else if (w == "pwr") {
+            if (value) p.scale_by(*value, 1 / p.factors().km, "pwr", "W", UnitExponents{-1, 0});
+            drive_ = pwr_ = true;
+        } else if (w == "freq") {
+            if (value) p.scale_value(*value, Unit::hertz, "freq");
+            drive_ = freq_ = true;
+        } else if (value) {
+            p.scale_value(*value, Unit::none, w);
+        }
+    }
+
+    // Writes out the defaults a port relies on that the factors change.
+    void finish(ScalePass& p) const {
+        if (!port_) return;
+        ScaleFactors f = p.factors();
+        std::string added;
+        if (z0_ == Z0::by_default && f.km != 1)
+            added += fmt::format(" z0={}", format_plain(50 * f.km, p.digits()));
+        if (drive_ && !pwr_ && f.km != 1)
+            added += fmt::format(" pwr={}", format_plain(1e-3 / f.km, p.digits()));
+        if (drive_ && !freq_ && f.kf != 1)
+            added += fmt::format(" freq={}", format_plain(1e9 * f.kf, p.digits()));
+        if (!added.empty())
+            p.insert(p.card().fields.back().end, added, "port defaults (added)", 1);
+    }
+
+private:
+    enum class Z0 { unset, positive, not_positive, by_default };
+    bool port_ = false, drive_ = false, pwr_ = false, freq_ = false;
+    Z0 z0_ = Z0::unset;
+};
+
 }  // namespace
 
 void scale_source(ScalePass& p, char letter) {
@@ -33,6 +94,7 @@ void scale_source(ScalePass& p, char letter) {
         return resolve(*u, letter);
     };
     bool have_dc = false;
+    RfPort port;
     for (std::size_t i = 2; i < atoms.size(); ++i) {  // atoms 0 and 1 are the nodes
         const Atom& a = atoms[i];
         if (a.key) {
@@ -40,6 +102,10 @@ void scale_source(ScalePass& p, char letter) {
             if (key == "ac" || key == "dc") {  // "AC=1" is accepted by ngspice too
                 if (a.value) p.scale_value(*a.value, rule(scope, key), key);
                 if (key == "ac" && value_at(i + 1)) p.scale_value(*atoms[++i].value, Unit::none, "ac phase");
+                continue;
+            }
+            if (letter == 'v' && is_port_field(key)) {
+                port.field(p, key, a.value);
                 continue;
             }
             auto u = find_rule(scope, key);
@@ -95,8 +161,8 @@ void scale_source(ScalePass& p, char letter) {
         } else if (w == "external") {
             p.unscalable(t, "EXTERNAL sources get their values from the host program, which "
                             "must supply scaled values itself");
-        } else if (w == "portnum") {
-            if (value_at(i + 1)) p.scale_value(*atoms[++i].value, Unit::none, "portnum");
+        } else if (letter == 'v' && is_port_field(w)) {
+            port.field(p, w, value_at(i + 1) ? atoms[++i].value : nullptr);
         } else if (!have_dc && p.is_value_token(t)) {
             p.scale_value(t, rule(scope, "dc"), "dc");
             have_dc = true;
@@ -104,6 +170,7 @@ void scale_source(ScalePass& p, char letter) {
             p.unscalable(t, fmt::format("unknown source field '{}'", p.text(t)));
         }
     }
+    port.finish(p);
 }
 
 }  // namespace deckscale

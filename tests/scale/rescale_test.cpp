@@ -49,6 +49,20 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", "Vn n 0 TRNOISE(1m 1u 1 2m 3m 4u 5u)", "Vn n 0 TRNOISE(1m 1n 1 2m 3m 4n 5n)"},
         {__LINE__, "", "In 0 n TRNOISE(1m 1u 1 2m 3m 4u 5u)", "In 0 n TRNOISE(100u 1n 1 200u 300u 4n 5n)"},
         {__LINE__, "", "Ir 0 rr TRRANDOM(1 1u 2u 3m 4m)", "Ir 0 rr TRRANDOM(1 1n 2n 300u 400u)"},
+        // RF ports (ngspice 39 manual 4.1.11; vsrc.c of ngspice-39.3): z0 x Km, pwr / Km,
+        // freq x Kf, as "name value" or "name=value"; the defaults a port relies on (z0 50 Ohm;
+        // pwr 1 mW and freq 1 GHz once either drives it) are written out scaled.
+        {__LINE__, "", "V1 p1 0 dc 0 ac 1 portnum 1 z0 50", "V1 p1 0 dc 0 ac 1 portnum 1 z0 500"},
+        {__LINE__, "", "V1 p1 0 ac 1 portnum=2 z0=75 phase=30", "V1 p1 0 ac 1 portnum=2 z0=750 phase=30"},
+        {__LINE__, "", "V1 p1 0 dc 0 ac 1 portnum 1", "V1 p1 0 dc 0 ac 1 portnum 1 z0=500"},
+        // portnum takes 50 Ohm when the z0 set before it is not positive.
+        {__LINE__, "", "V1 p1 0 z0 0 portnum 1", "V1 p1 0 z0 0 portnum 1 z0=500"},
+        {__LINE__, "", "V1 p1 0 portnum 1 z0 0", "V1 p1 0 portnum 1 z0 0"},
+        {__LINE__, "", "V1 p1 0 portnum 0", "V1 p1 0 portnum 0"},
+        {__LINE__, "", "V1 p1 0 portnum 1 z0 50 pwr 2m freq 10meg",
+         "V1 p1 0 portnum 1 z0 500 pwr 200u freq 10g"},
+        {__LINE__, "", "V1 p1 0 portnum 1 z0 50 pwr=2m", "V1 p1 0 portnum 1 z0 500 pwr=200u freq=1e+12"},
+        {__LINE__, "", "V1 p1 0 portnum 1 freq 10meg", "V1 p1 0 portnum 1 freq 10g z0=500 pwr=0.0001"},
         // ---- controlled sources, POLY per degree ----
         {__LINE__, "", "E1 x 0 a 0 2", "E1 x 0 a 0 2"},
         {__LINE__, sense, "F1 0 y Vs 3", "F1 0 y Vs 3"},

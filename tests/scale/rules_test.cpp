@@ -64,6 +64,8 @@ std::vector<FieldCase> field_cases() {
     }
     add(__LINE__, "v", "z0", "V1 a 0 dc 0 ac 1 portnum 2 z0=3.17", "3.17", 1, 0);
     add(__LINE__, "v", "portnum", "V1 a 0 dc 0 ac 1 portnum 3 z0=50", "3", 0, 0);
+    add(__LINE__, "v", "freq", "V1 a 0 dc 0 portnum 1 z0=50 pwr=1m freq=3.17", "3.17", 0, 1);
+    add(__LINE__, "v", "phase", "V1 a 0 dc 0 portnum 1 z0=50 pwr=1m phase=3.17", "3.17", 0, 0);
     add(__LINE__, "v", "r", "V1 a 0 PWL(0 0 1 1 2 0) r=0.317", "0.317", 0, -1);
     add(__LINE__, "v", "td", "V1 a 0 PWL(0 0 1 1 2 0) td=0.317", "0.317", 0, -1);
     add(__LINE__, "i", "m", "I1 0 a dc 1 m=3.17", "3.17", 0, 0);
