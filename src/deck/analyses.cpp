@@ -140,7 +140,11 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTabl
         a.tf = tf_from(w);
         if (!a.tf) a.problems.push_back(".tf card: needs v(node), v(node,node) or i(source), and "
                                         "an input source");
-    } else if (kw == ".disto" || kw == ".pz" || kw == ".sens" || kw == ".sp" || kw == ".pss" ||
+    } else if (kw == ".sp" && !a.sp) {
+        std::string err;
+        a.sp = sweep_from(w, err, &params);
+        if (!a.sp) a.problems.push_back(fmt::format(".sp card: {}", err));
+    } else if (kw == ".disto" || kw == ".pz" || kw == ".sens" || kw == ".pss" ||
                kw == ".four") {
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
@@ -179,21 +183,23 @@ DeckAnalyses find_analyses(const Deck& deck) {
         });
     }
     // Analyses in .control count only for a deck with no analysis card.
-    if (!a.ac && !a.tran && !a.op && !a.noise && !a.dc && !a.tf &&
+    if (!a.ac && !a.tran && !a.op && !a.noise && !a.dc && !a.tf && !a.sp &&
         (control.ac || control.tran || control.op || control.noise || control.dc ||
-         control.tf)) {
+         control.tf || control.sp)) {
         a.ac = control.ac;
         a.tran = control.tran;
         a.op = control.op;
         a.noise = control.noise;
         a.dc = control.dc;
         a.tf = control.tf;
+        a.sp = control.sp;
         for (auto& p : control.problems) a.problems.push_back(p);
     }
     for (const auto& kw : control.uncompared)
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
     if (a.ac) a.ac->reltol = deck.symbols.reltol;
+    if (a.sp) a.sp->reltol = deck.symbols.reltol;
     if (a.noise) a.noise->reltol = deck.symbols.reltol;
     return a;
 }
@@ -227,11 +233,20 @@ TranSpec map_tran(const TranSpec& t, double kf) {
     return TranSpec{t.tstep / kf, t.tstop / kf, t.tstart / kf, t.tmax / kf, t.uic};
 }
 
-std::string ac_card(const AcSweep& s) {
+namespace {
+
+std::string sweep_card(std::string_view keyword, const AcSweep& s) {
     if (!s.fstart_text.empty() && !s.fstop_text.empty() && !s.points_text.empty())
-        return fmt::format(".ac {} {} {} {}", s.type, s.points_text, s.fstart_text, s.fstop_text);
-    return fmt::format(".ac {} {} {:.17g} {:.17g}", s.type, s.points, s.fstart, s.fstop);
+        return fmt::format("{} {} {} {} {}", keyword, s.type, s.points_text, s.fstart_text,
+                           s.fstop_text);
+    return fmt::format("{} {} {} {:.17g} {:.17g}", keyword, s.type, s.points, s.fstart, s.fstop);
 }
+
+}  // namespace
+
+std::string ac_card(const AcSweep& s) { return sweep_card(".ac", s); }
+
+std::string sp_card(const AcSweep& s) { return sweep_card(".sp", s); }
 
 std::string tran_card(const TranSpec& t) {
     std::string s = fmt::format(".tran {:.17g} {:.17g}", t.tstep, t.tstop);

@@ -1,4 +1,4 @@
-// The analyses a deck asks for (.ac, .tran, .op, .noise, .dc, .tf) and the sources that could
+// The analyses a deck asks for (.ac, .tran, .op, .noise, .dc, .tf, .sp) and the sources that could
 // drive an AC comparison, read from its cards; and their images under frequency scaling.
 #pragma once
 
@@ -56,6 +56,9 @@ struct DeckAnalyses {
     std::optional<NoiseSpec> noise;
     std::optional<DcSweep> dc;
     std::optional<TfSpec> tf;
+    // `.sp dec|oct|lin n f1 f2 [donoise]` (ngspice 39 manual 15.3.8): the S-parameters of the
+    // deck's RF ports over a sweep stepped like .ac's. The donoise flag is not kept.
+    std::optional<AcSweep> sp;
     std::vector<std::string> uncompared;     // analysis cards verify does not map (".dc", ...)
     std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
     std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)
@@ -73,6 +76,7 @@ AcSweep map_sweep(const AcSweep& s, double kf);
 TranSpec map_tran(const TranSpec& t, double kf);
 
 std::string ac_card(const AcSweep& s);
+std::string sp_card(const AcSweep& s);
 std::string tran_card(const TranSpec& t);
 std::string dc_card(const DcSweep& s);
 std::string tf_card(const TfSpec& t);

@@ -39,7 +39,7 @@ struct VectorResult {
 };
 
 struct Comparison {
-    std::string analysis;          // "ac", "op", "tran", "noise", "dc" or "tf"
+    std::string analysis;          // "ac", "op", "tran", "noise", "dc", "tf" or "sp"
     std::size_t points = 0;
     double first = 0, last = 0;    // sweep or time range of the original
     std::string axis_unit;  // of first, last and each `at`: "Hz", "s", "V", "A", "Ohm", "degC"

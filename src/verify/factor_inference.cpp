@@ -134,6 +134,8 @@ std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckA
         return original.tran->tstop / scaled.tran->tstop;
     if (original.noise && scaled.noise && original.noise->fstop > 0 && scaled.noise->fstop > 0)
         return scaled.noise->fstop / original.noise->fstop;
+    if (original.sp && scaled.sp && original.sp->fstop > 0 && scaled.sp->fstop > 0)
+        return scaled.sp->fstop / original.sp->fstop;
     return std::nullopt;
 }
 

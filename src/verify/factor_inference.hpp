@@ -47,7 +47,7 @@ FactorInference infer_factors(const std::vector<ElementValue>& original,
 
 // Kf read off the decks' own analyses, for decks without matched capacitors or inductors:
 // the scaled .ac stop frequency over the original's, else the original .tran stop time over
-// the scaled one's, else the .noise stop frequencies. Nothing when the two decks have none
+// the scaled one's, else the .noise, then the .sp stop frequencies. Nothing when the two decks have none
 // of these analyses in common.
 std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckAnalyses& scaled);
 

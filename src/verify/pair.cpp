@@ -17,6 +17,7 @@
 #include "verify/flicker_check.hpp"
 #include "verify/noise_compare.hpp"
 #include "verify/sim_cards.hpp"
+#include "verify/sp_compare.hpp"
 #include "verify/tf_compare.hpp"
 
 namespace deckscale {
@@ -25,7 +26,7 @@ namespace {
 namespace fs = std::filesystem;
 
 struct PairJob {
-    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf", "sp"
     SimJob original, scaled;
 };
 
@@ -125,7 +126,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                 report.kf = *kf;
                 report.notes.push_back(
                     "no matched capacitors or inductors: Kf read off the "
-                    "decks' .ac, .tran or .noise cards");
+                    "decks' .ac, .tran, .noise or .sp cards");
             } else if (!inf.message.empty()) {
                 report.notes.push_back(inf.message);
             }
@@ -138,7 +139,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         for (const auto& kw : an.uncompared)
             report.notes.push_back(
                 fmt::format("the original's {} analysis is not compared (verify maps "
-                            ".ac, .op, .tran, .noise, .dc and .tf)",
+                            ".ac, .op, .tran, .noise, .dc, .tf and .sp)",
                             kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
@@ -178,7 +179,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             pairs.push_back({"ac", job(original, o.original, ac_card(*sweep), 1, drive),
                              job(scaled, o.scaled, ac_card(map_sweep(*sweep, report.kf)),
                                  scaled_drive, drive)});
-        if (an.op || (!sweep && !an.tran))
+        if (an.op || (!sweep && !an.tran && !an.sp))
             pairs.push_back({"op", job(original, o.original, ".op", 1, drive),
                              job(scaled, o.scaled, ".op", scaled_drive, drive)});
         if (an.tran)
@@ -208,6 +209,9 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                 report.notes.push_back(problem + " (not compared)");
             }
         }
+        if (an.sp)  // the ports are the drive: no source gets an AC value here
+            pairs.push_back({"sp", job(original, o.original, sp_card(*an.sp), 1, ""),
+                             job(scaled, o.scaled, sp_card(map_sweep(*an.sp, report.kf)), 1, "")});
         if (an.tf) {
             pairs.push_back({"tf", job(original, o.original, tf_card(*an.tf), 1, ""),
                              job(scaled, o.scaled, tf_card(*an.tf), 1, "")});
@@ -257,6 +261,8 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             report.comparisons.push_back(compare_dc(*po, *ps, report.km,
                                                     dc_item_factor(dc_level, report.km).value_or(1),
                                                     dc_item_unit(dc_level), report.tolerances));
+        } else if (a == "sp") {
+            report.comparisons.push_back(compare_sp(*po, *ps, report.km, report.kf, report.tolerances));
         } else if (a == "tf") {
             report.comparisons.push_back(compare_tf(*po, *ps, *tf, report.km, report.tolerances));
         } else {

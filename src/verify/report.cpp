@@ -36,12 +36,16 @@ const char* kind_word(VectorKind k) {
     }
 }
 
+// Complex sweeps over frequency, shown with magnitude and phase errors.
+bool ac_like(const Comparison& c) { return c.analysis == "ac" || c.analysis == "sp"; }
+
 const char* analysis_title(const std::string& a) {
     if (a == "ac") return "AC sweep";
     if (a == "op") return "Operating point";
     if (a == "noise") return "Noise";
     if (a == "dc") return "DC sweep";
     if (a == "tf") return "Transfer function";
+    if (a == "sp") return "S-parameter sweep";
     return "Transient";
 }
 
@@ -49,7 +53,7 @@ const char* analysis_title(const std::string& a) {
 // The unit of a comparison's axis; one made without it (by hand) gets its analysis's own.
 std::string axis_of(const Comparison& c) {
     if (!c.axis_unit.empty()) return c.axis_unit;
-    return c.analysis == "ac" || c.analysis == "noise" ? "Hz" : c.analysis == "tran" ? "s" : "";
+    return ac_like(c) || c.analysis == "noise" ? "Hz" : c.analysis == "tran" ? "s" : "";
 }
 
 // A comparison at one point (no sweep or time axis).
@@ -125,7 +129,7 @@ std::string report_text(const VerifyReport& r) {
         // The name column fits the longest name shown ("(x Km)" marks a current).
         std::size_t width = 22;
         for (const auto& v : c.vectors) width = std::max(width, v.name.size() + 8);
-        if (c.analysis == "ac")
+        if (ac_like(c))
             s += fmt::format("    {:<{}} {:>12} {:>14} {:>12} {:>12}\n", "vector", width, "rel. error", "at Hz",
                              "mag. dB", "phase deg");
         else if (c.analysis == "noise")
@@ -149,7 +153,7 @@ std::string report_text(const VerifyReport& r) {
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14} {:>12.3g}  {}\n", name, width,
                                  v.worst, integrated_noise(v) ? "band" : fmt::format("{:.6g}", v.at),
                                  v.db_error, verdict);
-            else if (c.analysis == "ac")
+            else if (ac_like(c))
                 s += fmt::format("    {:<{}} {:>12.3g} {:>14.6g} {:>12.3g} {:>12.3g}  {}\n", name,
                                  width, v.worst, v.at, v.db_error, v.deg_error, verdict);
             else if (!single_point(c))

@@ -149,6 +149,20 @@ TEST(FindAnalyses, TransferFunctionCards) {
     EXPECT_NE(bad.problems[0].find(".tf card"), std::string::npos);
 }
 
+TEST(FindAnalyses, SParameterSweeps) {
+    // ngspice 39 manual 15.3.8: .sp dec|oct|lin n fstart fstop [donoise]; the flag is dropped.
+    auto a = analyses_of("t\nV1 a 0 dc 0 ac 1 portnum 1 z0=50\nR1 a 0 50\n"
+                         ".param fhi=4g\n.sp lin 31 1g {fhi} 1\n.end\n");
+    ASSERT_TRUE(a.sp);
+    EXPECT_TRUE(a.uncompared.empty());
+    EXPECT_EQ(sp_card(*a.sp), ".sp lin 31 1g 4000000000");
+    EXPECT_EQ(sp_card(map_sweep(*a.sp, 1e-3)), ".sp lin 31 1meg 4000000");
+    auto bad = analyses_of("t\nV1 a 0 dc 0 ac 1 portnum 1\nR1 a 0 50\n.sp lin 1g 2g\n.end\n");
+    EXPECT_FALSE(bad.sp);
+    ASSERT_EQ(bad.problems.size(), 1u);
+    EXPECT_NE(bad.problems[0].find(".sp card"), std::string::npos) << bad.problems[0];
+}
+
 TEST(FindAnalyses, ControlBlockAnalysesCountWhenNoCardAsks) {
     // Read as the dot cards they stand for (ngspice-39.3 src/frontend/spiceif.c:241), never run.
     auto a = analyses_of("t\nV1 a 0 ac 1\nR1 a 0 1k\n.control\nset x = 1\nac dec 20 1 1meg\n"
