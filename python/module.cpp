@@ -41,7 +41,7 @@ py::object scale(py::handle deck, py::handle km, py::handle kf, py::object outpu
 py::dict error_columns(const api::AnalysisComparison& a) {
     py::list names, kinds;
     std::vector<double> worst, at, db, deg, peak;
-    std::vector<bool> passed;
+    std::vector<bool> passed, gmin_level;
     for (const auto& v : a.vectors) {
         names.append(v.name);
         kinds.append(v.kind);
@@ -51,11 +51,12 @@ py::dict error_columns(const api::AnalysisComparison& a) {
         deg.push_back(v.deg_error);
         peak.push_back(v.peak);
         passed.push_back(v.passed);
+        gmin_level.push_back(v.gmin_level);
     }
     return py::dict("name"_a = names, "kind"_a = kinds, "worst"_a = array_of(worst),
                     "at"_a = array_of(at), "db_error"_a = array_of(db),
                     "deg_error"_a = array_of(deg), "peak"_a = array_of(peak),
-                    "passed"_a = array_of(passed));
+                    "passed"_a = array_of(passed), "gmin_level"_a = array_of(gmin_level));
 }
 
 api::Deck pair_member(py::handle x) {

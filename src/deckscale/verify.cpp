@@ -41,7 +41,7 @@ AnalysisComparison comparison_of(const Comparison& c) {
                              v.kind == VectorKind::current   ? "current"
                              : v.kind == VectorKind::voltage ? "voltage"
                                                              : "other",
-                             v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed});
+                             v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed, v.gmin_level});
     return a;
 }
 

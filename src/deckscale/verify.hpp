@@ -36,16 +36,19 @@ struct VectorError {
     double db_error = 0, deg_error = 0;  // AC: magnitude and phase error there
     double peak = 0;                     // the magnitude errors are relative to
     bool passed = true;
+    // A branch current within 10 x GMIN x the largest node voltage that would have failed:
+    // the current of ngspice's GMIN shunts, passed and not judged.
+    bool gmin_level = false;
 };
 
 struct AnalysisComparison {
-    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep) or "tf"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep), "tf" or "sp"
     std::size_t points = 0;
     double first = 0, last = 0;
     bool passed = true;
     std::vector<std::string> problems;      // each fails the comparison by itself
     std::vector<std::string> not_compared;  // device-internal vectors
-    std::vector<VectorError> vectors;       // worst first
+    std::vector<VectorError> vectors;       // judged ones worst first, then GMIN-level ones
     // The unit of first, last and each vector's `at`: "Hz", "s", or for "dc" the swept
     // quantity's ("V", "A", "Ohm", "degC"); "" for "op" and "tf".
     std::string unit;

@@ -64,9 +64,13 @@ const SimVector* scale_vector(const SimPlot& p) {
     return nullptr;
 }
 
+// Judged vectors first, worst first; then those at the GMIN level (not judged).
 void sort_worst_first(Comparison& c) {
     std::stable_sort(c.vectors.begin(), c.vectors.end(),
-                     [](const VectorResult& a, const VectorResult& b) { return a.worst > b.worst; });
+                     [](const VectorResult& a, const VectorResult& b) {
+                         if (a.gmin_level != b.gmin_level) return b.gmin_level;
+                         return a.worst > b.worst;
+                     });
 }
 
 // Vectors of the original that the scaled deck lacks, and the other way round.
@@ -91,6 +95,34 @@ std::vector<std::pair<const SimVector*, const SimVector*>> pairs_to_compare(cons
         if (compared(vo, o))
             if (const SimVector* vs = s.find(vo.name)) pairs.emplace_back(&vo, vs);
     return pairs;
+}
+
+// Marks the failed branch currents of `c` that stay at the GMIN level of the original plot
+// (Tolerances::gmin) in both runs (the scaled one mapped back by Km) as passed and not
+// judged, with a note naming each.
+void excuse_gmin_level(const SimPlot& o, const SimPlot& s, double km, const Tolerances& tol,
+                       Comparison& c) {
+    if (tol.held || !(tol.gmin > 0)) return;
+    double vmax = 0;
+    for (const auto& v : o.vectors)
+        if (v.kind == VectorKind::voltage && compared(v, o))
+            for (const auto& x : v.values) vmax = std::max(vmax, std::abs(x));
+    double level = kGminLevels * tol.gmin * vmax;
+    for (auto& r : c.vectors) {
+        if (r.passed || r.kind != VectorKind::current || !(r.peak <= level)) continue;
+        const SimVector* vs = s.find(r.name);
+        double scaled_peak = 0;
+        if (vs)
+            for (const auto& x : vs->values) scaled_peak = std::max(scaled_peak, std::abs(x) * km);
+        if (!(scaled_peak <= level)) continue;
+        r.passed = true;
+        r.gmin_level = true;
+        c.notes.push_back(fmt::format(
+            "{}: not judged, its largest value {:.3g} A is within {:g} x GMIN ({:.3g} S) x the "
+            "largest node voltage ({:.3g} V), the current of the simulator's GMIN shunts, which "
+            "it resolves only as far as its matrix allows",
+            r.name, std::max(r.peak, scaled_peak), kGminLevels, tol.gmin, vmax));
+    }
 }
 
 double wrap_degrees(double d) {
@@ -183,6 +215,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
         if (r.worst > tol.relative && !tol.held) r.passed = false;
         c.vectors.push_back(r);
     }
+    excuse_gmin_level(o, s, km, tol, c);
     sort_worst_first(c);
     return c;
 }
@@ -215,6 +248,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
         r.passed = r.worst <= tol.relative || tol.held;
         c.vectors.push_back(r);
     }
+    excuse_gmin_level(o, s, km, tol, c);
     sort_worst_first(c);
     return c;
 }
@@ -273,6 +307,7 @@ Comparison compare_dc(const SimPlot& o, const SimPlot& s, double km, double swee
         r.passed = r.worst <= tol.relative || tol.held;
         c.vectors.push_back(r);
     }
+    excuse_gmin_level(o, s, km, tol, c);
     sort_worst_first(c);
     return c;
 }
@@ -351,6 +386,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
         r.passed = r.worst <= tol.transient || tol.held;
         c.vectors.push_back(r);
     }
+    excuse_gmin_level(o, s, km, tol, c);
     sort_worst_first(c);
     return c;
 }

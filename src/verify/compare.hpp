@@ -20,7 +20,15 @@ struct Tolerances {
     // `degrees` only (passes without them), the operating point and transient are shown as
     // information, and the largest |dB| and |deg| of every AC vector are found.
     bool held = false;
+    // The original deck's GMIN (S; ngspice's default 1e-12), read off its .options. A branch
+    // current no larger than kGminLevels x GMIN x the plot's largest node voltage is the
+    // current of the shunts ngspice puts across junctions, resolved no better than the matrix
+    // allows (a clamp diode's 1e-11 A wandered by 1e-4 with Km = 1.000001): where such a
+    // vector fails, it is shown as at the GMIN level and not judged.
+    double gmin = 1e-12;
 };
+
+constexpr double kGminLevels = 10;
 
 struct VectorResult {
     std::string name;
@@ -36,6 +44,8 @@ struct VectorResult {
     // the original is more than 60 dB below the vector's peak are left out (a phase there
     // is noise).
     double max_db = 0, max_db_at = 0, max_deg = 0, max_deg_at = 0;
+    // A current at the GMIN level (Tolerances::gmin) that would have failed: passed, not judged.
+    bool gmin_level = false;
 };
 
 struct Comparison {
@@ -43,7 +53,7 @@ struct Comparison {
     std::size_t points = 0;
     double first = 0, last = 0;    // sweep or time range of the original
     std::string axis_unit;  // of first, last and each `at`: "Hz", "s", "V", "A", "Ohm", "degC"
-    std::vector<VectorResult> vectors;  // worst first
+    std::vector<VectorResult> vectors;  // judged ones worst first, then any at the GMIN level
     std::vector<std::string> problems;  // anything that makes the comparison fail by itself
     std::vector<std::string> not_compared;  // device-internal vectors (e.g. "t1#i1")
     // Why the decks are not expected to agree here (flicker noise that does not follow the

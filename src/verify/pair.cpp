@@ -103,6 +103,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     {
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
+        report.tolerances.gmin = original.symbols.gmin;
         auto vo = element_values(original), vs = element_values(scaled);
         std::optional<HeldLine> held = find_held_line(scaled);
         if (held) {

@@ -140,12 +140,13 @@ std::string report_text(const VerifyReport& r) {
                              single_point(c) ? "" : "at " + axis);
         std::size_t shown = 0;
         for (const auto& v : c.vectors) {
-            if (shown == 8 && v.passed) break;
+            if (shown >= 8 && v.passed && !v.gmin_level) continue;  // GMIN-level ones are shown
             ++shown;
             std::string name = v.kind == VectorKind::current && c.analysis != "noise"
                                    ? v.name + " (x Km)"
                                    : v.name;
             const char* verdict = !r.held.empty() ? "info"
+                                  : v.gmin_level  ? "GMIN level"
                                   : v.passed      ? "ok"
                                   : c.decides()   ? "FAIL"
                                                   : "differs";
@@ -214,7 +215,7 @@ std::string report_json(const VerifyReport& r) {
                           {"db_error", v.db_error}, {"deg_error", v.deg_error}, {"peak", v.peak},
                           {"max_db", v.max_db}, {"max_db_at", v.max_db_at},
                           {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
-                          {"passed", v.passed}});
+                          {"passed", v.passed}, {"gmin_level", v.gmin_level}});
         an.push_back({{"analysis", c.analysis},
                       {"unit", axis_of(c)},
                       {"points", c.points},

@@ -186,6 +186,48 @@ TEST(CompareAc, NumericalZerosAgreeBelowTheSimulatorsAbsoluteTolerance) {
     EXPECT_FALSE(compare_ac(original, scaled, 1, 1, Tolerances{}).passed());
 }
 
+// A clamp diode's off current in an op-amp model: 1e-11 A, the GMIN shunts (1e-12 S) of two
+// junctions at the model's 5 V. ngspice 39 resolves it only to ~1e-15 A (measured: it moved by
+// up to 2.6e-4 of itself when an op-amp deck was scaled by Km = 1.000001, while every other
+// vector moved by 1e-9), so there it is shown at the GMIN level, not judged.
+TEST(CompareAc, CurrentsAtTheGminLevelAreShownNotJudged) {
+    auto with_clamp = [](double clamp, double node) {
+        SimPlot p = ac_plot(kFreqs, 1000);
+        p.vectors.push_back(vec("big", VectorKind::voltage, reals({node, node, node, node})));
+        p.vectors.push_back(
+            vec("h1#branch", VectorKind::current, reals({clamp, clamp, clamp, clamp})));
+        return p;
+    };
+    SimPlot original = with_clamp(1e-11, 5);
+    Comparison c = compare_ac(original, with_clamp(1e-11 * (1 + 1e-4), 5), 1, 1, Tolerances{});
+    EXPECT_TRUE(c.passed());
+    ASSERT_EQ(c.vectors.size(), 4u);
+    EXPECT_EQ(c.vectors.back().name, "h1#branch");  // listed after the judged vectors
+    EXPECT_TRUE(c.vectors.back().gmin_level);
+    EXPECT_FALSE(c.vectors.front().gmin_level);
+    ASSERT_EQ(c.notes.size(), 1u);
+    EXPECT_NE(c.notes[0].find("h1#branch: not judged"), std::string::npos) << c.notes[0];
+    // A current that agrees keeps its plain verdict.
+    Comparison same = compare_ac(original, with_clamp(1e-11, 5), 1, 1, Tolerances{});
+    EXPECT_FALSE(same.vectors.back().gmin_level);
+    EXPECT_TRUE(same.notes.empty());
+    // Past 10 x GMIN x the largest node voltage (5e-10 A here) a current is judged.
+    SimPlot larger = with_clamp(1e-9, 5);
+    EXPECT_FALSE(compare_ac(larger, with_clamp(1e-9 * (1 + 1e-4), 5), 1, 1, Tolerances{}).passed());
+    // So is one that reaches past the level in the scaled run only.
+    EXPECT_FALSE(compare_ac(original, with_clamp(1e-9, 5), 1, 1, Tolerances{}).passed());
+    // With a deck's GMIN of 1e-15 S the level is 5e-14 A: the clamp is judged.
+    Tolerances small_gmin;
+    small_gmin.gmin = 1e-15;
+    EXPECT_FALSE(compare_ac(original, with_clamp(1e-11 * (1 + 1e-4), 5), 1, 1, small_gmin).passed());
+    // Held parts: no exception is needed (the comparison is information).
+    Tolerances held;
+    held.held = true;
+    EXPECT_FALSE(compare_ac(original, with_clamp(1e-11 * (1 + 1e-4), 5), 1, 1, held)
+                     .vectors.back()
+                     .gmin_level);
+}
+
 SimPlot op_plot(double vin, double vout, double i) {
     SimPlot p{"op1", "Operating Point", {}};
     p.vectors.push_back(vec("in", VectorKind::voltage, {vin}));
