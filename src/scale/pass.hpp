@@ -90,6 +90,11 @@ public:
     const CodeModelUses* code_model_uses() const { return code_model_uses_.get(); }
     // The deck's MOS models, collected on first use (scale/semiconductors.cpp).
     const MosModels& mos_models();
+    // Whether the deck's BJTs are scaled by their area rather than m: when it also has a
+    // device whose GMIN does not follow m (gmin_apart_device) and no .disto analysis, which
+    // ngspice 39 gets wrong with a BJT's area (shared notes "scaling-rules.md" §6). Only on
+    // a complete deck (never while observing).
+    bool bjt_by_area();
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
     bool follow_flicker() const { return settings_.follow_flicker; }
@@ -207,6 +212,7 @@ private:
     std::vector<Atom> atoms_;
     std::shared_ptr<const CodeModelUses> code_model_uses_;
     std::shared_ptr<const MosModels> mos_models_;
+    std::optional<bool> bjt_by_area_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};

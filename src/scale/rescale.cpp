@@ -56,6 +56,7 @@ void ScalePass::run(const Deck& deck) {
     deck_ = &deck;
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
     mos_models_.reset();
+    bjt_by_area_.reset();
     result_.edits.resize(deck.files.size());
     if (hold_) probe_shared_models(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f)
@@ -205,7 +206,15 @@ void ScalePass::visit(const Card& c) {
         case 'e': case 'f': case 'g': case 'h': case 'b': scale_controlled(*this, letter); break;
         case 't': case 'o': case 'u': case 's': case 'w': scale_line_or_switch(*this, letter); break;
         case 'x': break;  // subcircuit definitions are scaled in place
-        case 'd': case 'q': case 'j': case 'z': scale_semiconductor(*this, letter); break;
+        case 'd': case 'j': case 'z': scale_semiconductor(*this, letter); break;
+        case 'q':
+            // Whether a BJT is scaled by m or by its area depends on the other devices of the
+            // deck (ScalePass::bjt_by_area), wherever they are.
+            if (observing_ && settings_.factors.km != 1)
+                rescan_ = true;
+            else
+                scale_semiconductor(*this, letter);
+            break;
         case 'm':
             // Whether a MOSFET follows Kf, and how its m acts on GMIN, depends on its model
             // card, wherever that is.
@@ -232,6 +241,21 @@ void ScalePass::visit(const Card& c) {
 const MosModels& ScalePass::mos_models() {
     if (!mos_models_) mos_models_ = collect_mos_models(*deck_);
     return *mos_models_;
+}
+
+bool ScalePass::bjt_by_area() {
+    if (bjt_by_area_) return *bjt_by_area_;
+    const MosModels& models = mos_models();
+    bool apart = false;
+    for (std::size_t f = 0; f < deck_->files.size() && !apart; ++f)
+        deck_->visit_file(f, [&](const Card& c) { apart = apart || gmin_apart_device(c, models); });
+    if (apart) {
+        if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
+        const auto& u = analyses_->uncompared;
+        apart = std::find(u.begin(), u.end(), ".disto") == u.end();
+    }
+    bjt_by_area_ = apart;
+    return apart;
 }
 
 const NumberParse& ScalePass::number_of(const Token& t) const {

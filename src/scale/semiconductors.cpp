@@ -10,6 +10,7 @@
 #include "deck/spice_number.hpp"
 #include "scale/flicker.hpp"
 #include "scale/pass.hpp"
+#include "scale/terminals.hpp"
 
 namespace deckscale {
 namespace {
@@ -136,7 +137,47 @@ std::string mos_refusal(const MosModel& m, double kf) {
         kf_text(kf));
 }
 
+// Scales a BJT by its area (area' = area / Km; areab and areac, where given, too: shared notes
+// "scaling-rules.md" §4, verified there: op identical, AC 8.9e-9), for a deck that also has
+// junctions whose GMIN ngspice does not multiply by m. The card's leading value after its model
+// name is its area (ngspice 39 manual 8.1).
+void scale_bjt_area(ScalePass& p, double k) {
+    const Card& c = p.card();
+    ElementLinks links =
+        element_links(c, [&](const std::string& name) { return p.model_type(name) != nullptr; });
+    bool area = false;
+    if (links.model) {
+        std::size_t at = *links.model + 1;
+        if (at < c.fields.size() && p.is_value_token(c.fields[at]) &&
+            (at + 1 == c.fields.size() || c.fields[at + 1].kind != TokenKind::equals)) {
+            p.scale_by(c.fields[at], k, "area", "-", UnitExponents{-1, 0});
+            area = true;
+        }
+    }
+    for (const auto& a : p.atoms(1)) {
+        if (!a.key || !a.value) continue;
+        std::string key = to_lower(c.text(*a.key));
+        if (key != "area" && key != "areab" && key != "areac") continue;
+        p.scale_by(*a.value, k, key, "-", UnitExponents{-1, 0});
+        if (key == "area") area = true;
+    }
+    if (!area)
+        p.insert(c.fields.back().end, fmt::format(" area={}", format_plain(k, p.digits())),
+                 "area (added)", k);
+}
+
 }  // namespace
+
+bool gmin_apart_device(const Card& c, const MosModels& models) {
+    if (c.kind != CardKind::element || c.fields.empty()) return false;
+    char letter = ascii_lower(c.field_text(0)[0]);
+    if (letter == 'd' || letter == 'z' || letter == 'j') return true;
+    if (letter != 'm' || c.fields.size() <= 5) return false;
+    auto it = models.find(to_lower(c.field_text(5)));
+    if (it == models.end()) return false;
+    const MosModel& m = it->second;
+    return m.type == "vdmos" || (m.level >= 1 && m.level <= 3);
+}
 
 bool is_semiconductor_model_type(const std::string& lower_type) {
     return family_of(lower_type) != 0;
@@ -169,7 +210,12 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // D and Z; a BJT's area is no way out (1.6e-4 off either way).
     ToleranceScan& t = p.tolerances();
     if (letter == 'd' || letter == 'z' || letter == 'j') t.gmin_apart = true;
-    if (letter == 'q') t.gmin_times_m = true;
+    // A BJT's GMIN goes with its m but not with its area (ngspice 39.3 runs, a junction
+    // through 1 MOhm at Km = 4: area with GMIN / Km 1.5e-5 off in currents of 4e-11 A, which
+    // is as far as the run resolves them; m with GMIN / Km 75 % off): with D, J, Z or MOS
+    // level 1-3 in the deck, whose GMIN must be divided by Km, a BJT is scaled by its area.
+    bool bjt_area = letter == 'q' && f.km != 1 && p.bjt_by_area();
+    if (letter == 'q') (bjt_area ? t.gmin_apart : t.gmin_times_m) = true;
     if (letter == 'm' && c.fields.size() > 5) {
         std::string model = to_lower(c.field_text(5));
         const MosModels& models = p.mos_models();
@@ -199,6 +245,10 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // m' = m / Km (ngspice multiplies currents, charges and conductances by m and divides the
     // series resistances: notes §4, verified there for D, Q and MOS level 1 and BSIM3).
     double k = 1 / f.km;
+    if (bjt_area) {
+        scale_bjt_area(p, k);
+        return;
+    }
     const char* by = letter == 'j' ? "area" : "m";
     // J d g s model [area]: a positional area right after the model name.
     if (letter == 'j' && c.fields.size() > 5 && p.is_value_token(c.fields[5]) &&

@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <filesystem>
+#include <sstream>
 
 #include "support/common.hpp"
 #include "support/scale.hpp"
@@ -109,7 +110,7 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
         std::string cards, rendered;
     };
     const Row rows[] = {
-        {__LINE__, "D1 a 0 dm\n.model dm d\nQ1 c b 0 qm\n.model qm npn\n",
+        {__LINE__, "D1 a 0 dm\n.model dm d\nM1 d g 0 0 bm\n.model bm nmos level=8\n",
          "deck.cir:6:1: note: ngspice multiplies the GMIN across Q and BSIM-family MOS "
          "junctions by the device's m, but not the GMIN across D, J, Z and MOS level 1-3 "
          "junctions: with both in this deck GMIN is divided by Km for the latter, so the "
@@ -131,6 +132,49 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
     }
     EXPECT_TRUE(
         test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.end\n", 10, 1).result.notes.empty());
+}
+
+// A BJT goes by m, whose GMIN ngspice multiplies too, unless the deck has junctions whose GMIN
+// it does not (D, J, Z, MOS level 1-3, VDMOS) and must be divided by Km: then by its area,
+// positional or keyed, with areab and areac where given (shared notes "scaling-rules.md" §4).
+// A deck with .disto keeps m (ngspice 39's .disto is wrong with a BJT's area, ibid. §6), and
+// the note says what the one GMIN costs.
+TEST(SemiconductorsTest, ABjtBesideAJunctionOfTheOtherKindGoesByArea) {
+    struct Row {
+        int line;
+        std::string cards, out;
+    };
+    const std::string d = "D1 a 0 dm\n.model dm d\n";
+    const Row rows[] = {
+        {__LINE__, "Q1 c b 0 qm\n.model qm npn\n" + d,
+         "Q1 c b 0 qm area=0.1\n.model qm npn\nD1 a 0 dm m=0.1\n.model dm d\n"},
+        {__LINE__, "Q1 c b 0 qm 2 off\n" + d, "Q1 c b 0 qm 0.2 off\nD1 a 0 dm m=0.1\n"},
+        {__LINE__, "Q1 c b 0 s qm area=2 areab=3 areac=4 m=2\n" + d,
+         "Q1 c b 0 s qm area=0.2 areab=0.3 areac=0.4 m=2\nD1 a 0 dm m=0.1\n"},
+        {__LINE__, "Q1 c b 0 qm areac=4\nJ1 d g s jm\n.model jm njf\n",
+         "Q1 c b 0 qm areac=0.4 area=0.1\nJ1 d g s jm area=0.1\n"},
+        {__LINE__, "Q1 c b 0 qm\nM1 d g 0 0 mm\n.model mm nmos vto=1 kp=1m gamma=0 phi=0.6\n",
+         "Q1 c b 0 qm area=0.1\nM1 d g 0 0 mm m=0.1\n"},
+    };
+    for (const auto& r : rows) {
+        SCOPED_TRACE(testing::Message() << "semiconductors_test.cpp:" << r.line);
+        auto s = test::scale_text("t\n" + r.cards + ".model qm npn\n.end\n", 10, 1);
+        for (const auto& n : s.result.notes) ADD_FAILURE() << render(n);
+        std::string text = s.text();
+        std::istringstream want(r.out);
+        for (std::string w; std::getline(want, w);)
+            EXPECT_NE(text.find(w + "\n"), std::string::npos) << w << "\n" << text;
+        EXPECT_NE(text.find(".options gmin=1e-13"), std::string::npos) << text;
+    }
+    // Without such a junction, or with a .disto analysis: m.
+    auto alone = test::scale_text("t\nQ1 c b 0 qm 2\n.model qm npn\n.end\n", 10, 1);
+    EXPECT_EQ(alone.text(), "t\nQ1 c b 0 qm 2 m=0.1\n.model qm npn\n.end\n");
+    auto disto = test::scale_text(
+        "t\nV1 b 0 dc 0.7 distof1 1m\nQ1 c b 0 qm\n.model qm npn\n" + d + ".disto dec 5 1k 1meg\n.end\n",
+        10, 1);
+    EXPECT_NE(disto.text().find("Q1 c b 0 qm m=0.1\n"), std::string::npos) << disto.text();
+    ASSERT_EQ(disto.result.notes.size(), 1u);
+    EXPECT_NE(disto.result.notes[0].message.find("come out Km times too small"), std::string::npos);
 }
 
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
