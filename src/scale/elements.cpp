@@ -264,13 +264,28 @@ void scale_controlled(ScalePass& p, char letter) {
             return;
         }
         if (word == "table" || word == "laplace" || word == "freq") {
-            if (letter == 'e' && word == "table") {
-                // Input and output are voltages: only the controlling expression may need
-                // variable substitution.
+            if ((letter == 'e' || letter == 'g') && word == "table") {
+                // TABLE {expr} = (x1, y1) (x2, y2) ... (ngspice 39 manual 5.2.3, 5.3.3): the
+                // controlling expression gets its variables substituted, so it reads as in the
+                // original and the x values stay; the y values are the output, a voltage (E)
+                // or a current (G: / Km).
                 if (i + 1 < atoms.size() && atoms[i + 1].value &&
-                    atoms[i + 1].value->kind == TokenKind::brace)
+                    atoms[i + 1].value->kind == TokenKind::brace) {
                     p.scale_expression(atoms[i + 1].value->begin, atoms[i + 1].value->end, 1,
                                        "table input", "V");
+                    if (letter == 'g') {
+                        std::size_t k = 0;
+                        for (std::size_t j = atoms[i + 1].field + 1; j < c.fields.size(); ++j) {
+                            const Token& t = c.fields[j];
+                            if (!p.is_value_token(t)) continue;
+                            if (k++ % 2 == 1)
+                                p.scale_by(t, out_factor, fmt::format("table y{}", k / 2), "A",
+                                           UnitExponents{-1, 0});
+                        }
+                    }
+                } else if (letter == 'g') {
+                    p.unscalable(*a.value, "TABLE without a {expression} to read");
+                }
                 return;
             }
             p.unscalable(*a.value, fmt::format("{} form of a controlled source", p.text(*a.value)));

@@ -19,7 +19,10 @@ std::string internal_node_element(const std::string& n) {
 bool current_as_voltage(const SimVector& v) {
     if (v.kind != VectorKind::voltage) return false;
     std::string x = internal_node_element(v.name);
-    return !x.empty() && (x[0] == 'g' || x[0] == 'c');
+    if (x.empty()) return false;
+    // G's second node (TABLE) holds the value of its controlling expression, which the
+    // rewrite substitutes to read as in the original: no current.
+    return x[0] == 'c' || (x[0] == 'g' && v.name.ends_with("_int1"));
 }
 
 bool translation_state(const SimVector& v, const SimPlot& plot) {

@@ -11,8 +11,9 @@
 
 namespace deckscale {
 
-// The node `x_int<N>` of a G or C element: its voltage is a current in amperes (G: the output
-// current; C: dQ/dt), so it scales like a current.
+// The node `x_int<N>` of a C element and `x_int1` of a G element: its voltage is a current in
+// amperes (C: dQ/dt; G: the output current), so it scales like a current. (`G1 … TABLE {e} =
+// …` also gets `g1_int2`, the value of e, read through a pwl code model into `g1_int1`.)
 bool current_as_voltage(const SimVector& v);
 
 // A helper's state that is neither a node voltage nor a port current of the circuit: the

@@ -65,6 +65,11 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", "V1 p1 0 portnum 1 freq 10meg", "V1 p1 0 portnum 1 freq 10g z0=500 pwr=0.0001"},
         // ---- controlled sources, POLY per degree ----
         {__LINE__, "", "E1 x 0 a 0 2", "E1 x 0 a 0 2"},
+        // TABLE (ngspice 39 manual 5.2.3, 5.3.3): the input expression reads as in the
+        // original; E's output values stay, G's are currents.
+        {__LINE__, sense, "E2 x 0 TABLE {i(Vs)} = (0,0) (1m,2)", "E2 x 0 TABLE {(i(Vs)*10)} = (0,0) (1m,2)"},
+        {__LINE__, "", "G2 0 z TABLE {v(a)} = (-1, -1m) (0, 0) (1, 2m)",
+         "G2 0 z TABLE {v(a)} = (-1, -100u) (0, 0) (1, 200u)"},
         {__LINE__, sense, "F1 0 y Vs 3", "F1 0 y Vs 3"},
         {__LINE__, "", "G1 0 z a 0 5m", "G1 0 z a 0 500u"},
         {__LINE__, sense, "H1 h 0 Vs 100", "H1 h 0 Vs 1000"},

@@ -45,7 +45,9 @@ SimVector constant(const std::string& name, VectorKind kind, double x) {
 
 // The internal node of a G source with an expression carries its current as a voltage
 // (ngspice 39 `listing expand`: `g1 0 iout g1_int1 0 1`), so it is compared times Km; an
-// E source's `e1_int1` and ordinary nodes stay voltages.
+// E source's `e1_int1` and ordinary nodes stay voltages, and so does a G TABLE's `g1_int2`,
+// the value of its controlling expression (an ngspice 39 run of `G2 0 n2 TABLE {i(Vs)*1k} =
+// ...` scaled by Km = 7 agreed at 7.5e-9 with it compared as it is).
 TEST(HelperVectors, InternalNodeOfAnExpressionGSourceIsACurrent) {
     struct Case {
         int line;
@@ -55,8 +57,9 @@ TEST(HelperVectors, InternalNodeOfAnExpressionGSourceIsACurrent) {
     };
     const double km = 50, kf = 1e3;
     const Case cases[] = {
-        {__LINE__, "g1_int1", 1 / km, true}, {__LINE__, "gload_int12", 1 / km, true},
+        {__LINE__, "g1_int1", 1 / km, true}, {__LINE__, "gload_int1", 1 / km, true},
         {__LINE__, "g1_int1", 1, false},     {__LINE__, "e1_int1", 1, true},
+        {__LINE__, "g1_int2", 1, true},      {__LINE__, "g1_int2", 1 / km, false},
         {__LINE__, "g1_intx", 1, true},      {__LINE__, "gate", 1, true},
     };
     for (const auto& c : cases) {
