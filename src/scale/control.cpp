@@ -189,7 +189,7 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
     }
     if (cmd == "set" || cmd == "setcs") return scale_set(p, c);
     if (cmd == "let" || cmd == "define") return scale_let(p, c);
-    if (cmd == "alter") return scale_alter(p, c);
+    if (cmd == "alter") return scale_alter(p, c, st);
     if (cmd == "altermod") return scale_altermod(p, c);
     if (cmd == "stop") return scale_stop(p, c);
     if (cmd == "plot" || cmd == "asciiplot") return scale_plot(p, c, st, 1);
@@ -216,7 +216,21 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
     if (passes(cmd)) return;
     if (cmd == "if" || cmd == "while" || cmd == "dowhile")
         return refuse_literal(p, c, 1, kUseTells);
-    if (cmd == "foreach") return refuse_literal(p, c, 2, kUseTells);
+    if (cmd == "foreach") {
+        // foreach var v1 v2 ... (manual 17.6.4): the values take the unit of the one use
+        // the block makes of $var, as the value of `alter` (BlockState::foreach_units).
+        auto it = c.fields.size() > 1 ? st.foreach_units.find(to_lower(c.field_text(1)))
+                                      : st.foreach_units.end();
+        if (it == st.foreach_units.end()) return refuse_literal(p, c, 2, kUseTells);
+        for (std::size_t i = 2; i < c.fields.size(); ++i) {
+            if (is_number_word(c, c.fields[i]))
+                p.scale_value(c.fields[i], it->second, "foreach value");
+            else
+                p.unscalable(c.fields[i], fmt::format("'{}' in 'foreach': not a number",
+                                                      c.field_text(i)));
+        }
+        return;
+    }
     if (cmd == "compose") return refuse_literal(p, c, 1, kUseTells);
     // alterparam: a parameter a .control block names is never scaled at its definition
     // (scale/param_plan); every use of it is written {(p)*k}, so its new value stays as
@@ -236,10 +250,13 @@ void scale_control_block(ScalePass& p) {
     BlockState st;
     p.block_dc_seen = false;
     p.block_dc_unit.reset();
-    for (const auto& cmd : control_commands(*block.file, *t)) {
-        Card c = cmd.as_card(*block.file);
-        p.with_command(c, cmd.line_begin, [&] { scale_command(p, c, st); });
-    }
+    std::vector<ControlCommand> commands = control_commands(*block.file, *t);
+    std::vector<Card> cards;
+    cards.reserve(commands.size());
+    for (const auto& cmd : commands) cards.push_back(cmd.as_card(*block.file));
+    st.foreach_units = foreach_units(cards);
+    for (std::size_t i = 0; i < commands.size(); ++i)
+        p.with_command(cards[i], commands[i].line_begin, [&] { scale_command(p, cards[i], st); });
     p.block_dc_seen = false;
     p.block_dc_unit.reset();
 }

@@ -5,8 +5,11 @@
 #pragma once
 
 #include <cstddef>
+#include <map>
 #include <optional>
+#include <string>
 #include <string_view>
+#include <vector>
 
 #include "deck/card.hpp"
 #include "scale/pass.hpp"
@@ -18,6 +21,9 @@ namespace deckscale {
 struct BlockState {
     std::optional<Unit> scale;  // time, frequency or the DC sweep's quantity
     bool scale_known = false;   // false before any analysis
+    // `foreach var v1 v2 ...` loops whose variable the block uses only as the value of
+    // `alter` commands of one unit (and in `echo`): that unit, by variable (lower case).
+    std::map<std::string, Unit> foreach_units;
 };
 
 inline constexpr std::string_view kUseTells =
@@ -36,7 +42,22 @@ void refuse_literal(ScalePass& p, const Card& c, std::size_t from, std::string_v
 
 void scale_set(ScalePass& p, const Card& c);
 void scale_let(ScalePass& p, const Card& c);
-void scale_alter(ScalePass& p, const Card& c);
+void scale_alter(ScalePass& p, const Card& c, const BlockState& st);
+// What an `alter` command sets (manual 17.5.3: alter dev = v, alter dev par = v,
+// alter @dev[par] = v): the field of its value, the parameter and the parameter's unit.
+struct AlterTarget {
+    bool form_known = true;    // false for a value list or expression
+    std::size_t value = 0;     // the field of the value
+    std::string param;         // "value", "dc", "ac", ...
+    std::optional<Unit> unit;  // nullopt: why says why
+    std::string why;
+};
+AlterTarget alter_target(const Card& c);
+// The variable a word names when it is exactly `$var` or `${var}` (lower case), or "".
+std::string variable_named(std::string_view word);
+// Each foreach loop of the block (its commands as cards) whose variable serves only as the
+// value of `alter` commands of one unit, and in `echo`: that unit, by variable.
+std::map<std::string, Unit> foreach_units(const std::vector<Card>& commands);
 void scale_altermod(ScalePass& p, const Card& c);
 void scale_stop(ScalePass& p, const Card& c);
 void scale_plot(ScalePass& p, const Card& c, const BlockState& st, std::size_t first);

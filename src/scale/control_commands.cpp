@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cctype>
 #include <array>
 
 #include "base/text_util.hpp"
@@ -57,48 +58,120 @@ void scale_let(ScalePass& p, const Card& c) {
 
 // alter dev = v | alter dev par = v | alter @dev[par] = v | alter dev v (manual 17.5.3): the
 // element rule table gives the unit.
-void scale_alter(ScalePass& p, const Card& c) {
+AlterTarget alter_target(const Card& c) {
+    AlterTarget t;
     const auto& f = c.fields;
-    if (f.size() < 3) return;
+    if (f.size() < 3) {
+        t.why = "'alter' without a value";
+        return t;
+    }
     std::string dev = to_lower(c.text(f[1]));
-    std::string par;
-    std::size_t value = f.size() - 1;
+    t.value = f.size() - 1;
     if (dev.size() > 1 && dev[0] == '@') {
         auto open = dev.find('['), close = dev.find(']');
         if (open != std::string::npos && close != std::string::npos && close > open) {
-            par = dev.substr(open + 1, close - open - 1);
+            t.param = dev.substr(open + 1, close - open - 1);
             dev = dev.substr(1, open - 1);
         }
     } else if (f.size() == 5 && f[3].kind == TokenKind::equals) {
-        par = to_lower(c.text(f[2]));
+        t.param = to_lower(c.text(f[2]));
     }
     bool simple = (f.size() == 4 && f[2].kind == TokenKind::equals) ||
-                  (f.size() == 5 && !par.empty()) ||
+                  (f.size() == 5 && !t.param.empty()) ||
                   (f.size() == 3 && f[2].kind == TokenKind::word);
     if (!simple || dev.empty()) {
-        refuse_literal(p, c, 1, "a value list or expression in 'alter' is not rewritten");
+        t.form_known = false;
+        t.why = "a value list or expression in 'alter' is not rewritten";
+        return t;
+    }
+    char letter = dev[0];
+    if (t.param.empty()) t.param = letter == 'v' || letter == 'i' ? "dc" : "value";
+    if (t.param == "resistance" || t.param == "capacitance" || t.param == "inductance")
+        t.param = "value";
+    t.unit = find_rule(std::string(1, letter), t.param);
+    if (!t.unit) {
+        t.why = fmt::format("'alter' of '{}' of '{}': that parameter is not in the rule table",
+                            t.param, c.text(f[1]));
+        return t;
+    }
+    if (*t.unit == Unit::signal) t.unit = letter == 'v' ? Unit::volt : Unit::ampere;
+    return t;
+}
+
+void scale_alter(ScalePass& p, const Card& c, const BlockState& st) {
+    const auto& f = c.fields;
+    if (f.size() < 3) return;
+    AlterTarget t = alter_target(c);
+    if (!t.form_known) {
+        refuse_literal(p, c, 1, t.why);
         return;
     }
-    const Token& v = f[value];
+    const Token& v = f[t.value];
     if (first_literal(c.text(v)) == std::string_view::npos &&
         c.text(v).find('$') == std::string_view::npos)
         return;
-    char letter = dev[0];
-    if (par.empty()) par = letter == 'v' || letter == 'i' ? "dc" : "value";
-    if (par == "resistance" || par == "capacitance" || par == "inductance") par = "value";
-    auto u = find_rule(std::string(1, letter), par);
-    if (!u) {
-        p.unscalable(f[1], fmt::format("'alter' of '{}' of '{}': that parameter is not in the rule "
-                                       "table",
-                                       par, c.text(f[1])));
+    if (!t.unit) {
+        p.unscalable(f[1], t.why);
         return;
     }
-    if (*u == Unit::signal) u = letter == 'v' ? Unit::volt : Unit::ampere;
+    // The variable of a foreach loop whose values were scaled for this use.
+    std::string var = variable_named(c.text(v));
+    if (!var.empty() && st.foreach_units.count(var)) return;
     if (!is_number_word(c, v)) {
         p.unscalable(v, fmt::format("'alter' value '{}' is not a number", c.text(v)));
         return;
     }
-    p.scale_value(v, *u, par);
+    p.scale_value(v, *t.unit, t.param);
+}
+
+std::string variable_named(std::string_view w) {
+    if (w.size() < 2 || w[0] != '$') return "";
+    std::string_view name = w.substr(1);
+    if (name.size() >= 2 && name.front() == '{' && name.back() == '}')
+        name = name.substr(1, name.size() - 2);
+    if (name.empty()) return "";
+    for (char ch : name)
+        if (!(std::isalnum(static_cast<unsigned char>(ch)) || ch == '_')) return "";
+    return to_lower(name);
+}
+
+std::map<std::string, Unit> foreach_units(const std::vector<Card>& commands) {
+    std::map<std::string, Unit> out;
+    for (const Card& loop : commands) {
+        if (loop.fields.size() < 3 || !iequals(loop.field_text(0), "foreach")) continue;
+        std::string var = to_lower(loop.field_text(1));
+        std::optional<Unit> unit;
+        bool fits = true, used = false;
+        for (const Card& c : commands) {
+            if (&c == &loop || !fits) continue;
+            for (std::size_t i = 0; i < c.fields.size() && fits; ++i) {
+                std::string_view w = c.text(c.fields[i]);
+                auto at = w.find('$');
+                if (at == std::string_view::npos) continue;
+                // A use: `$var` or `${var}` anywhere in a word.
+                std::string_view rest = w.substr(at + 1);
+                if (!rest.empty() && rest.front() == '{') rest.remove_prefix(1);
+                bool names_it = rest.size() >= var.size() &&
+                                iequals(rest.substr(0, var.size()), var) &&
+                                (rest.size() == var.size() ||
+                                 !(std::isalnum(static_cast<unsigned char>(rest[var.size()])) ||
+                                   rest[var.size()] == '_'));
+                if (!names_it) continue;
+                std::string cmd = to_lower(c.field_text(0));
+                if (cmd == "echo") continue;
+                AlterTarget t = cmd == "alter" ? alter_target(c) : AlterTarget{};
+                if (!t.unit || t.value != i || variable_named(w) != var ||
+                    (unit && *unit != *t.unit)) {
+                    fits = false;
+                    continue;
+                }
+                unit = t.unit;
+                used = true;
+            }
+        }
+        if (fits && used) out.emplace(var, *unit);
+    }
+    return out;
 }
 
 // altermod mod par = v | altermod @mod[par] = v (manual 17.5.4): the model rule table.

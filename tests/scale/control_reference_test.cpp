@@ -8,6 +8,7 @@
 #include <cmath>
 #include <complex>
 #include <map>
+#include <numbers>
 #include <regex>
 #include <sstream>
 
@@ -127,6 +128,58 @@ TEST(ControlReference, AcAtMappedFrequenciesAndMeasurements) {
                     2e-6);
     // The altered circuit peaks elsewhere: the second sweep is not the first one again.
     EXPECT_GT(std::fabs(a.results.at("fpk2") / a.results.at("fpk") - 1), 0.05);
+}
+
+// A foreach loop whose variable is the value of `alter` (manual 17.6.4 and 17.5.3): its values
+// take that unit (here ohms: x Km), and every pass of the loop measures the corner at Kf f.
+TEST(ControlReference, ForeachValuesTakeTheUnitOfTheirAlter) {
+    const std::string deck =
+        "RC corner over three resistors, a loop in .control\n"
+        "V1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 100n\n"
+        ".control\n"
+        "foreach r 500 1k 2.2k\n"
+        "  alter R1 $r\n"
+        "  echo resistor $r\n"
+        "  ac dec 40 10 100k\n"
+        "  meas ac f3 when vdb(out)=-3\n"
+        "end\n"
+        ".endc\n.end\n";
+    const double km = 20, kf = 300;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    EXPECT_NE(s.text().find("foreach r 10000 20k 44k\n"), std::string::npos) << s.text();
+    test::TempDir dir;
+    run_ngspice(deck, dir, "orig", {});
+    run_ngspice(s.text(), dir, "scaled", {});
+    auto corners = [&](const std::string& name) {
+        std::vector<double> f;
+        std::istringstream in(test::read_bytes(dir.file(name) + "/run.log"));
+        static const std::regex result(R"(^\s*f3\s*=\s*([-+0-9.eE]+))");
+        std::smatch m;
+        for (std::string line; std::getline(in, line);)
+            if (std::regex_search(line, m, result)) f.push_back(std::stod(m[1]));
+        return f;
+    };
+    std::vector<double> a = corners("orig"), b = corners("scaled");
+    ASSERT_EQ(a.size(), 3u);
+    ASSERT_EQ(b.size(), 3u);
+    for (std::size_t i = 0; i < 3; ++i) EXPECT_NEAR(b[i], a[i] * kf, 2e-6 * a[i] * kf) << i;
+    // 1 / (2 pi R C) at R = 500: the loop did set the resistor (common practice).
+    EXPECT_NEAR(a[0], 1 / (2 * std::numbers::pi * 500 * 100e-9), 0.01 * a[0]);
+    // Any other use of the variable leaves its unit unknown: refused as before.
+    auto other = test::scale_text(
+        "t\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1n\n.control\nforeach r 1k 2k\n"
+        "alter R1 $r\nlet x = $r * 2\nend\n.endc\n.end\n",
+        km, kf);
+    ASSERT_FALSE(other.result.unscalable.empty());
+    EXPECT_NE(other.result.unscalable[0].message.find("'1k' in 'foreach'"), std::string::npos)
+        << other.result.unscalable[0].message;
+    // Two alters of different units: refused too.
+    auto mixed = test::scale_text(
+        "t\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 1n\n.control\nforeach r 1k 2k\n"
+        "alter R1 $r\nalter C1 $r\nend\n.endc\n.end\n",
+        km, kf);
+    EXPECT_FALSE(mixed.result.unscalable.empty());
 }
 
 TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
