@@ -174,7 +174,9 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
     double expected = 0;
     if (type == "lin") expected = static_cast<double>(n);
     if (type == "dec") expected = std::log(fstop / fstart) / std::log(delta) + 2;
-    if (!count_only && expected > 0)  // NaN and inf aside
+    // NaN and inf aside: a step that rounds to nothing (dec 1e33: delta is 1) makes the
+    // expected count infinite for a sweep of one point.
+    if (!count_only && expected > 0 && std::isfinite(expected))
         p.values.reserve(static_cast<std::size_t>(
             std::min(expected, static_cast<double>(kSweepPointLimit) + 1)));
     for (double f = fstart; f <= fstop + tol;) {

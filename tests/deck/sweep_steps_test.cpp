@@ -168,3 +168,19 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
 
 }  // namespace
 }  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// `.ac dec 1e33 10 1k` (found by the deck fuzz target): the step rounds to a factor of exactly 1,
+// so ngspice takes one point; the room reserved for the expected count was the 4-million-point
+// limit (32 MB per sweep, seconds under the sanitizers), because inf passed the check meant for
+// NaN and inf.
+TEST(SweepSteps, ASweepOfOnePointReservesNoRoomForMillions) {
+    SweepPoints p = ac_points("dec", 1.111e33, 10, 1e3, 1e-3, false);
+    ASSERT_EQ(p.values.size(), 1u);
+    EXPECT_LT(p.values.capacity(), 1000u);
+}
+
+}  // namespace
+}  // namespace deckscale
