@@ -207,13 +207,12 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // leakage followed exactly with GMIN unchanged for Q, J, BSIM3 and BSIM4, with GMIN / Km
     // for D, Z and MOS levels 1-3; VDMOS followed neither, 0.9 % off with GMIN / Km). A JFET's
     // area leaves GMIN alone (exact with GMIN / Km), so J is scaled by its area and joins
-    // D and Z; a BJT's area is no way out (1.6e-4 off either way).
+    // D and Z. So does a BJT's area: in a deck with D, J, Z or MOS level 1-3, whose GMIN must
+    // be divided by Km, a BJT is scaled by its area (beside a diode, the same leakage test
+    // followed to 1.6e-4 of 1.1e-11 A, about 2 IS not following the area, where m was 90 %
+    // off); elsewhere by m, which is exact with GMIN as it is.
     ToleranceScan& t = p.tolerances();
-    if (letter == 'd' || letter == 'z' || letter == 'j') t.gmin_apart = true;
-    // A BJT's GMIN goes with its m but not with its area (ngspice 39.3 runs, a junction
-    // through 1 MOhm at Km = 4: area with GMIN / Km 1.5e-5 off in currents of 4e-11 A, which
-    // is as far as the run resolves them; m with GMIN / Km 75 % off): with D, J, Z or MOS
-    // level 1-3 in the deck, whose GMIN must be divided by Km, a BJT is scaled by its area.
+    if (gmin_apart_device(c, p.mos_models())) t.gmin_apart = true;
     bool bjt_area = letter == 'q' && f.km != 1 && p.bjt_by_area();
     if (letter == 'q') (bjt_area ? t.gmin_apart : t.gmin_times_m) = true;
     if (letter == 'm' && c.fields.size() > 5) {
@@ -223,7 +222,6 @@ void scale_semiconductor(ScalePass& p, char letter) {
         if (it != models.end()) {
             const MosModel& m = it->second;
             bool plain = m.type != "vdmos" && m.level >= 1 && m.level <= 3;
-            t.gmin_apart = t.gmin_apart || plain || m.type == "vdmos";
             t.gmin_times_m = t.gmin_times_m || !plain;
         }
         if (f.kf != 1 && it == models.end()) {
