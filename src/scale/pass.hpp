@@ -91,9 +91,9 @@ public:
     // The deck's MOS models, collected on first use (scale/semiconductors.cpp).
     const MosModels& mos_models();
     // Whether the deck's BJTs are scaled by their area rather than m: when it also has a
-    // device whose GMIN does not follow m (gmin_apart_device) and no .disto analysis, which
-    // ngspice 39 gets wrong with a BJT's area (shared notes "scaling-rules.md" §6). Only on
-    // a complete deck (never while observing).
+    // device whose GMIN does not follow m (gmin_apart_device) or sets gmin itself (divided
+    // by Km then), and no .disto analysis, which ngspice 39 gets wrong with a BJT's area
+    // (shared notes "scaling-rules.md" §6). Only on a complete deck (never while observing).
     bool bjt_by_area();
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }

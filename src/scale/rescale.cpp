@@ -246,7 +246,9 @@ const MosModels& ScalePass::mos_models() {
 bool ScalePass::bjt_by_area() {
     if (bjt_by_area_) return *bjt_by_area_;
     const MosModels& models = mos_models();
-    bool apart = false;
+    // A deck that sets its own gmin has it divided by Km (options), which the GMIN across a
+    // BJT scaled by m would get twice: by area the BJT's junction GMIN is the deck's alone.
+    bool apart = deck_->symbols.gmin_set;
     for (std::size_t f = 0; f < deck_->files.size() && !apart; ++f)
         deck_->visit_file(f, [&](const Card& c) { apart = apart || gmin_apart_device(c, models); });
     if (apart) {

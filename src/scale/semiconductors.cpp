@@ -210,7 +210,9 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // D and Z. So does a BJT's area: in a deck with D, J, Z or MOS level 1-3, whose GMIN must
     // be divided by Km, a BJT is scaled by its area (beside a diode, the same leakage test
     // followed to 1.6e-4 of 1.1e-11 A, about 2 IS not following the area, where m was 90 %
-    // off); elsewhere by m, which is exact with GMIN as it is.
+    // off), and so it is in a deck that sets its own gmin, which is divided by Km too (a CE
+    // stage with .options gmin=1e-10, Km = 10: AC 3e-11 by area, 2e-5 by m); elsewhere by
+    // m, which is exact with GMIN as it is.
     ToleranceScan& t = p.tolerances();
     if (gmin_apart_device(c, p.mos_models())) t.gmin_apart = true;
     bool bjt_area = letter == 'q' && f.km != 1 && p.bjt_by_area();

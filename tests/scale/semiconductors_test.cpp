@@ -117,7 +117,7 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
          "former's GMIN currents (GMIN times a junction voltage) come out Km times too small\n"
          "  .end\n"
          "  ^\n"},
-        {__LINE__, "Q1 c b 0 qm\n.model qm npn\n.options gmin=1e-10\n",
+        {__LINE__, "M1 d g 0 0 bm\n.model bm nmos level=8\n.options gmin=1e-10\n",
          "deck.cir:5:1: note: the deck's gmin is divided by Km, but ngspice multiplies the GMIN "
          "across Q and BSIM-family MOS junctions by the device's m already: their GMIN currents "
          "(GMIN times a junction voltage) come out Km times too small\n"
@@ -137,8 +137,9 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
 // A BJT goes by m, whose GMIN ngspice multiplies too, unless the deck has junctions whose GMIN
 // it does not (D, J, Z, MOS level 1-3, VDMOS) and must be divided by Km: then by its area,
 // positional or keyed, with areab and areac where given (shared notes "scaling-rules.md" §4).
-// A deck with .disto keeps m (ngspice 39's .disto is wrong with a BJT's area, ibid. §6), and
-// the note says what the one GMIN costs.
+// A deck that sets its own gmin (divided by Km) goes by area too. A deck with .disto keeps m
+// (ngspice 39's .disto is wrong with a BJT's area, ibid. §6), and the note says what the one
+// GMIN costs.
 TEST(SemiconductorsTest, ABjtBesideAJunctionOfTheOtherKindGoesByArea) {
     struct Row {
         int line;
@@ -175,6 +176,10 @@ TEST(SemiconductorsTest, ABjtBesideAJunctionOfTheOtherKindGoesByArea) {
     EXPECT_NE(disto.text().find("Q1 c b 0 qm m=0.1\n"), std::string::npos) << disto.text();
     ASSERT_EQ(disto.result.notes.size(), 1u);
     EXPECT_NE(disto.result.notes[0].message.find("come out Km times too small"), std::string::npos);
+    // A deck that sets its own gmin has it divided by Km, so its BJTs go by area too.
+    auto own = test::scale_text("t\nQ1 c b 0 qm\n.model qm npn\n.options gmin=1e-10\n.end\n", 10, 1);
+    EXPECT_EQ(own.text(), "t\nQ1 c b 0 qm area=0.1\n.model qm npn\n.options gmin=1e-11\n.end\n");
+    EXPECT_TRUE(own.result.notes.empty());
 }
 
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
