@@ -144,8 +144,24 @@ void take(DeckAnalyses& a, const std::string& kw, const Card& c, const ParamTabl
         std::string err;
         a.sp = sweep_from(w, err, &params);
         if (!a.sp) a.problems.push_back(fmt::format(".sp card: {}", err));
-    } else if (kw == ".disto" || kw == ".pz" || kw == ".sens" || kw == ".pss" ||
-               kw == ".four") {
+    } else if (kw == ".disto") {
+        a.asks_disto = true;
+        if (a.disto) return;
+        std::string err;
+        auto sweep = sweep_from(w, err, &params);
+        DistoSpec d;
+        if (sweep && w.size() > 5) err = "needs dec|oct|lin, a point count, two frequencies and "
+                                         "at most f2overf1";
+        else if (sweep && w.size() == 5 && !analysis_value(w[4], &params, &d.f2overf1))
+            err = "its f2overf1 must be a number or an expression of the deck's top-level "
+                  "parameters";
+        if (!sweep || !err.empty()) {
+            a.problems.push_back(fmt::format(".disto card: {}", err));
+            return;
+        }
+        d.sweep = *sweep;
+        a.disto = std::move(d);
+    } else if (kw == ".pz" || kw == ".sens" || kw == ".pss" || kw == ".four") {
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
     }
@@ -183,9 +199,9 @@ DeckAnalyses find_analyses(const Deck& deck) {
         });
     }
     // Analyses in .control count only for a deck with no analysis card.
-    if (!a.ac && !a.tran && !a.op && !a.noise && !a.dc && !a.tf && !a.sp &&
+    if (!a.ac && !a.tran && !a.op && !a.noise && !a.dc && !a.tf && !a.sp && !a.disto &&
         (control.ac || control.tran || control.op || control.noise || control.dc ||
-         control.tf || control.sp)) {
+         control.tf || control.sp || control.disto)) {
         a.ac = control.ac;
         a.tran = control.tran;
         a.op = control.op;
@@ -193,13 +209,16 @@ DeckAnalyses find_analyses(const Deck& deck) {
         a.dc = control.dc;
         a.tf = control.tf;
         a.sp = control.sp;
+        a.disto = control.disto;
         for (auto& p : control.problems) a.problems.push_back(p);
     }
+    a.asks_disto = a.asks_disto || control.asks_disto;
     for (const auto& kw : control.uncompared)
         if (std::find(a.uncompared.begin(), a.uncompared.end(), kw) == a.uncompared.end())
             a.uncompared.push_back(kw);
     if (a.ac) a.ac->reltol = deck.symbols.reltol;
     if (a.sp) a.sp->reltol = deck.symbols.reltol;
+    if (a.disto) a.disto->sweep.reltol = deck.symbols.reltol;
     if (a.noise) a.noise->reltol = deck.symbols.reltol;
     return a;
 }
@@ -263,5 +282,10 @@ std::string dc_card(const DcSweep& s) {
 }
 
 std::string tf_card(const TfSpec& t) { return fmt::format(".tf {} {}", t.output, t.source); }
+
+std::string disto_card(const DistoSpec& d) {
+    std::string c = sweep_card(".disto", d.sweep);
+    return d.f2overf1.empty() ? c : c + " " + d.f2overf1;
+}
 
 }  // namespace deckscale

@@ -1,4 +1,4 @@
-// The analyses a deck asks for (.ac, .tran, .op, .noise, .dc, .tf, .sp) and the sources that could
+// The analyses a deck asks for (.ac, .tran, .op, .noise, .dc, .tf, .sp, .disto) and the sources that could
 // drive an AC comparison, read from its cards; and their images under frequency scaling.
 #pragma once
 
@@ -49,6 +49,14 @@ struct TfSpec {
     std::string source;
 };
 
+// `.disto dec|oct|lin n f1 f2 [f2overf1]` (ngspice 39 manual 15.3.3): the harmonics of the
+// sources' DISTOF1 inputs, or with f2overf1 the intermodulation products of DISTOF1 at f1 and
+// DISTOF2 at f2overf1 x f1. The ratio is kept as written (frequency scaling leaves it).
+struct DistoSpec {
+    AcSweep sweep;
+    std::string f2overf1;  // empty when absent
+};
+
 struct DeckAnalyses {
     std::optional<AcSweep> ac;
     std::optional<TranSpec> tran;
@@ -59,6 +67,8 @@ struct DeckAnalyses {
     // `.sp dec|oct|lin n f1 f2 [donoise]` (ngspice 39 manual 15.3.8): the S-parameters of the
     // deck's RF ports over a sweep stepped like .ac's. The donoise flag is not kept.
     std::optional<AcSweep> sp;
+    std::optional<DistoSpec> disto;
+    bool asks_disto = false;  // a .disto card (or command) is there, read or not
     std::vector<std::string> uncompared;     // analysis cards verify does not map (".dc", ...)
     std::vector<std::string> problems;      // analyses that could not be read (e.g. {params})
     std::vector<std::string> ac_sources;    // sources with an AC value (lower-case names)
@@ -80,5 +90,6 @@ std::string sp_card(const AcSweep& s);
 std::string tran_card(const TranSpec& t);
 std::string dc_card(const DcSweep& s);
 std::string tf_card(const TfSpec& t);
+std::string disto_card(const DistoSpec& d);
 
 }  // namespace deckscale

@@ -35,7 +35,8 @@ PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOpt
 AnalysisComparison comparison_of(const Comparison& c) {
     // Node voltages and branch currents; noise densities and the .tf results are "other".
     AnalysisComparison a{c.analysis, c.points,   c.first,        c.last,
-                         c.passed(), c.problems, c.not_compared, {},       c.axis_unit};
+                         c.passed(), c.problems, c.not_compared, {},       c.axis_unit,
+                         c.part};
     for (const auto& v : c.vectors)
         a.vectors.push_back({v.name,
                              v.kind == VectorKind::current   ? "current"

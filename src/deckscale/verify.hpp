@@ -42,7 +42,7 @@ struct VectorError {
 };
 
 struct AnalysisComparison {
-    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep), "tf" or "sp"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep), "tf", "sp" or "disto"
     std::size_t points = 0;
     double first = 0, last = 0;
     bool passed = true;
@@ -52,6 +52,9 @@ struct AnalysisComparison {
     // The unit of first, last and each vector's `at`: "Hz", "s", or for "dc" the swept
     // quantity's ("V", "A", "Ohm", "degC"); "" for "op" and "tf".
     std::string unit;
+    // Which of the analysis's plots: a "disto" comparison's product ("2nd harmonic", "IM:
+    // f1+f2", ...); "" for the others.
+    std::string part;
 };
 
 struct SimulationFailure {

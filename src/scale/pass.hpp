@@ -47,6 +47,8 @@ struct ToleranceScan {
     // Junction devices, by how ngspice 39 applies their m to the GMIN across their junctions
     // (scale/semiconductors.cpp): multiplied by m (Q, BSIM) or not (D, J by area, Z, MOS 1-3).
     bool gmin_times_m = false, gmin_apart = false;
+    // The first diode, where a note says that ngspice's .disto does not follow its m.
+    std::optional<Place> diode;
     void merge(const ToleranceScan& later);
 };
 
@@ -120,6 +122,8 @@ public:
     void finish(const Deck& deck);
     // The notes finish() adds where GMIN cannot follow exactly (scale/semiconductors.cpp).
     void note_gmin(const Deck& deck);
+    // The note finish() adds for a diode in a deck with .disto (scale/semiconductors.cpp).
+    void note_diode_distortion(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
     // Replaces a name (of a model or .subckt) by the name of its scaled copy.

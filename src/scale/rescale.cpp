@@ -253,8 +253,7 @@ bool ScalePass::bjt_by_area() {
         deck_->visit_file(f, [&](const Card& c) { apart = apart || gmin_apart_device(c, models); });
     if (apart) {
         if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
-        const auto& u = analyses_->uncompared;
-        apart = std::find(u.begin(), u.end(), ".disto") == u.end();
+        apart = !analyses_->asks_disto;
     }
     bjt_by_area_ = apart;
     return apart;

@@ -47,6 +47,7 @@ void ToleranceScan::merge(const ToleranceScan& later) {
     chgtol = chgtol || later.chgtol;
     gmin_times_m = gmin_times_m || later.gmin_times_m;
     gmin_apart = gmin_apart || later.gmin_apart;
+    if (!diode) diode = later.diode;
 }
 
 void note_tolerances(ScalePass& p, const std::string& kw) {
@@ -93,6 +94,7 @@ void ScalePass::finish(const Deck& deck) {
     // as GMIN / Km when the deck leaves it at its default (see note_gmin).
     bool gmin = s.gmin_apart && f.km != 1 && !deck.symbols.gmin_set;
     if (f.km != 1) note_gmin(deck);
+    if (f.km != 1 && s.diode) note_diode_distortion(deck);
     if (!s.tran && !gmin) return;
     if (s.tran && f.km != 1 && !deck.symbols.inductors.empty()) {
         // cktterr.c: an inductor's truncation error is judged with ABSTOL on its voltage and

@@ -49,7 +49,8 @@ struct VectorResult {
 };
 
 struct Comparison {
-    std::string analysis;          // "ac", "op", "tran", "noise", "dc", "tf" or "sp"
+    std::string analysis;          // "ac", "op", "tran", "noise", "dc", "tf", "sp" or "disto"
+    std::string part;              // which of an analysis's plots ("2nd harmonic"), or ""
     std::size_t points = 0;
     double first = 0, last = 0;    // sweep or time range of the original
     std::string axis_unit;  // of first, last and each `at`: "Hz", "s", "V", "A", "Ohm", "degC"

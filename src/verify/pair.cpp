@@ -17,6 +17,7 @@
 #include "verify/flicker_check.hpp"
 #include "verify/noise_compare.hpp"
 #include "verify/sim_cards.hpp"
+#include "verify/disto_compare.hpp"
 #include "verify/sp_compare.hpp"
 #include "verify/tf_compare.hpp"
 
@@ -26,7 +27,7 @@ namespace {
 namespace fs = std::filesystem;
 
 struct PairJob {
-    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf", "sp"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf", "sp", "disto"
     SimJob original, scaled;
 };
 
@@ -140,7 +141,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         for (const auto& kw : an.uncompared)
             report.notes.push_back(
                 fmt::format("the original's {} analysis is not compared (verify maps "
-                            ".ac, .op, .tran, .noise, .dc, .tf and .sp)",
+                            ".ac, .op, .tran, .noise, .dc, .tf, .sp and .disto)",
                             kw));
         std::optional<AcSweep> sweep = an.ac;
         if (!o.sweep.empty()) {
@@ -213,6 +214,12 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         if (an.sp)  // the ports are the drive: no source gets an AC value here
             pairs.push_back({"sp", job(original, o.original, sp_card(*an.sp), 1, ""),
                              job(scaled, o.scaled, sp_card(map_sweep(*an.sp, report.kf)), 1, "")});
+        if (an.disto) {  // the DISTOF inputs are the drive
+            DistoSpec mapped = *an.disto;
+            mapped.sweep = map_sweep(an.disto->sweep, report.kf);
+            pairs.push_back({"disto", job(original, o.original, disto_card(*an.disto), 1, ""),
+                             job(scaled, o.scaled, disto_card(mapped), 1, "")});
+        }
         if (an.tf) {
             pairs.push_back({"tf", job(original, o.original, tf_card(*an.tf), 1, ""),
                              job(scaled, o.scaled, tf_card(*an.tf), 1, "")});
@@ -237,6 +244,18 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
 
     for (std::size_t i = 0; i < pairs.size(); ++i) {
         const std::string& a = pairs[i].analysis;
+        if (a == "disto") {
+            std::string problem;
+            for (auto& c : compare_disto(outcomes[2 * i].plots, outcomes[2 * i + 1].plots,
+                                         report.km, report.kf, report.tolerances, problem))
+                report.comparisons.push_back(std::move(c));
+            if (!problem.empty()) {
+                result.outcome = PairVerification::Outcome::sim_failed;
+                result.problems.push_back(problem);
+                return result;
+            }
+            continue;
+        }
         bool noise = a == "noise";
         const SimPlot* po =
             noise ? noise_plot(outcomes[2 * i], false) : plot_of(outcomes[2 * i], a);

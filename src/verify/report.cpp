@@ -37,7 +37,9 @@ const char* kind_word(VectorKind k) {
 }
 
 // Complex sweeps over frequency, shown with magnitude and phase errors.
-bool ac_like(const Comparison& c) { return c.analysis == "ac" || c.analysis == "sp"; }
+bool ac_like(const Comparison& c) {
+    return c.analysis == "ac" || c.analysis == "sp" || c.analysis == "disto";
+}
 
 const char* analysis_title(const std::string& a) {
     if (a == "ac") return "AC sweep";
@@ -46,7 +48,14 @@ const char* analysis_title(const std::string& a) {
     if (a == "dc") return "DC sweep";
     if (a == "tf") return "Transfer function";
     if (a == "sp") return "S-parameter sweep";
+    if (a == "disto") return "Distortion";
     return "Transient";
+}
+
+// "Distortion (2nd harmonic)": the analysis and which of its plots.
+std::string title_of(const Comparison& c) {
+    std::string t = analysis_title(c.analysis);
+    return c.part.empty() ? t : fmt::format("{} ({})", t, c.part);
 }
 
 
@@ -105,10 +114,10 @@ std::string report_text(const VerifyReport& r) {
         s += "\n";
         std::string axis = axis_of(c);
         if (single_point(c))
-            s += fmt::format("  {}: {} vectors\n", analysis_title(c.analysis), c.vectors.size());
+            s += fmt::format("  {}: {} vectors\n", title_of(c), c.vectors.size());
         else
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
-                             analysis_title(c.analysis), c.points, c.first, axis, c.last, axis,
+                             title_of(c), c.points, c.first, axis, c.last, axis,
                              c.vectors.size());
         if (c.analysis == "noise") s += "    " + noise_mapping(r, c) + "\n";
         for (const auto& d : c.expected_differences) s += "    not expected to match: " + d + "\n";
@@ -174,8 +183,8 @@ std::string report_text(const VerifyReport& r) {
     std::string worst;
     for (const auto& c : r.comparisons) {
         double tol = c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
-        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
-                             c.analysis, c.worst() ? c.worst()->worst : 0.0, tol,
+        worst += fmt::format("{}{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
+                             c.analysis, c.part.empty() ? "" : " " + c.part, c.worst() ? c.worst()->worst : 0.0, tol,
                              c.decides() ? "" : "; not judged: flicker noise does not follow");
     }
     if (worst.empty()) worst = "nothing compared";
@@ -217,6 +226,7 @@ std::string report_json(const VerifyReport& r) {
                           {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
                           {"passed", v.passed}, {"gmin_level", v.gmin_level}});
         an.push_back({{"analysis", c.analysis},
+                      {"part", c.part},
                       {"unit", axis_of(c)},
                       {"points", c.points},
                       {"first", c.first},

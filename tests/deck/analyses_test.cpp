@@ -98,7 +98,9 @@ TEST(FindAnalyses, ParametersInAnalysesAreEvaluated) {
 TEST(FindAnalyses, AnalysesVerifyDoesNotMapAreNamedOnce) {
     auto a = analyses_of("t\nV1 a 0 1\nR1 a 0 1k\n.dc V1 0 1 0.1\n.dc V1 0 2 0.1\n.pz a 0 a 0 vol pz\n"
                          ".sens v(a)\n.disto dec 5 1 1k\n.sens v(a)\n.end\n");
-    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".pz", ".sens", ".disto"}));
+    EXPECT_EQ(a.uncompared, (std::vector<std::string>{".pz", ".sens"}));
+    EXPECT_TRUE(a.asks_disto);
+    ASSERT_TRUE(a.disto);  // compared since verify maps it
     EXPECT_FALSE(a.ac);
     EXPECT_FALSE(a.op);
     ASSERT_TRUE(a.dc);  // the first .dc card
@@ -231,6 +233,40 @@ TEST(MapAnalyses, FrequenciesTimesKfTimesOverKf) {
     EXPECT_EQ(tran_card(map_tran(u, 10)), ".tran 0.0001 0.20000000000000001 0.050000000000000003 1.0000000000000001e-05 uic");
     TranSpec v{1, 4, 2, 0, false};
     EXPECT_EQ(tran_card(v), ".tran 1 4 2");
+}
+
+}  // namespace
+}  // namespace deckscale
+
+namespace deckscale {
+namespace {
+
+// ngspice 39 manual 15.3.3: .disto dec|oct|lin np fstart fstop [f2overf1].
+TEST(FindAnalyses, DistortionCardsWithAndWithoutTheSecondFrequency) {
+    auto h = analyses_of("t\n.param f1=1k\nV1 a 0 dc 1 distof1 0.1\nR1 a 0 1k\n"
+                         ".disto dec 5 {f1} 1meg\n.end\n");
+    ASSERT_TRUE(h.disto);
+    EXPECT_EQ(disto_card(*h.disto), ".disto dec 5 1000 1meg");
+    auto im = analyses_of("t\nV1 a 0 dc 1 distof1 0.1 distof2 0.1\nR1 a 0 1k\n"
+                          ".disto lin 10 1k 10k 0.9\n.end\n");
+    ASSERT_TRUE(im.disto);
+    EXPECT_EQ(im.disto->f2overf1, "0.9");
+    EXPECT_EQ(disto_card(*im.disto), ".disto lin 10 1k 10k 0.9");
+    // A mapped sweep keeps the ratio: both frequencies move by Kf.
+    DistoSpec mapped = *im.disto;
+    mapped.sweep = map_sweep(im.disto->sweep, 1000);
+    EXPECT_EQ(disto_card(mapped), ".disto lin 10 1meg 10meg 0.9");
+    // A card that cannot be read is a problem, and still a .disto the deck asks for.
+    auto bad = analyses_of("t\nV1 a 0 dc 1\nR1 a 0 1k\n.disto dec 5 1k 1meg 0.9 7\n.end\n");
+    EXPECT_FALSE(bad.disto);
+    EXPECT_TRUE(bad.asks_disto);
+    ASSERT_EQ(bad.problems.size(), 1u);
+    EXPECT_NE(bad.problems[0].find(".disto card: needs"), std::string::npos) << bad.problems[0];
+    // In .control, as a command.
+    auto ctl = analyses_of("t\nV1 a 0 dc 1 distof1 0.1\nR1 a 0 1k\n.control\ndisto oct 3 1k 8k\n"
+                           ".endc\n.end\n");
+    ASSERT_TRUE(ctl.disto);
+    EXPECT_EQ(disto_card(*ctl.disto), ".disto oct 3 1k 8k");
 }
 
 }  // namespace
