@@ -106,7 +106,7 @@ py::dict snap(py::handle deck_arg, const std::string& series, py::object output,
         py::gil_scoped_release unlocked;
         const Deck& d = deck.impl().deck;
         r = snap_deck(d, s);
-        OutputPlan plan = plan_output(d, std::move(r.edits), path, false);
+        OutputPlan plan = plan_output(d, std::move(r.edits), path, false, "-snapped");
         out.files = api::output_texts(d, plan);
         if (write && !path.empty()) api::write(out);
     }

@@ -164,7 +164,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
                          "Write an SVG overlay: the original moved to the new band, the "
                          "output, the target marked, and the deviation");
     retarget->add_option("--series", t.series,
-                         "Series per kind for --impedance-range (R=E96,C=E12,L=E12)");
+                         "Series per kind for --impedance-range (R=E96,C=E12,L=E12, or E24 for all)");
     zi->excludes(zm);
     zr->excludes(zi);
     zr->excludes(zm);
@@ -196,7 +196,7 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     SnapOptions& n = inv.snap;
     snap->add_option("DECK", n.deck, "The deck with ideal values (never modified)")->required();
     snap->add_option("-o,--output", n.output, "Write the rounded deck here")->required();
-    snap->add_option("--series", n.series, "Series per kind, e.g. R=E96,C=E12,L=E12 (E3 ... E192)")
+    snap->add_option("--series", n.series, "Series per kind, e.g. R=E96,C=E12,L=E12 (E3 ... E192); a bare E24 is for every kind not named")
         ->required();
     snap->add_option("--plot", n.plot,
                      "Write an SVG overlay of the ideal and the rounded response with "

@@ -85,7 +85,7 @@ int run_snap(const SnapOptions& o, std::ostream& out, std::ostream& err) {
                 return exit_bad_input;
             }
         }
-        OutputPlan plan = plan_output(deck, std::move(snapped.edits), o.output, false);
+        OutputPlan plan = plan_output(deck, std::move(snapped.edits), o.output, false, "-snapped");
         OutputBatch batch;
         for (const auto& f : plan.files) {
             auto produce = [&](ByteSink& sink) { produce_output(deck, plan, f, sink); };

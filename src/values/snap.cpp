@@ -49,6 +49,7 @@ Diagnostic left_alone(const Card& c, const Token& t, std::string_view text) {
 
 std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string& error) {
     SnapSeries s;
+    std::optional<ESeries> every;  // a bare series: for each kind not named
     std::size_t pos = 0;
     while (pos <= text.size()) {
         std::size_t comma = text.find(',', pos);
@@ -56,12 +57,15 @@ std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string
             text.substr(pos, comma == std::string::npos ? std::string::npos : comma - pos);
         auto eq = item.find('=');
         std::string kind = to_lower(item.substr(0, eq == std::string::npos ? 0 : eq));
-        auto series = eq == std::string::npos ? std::nullopt : e_series(item.substr(eq + 1));
-        auto* slot = kind.size() == 1 ? series_for(s, kind[0]) : nullptr;
+        auto series = e_series(eq == std::string::npos ? item : item.substr(eq + 1));
+        auto* slot = eq == std::string::npos ? (every ? nullptr : &every)
+                     : kind.size() == 1      ? series_for(s, kind[0])
+                                             : nullptr;
         if (!slot || !series) {
             error = fmt::format(
                 "'{}': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, "
-                "E6, E12, E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)",
+                "E6, E12, E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12), or one series for "
+                "every kind not named (E24, or E12,R=E96)",
                 item);
             return std::nullopt;
         }
@@ -69,6 +73,9 @@ std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string
         if (comma == std::string::npos) break;
         pos = comma + 1;
     }
+    if (every)
+        for (auto* slot : {&s.r, &s.c, &s.l})
+            if (!*slot) *slot = every;
     return s;
 }
 

@@ -22,7 +22,8 @@ struct SnapSeries {
     std::optional<ESeries> r, c, l;  // none: that kind is left as it is
 };
 
-// "R=E96,C=E12,L=E12" (kinds in any order and case); nullopt with `error` set otherwise.
+// "R=E96,C=E12,L=E12" (kinds in any order and case), with at most one bare series for every
+// kind not named ("E24", "E12,R=E96"); nullopt with `error` set otherwise.
 std::optional<SnapSeries> parse_snap_series(const std::string& text, std::string& error);
 
 struct SnappedPart {

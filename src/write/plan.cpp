@@ -15,9 +15,9 @@ namespace fs = std::filesystem;
 // Files at least this big are produced by two threads.
 constexpr std::uint32_t kParallelOutputBytes = 8u << 20;
 
-std::string scaled_copy_name(const std::string& original_path) {
+std::string scaled_copy_name(const std::string& original_path, std::string_view suffix) {
     fs::path p(original_path);
-    return p.stem().string() + "-scaled" + p.extension().string();
+    return p.stem().string() + std::string(suffix) + p.extension().string();
 }
 
 namespace {
@@ -59,7 +59,7 @@ void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& 
 }
 
 OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const std::string& output,
-                       bool flatten) {
+                       bool flatten, std::string_view copy_suffix) {
     OutputPlan plan;
     plan.edits = std::move(edits_in);
     std::vector<EditSet>& edits = plan.edits;
@@ -100,7 +100,7 @@ OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const st
         taken.insert(fs::absolute(deck.files[i].source->path()).lexically_normal().string());
     for (std::size_t i = 1; i < n; ++i) {
         if (!copied[i]) continue;
-        std::string name = scaled_copy_name(deck.files[i].source->path());
+        std::string name = scaled_copy_name(deck.files[i].source->path(), copy_suffix);
         fs::path candidate = out_dir / name;
         for (int k = 2; taken.count(candidate.lexically_normal().string()); ++k)
             candidate = out_dir / (fs::path(name).stem().string() + fmt::format("-{}", k) +

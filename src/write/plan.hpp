@@ -3,6 +3,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "base/byte_sink.hpp"
@@ -25,16 +26,18 @@ struct OutputPlan {
 };
 
 // `edits` are the scaling pass's (one per Deck::files entry); `output` is the main deck's
-// path ("" for standard output). Throws DeckError when the deck cannot be written that way
-// (changed includes with standard output).
+// path ("" for standard output); a changed include's copy is named with `copy_suffix`
+// (scaled_copy_name). Throws DeckError when the deck cannot be written that way (changed
+// includes with standard output).
 OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits, const std::string& output,
-                       bool flatten);
+                       bool flatten, std::string_view copy_suffix = "-scaled");
 
 // Hands the bytes of one planned file to `sink`, in pieces.
 void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
                     ByteSink& sink);
 
-// The name of the copy of an included file: "<stem>-scaled<ext>".
-std::string scaled_copy_name(const std::string& original_path);
+// The name of the copy of an included file: "<stem>-scaled<ext>" (snap's: "-snapped").
+std::string scaled_copy_name(const std::string& original_path,
+                             std::string_view suffix = "-scaled");
 
 }  // namespace deckscale

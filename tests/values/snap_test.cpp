@@ -143,12 +143,20 @@ TEST(Snap, SeriesOption) {
     } rows[] = {
         {__LINE__, "R=E96,C=E12,L=E12", ""},
         {__LINE__, "c=e192", ""},
+        {__LINE__, "E24", ""},
+        {__LINE__, "e12,R=E96", ""},
         {__LINE__, "R=E97",
          "'R=E97': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
-         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12), or one series for every kind not "
+         "named (E24, or E12,R=E96)"},
         {__LINE__, "Q=E12",
          "'Q=E12': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
-         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12)"},
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12), or one series for every kind not "
+         "named (E24, or E12,R=E96)"},
+        {__LINE__, "E24,E12",
+         "'E12': write KIND=SERIES, KIND one of R, C, L and SERIES one of E3, E6, E12, "
+         "E24, E48, E96, E192 (e.g. R=E96,C=E12,L=E12), or one series for every kind not "
+         "named (E24, or E12,R=E96)"},
     };
     for (const auto& r : rows) {
         std::string error;
@@ -156,6 +164,17 @@ TEST(Snap, SeriesOption) {
         EXPECT_EQ(s.has_value(), *r.error == 0) << "line " << r.line;
         EXPECT_EQ(error, r.error) << "line " << r.line;
     }
+    // A bare series is for every kind not named, wherever it stands.
+    std::string error;
+    auto all = parse_snap_series("E24", error);
+    ASSERT_TRUE(all && all->r && all->c && all->l);
+    EXPECT_EQ(all->r->n, 24);
+    EXPECT_EQ(all->l->n, 24);
+    auto mixed = parse_snap_series("C=E6,E12,R=E96", error);
+    ASSERT_TRUE(mixed && mixed->r && mixed->c && mixed->l);
+    EXPECT_EQ(mixed->r->n, 96);
+    EXPECT_EQ(mixed->c->n, 6);
+    EXPECT_EQ(mixed->l->n, 12);
 }
 
 // A 5th-order 0.5 dB Chebyshev low-pass, 50 Ohm, ripple band to 10 MHz, shunt-C first
@@ -266,6 +285,29 @@ TEST(SnapCommand, AParameterDeckRoundsAsTheDeckOfWrittenValues) {
     double param = ngspice_number(dir, dir.file("param_e24.cir"), cards, "at9");
     EXPECT_NEAR(written, param, 1e-9);
     EXPECT_NE(written, ngspice_number(dir, dir.file("cheb.cir"), cards, "at9"));
+}
+
+// A ladder whose shunt capacitors live in an include: the rounded include is written beside
+// the output as "<stem>-snapped<ext>" (the deck is not scaled), and one bare series names
+// every kind.
+TEST(SnapCommand, AnIncludeIsCopiedAsSnappedAndABareSeriesIsForEveryKind) {
+    test::TempDir dir;
+    std::string main = std::regex_replace(kChebyshev, std::regex("C1 n1 0 542\\.9635p\n"),
+                                          ".include shunts.inc\n");
+    test::write_bytes(dir.file("cheb.cir"), main);
+    test::write_bytes(dir.file("shunts.inc"), "C1 n1 0 542.9635p\n");
+    test::RunResult r = test::run_binary(
+        {"snap", "cheb.cir", "--series", "E24", "-o", "out/e24.cir"}, dir.path());
+    // The output folder must exist.
+    EXPECT_EQ(r.exit_code, 2) << r.out << r.err;
+    std::filesystem::create_directory(dir.file("out"));
+    r = test::run_binary({"snap", "cheb.cir", "--series", "E24", "-o", "out/e24.cir"}, dir.path());
+    ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
+    EXPECT_NE(r.out.find("(R=E24, C=E24, L=E24;"), std::string::npos) << r.out;
+    EXPECT_EQ(test::read_bytes(dir.file("out/shunts-snapped.inc")), "C1 n1 0 560p\n");
+    EXPECT_NE(test::read_bytes(dir.file("out/e24.cir")).find(".include shunts-snapped.inc\n"),
+              std::string::npos);
+    EXPECT_EQ(test::read_bytes(dir.file("shunts.inc")), "C1 n1 0 542.9635p\n");
 }
 
 }  // namespace
