@@ -172,6 +172,8 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
         scale_sweep_exactly(p, SweepKind::ac, atoms, 0, 4, Unit::hertz, {"#3", "#4"})) {
         // fstart and fstop written together
     } else if (kw == ".ac" || kw == ".disto" || kw == ".sp") {
+        // Diodes go by their model card in a deck with .disto (ScalePass::diode_by_model).
+        if (kw == ".disto" && p.factors().km != 1) p.rescan_when_complete();
         scale_positional(p, atoms, kw);
     } else if (kw == ".tran" && times >= 2 &&
                scale_sweep_exactly(p, SweepKind::tran, atoms, 0, times, Unit::second,

@@ -97,6 +97,15 @@ public:
     // by Km then), and no .disto analysis, which ngspice 39 gets wrong with a BJT's area
     // (shared notes "scaling-rules.md" §6). Only on a complete deck (never while observing).
     bool bjt_by_area();
+    // Whether the deck's diodes are scaled through their model cards rather than m: Km != 1,
+    // a .disto analysis (ngspice 39's leaves a diode's m out) and diode models that can
+    // (scale/diode_model.hpp). Only on a complete deck: false while observing, where a
+    // .disto card asks for the pass over the complete deck (rescan_when_complete).
+    bool diode_by_model();
+    // While observing: leaves the decisions to a pass over the complete deck.
+    void rescan_when_complete() {
+        if (observing_) rescan_ = true;
+    }
     ScaleFactors factors() const { return settings_.factors; }
     int digits() const { return settings_.digits; }
     bool follow_flicker() const { return settings_.follow_flicker; }
@@ -217,6 +226,7 @@ private:
     std::shared_ptr<const CodeModelUses> code_model_uses_;
     std::shared_ptr<const MosModels> mos_models_;
     std::optional<bool> bjt_by_area_;
+    std::optional<bool> diode_by_model_;
     mutable NumberParse cached_parse_;
     mutable std::uint32_t cached_begin_ = ~0u;
     mutable std::size_t cached_file_ = ~std::size_t{0};

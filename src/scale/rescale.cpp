@@ -8,8 +8,9 @@
 
 #include "base/text_util.hpp"
 #include "deck/spice_number.hpp"
-#include "scale/codemodels.hpp"
 #include "scale/after_end.hpp"
+#include "scale/codemodels.hpp"
+#include "scale/diode_model.hpp"
 #include "scale/expression.hpp"
 #include "scale/hold_plan.hpp"
 #include "scale/pass.hpp"
@@ -57,6 +58,7 @@ void ScalePass::run(const Deck& deck) {
     code_model_uses_ = collect_code_model_uses(deck, settings_.factors);
     mos_models_.reset();
     bjt_by_area_.reset();
+    diode_by_model_.reset();
     result_.edits.resize(deck.files.size());
     if (hold_) probe_shared_models(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f)
@@ -257,6 +259,14 @@ bool ScalePass::bjt_by_area() {
     }
     bjt_by_area_ = apart;
     return apart;
+}
+
+bool ScalePass::diode_by_model() {
+    if (observing_ || settings_.factors.km == 1) return false;
+    if (diode_by_model_) return *diode_by_model_;
+    if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
+    diode_by_model_ = analyses_->asks_disto && diodes_follow_by_model(*deck_);
+    return *diode_by_model_;
 }
 
 const NumberParse& ScalePass::number_of(const Token& t) const {

@@ -9,6 +9,7 @@
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
 #include "deck/spice_number.hpp"
+#include "scale/diode_model.hpp"
 #include "scale/flicker.hpp"
 #include "scale/pass.hpp"
 #include "scale/terminals.hpp"
@@ -244,6 +245,7 @@ void scale_semiconductor(ScalePass& p, char letter) {
         }
     }
     if (f.km == 1) return;
+    if (letter == 'd' && p.diode_by_model()) return;  // its model card carries Km
     // m' = m / Km (ngspice multiplies currents, charges and conductances by m and divides the
     // series resistances: notes §4, verified there for D, Q and MOS level 1 and BSIM3).
     double k = 1 / f.km;
@@ -304,6 +306,8 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                                  kf_text(f.kf)));
         return;
     }
+    // A diode in a deck with .disto: its model card carries Km as well (scale/diode_model.hpp).
+    bool by_model = family == 'd' && p.diode_by_model();
     std::optional<double> flicker = flicker_rewrite(p);  // scale/flicker.hpp
     for (const auto& a : atoms) {
         if (!a.key || !a.value) continue;
@@ -311,31 +315,36 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
             p.scale_by(*a.value, *flicker, "kf (flicker noise follows)", "-");
             continue;
         }
-        if (!charges) continue;
+        std::string key = to_lower(c.text(*a.key));
+        DiodeKmRule km = by_model ? diode_model_km_rule(key) : DiodeKmRule{};
+        UnitExponents e{km.km_power, 0};
+        const char* unit = km.unit;
         for (const auto& r : kChargeRules)
-            if (r.family == family && iequals(c.text(*a.key), r.key)) {
-                double k = r.kf_power > 0 ? f.kf : 1 / f.kf;
-                p.scale_by(*a.value, k, to_lower(c.text(*a.key)), r.unit,
-                           UnitExponents{0, r.kf_power > 0 ? 1 : -1});
+            if (charges && r.family == family && key == r.key) {
+                e.kf = r.kf_power > 0 ? 1 : -1;
+                unit = r.unit;
                 break;
             }
+        if (e.km != 0 || e.kf != 0) p.scale_by(*a.value, factor_of(e, f), key, unit, e);
     }
+    if (by_model) add_diode_model_defaults(p, atoms);
 }
 
 void ScalePass::note_diode_distortion(const Deck& deck) {
     if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(deck));
-    if (!analyses_->asks_disto) return;
+    if (!analyses_->asks_disto || diode_by_model()) return;
     const ToleranceScan::Place& d = *tolerances_.diode;
     // ngspice 39.3 runs (a diode at 0.6 V through 1 kOhm, Km = Kf = 10): every other
     // analysis followed m to 1e-13, the .disto harmonics came out 99 % low with m = 0.1 and
-    // 95 % off with area = 0.1 (shared notes "scaling-rules.md" §6; the model card alone
-    // would follow).
+    // 95 % off with area = 0.1 (shared notes "scaling-rules.md" §6); the model card follows
+    // (scale/diode_model.hpp), so this note is for decks whose models cannot.
     result_.notes.push_back(deck.files[d.file].source->diagnose(
         Severity::note, d.offset, 1,
         "ngspice 39's .disto does not apply a diode's m (nor its area) to the distortion "
-        "terms, so this deck's .disto results do not follow Km (a diode scaled by m = 0.1 gave "
-        "harmonics 99 % low); every other analysis does, and verify shows how far the "
-        "distortion moved"));
+        "terms, and the diode models of this deck cannot carry Km instead (a parameter not "
+        "known here, flicker noise, or a model not in the deck), so its .disto results do not "
+        "follow Km (a diode scaled by m = 0.1 gave harmonics 99 % low); every other analysis "
+        "does, and verify shows how far the distortion moved"));
 }
 
 void ScalePass::note_gmin(const Deck& deck) {

@@ -136,6 +136,9 @@ std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckA
         return scaled.noise->fstop / original.noise->fstop;
     if (original.sp && scaled.sp && original.sp->fstop > 0 && scaled.sp->fstop > 0)
         return scaled.sp->fstop / original.sp->fstop;
+    if (original.disto && scaled.disto && original.disto->sweep.fstop > 0 &&
+        scaled.disto->sweep.fstop > 0)
+        return scaled.disto->sweep.fstop / original.disto->sweep.fstop;
     return std::nullopt;
 }
 

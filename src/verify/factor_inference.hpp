@@ -47,8 +47,8 @@ FactorInference infer_factors(const std::vector<ElementValue>& original,
 
 // Kf read off the decks' own analyses, for decks without matched capacitors or inductors:
 // the scaled .ac stop frequency over the original's, else the original .tran stop time over
-// the scaled one's, else the .noise, then the .sp stop frequencies. Nothing when the two decks have none
-// of these analyses in common.
+// the scaled one's, else the .noise, the .sp, then the .disto stop frequencies. Nothing when
+// the two decks have none of these analyses in common.
 std::optional<double> kf_from_analyses(const DeckAnalyses& original, const DeckAnalyses& scaled);
 
 // Pairs whose ratio is off by more than `tolerance` (relative) from what km, kf predict.

@@ -128,7 +128,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                 report.kf = *kf;
                 report.notes.push_back(
                     "no matched capacitors or inductors: Kf read off the "
-                    "decks' .ac, .tran, .noise or .sp cards");
+                    "decks' .ac, .tran, .noise, .sp or .disto cards");
             } else if (!inf.message.empty()) {
                 report.notes.push_back(inf.message);
             }

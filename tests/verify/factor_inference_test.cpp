@@ -129,6 +129,7 @@ TEST(InferFactors, KfFromTheAnalysesOfBothDecks) {
         {__LINE__, ".ac lin 10 1k 2k\n.tran 1u 1m\n", ".ac lin 10 500 1k\n.tran 1u 1m\n", 0.5},
         {__LINE__, ".ac dec 10 1 1k\n", ".tran 1n 1u\n", std::nullopt},
         {__LINE__, ".op\n", ".op\n", std::nullopt},
+        {__LINE__, ".disto oct 4 1k 100k\n", ".disto oct 4 10k 1meg\n", 10},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "factor_inference_test.cpp:" << c.line);
