@@ -4,6 +4,7 @@
 
 #include <chrono>
 #include <filesystem>
+#include <utility>
 
 #include "base/output_file.hpp"
 #include "deck/diagnostic.hpp"
@@ -89,14 +90,15 @@ std::string worst_vector(const VerifyReport& report) {
     if (!report.held.empty()) return moved_most(report);
     const Comparison* wc = nullptr;
     const VectorResult* wv = nullptr;
-    double worst_ratio = -1;
+    // A failing vector always ranks above a passing one (compared as a pair: adding a huge
+    // number to the failing ones' ratios made them all equal), then by error over tolerance.
+    std::pair<bool, double> worst_rank{false, -1};
     for (const auto& c : report.comparisons) {
         if (!c.decides()) continue;  // flicker noise that cannot agree: shown, never the worst
         for (const auto& v : c.vectors) {
-            // A failing vector always ranks above a passing one.
-            double ratio = v.worst / tolerance_of(c, report.tolerances) + (v.passed ? 0 : 1e300);
-            if (ratio > worst_ratio) {
-                worst_ratio = ratio;
+            std::pair<bool, double> rank{!v.passed, v.worst / tolerance_of(c, report.tolerances)};
+            if (rank > worst_rank) {
+                worst_rank = rank;
                 wc = &c;
                 wv = &v;
             }
@@ -110,7 +112,8 @@ std::string worst_vector(const VerifyReport& report) {
     else if (wc->analysis != "op" && wc->analysis != "tf")
         at = wc->axis_unit.empty() ? fmt::format(" at {:.6g}", wv->at)
                                    : fmt::format(" at {:.6g} {}", wv->at, wc->axis_unit);
-    return fmt::format("{} {}: relative error {:.3g}{} (tolerance {:.3g})", wc->analysis, wv->name,
+    std::string analysis = wc->part.empty() ? wc->analysis : wc->analysis + " (" + wc->part + ")";
+    return fmt::format("{} {}: relative error {:.3g}{} (tolerance {:.3g})", analysis, wv->name,
                        wv->worst, at, tolerance_of(*wc, report.tolerances));
 }
 
