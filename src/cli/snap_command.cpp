@@ -127,10 +127,15 @@ int run_snap(const SnapOptions& o, std::ostream& out, std::ostream& err) {
                                 std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000)),
                                 o.memory_mb};
             ResponseChange c = response_change(deck, o.deck, rounded, o.output, probe, *sweep);
-            if (!c.problem.empty()) {
+            if (c.missing_node && o.node.empty()) {
+                // The rounding is done; only the default node of the report is not there.
+                err << "deckscale: note: " << c.problem
+                    << ", so the response change is not shown (--node names the node to "
+                       "report on)\n";
+            } else if (!c.problem.empty()) {
                 err << "deckscale: error: " << c.problem
-                    << " (--node names the node to report on)\n";
-                code = exit_sim_failed;
+                    << (c.missing_node ? " (--node names the node to report on)\n" : "\n");
+                code = c.missing_node ? exit_bad_input : exit_sim_failed;
             } else {
                 out << change_text(c, probe.node);
                 if (!o.plot.empty()) {

@@ -74,6 +74,7 @@ ResponseChange response_change(const Deck& ideal, const std::string& ideal_path,
         if (!v[k] || !freq) {
             c.problem =
                 fmt::format("{} has no node '{}' in its AC results", jobs[k].label, probe.node);
+            c.missing_node = true;
             return c;
         }
     }

@@ -24,6 +24,7 @@ Ripple passband_ripple(const Sampled& response);
 
 struct ResponseChange {
     std::string problem;  // empty when the rest is filled in
+    bool missing_node = false;  // the problem is that a deck has no such node
     long points = 0;
     double max_db = 0, max_db_hz = 0;    // largest |dB(rounded) - dB(ideal)| and where
     double max_deg = 0, max_deg_hz = 0;  // largest |phase difference| and where

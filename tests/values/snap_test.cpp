@@ -310,5 +310,33 @@ TEST(SnapCommand, AnIncludeIsCopiedAsSnappedAndABareSeriesIsForEveryKind) {
     EXPECT_EQ(test::read_bytes(dir.file("shunts.inc")), "C1 n1 0 542.9635p\n");
 }
 
+// The report's node: 'out' unless --node names one. A deck without 'out' is still rounded
+// and written, with a note that the response change is not shown (exit 0); a node named by
+// --node that is not there is an error in the command (exit 2), the rounded deck written.
+TEST(SnapCommand, AMissingReportNodeIsANoteUnlessNamed) {
+    test::TempDir dir;
+    test::write_bytes(dir.file("rc.cir"),
+                      "rc\nV1 a 0 ac 1\nR1 a b 1.234k\nC1 b 0 1.11n\n.ac dec 10 1k 1meg\n.end\n");
+    test::RunResult r =
+        test::run_binary({"snap", "rc.cir", "--series", "E12", "-o", "e12.cir"}, dir.path());
+    EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
+    EXPECT_NE(r.err.find("deckscale: note: rc.cir has no node 'out' in its AC results, so the "
+                         "response change is not shown (--node names the node to report on)"),
+              std::string::npos)
+        << r.err;
+    EXPECT_NE(test::read_bytes(dir.file("e12.cir")).find("R1 a b 1.2k\nC1 b 0 1.2n\n"),
+              std::string::npos);
+    r = test::run_binary({"snap", "rc.cir", "--series", "E12", "-o", "e12.cir", "--node", "x"},
+                         dir.path());
+    EXPECT_EQ(r.exit_code, 2) << r.out << r.err;
+    EXPECT_NE(r.err.find("error: rc.cir has no node 'x' in its AC results (--node names"),
+              std::string::npos)
+        << r.err;
+    r = test::run_binary({"snap", "rc.cir", "--series", "E12", "-o", "e12.cir", "--node", "b"},
+                         dir.path());
+    EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
+    EXPECT_NE(r.out.find("response change at node b"), std::string::npos) << r.out;
+}
+
 }  // namespace
 }  // namespace deckscale
