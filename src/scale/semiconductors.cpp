@@ -168,6 +168,25 @@ void scale_bjt_area(ScalePass& p, double k) {
                  "area (added)", k);
 }
 
+// ngspice 39 reads a bare number after a diode's model name only in its PSpice compatibility
+// mode (shared notes "deck-syntax.md" §4; tried here: `D1 a 0 dm 2` stops the load with
+// "could not find a valid modelname", `area=2` works), so such a deck is refused as ngspice
+// would refuse it.
+void refuse_bare_diode_area(ScalePass& p) {
+    const Card& c = p.card();
+    ElementLinks links =
+        element_links(c, [&](const std::string& name) { return p.model_type(name) != nullptr; });
+    if (!links.model) return;
+    std::size_t at = *links.model + 1;
+    if (at < c.fields.size() && p.is_number(c.fields[at]) &&
+        (at + 1 == c.fields.size() || c.fields[at + 1].kind != TokenKind::equals))
+        p.fail(c.fields[at],
+               fmt::format("ngspice 39 reads a bare number after a diode's model name only in "
+                           "its PSpice compatibility mode ('{}' stops the load with \"could not "
+                           "find a valid modelname\"); write area={}",
+                           c.field_text(0), c.field_text(at)));
+}
+
 }  // namespace
 
 bool gmin_apart_device(const Card& c, const MosModels& models) {
@@ -203,6 +222,7 @@ std::shared_ptr<const MosModels> collect_mos_models(const Deck& deck) {
 void scale_semiconductor(ScalePass& p, char letter) {
     const Card& c = p.card();
     ScaleFactors f = p.factors();
+    if (letter == 'd') refuse_bare_diode_area(p);
     if (f.km == 1 && f.kf == 1) return;
     // How ngspice 39 applies m to the GMIN across the device's junctions (ngspice 39.3 runs,
     // a junction reverse-biased through 1 MOhm, Km = 10, reltol 1e-9: with m = 1/Km the

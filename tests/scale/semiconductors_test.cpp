@@ -243,6 +243,28 @@ TEST(SemiconductorsTest, ADiodeThatCannotGoByItsModelInADeckWithDistortionIsNote
     }
 }
 
+// ngspice 39 stops on a bare number after a diode's model name (tried: "could not find a
+// valid modelname"; shared notes "deck-syntax.md" §4: it is the area only in PSpice mode), so
+// the deck is refused as ngspice refuses it, whatever the factors; area= and a BJT's or a
+// JFET's positional area are fine.
+TEST(SemiconductorsTest, ABareAreaAfterADiodesModelIsRefused) {
+    for (double km : {10.0, 1.0}) {
+        try {
+            test::scale_text("t\nD1 a 0 dm 2\n.model dm d\n.end\n", km, 1);
+            ADD_FAILURE() << "not refused with Km = " << km;
+        } catch (const DeckError& e) {
+            EXPECT_EQ(render(e.diagnostic()),
+                      "deck.cir:2:11: error: ngspice 39 reads a bare number after a diode's model "
+                      "name only in its PSpice compatibility mode ('D1' stops the load with "
+                      "\"could not find a valid modelname\"); write area=2\n"
+                      "  D1 a 0 dm 2\n"
+                      "            ^\n");
+        }
+    }
+    EXPECT_EQ(test::scale_text("t\nD1 a 0 dm area=2\n.model dm d\n.end\n", 1, 1).text(),
+              "t\nD1 a 0 dm area=2\n.model dm d\n.end\n");
+}
+
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
     auto s = test::scale_text("t\r\nD1 a 0 dm\r\n.model dm d", 10, 1);
     EXPECT_EQ(s.text(), "t\r\nD1 a 0 dm m=0.1\r\n.model dm d\r\n.options gmin=1e-13\r\n");
