@@ -119,6 +119,21 @@ std::vector<BadInputRow> bad_inputs() {
          "      ^\n"},
         {__LINE__, "missing deck", {},
          "proj/deck.cir: error: cannot read the deck file: No such file or directory\n"},
+        // ngspice 39 cuts an include line at a comment marker, quotes or not (tried: both stop
+        // it with ".include filename missing"), so a path with one is refused, file or not.
+        {__LINE__, "a ';' in an include path",
+         {{"proj/deck.cir", "t\n.include \"a;b.lib\"\n"}, {"proj/a;b.lib", "R9 x 0 1k\n"}},
+         "proj/deck.cir:2:10: error: ngspice 39 strips comments from this line before it reads "
+         "the file name, so the ';' in the path cuts it there (it stops with \".include filename "
+         "missing\"); rename the file or folder\n"
+         "  .include \"a;b.lib\"\n"
+         "           ^~~~~~~~~\n"},
+        {__LINE__, "a '//' in a .lib path", {{"proj/deck.cir", "t\n.lib 'sub//c.lib' fast\n"}},
+         "proj/deck.cir:2:6: error: ngspice 39 strips comments from this line before it reads "
+         "the file name, so the '//' in the path cuts it there (it stops with \".include filename "
+         "missing\"); rename the file or folder\n"
+         "  .lib 'sub//c.lib' fast\n"
+         "       ^~~~~~~~~~~~\n"},
     };
 }
 
