@@ -122,6 +122,16 @@ void check_element(const Card& c, std::vector<Diagnostic>& warnings) {
         return;
     }
     if (other_letters().count(std::string(1, letter))) return;
+    // Every letter names an element type in ngspice 39; a card starting with anything else
+    // ('#', a digit, ...) stops its load with "unknown device type - error" (tried with
+    // '#pragma x' and '# a comment'; comments start with '*', and '//', '$', ';' it reads as
+    // comments too: shared notes "deck-syntax.md" §1).
+    if (letter < 'a' || letter > 'z')
+        throw DeckError(c.file->diagnose(
+            Severity::error, c.fields[0].begin, c.fields[0].size(),
+            fmt::format("ngspice 39 reads no card starting with '{}' (it stops with \"unknown "
+                        "device type\"); for a comment, start the line with '*'",
+                        c.field_text(0).substr(0, 1))));
     warnings.push_back(c.file->diagnose(
         Severity::warning, c.fields[0].begin, c.fields[0].size(),
         fmt::format("unknown element type '{}' passes through unchanged", c.field_text(0))));

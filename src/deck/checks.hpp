@@ -14,8 +14,8 @@ namespace deckscale {
 // inductors, coupled inductors, .options gmin).
 void gather_symbols(const Card& c, DeckSymbols& s);
 
-// Refuses a card with too few fields for its type (DeckError); an unknown element type or
-// dot card adds a warning. `kw` is card_keyword() of a dot card, empty otherwise.
+// Refuses a card with too few fields for its type, or one that starts with no letter
+// (DeckError); an unknown element type or dot card adds a warning. `kw` is card_keyword() of a dot card, empty otherwise.
 void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings);
 
 // Fields after the first, not counting '=', '(', ')' and ','.

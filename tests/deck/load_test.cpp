@@ -153,15 +153,33 @@ TEST(Deck, BadInputRendersInFull) {
 
 TEST(Deck, UnknownButWellFormedConstructsAreWarnings) {
     MemoryFileSystem fs;
-    fs.add("d.cir", "t\n.frobnicate 1 2\n#pragma x\nR1 a 0 1\n.end\n");
+    fs.add("d.cir", "t\n.frobnicate 1 2\nR1 a 0 1\n.end\n");
     Deck deck = load_deck("d.cir", fs);
     EXPECT_EQ(render(deck.warnings),
               "d.cir:2:1: warning: unknown dot card '.frobnicate' passes through unchanged\n"
               "  .frobnicate 1 2\n"
-              "  ^~~~~~~~~~~\n"
-              "d.cir:3:1: warning: unknown element type '#pragma' passes through unchanged\n"
-              "  #pragma x\n"
-              "  ^~~~~~~\n");
+              "  ^~~~~~~~~~~\n");
+}
+
+// A card that starts with no letter is no element to ngspice 39: it stops the load with
+// "unknown device type - error" (tried: '#pragma x', '# a comment'), so the deck is refused.
+TEST(Deck, ACardStartingWithNoLetterIsRefused) {
+    for (const char* line : {"#pragma x", "# a comment", "2r a 0 1"}) {
+        SCOPED_TRACE(line);
+        MemoryFileSystem fs;
+        fs.add("d.cir", std::string("t\nR1 a 0 1\n") + line + "\n.end\n");
+        try {
+            load_deck("d.cir", fs);
+            ADD_FAILURE() << "no DeckError";
+        } catch (const DeckError& e) {
+            EXPECT_EQ(e.diagnostic().line, 3);
+            EXPECT_EQ(e.diagnostic().message,
+                      fmt::format("ngspice 39 reads no card starting with '{}' (it stops with "
+                                  "\"unknown device type\"); for a comment, start the line with "
+                                  "'*'",
+                                  line[0]));
+        }
+    }
 }
 
 TEST(Deck, TitleCardIsFreeText) {
