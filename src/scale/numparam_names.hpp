@@ -19,8 +19,16 @@ std::optional<std::string> unknown_numparam_name(std::string_view expr);
 // The diagnostic text for it.
 std::string unknown_numparam_name_message(const std::string& name);
 
-// Refuses the card (ScalePass::fail) when a {...}, '...' or plain value token of it uses such
-// a name that the deck does not define as a parameter.
+// The first number in `expr` that ngspice 39's parameter evaluator (numparam, reading numbers
+// with sscanf's %lG and one suffix) stops on: a digit after the letters that follow a number,
+// as in RKM values ("1k5", "2n2") or a Fortran exponent ("1d3"). Tried: '.param x=1k5',
+// '{1d3}' and "'2n2*2'" each stop ngspice 39 with "Formula() error", after which the library
+// cannot recover (shared notes "deck-syntax.md" §2). Hexadecimal ("0x10") reads as a number.
+std::optional<std::string> fatal_numparam_number(std::string_view expr);
+std::string fatal_numparam_number_message(const std::string& number);
+
+// Refuses the card (ScalePass::fail) when a {...}, '...' or plain .param value token of it
+// uses such a name that the deck does not define as a parameter, or such a number.
 void check_numparam_names(ScalePass& p, const Token& value);
 
 }  // namespace deckscale

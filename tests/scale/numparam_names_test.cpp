@@ -1,8 +1,11 @@
 // Names ngspice 39's parameter evaluator does not know (scale/numparam_names).
 #include <gtest/gtest.h>
 
+#include <optional>
 #include <string>
+#include <utility>
 
+#include "scale/numparam_names.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -45,6 +48,35 @@ TEST(NumparamNames, PiIsRefusedUnlessTheDeckDefinesIt) {
 TEST(NumparamNames, RunTimeExpressionsMayUsePi) {
     auto s = test::scale_text("t\nB1 a 0 V=sin(2*pi*1k*time)\n.end\n", 1, 1000);
     EXPECT_EQ(s.text(), "t\nB1 a 0 V=sin(2*pi*1k*(time*1000))\n.end\n");
+}
+
+// Numbers the parameter evaluator stops on ("Formula() error", tried with '.param x=1k5',
+// '.param x={1d3}' and ".param x='2n2*2'"): a digit after the letters that follow a number.
+TEST(NumparamNames, NumbersTheEvaluatorCannotReadAreFound) {
+    const std::pair<const char*, const char*> found[] = {
+        {"1k5", "1k5"}, {"1d3", "1d3"}, {"2n2*2", "2n2"}, {"a+4u7/b", "4u7"}, {".5m1", ".5m1"},
+        {"1e3*2k2", "2k2"}};
+    for (const auto& [expr, number] : found)
+        EXPECT_EQ(fatal_numparam_number(expr), std::optional<std::string>(number)) << expr;
+    // Exponents, suffixes with letters after them, hexadecimal and names with digits are fine.
+    for (const char* expr : {"1e3", "2.5e-3k", "1meg", "1kOhm", "10uF", "0x10", "r1*c2", "x_2k5",
+                             "1e+3*v2", "(1)*2"})
+        EXPECT_EQ(fatal_numparam_number(expr), std::nullopt) << expr;
+}
+
+TEST(NumparamNames, ADeckWithSuchANumberIsRefused) {
+    for (const char* cards : {".param x=1k5\nR1 a 0 {x}\n", ".param x={1d3}\nR1 a 0 {x}\n",
+                              "R1 a 0 {2n2*2}\n"}) {
+        SCOPED_TRACE(cards);
+        try {
+            test::scale_text(std::string("t\n") + cards + ".end\n", 10, 1);
+            ADD_FAILURE() << "not refused";
+        } catch (const DeckError& e) {
+            EXPECT_NE(e.diagnostic().message.find("it stops with \"Formula() error\""),
+                      std::string::npos)
+                << e.diagnostic().message;
+        }
+    }
 }
 
 }  // namespace
