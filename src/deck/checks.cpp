@@ -109,7 +109,7 @@ const ElementShape* shape_of(char letter) {
     return letter >= 'a' && letter <= 'z' ? table[static_cast<std::size_t>(letter - 'a')] : nullptr;
 }
 
-void check_element(const Card& c, std::vector<Diagnostic>& warnings) {
+void check_element(const Card& c, std::vector<Diagnostic>& warnings, bool in_section) {
     char letter = ascii_lower(c.field_text(0)[0]);
     if (const ElementShape* shape = shape_of(letter)) {
         const auto& s = *shape;
@@ -126,12 +126,20 @@ void check_element(const Card& c, std::vector<Diagnostic>& warnings) {
     // ('#', a digit, ...) stops its load with "unknown device type - error" (tried with
     // '#pragma x' and '# a comment'; comments start with '*', and '//', '$', ';' it reads as
     // comments too: shared notes "deck-syntax.md" §1).
-    if (letter < 'a' || letter > 'z')
+    if ((letter < 'a' || letter > 'z') && !in_section)
         throw DeckError(c.file->diagnose(
             Severity::error, c.fields[0].begin, c.fields[0].size(),
             fmt::format("ngspice 39 reads no card starting with '{}' (it stops with \"unknown "
                         "device type\"); for a comment, start the line with '*'",
                         c.field_text(0).substr(0, 1))));
+    if (letter < 'a' || letter > 'z') {
+        warnings.push_back(c.file->diagnose(
+            Severity::warning, c.fields[0].begin, c.fields[0].size(),
+            fmt::format("ngspice 39 stops on a card starting with '{}' (\"unknown device "
+                        "type\") in a .lib section a deck selects; passes through unchanged",
+                        c.field_text(0).substr(0, 1))));
+        return;
+    }
     warnings.push_back(c.file->diagnose(
         Severity::warning, c.fields[0].begin, c.fields[0].size(),
         fmt::format("unknown element type '{}' passes through unchanged", c.field_text(0))));
@@ -154,8 +162,9 @@ void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& wa
 
 }  // namespace
 
-void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings) {
-    if (c.kind == CardKind::element) check_element(c, warnings);
+void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings,
+                bool in_section) {
+    if (c.kind == CardKind::element) check_element(c, warnings, in_section);
     if (c.kind == CardKind::dot) check_dot(c, kw, warnings);
 }
 

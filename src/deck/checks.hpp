@@ -15,8 +15,11 @@ namespace deckscale {
 void gather_symbols(const Card& c, DeckSymbols& s);
 
 // Refuses a card with too few fields for its type, or one that starts with no letter
-// (DeckError); an unknown element type or dot card adds a warning. `kw` is card_keyword() of a dot card, empty otherwise.
-void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings);
+// (DeckError); an unknown element type or dot card adds a warning. `kw` is card_keyword() of
+// a dot card, empty otherwise. In a .lib section (`in_section`), which ngspice reads only when
+// a deck selects it, a card starting with no letter is a warning too.
+void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings,
+                bool in_section = false);
 
 // Fields after the first, not counting '=', '(', ')' and ','.
 int value_fields(const Card& c);

@@ -106,7 +106,7 @@ private:
         CardVisitor visit = [&](const Card& c) {
             gather_symbols(c, deck_.symbols);
             std::string kw = c.kind == CardKind::dot ? card_keyword(c) : std::string();
-            check_card(c, kw, deck_.warnings);
+            check_card(c, kw, deck_.warnings, !section.empty());
             if (observer_) observer_(deck_, index, c);
             if (c.kind != CardKind::dot) return;
             if (kw == ".subckt") {

@@ -162,7 +162,9 @@ TEST(Deck, UnknownButWellFormedConstructsAreWarnings) {
 }
 
 // A card that starts with no letter is no element to ngspice 39: it stops the load with
-// "unknown device type - error" (tried: '#pragma x', '# a comment'), so the deck is refused.
+// "unknown device type - error" (tried: '#pragma x', '# a comment'), so the deck is refused;
+// in a .lib section, which ngspice reads only when a deck selects it (tried: a '#' line in
+// the section not selected loads), it is a warning.
 TEST(Deck, ACardStartingWithNoLetterIsRefused) {
     for (const char* line : {"#pragma x", "# a comment", "2r a 0 1"}) {
         SCOPED_TRACE(line);
@@ -180,6 +182,16 @@ TEST(Deck, ACardStartingWithNoLetterIsRefused) {
                                   line[0]));
         }
     }
+    MemoryFileSystem fs;
+    fs.add("d/top.cir", "t\nV1 x 0 1\n.lib m.lib slow\n.end\n");
+    fs.add("d/m.lib", ".lib fast\n# vendor note\nR5 x 0 1k\n.endl fast\n.lib slow\nR6 x 0 2k\n"
+                      ".endl slow\n");
+    Deck deck = load_deck("d/top.cir", fs);
+    EXPECT_EQ(render(deck.warnings),
+              "d/m.lib:2:1: warning: ngspice 39 stops on a card starting with '#' (\"unknown "
+              "device type\") in a .lib section a deck selects; passes through unchanged\n"
+              "  # vendor note\n"
+              "  ^\n");
 }
 
 TEST(Deck, TitleCardIsFreeText) {
