@@ -112,8 +112,7 @@ std::string worst_vector(const VerifyReport& report) {
     else if (wc->analysis != "op" && wc->analysis != "tf")
         at = wc->axis_unit.empty() ? fmt::format(" at {:.6g}", wv->at)
                                    : fmt::format(" at {:.6g} {}", wv->at, wc->axis_unit);
-    std::string analysis = wc->part.empty() ? wc->analysis : wc->analysis + " (" + wc->part + ")";
-    return fmt::format("{} {}: relative error {:.3g}{} (tolerance {:.3g})", analysis, wv->name,
+    return fmt::format("{} {}: relative error {:.3g}{} (tolerance {:.3g})", wc->label(), wv->name,
                        wv->worst, at, tolerance_of(*wc, report.tolerances));
 }
 

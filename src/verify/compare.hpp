@@ -64,6 +64,8 @@ struct Comparison {
     bool decides() const { return expected_differences.empty(); }
     bool passed() const;
     const VectorResult* worst() const;  // nullptr when there are no vectors
+    // The analysis with its plot, as one-line summaries name it: "ac", "disto (2nd harmonic)".
+    std::string label() const { return part.empty() ? analysis : analysis + " (" + part + ")"; }
 };
 
 // Checks that the scaled sweep `fs` ran at Kf times each frequency of `fo` (problems go into

@@ -91,7 +91,7 @@ std::string held_verdict(const VerifyReport& r) {
     if (!ac) {
         std::string worst;
         for (const auto& c : r.comparisons)
-            worst += fmt::format("{}{} {:.3g}", worst.empty() ? "" : ", ", c.analysis,
+            worst += fmt::format("{}{} {:.3g}", worst.empty() ? "" : ", ", c.label(),
                                  c.worst() ? c.worst()->worst : 0.0);
         return s + fmt::format(
                        "INFO: with held parts the scaled deck is not expected to equal "

@@ -183,8 +183,8 @@ std::string report_text(const VerifyReport& r) {
     std::string worst;
     for (const auto& c : r.comparisons) {
         double tol = c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
-        worst += fmt::format("{}{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
-                             c.analysis, c.part.empty() ? "" : " " + c.part, c.worst() ? c.worst()->worst : 0.0, tol,
+        worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
+                             c.label(), c.worst() ? c.worst()->worst : 0.0, tol,
                              c.decides() ? "" : "; not judged: flicker noise does not follow");
     }
     if (worst.empty()) worst = "nothing compared";

@@ -84,6 +84,30 @@ TEST(ReportText, NoComparisonIsNoPass) {
     EXPECT_NE(report_text(r).find("\nFAIL: "), std::string::npos);
 }
 
+// A distortion product is titled with its plot and named so in the summary and the JSON.
+TEST(ReportText, DistortionProductsAreNamed) {
+    VerifyReport r = sample(false);
+    Comparison d;
+    d.analysis = "disto";
+    d.part = "IM: f1-f2";
+    d.points = 16;
+    d.first = 1e5;
+    d.last = 1e8;
+    d.vectors.push_back(VectorResult{"det", VectorKind::voltage, 2e-13, 1e6, 0, 0, 1e-3, true});
+    r.comparisons.push_back(d);
+    std::string text = report_text(r);
+    EXPECT_NE(text.find("  Distortion (IM: f1-f2): 16 points, 100000 Hz .. 1e+08 Hz of the "
+                        "original, 1 vectors\n"),
+              std::string::npos)
+        << text;
+    EXPECT_NE(text.find(", disto (IM: f1-f2) 2e-13 (tolerance 1e-06)\n"), std::string::npos)
+        << text;
+    auto j = nlohmann::json::parse(report_json(r));
+    EXPECT_EQ(j["analyses"][2]["analysis"], "disto");
+    EXPECT_EQ(j["analyses"][2]["part"], "IM: f1-f2");
+    EXPECT_EQ(j["analyses"][0]["part"], "");
+}
+
 TEST(ReportJson, ParsesAndHasTheFields) {
     auto j = nlohmann::json::parse(report_json(sample(true)));
     EXPECT_EQ(j["original"], "proto.cir");
