@@ -265,6 +265,22 @@ TEST(SemiconductorsTest, ABareAreaAfterADiodesModelIsRefused) {
               "t\nD1 a 0 dm area=2\n.model dm d\n.end\n");
 }
 
+// ngspice 39's VDMOS leaves its gate capacitances out of the instance's m (tried: AC 8.4 off
+// by m alone, 1e-11 with CGS, CGDMAX and CGDMIN / Km too; the body diode, RG, RD and RS
+// follow m), so a magnitude change also divides them on the model card; its self-heating
+// network is refused like the others'.
+TEST(SemiconductorsTest, AVdmosGetsItsGateCapacitancesDividedByKm) {
+    auto s = test::scale_text("t\nM1 d g 0 pf\n.model pf vdmos (vto=3 kp=8 rg=1.5 cgs=900p "
+                              "cgdmax=600p cgdmin=40p cjo=500p)\n.end\n",
+                              4, 1);
+    EXPECT_EQ(s.text(), "t\nM1 d g 0 pf m=0.25\n.model pf vdmos (vto=3 kp=8 rg=1.5 cgs=225p "
+                        "cgdmax=150p cgdmin=10p cjo=500p)\n.end\n");
+    auto hot = test::scale_text("t\nM1 d g 0 pf\n.model pf vdmos (vto=3 rthjc=0.5)\n.end\n", 4, 1);
+    ASSERT_EQ(hot.result.unscalable.size(), 1u);
+    EXPECT_NE(hot.result.unscalable[0].message.find("self-heating parameter 'rthjc'"),
+              std::string::npos);
+}
+
 TEST(SemiconductorsTest, GminFollowsTheTopFileWithoutAnEndCard) {
     auto s = test::scale_text("t\r\nD1 a 0 dm\r\n.model dm d", 10, 1);
     EXPECT_EQ(s.text(), "t\r\nD1 a 0 dm m=0.1\r\n.model dm d\r\n.options gmin=1e-13\r\n");
