@@ -39,6 +39,10 @@ constexpr ChargeRule kChargeRules[] = {
     // MOS level 1 (Meyer): the intrinsic caps follow Cox = eps/TOX; overlap and junction caps.
     {'m', "tox", 1, "m"},   {'m', "cgso", -1, "F"}, {'m', "cgdo", -1, "F"}, {'m', "cgbo", -1, "F"},
     {'m', "cbd", -1, "F"},  {'m', "cbs", -1, "F"},  {'m', "cj", -1, "F"},   {'m', "cjsw", -1, "F"},
+    // VDMOS ('v'): explicit gate capacitances, its body diode's junction capacitance and
+    // transit time (ngspice 39 manual 11.3; its DC current takes KP, not an oxide).
+    {'v', "cgs", -1, "F"},  {'v', "cgdmax", -1, "F"}, {'v', "cgdmin", -1, "F"},
+    {'v', "cjo", -1, "F"},  {'v', "tt", -1, "s"},
 };
 // clang-format on
 
@@ -124,7 +128,8 @@ std::string kf_text(double kf) { return fmt::format("{:.9g}", kf); }
 
 // Why a MOS model cannot follow Kf (empty when it can).
 std::string mos_refusal(const MosModel& m, double kf) {
-    if (m.type != "vdmos" && m.level == 1) {
+    if (m.type == "vdmos") return "";  // its charges are parameters of their own
+    if (m.level == 1) {
         if (m.missing.empty()) return "";
         return fmt::format(
             "level 1 follows a frequency change only with VTO, KP, GAMMA and PHI "
@@ -132,8 +137,7 @@ std::string mos_refusal(const MosModel& m, double kf) {
             "{}, also sets them); not given: {}",
             kf_text(kf), m.missing);
     }
-    if (m.type != "vdmos" && m.level >= 2 && m.level <= 9 && m.level != 4 && m.level != 5 &&
-        m.level != 8)
+    if (m.level >= 2 && m.level <= 9 && m.level != 4 && m.level != 5 && m.level != 8)
         return fmt::format(
             "its oxide thickness also enters the DC equations (mobility, "
             "short-channel terms), so no model change follows a frequency change "
@@ -200,8 +204,11 @@ bool gmin_apart_device(const Card& c, const MosModels& models) {
     if (c.kind != CardKind::element || c.fields.empty()) return false;
     char letter = ascii_lower(c.field_text(0)[0]);
     if (letter == 'd' || letter == 'z' || letter == 'j') return true;
-    if (letter != 'm' || c.fields.size() <= 5) return false;
-    auto it = models.find(to_lower(c.field_text(5)));
+    if (letter != 'm') return false;
+    ElementLinks links =
+        element_links(c, [&](const std::string& name) { return models.count(name) > 0; });
+    if (!links.model) return false;
+    auto it = models.find(to_lower(c.field_text(*links.model)));
     if (it == models.end()) return false;
     const MosModel& m = it->second;
     return m.type == "vdmos" || (m.level >= 1 && m.level <= 3);
@@ -247,29 +254,41 @@ void scale_semiconductor(ScalePass& p, char letter) {
     if (letter == 'd' && !t.diode) t.diode = ToleranceScan::Place{p.file_index(), c.begin(), ""};
     bool bjt_area = letter == 'q' && f.km != 1 && p.bjt_by_area();
     if (letter == 'q') (bjt_area ? t.gmin_apart : t.gmin_times_m) = true;
-    if (letter == 'm' && c.fields.size() > 5) {
-        std::string model = to_lower(c.field_text(5));
+    ElementLinks links = letter == 'm' ? element_links(c, [&](const std::string& name) {
+        return p.model_type(name) != nullptr;
+    })
+                                       : ElementLinks{};
+    if (letter == 'm' && links.model) {
+        const Token& model_token = c.fields[*links.model];
+        std::string model = to_lower(c.text(model_token));
         const MosModels& models = p.mos_models();
         auto it = models.find(model);
         if (it != models.end()) {
             const MosModel& m = it->second;
-            bool plain = m.type != "vdmos" && m.level >= 1 && m.level <= 3;
-            t.gmin_times_m = t.gmin_times_m || !plain;
+            // GMIN apart from m: MOS levels 1-3, and VDMOS (gmin_apart_device).
+            bool apart = m.type == "vdmos" || (m.level >= 1 && m.level <= 3);
+            t.gmin_times_m = t.gmin_times_m || !apart;
         }
         if (f.kf != 1 && it == models.end()) {
-            p.unscalable(c.fields[5], fmt::format("MOSFET '{}': model '{}' is not defined in this "
-                                                  "deck, so whether it can follow a frequency "
-                                                  "change is not known",
-                                                  c.field_text(0), c.field_text(5)));
+            p.unscalable(model_token, fmt::format("MOSFET '{}': model '{}' is not defined in "
+                                                  "this deck, so whether it can follow a "
+                                                  "frequency change is not known",
+                                                  c.field_text(0), c.text(model_token)));
             return;
         }
         std::string why = f.kf != 1 ? mos_refusal(it->second, f.kf) : "";
         if (!why.empty()) {
-            p.unscalable(c.fields[5],
+            p.unscalable(model_token,
                          fmt::format("MOSFET '{}' uses model '{}' ({}): {}", c.field_text(0),
-                                     c.field_text(5), mos_level_name(it->second), why));
+                                     c.text(model_token), mos_level_name(it->second), why));
             return;
         }
+    } else if (letter == 'm' && f.kf != 1) {
+        p.unscalable(c.fields[0], fmt::format("MOSFET '{}' names no model of this deck, so "
+                                              "whether it can follow a frequency change is not "
+                                              "known",
+                                              c.field_text(0)));
+        return;
     }
     if (f.km == 1) return;
     if (letter == 'd' && p.diode_by_model()) return;  // its model card carries Km
@@ -349,8 +368,9 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
                 if (key == cap) km = DiodeKmRule{-1, "F"};
         UnitExponents e{km.km_power, 0};
         const char* unit = km.unit;
+        char rules = type == "vdmos" ? 'v' : family;
         for (const auto& r : kChargeRules)
-            if (charges && r.family == family && key == r.key) {
+            if (charges && r.family == rules && key == r.key) {
                 e.kf = r.kf_power > 0 ? 1 : -1;
                 unit = r.unit;
                 break;

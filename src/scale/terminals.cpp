@@ -67,9 +67,9 @@ ElementLinks element_links(const Card& c, const std::function<bool(const std::st
             break;
         case 'q':
         case 'm': {
-            // c b e [s] model; d g s b [more for SOI] model: the first model name after them.
-            std::size_t least = letter == 'q' ? 4 : 5;
-            std::size_t at = first_model(c, least, is_model).value_or(least);
+            // c b e [s] model; d g s [b, more for SOI] model (a VDMOS has three nodes): the
+            // first model name after them; without one known, the model's usual field.
+            std::size_t at = first_model(c, 4, is_model).value_or(letter == 'q' ? 4 : 5);
             if (at < n) l.model = at;
             nodes(l, 1, std::min(at, n) - 1);
             break;

@@ -267,14 +267,22 @@ TEST(SemiconductorsTest, ABareAreaAfterADiodesModelIsRefused) {
 
 // ngspice 39's VDMOS leaves its gate capacitances out of the instance's m (tried: AC 8.4 off
 // by m alone, 1e-11 with CGS, CGDMAX and CGDMIN / Km too; the body diode, RG, RD and RS
-// follow m), so a magnitude change also divides them on the model card; its self-heating
-// network is refused like the others'.
+// follow m), so a magnitude change also divides them on the model card. A frequency change
+// divides them and the body diode's CJO and TT (tried: AC within 1e-15 at Kf = 10; a
+// 3-terminal VDMOS line was not recognised before, so nothing refused or rewrote its model
+// and the deck came out wrong). Its GMIN is divided by Km with D's; its self-heating network
+// is refused like the others'.
 TEST(SemiconductorsTest, AVdmosGetsItsGateCapacitancesDividedByKm) {
-    auto s = test::scale_text("t\nM1 d g 0 pf\n.model pf vdmos (vto=3 kp=8 rg=1.5 cgs=900p "
-                              "cgdmax=600p cgdmin=40p cjo=500p)\n.end\n",
-                              4, 1);
+    const std::string model = ".model pf vdmos (vto=3 kp=8 rg=1.5 cgs=900p cgdmax=600p "
+                              "cgdmin=40p cjo=500p tt=60n)\n";
+    auto s = test::scale_text("t\nM1 d g 0 pf\n" + model + ".end\n", 4, 1);
     EXPECT_EQ(s.text(), "t\nM1 d g 0 pf m=0.25\n.model pf vdmos (vto=3 kp=8 rg=1.5 cgs=225p "
-                        "cgdmax=150p cgdmin=10p cjo=500p)\n.end\n");
+                        "cgdmax=150p cgdmin=10p cjo=500p tt=60n)\n.options gmin=2.5e-13\n.end\n");
+    EXPECT_TRUE(s.result.notes.empty()) << render(s.result.notes[0]);
+    auto both = test::scale_text("t\nM1 d g 0 pf\n" + model + ".end\n", 4, 10);
+    EXPECT_EQ(both.text(), "t\nM1 d g 0 pf m=0.25\n.model pf vdmos (vto=3 kp=8 rg=1.5 "
+                           "cgs=22.5p cgdmax=15p cgdmin=1p cjo=50p tt=6n)\n"
+                           ".options gmin=2.5e-13\n.end\n");
     auto hot = test::scale_text("t\nM1 d g 0 pf\n.model pf vdmos (vto=3 rthjc=0.5)\n.end\n", 4, 1);
     ASSERT_EQ(hot.result.unscalable.size(), 1u);
     EXPECT_NE(hot.result.unscalable[0].message.find("self-heating parameter 'rthjc'"),
@@ -314,12 +322,11 @@ TEST(SemiconductorsTest, RefusalsSayWhy) {
          "  M1 d g 0 0 n1\n"
          "             ^~\n",
          100},
-        {__LINE__, "M1 d g 0 0 pv\n.model pv vdmos\n",
-         "deck.cir:2:12: error: MOSFET 'M1' uses model 'pv' (VDMOS): its intrinsic charge and "
-         "its DC current both come from the oxide capacitance, so no model change follows a "
-         "frequency change (Kf = 100); with Kf = 1 it scales exactly by m\n"
-         "  M1 d g 0 0 pv\n"
-         "             ^~\n",
+        {__LINE__, "M1 d g 0 nx\n",
+         "deck.cir:2:1: error: MOSFET 'M1' names no model of this deck, so whether it can "
+         "follow a frequency change is not known\n"
+         "  M1 d g 0 nx\n"
+         "  ^~\n",
          100},
         {__LINE__, "M1 d g 0 0 nx\n",
          "deck.cir:2:12: error: MOSFET 'M1': model 'nx' is not defined in this deck, so "
