@@ -24,11 +24,13 @@ struct MosModel {
 };
 using MosModels = std::map<std::string, MosModel>;  // by lower-case model name
 
-// Every MOS model card of a deck (include files too).
+// Every MOS and BJT model card of a deck (include files too): their types and levels (a BJT's
+// `missing` means nothing).
 std::shared_ptr<const MosModels> collect_mos_models(const Deck& deck);
 
 // True for an element whose junctions get a GMIN that ngspice 39 does not multiply by the
-// element's m: D, J, Z, and M of MOS level 1-3 or VDMOS (`models`: the deck's MOS models).
+// element's m: D, J, Z, M of MOS level 1-3 or VDMOS, and Q of a model other than Gummel-Poon
+// (VBIC, HICUM) (`models`: the deck's MOS and BJT models).
 bool gmin_apart_device(const Card& c, const MosModels& models);
 
 // True for the .model types handled here (d npn pnp njf pjf nmf pmf nmos pmos vdmos).
