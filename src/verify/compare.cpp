@@ -2,9 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <numbers>
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include "verify/helper_vectors.hpp"
 
@@ -62,15 +64,6 @@ const SimVector* scale_vector(const SimPlot& p) {
     for (const auto& v : p.vectors)
         if (v.kind == VectorKind::frequency || v.kind == VectorKind::time) return &v;
     return nullptr;
-}
-
-// Judged vectors first, worst first; then those at the GMIN level (not judged).
-void sort_worst_first(Comparison& c) {
-    std::stable_sort(c.vectors.begin(), c.vectors.end(),
-                     [](const VectorResult& a, const VectorResult& b) {
-                         if (a.gmin_level != b.gmin_level) return b.gmin_level;
-                         return a.worst > b.worst;
-                     });
 }
 
 // Vectors of the original that the scaled deck lacks, and the other way round.
@@ -132,6 +125,42 @@ double wrap_degrees(double d) {
 }
 
 }  // namespace
+
+// Judged vectors first, worst first (an error that is no number, from NaN or infinite values
+// in a run, first of all); then those at the GMIN level (not judged). Every comparison ends
+// here, so a vector without a numeric error is also failed and named as a problem here:
+// 'worst > tolerance' lets NaN through.
+void mark_non_finite(VectorResult& r, const SimVector& original, const SimVector& scaled) {
+    for (const SimVector* v : {&original, &scaled})
+        for (const auto& x : v->values)
+            if (!std::isfinite(x.real()) || !std::isfinite(x.imag())) {
+                r.worst = std::numeric_limits<double>::quiet_NaN();
+                return;
+            }
+}
+
+void sort_worst_first(Comparison& c) {
+    auto rank = [](double worst) {
+        return std::isnan(worst) ? std::numeric_limits<double>::infinity() : worst;
+    };
+    std::vector<std::string> bad;
+    for (auto& v : c.vectors)
+        if (std::isnan(v.worst)) {
+            v.passed = false;
+            v.gmin_level = false;
+            bad.push_back(v.name);
+        }
+    if (!bad.empty())
+        c.problems.push_back(fmt::format(
+            "no error can be computed for {} (NaN or infinite values in a run: the simulator "
+            "could not evaluate the circuit there), so equivalence is not shown",
+            fmt::join(bad, ", ")));
+    std::stable_sort(c.vectors.begin(), c.vectors.end(),
+                     [&](const VectorResult& a, const VectorResult& b) {
+                         if (a.gmin_level != b.gmin_level) return b.gmin_level;
+                         return rank(a.worst) > rank(b.worst);
+                     });
+}
 
 std::size_t check_mapped_sweep(const SimVector& fo, const SimVector& fs, double kf, Comparison& c) {
     std::size_t n = std::min(fo.values.size(), fs.values.size());
@@ -213,6 +242,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
                 if (vs->values[k] != std::complex<double>(0)) r.worst = 1;
         }
         if (r.worst > tol.relative && !tol.held) r.passed = false;
+        mark_non_finite(r, vo, *vs);
         c.vectors.push_back(r);
     }
     excuse_gmin_level(o, s, km, tol, c);
@@ -246,6 +276,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
         r.peak = std::fabs(a);
         r.worst = scale > 0 ? std::fabs(b - a) / scale : 0;
         r.passed = r.worst <= tol.relative || tol.held;
+        mark_non_finite(r, vo, *vs);
         c.vectors.push_back(r);
     }
     excuse_gmin_level(o, s, km, tol, c);
@@ -305,6 +336,7 @@ Comparison compare_dc(const SimPlot& o, const SimPlot& s, double km, double swee
             }
         }
         r.passed = r.worst <= tol.relative || tol.held;
+        mark_non_finite(r, vo, *vs);
         c.vectors.push_back(r);
     }
     excuse_gmin_level(o, s, km, tol, c);
@@ -384,6 +416,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
                 if (x.real() != 0) r.worst = 1;
         }
         r.passed = r.worst <= tol.transient || tol.held;
+        mark_non_finite(r, vo, *vs);
         c.vectors.push_back(r);
     }
     excuse_gmin_level(o, s, km, tol, c);

@@ -74,6 +74,16 @@ std::size_t check_mapped_sweep(const SimVector& fo, const SimVector& fs, double 
 
 Comparison compare_ac(const SimPlot& original, const SimPlot& scaled, double km, double kf,
                       const Tolerances& tol);
+
+// Sets r.worst to NaN when either vector holds a value that is not finite (NaN or infinity):
+// an error computed from such values means nothing, and the loops that look for the worst
+// point skip a NaN. sort_worst_first then fails the vector.
+void mark_non_finite(VectorResult& r, const SimVector& original, const SimVector& scaled);
+
+// Orders `c.vectors` judged ones worst first, then those at the GMIN level; a vector whose
+// error is no number (NaN or infinite values in a run) fails, comes first and is named in
+// c.problems. Every comparison ends with it.
+void sort_worst_first(Comparison& c);
 Comparison compare_op(const SimPlot& original, const SimPlot& scaled, double km,
                       const Tolerances& tol);
 // A DC sweep: the scaled run's swept values must be `sweep_factor` times the original's

@@ -106,6 +106,7 @@ void compare_plot(const SimPlot& o, const SimPlot& s, bool integrated, double km
             continue;
         }
         VectorResult r = compare_vector(vo, *vs, 1 / *factor, freq, tol);
+        mark_non_finite(r, vo, *vs);
         if (!r.passed && integrated && floored.count(part_of(vo.name))) {
             unjudged +=
                 fmt::format("{}{} ({:.3g})", unjudged.empty() ? "" : ", ", vo.name, r.worst);
@@ -169,9 +170,7 @@ Comparison compare_noise(const SimPlot& so, const SimPlot& ss, const SimPlot* to
         compare_plot(*to, *ts, true, km, kf, tol, floored, c);
     else if (to || ts)
         c.problems.push_back("only one of the runs integrated its noise");
-    std::stable_sort(
-        c.vectors.begin(), c.vectors.end(),
-        [](const VectorResult& a, const VectorResult& b) { return a.worst > b.worst; });
+    sort_worst_first(c);
     return c;
 }
 

@@ -42,11 +42,11 @@ Comparison compare_tf(const SimPlot& o, const SimPlot& s, const TfSpec& tf, doub
         r.peak = std::fabs(a);
         r.worst = scale > 1e-300 ? std::fabs(b - a) / scale : 0;
         r.passed = r.worst <= tol.relative || tol.held;
+        mark_non_finite(r, vo, *vs);
         c.vectors.push_back(r);
     }
     if (c.vectors.empty()) c.problems.push_back("the transfer function analysis gave no values");
-    std::stable_sort(c.vectors.begin(), c.vectors.end(),
-                     [](const VectorResult& x, const VectorResult& y) { return x.worst > y.worst; });
+    sort_worst_first(c);
     return c;
 }
 
