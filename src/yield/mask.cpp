@@ -146,6 +146,10 @@ ResponseFigures MaskJudge::judge(const std::vector<double>& db) const {
         if (in_passband[k]) passband.push_back(db[k]);
         if (!std::isnan(lower[k]))
             r.margin_db = std::min({r.margin_db, db[k] - lower[k], upper[k] - db[k]});
+        // A response the simulator could not compute (NaN) in the mask is outside it: std::min
+        // would pass over it, and the trial would count as a pass.
+        if (std::isnan(db[k]) && (in_band[k] || !std::isnan(lower[k])))
+            r.margin_db = -std::numeric_limits<double>::infinity();
     }
     if (peak < db.size()) r.gain_db = db[peak];
     r.ripple_db = ripple_of(passband);

@@ -69,6 +69,25 @@ TEST(YieldMask, RelativeWindowOverThePassband) {
     }
 }
 
+// A trial whose response the simulator could not compute at a point in the mask (NaN) fails:
+// std::min passes over a NaN, so the trial counted as a pass.
+TEST(YieldMask, AResponseWithNanInTheMaskFails) {
+    LowPass nominal(1000);
+    std::string error;
+    Mask mask;
+    mask.window_db = 0.5;
+    MaskJudge judge = make_judge(mask, nominal.f, nominal.db, error);
+    std::vector<double> broken = nominal.db;
+    broken[3] = std::nan("");
+    ResponseFigures r = judge.judge(broken);
+    EXPECT_FALSE(r.pass);
+    EXPECT_EQ(r.margin_db, -INFINITY);
+    // Out of the band it judges nothing.
+    broken = nominal.db;
+    broken.back() = std::nan("");
+    EXPECT_TRUE(judge.judge(broken).pass);
+}
+
 TEST(YieldMask, CornerWindowJudgesTheCorner) {
     LowPass nominal(1000);
     std::string error;
