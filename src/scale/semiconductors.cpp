@@ -410,15 +410,16 @@ void ScalePass::note_gmin(const Deck& deck) {
     std::string what;
     if (s.gmin_apart)
         what =
-            "ngspice multiplies the GMIN across Q and BSIM-family MOS junctions by the "
-            "device's m, but not the GMIN across D, J, Z and MOS level 1-3 junctions: with both "
-            "in this deck GMIN is divided by Km for the latter, so the former's GMIN currents "
-            "(GMIN times a junction voltage) come out Km times too small";
+            "ngspice multiplies the GMIN across Gummel-Poon BJT and BSIM-family MOS junctions "
+            "by the device's m, but not the GMIN across D, J, Z, MOS level 1-3, VDMOS, VBIC "
+            "and HICUM junctions: with both in this deck GMIN is divided by Km for the latter, "
+            "so the former's GMIN currents (GMIN times a junction voltage) come out Km times "
+            "too small";
     else if (deck.symbols.gmin_set)
         what =
-            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across Q "
-            "and BSIM-family MOS junctions by the device's m already: their GMIN currents "
-            "(GMIN times a junction voltage) come out Km times too small";
+            "the deck's gmin is divided by Km, but ngspice multiplies the GMIN across "
+            "Gummel-Poon BJT and BSIM-family MOS junctions by the device's m already: their "
+            "GMIN currents (GMIN times a junction voltage) come out Km times too small";
     else
         return;
     std::size_t file = s.end ? s.end->file : 0;

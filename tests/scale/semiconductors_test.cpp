@@ -111,16 +111,17 @@ TEST(SemiconductorsTest, GminThatCannotFollowIsNoted) {
     };
     const Row rows[] = {
         {__LINE__, "D1 a 0 dm\n.model dm d\nM1 d g 0 0 bm\n.model bm nmos level=8\n",
-         "deck.cir:6:1: note: ngspice multiplies the GMIN across Q and BSIM-family MOS "
-         "junctions by the device's m, but not the GMIN across D, J, Z and MOS level 1-3 "
-         "junctions: with both in this deck GMIN is divided by Km for the latter, so the "
-         "former's GMIN currents (GMIN times a junction voltage) come out Km times too small\n"
+         "deck.cir:6:1: note: ngspice multiplies the GMIN across Gummel-Poon BJT and "
+         "BSIM-family MOS junctions by the device's m, but not the GMIN across D, J, Z, MOS "
+         "level 1-3, VDMOS, VBIC and HICUM junctions: with both in this deck GMIN is divided by "
+         "Km for the latter, so the former's GMIN currents (GMIN times a junction voltage) come "
+         "out Km times too small\n"
          "  .end\n"
          "  ^\n"},
         {__LINE__, "M1 d g 0 0 bm\n.model bm nmos level=8\n.options gmin=1e-10\n",
          "deck.cir:5:1: note: the deck's gmin is divided by Km, but ngspice multiplies the GMIN "
-         "across Q and BSIM-family MOS junctions by the device's m already: their GMIN currents "
-         "(GMIN times a junction voltage) come out Km times too small\n"
+         "across Gummel-Poon BJT and BSIM-family MOS junctions by the device's m already: their "
+         "GMIN currents (GMIN times a junction voltage) come out Km times too small\n"
          "  .end\n"
          "  ^\n"},
     };
