@@ -10,7 +10,6 @@
 #include "deck/spice_number.hpp"
 #include "scale/after_end.hpp"
 #include "scale/codemodels.hpp"
-#include "scale/diode_model.hpp"
 #include "scale/expression.hpp"
 #include "scale/hold_plan.hpp"
 #include "scale/pass.hpp"
@@ -238,35 +237,6 @@ void ScalePass::visit(const Card& c) {
             break;
         default: break;  // the reader has already warned about unknown element types
     }
-}
-
-const MosModels& ScalePass::mos_models() {
-    if (!mos_models_) mos_models_ = collect_mos_models(*deck_);
-    return *mos_models_;
-}
-
-bool ScalePass::bjt_by_area() {
-    if (bjt_by_area_) return *bjt_by_area_;
-    const MosModels& models = mos_models();
-    // A deck that sets its own gmin has it divided by Km (options), which the GMIN across a
-    // BJT scaled by m would get twice: by area the BJT's junction GMIN is the deck's alone.
-    bool apart = deck_->symbols.gmin_set;
-    for (std::size_t f = 0; f < deck_->files.size() && !apart; ++f)
-        deck_->visit_file(f, [&](const Card& c) { apart = apart || gmin_apart_device(c, models); });
-    if (apart) {
-        if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
-        apart = !analyses_->asks_disto;
-    }
-    bjt_by_area_ = apart;
-    return apart;
-}
-
-bool ScalePass::diode_by_model() {
-    if (observing_ || settings_.factors.km == 1) return false;
-    if (diode_by_model_) return *diode_by_model_;
-    if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(*deck_));
-    diode_by_model_ = analyses_->asks_disto && diodes_follow_by_model(*deck_);
-    return *diode_by_model_;
 }
 
 const NumberParse& ScalePass::number_of(const Token& t) const {
