@@ -176,6 +176,10 @@ SweepRewrite rewrite_dc(const std::vector<std::string_view>& fields, double fact
     if (!start || !stop || !step) return refuse("the sweep's fields are not plain numbers");
     double x0 = ngspice_read(fields[0]), x1 = ngspice_read(fields[1]), xs = ngspice_read(fields[2]);
     SweepPoints original = dc_points(x0, x1, xs);
+    if (original.over_limit)
+        return refuse(fmt::format("this DC sweep asks for {:.6g} points, more than the {} this "
+                                  "check steps through: write fewer points",
+                                  original.asked, kSweepPointLimit));
     if (original.endless)
         return refuse(
             "ngspice 39 never ends this DC sweep (a step of 0?): the original card "

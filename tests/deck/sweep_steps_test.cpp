@@ -157,9 +157,19 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
     SweepPoints near = ac_points("dec", 1.5e6, 1, 10, 1e-3, true);
     EXPECT_FALSE(near.over_limit);
     EXPECT_GE(near.count, 1500001u);  // the stop test lets reltol past fstop (acan.c)
-    SweepPoints dc = dc_points(1e20, 2e20, 1);  // 1e20 + 1 == 1e20
+    SweepPoints dc = dc_points(1e20, 1e20 + 1e5, 1);  // 1e20 + 1 == 1e20
     EXPECT_TRUE(dc.endless);
     EXPECT_EQ(dc.values.size(), 1u);
+    // A DC level of 99 million points ('.dc v1 10 1k 10u', a fuzz target timeout): known from
+    // the count, nothing stepped, either direction; a step of 0 is still endless, not counted.
+    for (SweepPoints huge : {dc_points(10, 1e3, 1e-5), dc_points(1e3, 10, -1e-5)}) {
+        EXPECT_TRUE(huge.over_limit);
+        EXPECT_TRUE(huge.values.empty());
+        EXPECT_NEAR(huge.asked, 99000001, 1);
+    }
+    SweepPoints still = dc_points(1, 2, 0);
+    EXPECT_TRUE(still.endless);
+    EXPECT_FALSE(still.over_limit);
     // A small step that still moves the point is not endless.
     SweepPoints fine = ac_points("lin", 100001, 1, 2);
     EXPECT_FALSE(fine.endless);
