@@ -19,7 +19,7 @@ namespace {
 // capacitances / Km, the series resistance x Km.
 struct KmRule {
     const char* key;
-    DiodeKmRule rule;
+    ModelKmRule rule;
 };
 // clang-format off
 constexpr KmRule kKmRules[] = {
@@ -64,7 +64,7 @@ bool card_follows(const Card& c) {
 
 }  // namespace
 
-DiodeKmRule diode_model_km_rule(std::string_view lower_key) {
+ModelKmRule diode_model_km_rule(std::string_view lower_key) {
     for (const auto& r : kKmRules)
         if (lower_key == r.key) return r.rule;
     return {};

@@ -17,13 +17,14 @@ namespace deckscale {
 struct Atom;
 class ScalePass;
 
-// How a diode model parameter changes on this way: the power of Km it is multiplied by (-1
-// for currents and capacitances, 1 for RS) and its unit; km_power 0 for the others.
-struct DiodeKmRule {
+// How a model parameter changes with Km on its card (here a diode's on this way; the pass
+// also uses it for a VDMOS's gate capacitances): the power of Km it is multiplied by (-1 for
+// currents and capacitances, 1 for RS) and its unit; km_power 0 for the others.
+struct ModelKmRule {
     int km_power = 0;
     const char* unit = "";
 };
-DiodeKmRule diode_model_km_rule(std::string_view lower_key);
+ModelKmRule diode_model_km_rule(std::string_view lower_key);
 
 // True when every diode model card of the deck (include files too) can follow Km by its
 // parameters alone (each parameter known, no flicker noise, no self-heating) and every D

@@ -369,10 +369,10 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
             continue;
         }
         std::string key = to_lower(c.text(*a.key));
-        DiodeKmRule km = by_model ? diode_model_km_rule(key) : DiodeKmRule{};
+        ModelKmRule km = by_model ? diode_model_km_rule(key) : ModelKmRule{};
         if (type == "vdmos" && f.km != 1)
             for (const char* cap : kVdmosGateCaps)
-                if (key == cap) km = DiodeKmRule{-1, "F"};
+                if (key == cap) km = ModelKmRule{-1, "F"};
         UnitExponents e{km.km_power, 0};
         const char* unit = km.unit;
         char rules = type == "vdmos" ? 'v' : family;
