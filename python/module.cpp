@@ -39,8 +39,8 @@ py::object scale(py::handle deck, py::handle km, py::handle kf, py::object outpu
 
 // The vectors of one comparison as columns, in the report's order (worst first).
 py::dict error_columns(const api::AnalysisComparison& a) {
-    py::list names, kinds;
-    std::vector<double> worst, at, db, deg, peak;
+    py::list names, kinds, quantities;
+    std::vector<double> worst, at, db, deg, peak, original_value, scaled_value;
     std::vector<bool> passed, gmin_level;
     for (const auto& v : a.vectors) {
         names.append(v.name);
@@ -52,11 +52,16 @@ py::dict error_columns(const api::AnalysisComparison& a) {
         peak.push_back(v.peak);
         passed.push_back(v.passed);
         gmin_level.push_back(v.gmin_level);
+        original_value.push_back(v.original_value);
+        scaled_value.push_back(v.scaled_value);
+        quantities.append(v.quantity);
     }
     return py::dict("name"_a = names, "kind"_a = kinds, "worst"_a = array_of(worst),
                     "at"_a = array_of(at), "db_error"_a = array_of(db),
                     "deg_error"_a = array_of(deg), "peak"_a = array_of(peak),
-                    "passed"_a = array_of(passed), "gmin_level"_a = array_of(gmin_level));
+                    "passed"_a = array_of(passed), "gmin_level"_a = array_of(gmin_level),
+                    "original_value"_a = array_of(original_value),
+                    "scaled_value"_a = array_of(scaled_value), "quantity"_a = quantities);
 }
 
 api::Deck pair_member(py::handle x) {

@@ -47,6 +47,20 @@ class VerifyTest(unittest.TestCase):
             with open(js) as f:
                 self.assertEqual(without_additions(report), json.load(f))
 
+    def test_the_decks_own_measurements_come_with_both_results(self):
+        deck = os.path.join(SOURCE, "netlists", "corpus", "if_strip_measured.cir")
+        report = deckscale.verify(deck, deckscale.scale(deck, km=2, kf=0.1), km=2, kf=0.1)
+        self.assertTrue(report["passed"], report["text"])
+        (meas,) = [a for a in report["analyses"] if a["analysis"] == "meas"]
+        self.assertEqual(meas["part"], "ac")
+        errors = meas["errors"]
+        names = list(errors["name"])
+        bw = names.index("bw")  # a bandwidth: Kf times the original's
+        self.assertEqual(errors["quantity"][bw], "frequency (x Kf)")
+        self.assertAlmostEqual(errors["scaled_value"][bw] / errors["original_value"][bw], 0.1,
+                               places=6)
+        self.assertIn("Measurements (ac)", report["text"])
+
     def test_factors_are_inferred_when_not_given(self):
         report = deckscale.verify(DEMO, deckscale.scale(DEMO, km=600, kf=3))
         self.assertEqual(report["factors"], "inferred")

@@ -42,7 +42,8 @@ AnalysisComparison comparison_of(const Comparison& c) {
                              v.kind == VectorKind::current   ? "current"
                              : v.kind == VectorKind::voltage ? "voltage"
                                                              : "other",
-                             v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed, v.gmin_level});
+                             v.worst, v.at, v.db_error, v.deg_error, v.peak, v.passed, v.gmin_level,
+                             v.original_value, v.scaled_value, v.quantity});
     return a;
 }
 

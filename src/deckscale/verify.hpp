@@ -39,10 +39,16 @@ struct VectorError {
     // A branch current within 10 x GMIN x the largest node voltage that would have failed:
     // the current of ngspice's GMIN shunts, passed and not judged.
     bool gmin_level = false;
+    // A measurement (analysis "meas"): the deck's .meas result in each run (NaN where ngspice
+    // gave none) and what it measures with the factor between them ("time (x 1/Kf)").
+    double original_value = 0, scaled_value = 0;
+    std::string quantity;
 };
 
 struct AnalysisComparison {
-    std::string analysis;  // "ac", "op", "tran", "noise", "dc" (a .dc sweep), "tf", "sp" or "disto"
+    // "ac", "op", "tran", "noise", "dc" (a .dc sweep), "tf", "sp", "disto", or "meas": the
+    // results of the deck's own .meas cards for the analysis in `part` ("tran", "ac", "dc", "sp")
+    std::string analysis;
     std::size_t points = 0;
     double first = 0, last = 0;
     bool passed = true;
@@ -53,7 +59,7 @@ struct AnalysisComparison {
     // quantity's ("V", "A", "Ohm", "degC"); "" for "op" and "tf".
     std::string unit;
     // Which of the analysis's plots: a "disto" comparison's product ("2nd harmonic", "IM:
-    // f1+f2", ...); "" for the others.
+    // f1+f2", ...); for "meas" the analysis measured; "" for the others.
     std::string part;
 };
 

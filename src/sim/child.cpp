@@ -114,6 +114,8 @@ std::optional<std::string> load_ngspice(Child& child) {
     ::setenv("PATH", "/usr/bin:/bin", 1);
     ::setenv("HOME", no_home, 1);
     ::setenv("OMP_NUM_THREADS", "1", 1);  // parallel children, not parallel threads
+    // Digits of the .meas results ngspice prints that honour it (INTEG, PARAM; most print 7).
+    ::setenv("NGSPICE_MEAS_PRECISION", "15", 1);
     std::setlocale(LC_ALL, "C");
     void* lib = ::dlopen(library_name, RTLD_NOW | RTLD_LOCAL);
     if (!lib) {

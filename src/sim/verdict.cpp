@@ -5,6 +5,8 @@
 #include <array>
 #include <cctype>
 
+#include "base/text_util.hpp"
+
 namespace deckscale {
 namespace {
 
@@ -19,18 +21,21 @@ bool contains_any(std::string_view line, const std::array<std::string_view, N>& 
     return false;
 }
 
-std::string_view trim(std::string_view s) {
-    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front()))) s.remove_prefix(1);
-    while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
-    return s;
-}
-
 }  // namespace
 
 bool is_error_line(std::string_view line) {
     static constexpr std::array<std::string_view, 6> needles{
         "Error", "ERROR", "Fatal error", "aborted", "not parsed", "cannot recover"};
-    return contains_any(line, needles);
+    return contains_any(line, needles) && !is_measure_error(line);
+}
+
+bool is_measure_error(std::string_view line) {
+    // "Error: measure  t1  WHEN(...) : ...", "Error: measure  dd failed:", "Error: syntax error
+    // for measure statement; ..." (ngspice 39, frontend/com_measure2.c and measure.c), and
+    // "Error: no such vector as idb(v1)." for a measured vector that does not exist (tried):
+    // a verification run's own cards name no vectors, only a kept .meas card does.
+    return contains(line, "Error: measure ") || contains(line, "error for measure statement") ||
+           contains(line, "Error: no such vector as ");
 }
 
 bool is_substitution_warning(std::string_view line) {

@@ -15,8 +15,13 @@ struct PrintedLine {
 };
 
 // The line reports an error: it contains "Error", "ERROR", "Fatal error", "aborted",
-// "not parsed" or "cannot recover".
+// "not parsed" or "cannot recover", and is no measurement's error.
 bool is_error_line(std::string_view line);
+
+// The line reports that a .meas card gave no result. That is no failed run: verification
+// compares the measurements of both runs (verify/meas_compare.hpp), and one that fails in
+// one run only fails there.
+bool is_measure_error(std::string_view line);
 
 // The line is a warning that means the simulated circuit is not the deck as written
 // (a resistor without a value set to 1 mOhm, a model that cannot be found).

@@ -46,10 +46,14 @@ struct VectorResult {
     double max_db = 0, max_db_at = 0, max_deg = 0, max_deg_at = 0;
     // A current at the GMIN level (Tolerances::gmin) that would have failed: passed, not judged.
     bool gmin_level = false;
+    // A measurement (analysis "meas", verify/meas_compare.hpp): both results as ngspice
+    // printed them (NaN where it gave none) and what it measures, with the expected factor.
+    double original_value = 0, scaled_value = 0;
+    std::string quantity;
 };
 
 struct Comparison {
-    std::string analysis;          // "ac", "op", "tran", "noise", "dc", "tf", "sp" or "disto"
+    std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf", "sp", "disto" or "meas"
     std::string part;              // which of an analysis's plots ("2nd harmonic"), or ""
     std::size_t points = 0;
     double first = 0, last = 0;    // sweep or time range of the original

@@ -15,6 +15,7 @@
 #include "verify/dc_sweep.hpp"
 #include "verify/factor_inference.hpp"
 #include "verify/flicker_check.hpp"
+#include "verify/meas_compare.hpp"
 #include "verify/noise_compare.hpp"
 #include "verify/sim_cards.hpp"
 #include "verify/disto_compare.hpp"
@@ -81,6 +82,11 @@ const SimPlot* noise_plot(const SimOutcome& o, bool integrated) {
     return nullptr;
 }
 
+// The analyses whose .meas cards ngspice 39 evaluates (frontend/measure.c).
+bool measurable(const std::string& analysis) {
+    return analysis == "tran" || analysis == "ac" || analysis == "dc" || analysis == "sp";
+}
+
 PairVerification refuse(std::string problem) {
     PairVerification v;
     v.outcome = PairVerification::Outcome::bad_input;
@@ -101,6 +107,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     std::vector<std::string> flicker;  // why the noise of the pair cannot agree
     DcLevel dc_level;                  // the inner level of the .dc sweep compared
     std::optional<TfSpec> tf;
+    std::vector<MeasureSpec> measures;  // the original's .meas cards, compared per analysis
     {
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
@@ -162,14 +169,25 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             std::find(an.sources.begin(), an.sources.end(), an.noise->source) == an.sources.end())
             return refuse(fmt::format("the .noise input '{}' is no independent source of {}",
                                       an.noise->source, o.original));
+        measures = find_measures(original);
+        if (!measures.empty() && stops_on_measures(original)) {
+            report.notes.push_back("the deck's .meas results are not compared: with its "
+                                   "'autostop' option they would end the transient run early");
+            measures.clear();
+        }
         auto job = [&](const Deck& d, const std::string& path, const std::string& card,
                        double drive_ac, const std::string& driven) {
             SimJob j;
             j.label = path;
+            std::string kind = card.substr(1, card.find(' ') - 1);  // ".tran 1u 1m" -> "tran"
+            bool measured = measurable(kind) &&
+                            std::any_of(measures.begin(), measures.end(),
+                                        [&](const MeasureSpec& m) { return m.analysis == kind; });
             j.cards = simulation_cards(
                 d, SimDeckOptions{
                        card, driven, drive_ac,
-                       &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf}});
+                       &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf},
+                       measured ? kind : ""});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = o.timeout;
             j.memory_limit_mb = o.memory_mb;
@@ -287,6 +305,16 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             report.comparisons.push_back(compare_tf(*po, *ps, *tf, report.km, report.tolerances));
         } else {
             report.comparisons.push_back(compare_tran(*po, *ps, report.km, report.kf, report.tolerances));
+        }
+        if (measurable(a) && std::any_of(measures.begin(), measures.end(),
+                                         [&](const MeasureSpec& m) { return m.analysis == a; })) {
+            double axis = a == "tran" ? 1 / report.kf
+                          : a == "dc" ? dc_item_factor(dc_level, report.km).value_or(1)
+                                      : report.kf;
+            double tol = a == "tran" ? report.tolerances.transient : report.tolerances.relative;
+            report.comparisons.push_back(compare_measures(measures, a, outcomes[2 * i],
+                                                          outcomes[2 * i + 1], report.km, axis,
+                                                          tol));
         }
     }
     return result;

@@ -49,6 +49,7 @@ const char* analysis_title(const std::string& a) {
     if (a == "tf") return "Transfer function";
     if (a == "sp") return "S-parameter sweep";
     if (a == "disto") return "Distortion";
+    if (a == "meas") return "Measurements";
     return "Transient";
 }
 
@@ -66,7 +67,33 @@ std::string axis_of(const Comparison& c) {
 }
 
 // A comparison at one point (no sweep or time axis).
-bool single_point(const Comparison& c) { return c.analysis == "op" || c.analysis == "tf"; }
+bool single_point(const Comparison& c) {
+    return c.analysis == "op" || c.analysis == "tf" || c.analysis == "meas";
+}
+
+// The tolerance a comparison was judged by (measurements of a transient run: the transient's,
+// plus the 1e-6 of ngspice's 7 printed digits).
+double tolerance_of(const Comparison& c, const VerifyReport& r) {
+    bool transient = c.analysis == "tran" || (c.analysis == "meas" && c.part == "tran");
+    double tol = transient ? r.tolerances.transient : r.tolerances.relative;
+    return c.analysis == "meas" ? tol + 1e-6 : tol;
+}
+
+// The deck's own measurements: both results, what they measure and the factor between them.
+std::string measures_table(const Comparison& c) {
+    std::size_t name_w = 12, what_w = 20;
+    for (const auto& v : c.vectors) {
+        name_w = std::max(name_w, v.name.size() + 2);
+        what_w = std::max(what_w, v.quantity.size() + 2);
+    }
+    std::string s = fmt::format("    {:<{}} {:<{}} {:>16} {:>16} {:>12}\n", "measurement", name_w,
+                                "quantity", what_w, "original", "scaled", "rel. error");
+    for (const auto& v : c.vectors)
+        s += fmt::format("    {:<{}} {:<{}} {:>16.7g} {:>16.7g} {:>12.3g}  {}\n", v.name, name_w,
+                         v.quantity, what_w, v.original_value, v.scaled_value, v.worst,
+                         v.passed ? "ok" : "FAIL");
+    return s;
+}
 
 // How the noise of the scaled deck was mapped back (verify/noise_compare.hpp's factors).
 std::string noise_mapping(const VerifyReport& r, const Comparison& c) {
@@ -114,7 +141,8 @@ std::string report_text(const VerifyReport& r) {
         s += "\n";
         std::string axis = axis_of(c);
         if (single_point(c))
-            s += fmt::format("  {}: {} vectors\n", title_of(c), c.vectors.size());
+            s += fmt::format("  {}: {} {}\n", title_of(c), c.vectors.size(),
+                             c.analysis == "meas" ? "results compared" : "vectors");
         else
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
                              title_of(c), c.points, c.first, axis, c.last, axis,
@@ -129,6 +157,10 @@ std::string report_text(const VerifyReport& r) {
             s += fmt::format("    not compared (device-internal states, not port currents): {}\n", names);
         }
         if (c.vectors.empty()) continue;
+        if (c.analysis == "meas") {
+            s += measures_table(c);
+            continue;
+        }
         if (!r.held.empty() && c.analysis == "ac") {
             s += held_ac_table(c, r);
             continue;
@@ -182,7 +214,7 @@ std::string report_text(const VerifyReport& r) {
     // Each analysis against its own tolerance: "ac 2e-09 (tolerance 1e-06), tran ...".
     std::string worst;
     for (const auto& c : r.comparisons) {
-        double tol = c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
+        double tol = tolerance_of(c, r);
         worst += fmt::format("{}{} {:.3g} (tolerance {:.3g}{})", worst.empty() ? "" : ", ",
                              c.label(), c.worst() ? c.worst()->worst : 0.0, tol,
                              c.decides() ? "" : "; not judged: flicker noise does not follow");
@@ -225,6 +257,13 @@ std::string report_json(const VerifyReport& r) {
                           {"max_db", v.max_db}, {"max_db_at", v.max_db_at},
                           {"max_deg", v.max_deg}, {"max_deg_at", v.max_deg_at},
                           {"passed", v.passed}, {"gmin_level", v.gmin_level}});
+        if (c.analysis == "meas")
+            for (std::size_t i = 0; i < c.vectors.size(); ++i) {
+                const auto& v = c.vectors[i];
+                vs[i]["original_value"] = v.original_value;
+                vs[i]["scaled_value"] = v.scaled_value;
+                vs[i]["quantity"] = v.quantity;
+            }
         an.push_back({{"analysis", c.analysis},
                       {"part", c.part},
                       {"unit", axis_of(c)},

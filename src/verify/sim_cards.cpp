@@ -33,6 +33,12 @@ void remove_card(EditSet& edits, std::string_view text, const Card& c) {
     edits = std::move(kept);
 }
 
+bool kept_measure(const Card& c, const std::string& analysis) {
+    std::string kw = card_keyword(c);
+    return !analysis.empty() && (kw == ".meas" || kw == ".measure") && c.fields.size() > 2 &&
+           iequals(c.field_text(1), analysis);
+}
+
 }  // namespace
 
 std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions& o) {
@@ -49,7 +55,8 @@ std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions
         std::string_view text = deck.files[f].source->text();
         deck.visit_file(f, [&](const Card& c) {
             bool remove = c.kind == CardKind::control || c.kind == CardKind::after_end ||
-                          (c.kind == CardKind::dot && removed_cards().count(card_keyword(c)));
+                          (c.kind == CardKind::dot && removed_cards().count(card_keyword(c)) &&
+                           !kept_measure(c, o.keep_measures));
             if (remove) {
                 remove_card(edits[f], text, c);
                 return;

@@ -1,5 +1,5 @@
-// A deck prepared for one verification run: its own analyses, output cards and .control
-// blocks removed (a .control block may run shell commands: it never runs here), every
+// A deck prepared for one verification run: its own analyses, output cards (but the
+// measurements of the run's analysis, on request) and .control blocks removed (a .control block may run shell commands: it never runs here), every
 // include inlined, and the verifier's analysis card added.
 #pragma once
 
@@ -20,6 +20,9 @@ struct SimDeckOptions {
     // and the deck has junction devices, the run uses tight tolerances scaled by them
     // (verify/tight_tolerances.hpp), so that both runs of a nonlinear deck converge alike.
     std::optional<ScaleFactors> tight_tolerances = std::nullopt;
+    // The deck's .meas cards of this analysis ("tran", "ac", "dc", "sp") stay, so that the
+    // run prints their results (verify/meas_compare.hpp); "" removes every .meas card.
+    std::string keep_measures = "";
 };
 
 // One card per entry (continuation lines as their own entries), title first, ".end" last.

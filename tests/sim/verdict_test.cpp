@@ -30,6 +30,11 @@ TEST(SimVerdict, ErrorAndSubstitutionLines) {
         {"Warning: Further gmin increment", false, false, true},
         {"Supplies reduced to   0.0000% ", false, false, true},
         {"", false, false, true},
+        // A .meas card without a result (ngspice 39's words, tried): compared, not a failed run.
+        {"Error: measure  dd failed:", false, false, false},
+        {"Error: no such vector as idb(v1).", false, false, false},
+        {"Error: syntax error for measure statement; expecting next field to be 'param'.", false,
+         false, false},
     };
     for (const Case& c : cases) {
         SCOPED_TRACE(c.line);
@@ -37,6 +42,8 @@ TEST(SimVerdict, ErrorAndSubstitutionLines) {
         EXPECT_EQ(is_substitution_warning(c.line), c.substitution);
         EXPECT_EQ(is_chatter(c.line), c.chatter);
     }
+    EXPECT_TRUE(is_measure_error("Error: measure  t1  WHEN(v(out)) : out of interval"));
+    EXPECT_FALSE(is_measure_error("Error: circuit not parsed."));
 }
 
 TEST(SimVerdict, QuotingKeepsStderrProblemsOnce) {

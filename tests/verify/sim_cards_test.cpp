@@ -63,6 +63,24 @@ TEST(SimulationCards, RemovesAnalysesOutputsAndControlBlocks) {
                      }));
 }
 
+// The measurements of the run's own analysis stay (verify compares their results); those of
+// other analyses go, or ngspice would report them as of an analysis it did not run.
+TEST(SimulationCards, KeepsTheMeasurementsOfTheRunsAnalysisOnRequest) {
+    MemoryFileSystem fs;
+    fs.add("m.cir", "m\nV1 in 0 ac 1 pulse(0 1 0 1u)\nR1 in out 1k\nC1 out 0 1n\n"
+                    ".meas ac bw when vdb(out)=-3\n.MEASURE tran t50 when v(out)=0.5\n"
+                    ".meas tran vend find v(out) at=1m\n.end\n");
+    SimDeckOptions o{".tran 1u 1m", "", 1};
+    o.keep_measures = "tran";
+    EXPECT_EQ(cards_of(fs, "m.cir", o),
+              (std::vector<std::string>{"m", "V1 in 0 ac 1 pulse(0 1 0 1u)", "R1 in out 1k",
+                                        "C1 out 0 1n", ".MEASURE tran t50 when v(out)=0.5",
+                                        ".meas tran vend find v(out) at=1m", ".tran 1u 1m",
+                                        ".end"}));
+    o.keep_measures = "";
+    EXPECT_EQ(cards_of(fs, "m.cir", o).size(), 6u);
+}
+
 TEST(SimulationCards, DriveSourceGetsTheAcValue) {
     MemoryFileSystem fs;
     fs.add("d.cir",
