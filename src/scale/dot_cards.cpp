@@ -1,6 +1,7 @@
 // Card handlers for dot cards (analyses, options, initial conditions, measurements), model
 // cards and .control blocks (ngspice 39 manual ch. 15; shared notes "scaling-rules.md" §3-§6).
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 
 #include <fmt/format.h>
@@ -105,6 +106,36 @@ bool at_sweep_end(ScalePass& p, const Token& value, Unit unit, const std::string
     return true;
 }
 
+// A number in `expr` written with a power of ten or a scale suffix ("1u", "1e6", "2meg"),
+// as a unit conversion is ("trise/1u"); a number inside a name ("t2") is none.
+bool has_dimensioned_number(std::string_view expr) {
+    auto name_char = [](char c) { return std::isalnum(static_cast<unsigned char>(c)) || c == '_'; };
+    auto digit = [](char c) { return c >= '0' && c <= '9'; };
+    for (std::size_t i = 0; i < expr.size(); ++i) {
+        bool starts = digit(expr[i]) || (expr[i] == '.' && i + 1 < expr.size() && digit(expr[i + 1]));
+        if (!starts || (i > 0 && (name_char(expr[i - 1]) || expr[i - 1] == '.'))) continue;
+        std::size_t j = i;
+        while (j < expr.size() && (digit(expr[j]) || expr[j] == '.')) ++j;
+        if (j < expr.size() && std::isalpha(static_cast<unsigned char>(expr[j]))) return true;
+        i = j;
+    }
+    return false;
+}
+
+// PARAM= computes a result from other results (and parameters), which follow the factors
+// themselves: 'tfall-trise' and 'vout/vin*100' stay right as written. A number with a unit or
+// a power of ten in it ('trise/1u' in microseconds) would not follow: refused.
+void meas_param(ScalePass& p, const Token& key, const Token& value) {
+    std::string_view expr = p.card().text(value);
+    if (has_dimensioned_number(expr)) {
+        p.unscalable(value, "a .meas param= expression with a number written with a unit or a "
+                            "power of ten (a unit conversion, which does not follow the factors)");
+        return;
+    }
+    p.note(key, "a .meas param= expression is kept as written: it is computed from other "
+                "measurements and parameters, which follow the factors");
+}
+
 void scale_meas(ScalePass& p) {
     const Card& c = p.card();
     const auto& fl = c.fields;
@@ -128,7 +159,7 @@ void scale_meas(ScalePass& p) {
         if (before.kind != TokenKind::word) continue;
         std::string key = to_lower(c.text(before));
         if (key == "param") {
-            p.unscalable(before, "a .meas param= expression: its unit depends on the expression");
+            meas_param(p, before, value);
             continue;
         }
         if (key == "val") {

@@ -196,7 +196,11 @@ Comparison compare_measures(const std::vector<MeasureSpec>& specs, const std::st
             continue;
         }
         if (!m.not_judged.empty()) {
-            c.notes.push_back(fmt::format("{} = {:.7g} and {:.7g}: not judged, {}", m.name, *a, *b,
+            c.notes.push_back(fmt::format("{} = {:.7g} and {:.7g}{}: not judged, {}", m.name, *a,
+                                          *b,
+                                          *a != 0 ? fmt::format(" (scaled / original = {:.7g})",
+                                                                *b / *a)
+                                                  : "",
                                           m.not_judged));
             continue;
         }

@@ -118,6 +118,9 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", ".meas tran t2 FIND v(a) AT=2u", ".meas tran t2 FIND v(a) AT=2n"},
         {__LINE__, "", ".meas ac x WHEN im(Va)=1m", ".meas ac x WHEN im(Va)=100u"},
         {__LINE__, "", ".meas ac m1 FIND vdb(a) AT=1k", ".meas ac m1 FIND vdb(a) AT=1meg"},
+        // Computed from other results, which follow the factors themselves (a note says so).
+        {__LINE__, "", ".meas tran w param='tfall-trise'", ".meas tran w param='tfall-trise'"},
+        {__LINE__, "", ".meas ac g param='vout2/v1*100+0.5'", ".meas ac g param='vout2/v1*100+0.5'"},
         {__LINE__, "", ".ic v(a)=1 v(b)=2", ".ic v(a)=1 v(b)=2"},
         {__LINE__, "", ".nodeset v(a)=1", ".nodeset v(a)=1"},
         {__LINE__, "", ".options gmin=1e-12 abstol=1e-12 chgtol=1e-14 rshunt=1e9 scale=1e-6",
@@ -195,6 +198,9 @@ TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
         {__LINE__, "R1 a 0 1k\n.control\nlet x = 2*v(a)\n.endc\n", {"4:9"}},
         {__LINE__, "L1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n", {"4:7"}},
         {__LINE__, "E1 a 0 LAPLACE {v(b)} {1/(1+s)}\n", {"2:8"}},
+        // A unit conversion inside a measurement's expression does not follow the factors.
+        {__LINE__, ".meas tran t2 param='trise/1u'\n", {"2:21"}},
+        {__LINE__, ".meas tran t3 param={trise*1e6}\n", {"2:21"}},
     };
     for (const auto& c : cases) {
         SCOPED_TRACE(testing::Message() << "rescale_test.cpp:" << c.line << ": " << c.deck);
