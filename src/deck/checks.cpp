@@ -73,7 +73,7 @@ const std::set<std::string>& known_dots() {
         ".four", ".meas", ".measure", ".param", ".func", ".csparam", ".subckt", ".ends", ".model",
         ".include", ".inc", ".lib", ".endl", ".global", ".ic", ".nodeset", ".temp", ".options",
         ".option", ".opt", ".save", ".print", ".plot", ".probe", ".width", ".title", ".end", ".if",
-        ".elseif", ".else", ".endif", ".data", ".enddata"};
+        ".elseif", ".else", ".endif", ".data", ".enddata", ".optran", ".prot", ".unprot"};
     return s;
 }
 
@@ -145,7 +145,8 @@ void check_element(const Card& c, std::vector<Diagnostic>& warnings, bool in_sec
         fmt::format("unknown element type '{}' passes through unchanged", c.field_text(0))));
 }
 
-void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings) {
+void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings,
+               bool in_section) {
     for (const auto& s : kDotShapes) {
         if (kw != s.name) continue;
         int have = value_fields(c);
@@ -154,10 +155,23 @@ void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& wa
                 Severity::error, c.fields[0].begin, c.fields[0].size(),
                 fmt::format("too few fields for '{}': expected {}", c.field_text(0), s.form)));
     }
-    if (!known_dots().count(kw))
-        warnings.push_back(c.file->diagnose(
-            Severity::warning, c.fields[0].begin, c.fields[0].size(),
-            fmt::format("unknown dot card '{}' passes through unchanged", c.field_text(0))));
+    if (known_dots().count(kw)) return;
+    // ngspice 39 stops on every dot card it does not know with "unimplemented control card -
+    // error" (tried: .step, .backanno, .wave, .net, .hdl, .alter, .spinit, .mc_source,
+    // .protect): another simulator's card, whose values (a .step list of resistances) nothing
+    // here would scale. In a .lib section, read only when a deck selects it, a warning.
+    if (!in_section)
+        throw DeckError(c.file->diagnose(
+            Severity::error, c.fields[0].begin, c.fields[0].size(),
+            fmt::format("ngspice 39 does not know the dot card '{}' (it stops with "
+                        "\"unimplemented control card\"); another simulator's card cannot be "
+                        "scaled here: remove it or turn it into ngspice's own form",
+                        c.field_text(0))));
+    warnings.push_back(c.file->diagnose(
+        Severity::warning, c.fields[0].begin, c.fields[0].size(),
+        fmt::format("ngspice 39 stops on the unknown dot card '{}' (\"unimplemented control "
+                    "card\") in a .lib section a deck selects; passes through unchanged",
+                    c.field_text(0))));
 }
 
 }  // namespace
@@ -165,7 +179,7 @@ void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& wa
 void check_card(const Card& c, const std::string& kw, std::vector<Diagnostic>& warnings,
                 bool in_section) {
     if (c.kind == CardKind::element) check_element(c, warnings, in_section);
-    if (c.kind == CardKind::dot) check_dot(c, kw, warnings);
+    if (c.kind == CardKind::dot) check_dot(c, kw, warnings, in_section);
 }
 
 void gather_symbols(const Card& c, DeckSymbols& s) {

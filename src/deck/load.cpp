@@ -17,7 +17,12 @@ namespace deckscale {
 
 std::string card_keyword(const Card& card) {
     if (card.fields.empty()) return {};
-    return to_lower(card.field_text(0));
+    std::string kw = to_lower(card.field_text(0));
+    // ngspice 39 reads .macro as .subckt and .eom as .ends (tried: an X line calling a
+    // '.macro rcm a b' ... '.eom' definition runs; a lone '.eom' is an "extra .ends").
+    if (kw == ".macro") return ".subckt";
+    if (kw == ".eom") return ".ends";
+    return kw;
 }
 
 void Deck::visit_file(std::size_t file, const CardVisitor& visit) const {

@@ -90,7 +90,8 @@ Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver
 Deck load_deck(const std::string& path, const FileSystem& fs, const DeckObserver& observer,
                const PieceReading& pieces);
 
-// The lower-cased name of a card's first field ("r1", ".subckt"); empty if none.
+// The lower-cased name of a card's first field ("r1", ".subckt"); empty if none. The aliases
+// ngspice reads as others are given as those: ".macro" is ".subckt", ".eom" is ".ends".
 std::string card_keyword(const Card& card);
 
 }  // namespace deckscale

@@ -276,6 +276,11 @@ void scale_dot_card(ScalePass& p, const std::string& kw) {
     } else if (kw == ".param") {
         for (std::size_t i = 2; i < c.fields.size(); ++i)
             if (c.fields[i - 1].kind == TokenKind::equals) check_numparam_names(p, c.fields[i]);
+    } else if (kw == ".optran") {
+        // .optran noopiter gminsteps srcsteps tstep tstop supramp (manual 15.3.5): three
+        // switches, then three times.
+        for (std::size_t i = 4; i < 7 && i < c.fields.size(); ++i)
+            if (p.is_value_token(c.fields[i])) p.scale_value(c.fields[i], Unit::second, "optran");
     } else if (kw == ".temp") {
         for (const auto& a : atoms)
             if (!a.key) p.scale_value(*a.value, Unit::none, "value");

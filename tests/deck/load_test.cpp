@@ -151,14 +151,49 @@ TEST(Deck, BadInputRendersInFull) {
     }
 }
 
-TEST(Deck, UnknownButWellFormedConstructsAreWarnings) {
+// ngspice 39 stops on a dot card it does not know ("unimplemented control card - error",
+// tried with .step, .backanno, .wave, .net, .hdl, .alter, .spinit, .mc_source, .protect;
+// tests/sim/simulate_test.cpp runs one), so the deck is refused; in a .lib section, read only
+// when a deck selects it, the card is a warning.
+TEST(Deck, AnUnknownDotCardIsRefused) {
     MemoryFileSystem fs;
-    fs.add("d.cir", "t\n.frobnicate 1 2\nR1 a 0 1\n.end\n");
-    Deck deck = load_deck("d.cir", fs);
+    fs.add("d.cir", "t\nR1 a 0 {rv}\n.param rv=1k\n.step param rv list 1k 2k\n.end\n");
+    try {
+        load_deck("d.cir", fs);
+        ADD_FAILURE() << "no DeckError";
+    } catch (const DeckError& e) {
+        EXPECT_EQ(render(e.diagnostic()),
+                  "d.cir:4:1: error: ngspice 39 does not know the dot card '.step' (it stops "
+                  "with \"unimplemented control card\"); another simulator's card cannot be "
+                  "scaled here: remove it or turn it into ngspice's own form\n"
+                  "  .step param rv list 1k 2k\n"
+                  "  ^~~~~\n");
+    }
+    fs.add("d/top.cir", "t\nV1 x 0 1\n.lib m.lib slow\n.end\n");
+    fs.add("d/m.lib", ".lib fast\n.frobnicate 1 2\nR5 x 0 1k\n.endl fast\n.lib slow\nR6 x 0 2k\n"
+                      ".endl slow\n");
+    Deck deck = load_deck("d/top.cir", fs);
     EXPECT_EQ(render(deck.warnings),
-              "d.cir:2:1: warning: unknown dot card '.frobnicate' passes through unchanged\n"
+              "d/m.lib:2:1: warning: ngspice 39 stops on the unknown dot card '.frobnicate' "
+              "(\"unimplemented control card\") in a .lib section a deck selects; passes through "
+              "unchanged\n"
               "  .frobnicate 1 2\n"
               "  ^~~~~~~~~~~\n");
+}
+
+// Dot cards ngspice 39 reads that belong to no analysis (tried: each loads and runs).
+TEST(Deck, OptranProtAndMacroAreKnown) {
+    MemoryFileSystem fs;
+    fs.add("d.cir", "t\n.optran 0 0 0 100n 10u 0\n.prot\n.unprot\nX1 a b rcm\n"
+                    ".MACRO rcm p q\nR1 p q 1k\n.eom\n.end\n");
+    Deck deck = load_deck("d.cir", fs);
+    EXPECT_EQ(render(deck.warnings), "");
+    std::vector<std::string> keywords;
+    deck.visit_file(0, [&](const Card& c) {
+        if (c.kind == CardKind::dot) keywords.push_back(card_keyword(c));
+    });
+    EXPECT_EQ(keywords, (std::vector<std::string>{".optran", ".prot", ".unprot", ".subckt",
+                                                  ".ends", ".end"}));
 }
 
 // A card that starts with no letter is no element to ngspice 39: it stops the load with

@@ -122,6 +122,8 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", ".meas tran w param='tfall-trise'", ".meas tran w param='tfall-trise'"},
         {__LINE__, "", ".meas ac g param='vout2/v1*100+0.5'", ".meas ac g param='vout2/v1*100+0.5'"},
         {__LINE__, "", ".ic v(a)=1 v(b)=2", ".ic v(a)=1 v(b)=2"},
+        // .optran noopiter gminsteps srcsteps tstep tstop supramp (manual 15.3.5).
+        {__LINE__, "", ".optran 0 0 0 100n 10u 1u", ".optran 0 0 0 100p 10n 1n"},
         {__LINE__, "", ".nodeset v(a)=1", ".nodeset v(a)=1"},
         {__LINE__, "", ".options gmin=1e-12 abstol=1e-12 chgtol=1e-14 rshunt=1e9 scale=1e-6",
          ".options gmin=1e-13 abstol=1e-13 chgtol=1e-18 rshunt=1e10 scale=1e-6"},
