@@ -84,9 +84,23 @@ std::vector<std::pair<const SimVector*, const SimVector*>> pairs_to_compare(cons
     match_names(o, s, c);
     note_internal_states(o, c);
     std::vector<std::pair<const SimVector*, const SimVector*>> pairs;
-    for (const auto& vo : o.vectors)
-        if (compared(vo, o))
-            if (const SimVector* vs = s.find(vo.name)) pairs.emplace_back(&vo, vs);
+    std::string empty;  // vectors ngspice made without values in both runs
+    for (const auto& vo : o.vectors) {
+        if (!compared(vo, o)) continue;
+        const SimVector* vs = s.find(vo.name);
+        if (!vs) continue;
+        if (vo.values.empty() != vs->values.empty()) {
+            c.problems.push_back(fmt::format("'{}' has values in the {} run only", vo.name,
+                                             vo.values.empty() ? "scaled" : "original"));
+        } else if (vo.values.empty()) {
+            // ngspice 39's savecurrents vectors (@r1[i]) in an AC plot: made, never filled.
+            empty += (empty.empty() ? "" : ", ") + vo.name;
+        } else {
+            pairs.emplace_back(&vo, vs);
+        }
+    }
+    if (!empty.empty())
+        c.notes.push_back("ngspice gave no values for " + empty + " in either run: not compared");
     return pairs;
 }
 

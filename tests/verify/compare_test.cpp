@@ -120,6 +120,26 @@ TEST(CompareAc, MissingVectorsAreNamedBothWays) {
     EXPECT_FALSE(c.passed());
 }
 
+// ngspice 39 makes the device currents of `.options savecurrents` (@r1[i]) in an AC plot but
+// fills none (tried: length 0 in both runs): named in a note, not shown as compared.
+TEST(CompareAc, VectorsWithoutValuesAreNotedNotCompared) {
+    SimPlot original = ac_plot(kFreqs, 1000);
+    SimPlot scaled = ac_plot(kFreqs, 1000);
+    for (SimPlot* p : {&original, &scaled}) {
+        p->vectors.push_back(vec("@r1[i]", VectorKind::current, {}));
+        p->vectors.push_back(vec("@c1[i]", VectorKind::current, {}));
+    }
+    Comparison c = compare_ac(original, scaled, 1, 1, Tolerances{});
+    EXPECT_TRUE(c.passed());
+    EXPECT_EQ(c.vectors.size(), 2u);
+    EXPECT_EQ(c.notes, (std::vector<std::string>{
+                           "ngspice gave no values for @r1[i], @c1[i] in either run: not compared"}));
+    scaled.vectors.back().values = reals({1, 1, 1, 1});
+    c = compare_ac(original, scaled, 1, 1, Tolerances{});
+    EXPECT_EQ(c.problems, (std::vector<std::string>{"'@c1[i]' has values in the scaled run only"}));
+    EXPECT_FALSE(c.passed());
+}
+
 TEST(CompareAc, NoFrequencyVector) {
     SimPlot original = ac_plot(kFreqs, 1000);
     original.vectors.erase(original.vectors.begin());
