@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
+#include "deck/control_script.hpp"
 
 namespace deckscale {
 namespace {
@@ -94,6 +95,20 @@ std::string factor_text(const MeasureSpec& m, double axis_factor) {
     return s.empty() ? "x 1" : "x " + s;
 }
 
+// A control command's text on one line: its comments left out, continuations joined.
+std::string command_text(const Card& c) {
+    std::string s;
+    for (const Token& t : c.tokens) {
+        if (t.kind == TokenKind::comment) continue;
+        if (t.kind == TokenKind::continuation || t.kind == TokenKind::line_end) {
+            s += ' ';
+            continue;
+        }
+        s += c.text(t);
+    }
+    return std::string(trim(s));
+}
+
 // Lines around a failed measurement that say nothing of why.
 bool is_measure_header(std::string_view line) {
     return line.starts_with("Measurements for") || line.starts_with("Error: measure ");
@@ -105,6 +120,19 @@ std::vector<MeasureSpec> find_measures(const Deck& deck) {
     std::vector<MeasureSpec> out;
     for (std::size_t f = 0; f < deck.files.size(); ++f)
         deck.visit_file(f, [&](const Card& c) {
+            if (c.kind == CardKind::control) {
+                if (const Token* t = control_token(c))
+                    for (const auto& cmd : control_commands(*c.file, *t)) {
+                        Card cc = cmd.as_card(*c.file);
+                        if (cc.fields.size() < 3) continue;
+                        std::string word = to_lower(cc.field_text(0));
+                        if (word != "meas" && word != "measure") continue;
+                        MeasureSpec m = spec_of(cc);
+                        m.card = "." + command_text(cc);
+                        out.push_back(std::move(m));
+                    }
+                return;
+            }
             if (c.kind != CardKind::dot || c.fields.size() < 3) return;
             std::string kw = card_keyword(c);
             if (kw == ".meas" || kw == ".measure") out.push_back(spec_of(c));

@@ -26,10 +26,13 @@ struct MeasureSpec {
     int current_power = 0;
     std::string quantity;  // "time", "frequency", "sweep value", "voltage", "current", ...
     std::string not_judged;  // why its result is only shown (an expression, a dB current...)
+    // A `meas` command of a .control block (which never runs here) as the .meas card that
+    // measures the same after the run ("" for a .meas card, which stays in the deck itself).
+    std::string card;
 };
 
-// The .meas / .measure cards of the deck's top level, in order. `.control` blocks are never run
-// (their `meas` commands are not read).
+// The .meas / .measure cards of the deck's top level and the `meas` commands of its .control
+// blocks, in order.
 std::vector<MeasureSpec> find_measures(const Deck& deck);
 
 // The deck sets ngspice's `autostop` option: with its .meas cards present a transient run

@@ -170,11 +170,20 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             return refuse(fmt::format("the .noise input '{}' is no independent source of {}",
                                       an.noise->source, o.original));
         measures = find_measures(original);
+        std::vector<MeasureSpec> scaled_measures = find_measures(scaled);
         if (!measures.empty() && stops_on_measures(original)) {
             report.notes.push_back("the deck's .meas results are not compared: with its "
                                    "'autostop' option they would end the transient run early");
             measures.clear();
+            scaled_measures.clear();
         }
+        // The `meas` commands of a deck's .control block, as .meas cards of its runs of `kind`.
+        auto control_measures = [&](const Deck& d, const std::string& kind) {
+            std::vector<std::string> cards;
+            for (const auto& m : &d == &original ? measures : scaled_measures)
+                if (!m.card.empty() && m.analysis == kind) cards.push_back(m.card);
+            return cards;
+        };
         auto job = [&](const Deck& d, const std::string& path, const std::string& card,
                        double drive_ac, const std::string& driven) {
             SimJob j;
@@ -187,7 +196,8 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
                 d, SimDeckOptions{
                        card, driven, drive_ac,
                        &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf},
-                       measured ? kind : ""});
+                       measured ? kind : "",
+                       measured ? control_measures(d, kind) : std::vector<std::string>{}});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = o.timeout;
             j.memory_limit_mb = o.memory_mb;

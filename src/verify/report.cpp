@@ -142,7 +142,9 @@ std::string report_text(const VerifyReport& r) {
         std::string axis = axis_of(c);
         if (single_point(c))
             s += fmt::format("  {}: {} {}\n", title_of(c), c.vectors.size(),
-                             c.analysis == "meas" ? "results compared" : "vectors");
+                             c.analysis != "meas"        ? "vectors"
+                             : c.vectors.size() == 1 ? "result compared"
+                                                     : "results compared");
         else
             s += fmt::format("  {}: {} points, {:.6g} {} .. {:.6g} {} of the original, {} vectors\n",
                              title_of(c), c.points, c.first, axis, c.last, axis,

@@ -84,6 +84,7 @@ std::vector<std::string> simulation_cards(const Deck& deck, const SimDeckOptions
     if (cards.front().empty()) cards.front() = "untitled deck";
     if (o.tight_tolerances && has_junction_devices(deck))
         cards.push_back(tight_options_card(*o.tight_tolerances));
+    for (const auto& extra : o.extra_cards) cards.push_back(extra);
     cards.push_back(o.analysis);
     cards.push_back(".end");
     return cards;

@@ -23,6 +23,9 @@ struct SimDeckOptions {
     // The deck's .meas cards of this analysis ("tran", "ac", "dc", "sp") stay, so that the
     // run prints their results (verify/meas_compare.hpp); "" removes every .meas card.
     std::string keep_measures = "";
+    // Cards added before the analysis card (the `meas` commands of a .control block as .meas
+    // cards).
+    std::vector<std::string> extra_cards = {};
 };
 
 // One card per entry (continuation lines as their own entries), title first, ".end" last.

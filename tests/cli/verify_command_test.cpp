@@ -281,9 +281,16 @@ TEST(VerifyCommand, AnalysisFromTheControlBlockWhenNoCardAsks) {
     RunResult r = run_binary({"verify", "c.cir", "c_s.cir", "--json", "r.json"}, dir.path());
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
     auto j = nlohmann::json::parse(read_bytes(dir.file("r.json")));
-    ASSERT_EQ(j["analyses"].size(), 1u);
+    ASSERT_EQ(j["analyses"].size(), 2u);
     EXPECT_EQ(j["analyses"][0]["analysis"], "ac");
     EXPECT_EQ(j["analyses"][0]["points"], 121);
+    // The block's meas command, measured in both runs: the corner x Kf.
+    EXPECT_EQ(j["analyses"][1]["analysis"], "meas");
+    EXPECT_EQ(j["analyses"][1]["part"], "ac");
+    ASSERT_EQ(j["analyses"][1]["vectors"].size(), 1u);
+    const auto& f3 = j["analyses"][1]["vectors"][0];
+    EXPECT_EQ(f3["name"], "f3");
+    EXPECT_NEAR(f3["scaled_value"].get<double>() / f3["original_value"].get<double>(), 1000, 1e-6);
 }
 
 TEST(VerifyCommand, PlotWritesSvgDataAndScript) {

@@ -55,6 +55,19 @@ TEST(FindMeasures, EachKindHasTheQuantityOfItsResult) {
     is(m[9], "vx", 1, 0, "sweep value");
 }
 
+// A .control block never runs in verification: its `meas` commands become .meas cards.
+TEST(FindMeasures, ControlMeasCommandsComeAsCards) {
+    auto m = specs_of("m\nV1 in 0 ac 1\nR1 in out 1k\nC1 out 0 1n\n.meas ac top max vdb(out)\n"
+                      ".control\nac dec 10 1 1meg\nmeas ac f3 when vdb(out)=-3 $ corner\n"
+                      "meas ac f6 when\n+ vdb(out)=-6 ; print f3\nlet x = 1\n.endc\n.end\n");
+    ASSERT_EQ(m.size(), 3u);
+    EXPECT_EQ(m[0].card, "");
+    EXPECT_EQ(m[1].name, "f3");
+    EXPECT_EQ(m[1].card, ".meas ac f3 when vdb(out)=-3");
+    EXPECT_EQ(m[1].quantity, "frequency");
+    EXPECT_EQ(m[2].card, ".meas ac f6 when   vdb(out)=-6");
+}
+
 // Lines as ngspice 39 printed them on this machine for an RC step (NGSPICE_MEAS_PRECISION=15
 // reaches INTEG and PARAM results only; the others keep 7 digits).
 const std::vector<std::string> kLog = {
@@ -190,6 +203,39 @@ TEST(CompareMeasures, NgspiceMeasuresBothDecksAndCatchesAnUnscaledAt) {
     v = verify_pair(r, disk);
     ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
     EXPECT_FALSE(v.report.passed());
+}
+
+// A deck whose analysis and measurement live in a .control block: the corner of an RC
+// low-pass, 1/(2 pi R C) = 1591.5 Hz at 1 kOhm, 100 nF (first-order low-pass, common practice;
+// ngspice reads it off a 20-per-decade grid by straight lines in dB, so a little lower).
+TEST(CompareMeasures, AControlBlocksMeasCommandIsComparedToo) {
+    test::TempDir dir;
+    const char* deck = "rc\nV1 in 0 ac 1\nR1 in out {r}\nC1 out 0 {c}\n.control\n"
+                       "ac dec 20 {f1} {f2}\nmeas ac f3db when vdb(out)=-3\nprint f3db\n.endc\n"
+                       ".end\n";
+    auto with = [&](const char* r, const char* c, const char* f1, const char* f2) {
+        std::string d = deck;
+        for (auto [key, value] : {std::pair{"{r}", r}, {"{c}", c}, {"{f1}", f1}, {"{f2}", f2}})
+            d.replace(d.find(key), std::string(key).size(), value);
+        return d;
+    };
+    test::write_bytes(dir.file("o.cir"), with("1k", "100n", "10", "100k"));
+    test::write_bytes(dir.file("s.cir"), with("10k", "100p", "1000", "10meg"));
+    PairRequest r;
+    r.original = dir.file("o.cir");
+    r.scaled = dir.file("s.cir");
+    r.factors_given = true;
+    r.km = 10;
+    r.kf = 100;
+    DiskFileSystem disk;
+    PairVerification v = verify_pair(r, disk);
+    ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
+    EXPECT_TRUE(v.report.passed());
+    const Comparison& meas = v.report.comparisons.back();
+    ASSERT_EQ(meas.analysis, "meas");
+    ASSERT_EQ(meas.vectors.size(), 1u);
+    EXPECT_NEAR(meas.vectors[0].original_value, 1591.5, 0.01 * 1591.5);
+    EXPECT_NEAR(meas.vectors[0].scaled_value / meas.vectors[0].original_value, 100, 1e-9);
 }
 
 }  // namespace

@@ -79,6 +79,11 @@ TEST(SimulationCards, KeepsTheMeasurementsOfTheRunsAnalysisOnRequest) {
                                         ".end"}));
     o.keep_measures = "";
     EXPECT_EQ(cards_of(fs, "m.cir", o).size(), 6u);
+    o.extra_cards = {".meas tran t10 when v(out)=0.1"};  // a .control block's meas command
+    auto cards = cards_of(fs, "m.cir", o);
+    ASSERT_EQ(cards.size(), 7u);
+    EXPECT_EQ(cards[4], ".meas tran t10 when v(out)=0.1");
+    EXPECT_EQ(cards[5], ".tran 1u 1m");
 }
 
 TEST(SimulationCards, DriveSourceGetsTheAcValue) {
