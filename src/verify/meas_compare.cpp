@@ -129,6 +129,8 @@ std::vector<MeasureSpec> find_measures(const Deck& deck) {
                         if (word != "meas" && word != "measure") continue;
                         MeasureSpec m = spec_of(cc);
                         m.card = "." + command_text(cc);
+                        // A control variable ($thr) has no value outside the block.
+                        if (m.card.find('$') != std::string::npos) continue;
                         out.push_back(std::move(m));
                     }
                 return;

@@ -59,7 +59,8 @@ TEST(FindMeasures, EachKindHasTheQuantityOfItsResult) {
 TEST(FindMeasures, ControlMeasCommandsComeAsCards) {
     auto m = specs_of("m\nV1 in 0 ac 1\nR1 in out 1k\nC1 out 0 1n\n.meas ac top max vdb(out)\n"
                       ".control\nac dec 10 1 1meg\nmeas ac f3 when vdb(out)=-3 $ corner\n"
-                      "meas ac f6 when\n+ vdb(out)=-6 ; print f3\nlet x = 1\n.endc\n.end\n");
+                      "meas ac f6 when\n+ vdb(out)=-6 ; print f3\nlet x = 1\n"
+                      "meas ac fx when vdb(out)=$&lim\n.endc\n.end\n");
     ASSERT_EQ(m.size(), 3u);
     EXPECT_EQ(m[0].card, "");
     EXPECT_EQ(m[1].name, "f3");
