@@ -148,10 +148,11 @@ CaseResult run_case(const SuiteCase& c, const FileSystem& files, const std::stri
         }
         if (!request.scaled.empty()) {
             PairVerification v = verify_pair(request, files);
-            for (const auto& p : v.problems) r.problems.push_back(p);
+            // As the verify command prints them: the failed runs, then what they tell.
             for (const auto& f : v.failures)
                 r.problems.push_back(fmt::format("simulating {} ({}) failed: {}: {}", f.label,
                                                  f.analysis, to_string(f.status), f.message));
+            for (const auto& p : v.problems) r.problems.push_back(p);
             if (v.outcome == PairVerification::Outcome::compared) {
                 r.km = v.report.km;
                 r.kf = v.report.kf;

@@ -57,6 +57,15 @@ TEST(VerifyPair, ProblemsAndFailuresComeBackAsData) {
     EXPECT_EQ(v.failures[0].analysis, "ac");
     EXPECT_EQ(v.failures[0].status, SimStatus::load_failed);
     EXPECT_NE(v.failures[0].message.find("nosuch"), std::string::npos) << v.failures[0].message;
+    EXPECT_EQ(v.problems, (std::vector<std::string>{
+                              "the original deck fails in ngspice 39 too (ac run): the problem is "
+                              "in the deck as written, not in the rewrite"}));
+    // Only the scaled deck failing: no such sentence.
+    r.original = dir.file("o.cir");
+    v = verify_pair(r, disk);
+    EXPECT_EQ(v.outcome, PairVerification::Outcome::sim_failed);
+    EXPECT_EQ(v.failures.size(), 1u);
+    EXPECT_TRUE(v.problems.empty());
 }
 
 // A diode clamp fed by a current source, swept over the current and the load, and its
