@@ -155,6 +155,14 @@ void check_dot(const Card& c, const std::string& kw, std::vector<Diagnostic>& wa
                 Severity::error, c.fields[0].begin, c.fields[0].size(),
                 fmt::format("too few fields for '{}': expected {}", c.field_text(0), s.form)));
     }
+    // A step of 0 (another simulator's ".tran 0 5m 0 1u", step chosen by the simulator):
+    // ngspice 39 stops with "TSTEP is invalid, must be greater than zero" (tried).
+    if (kw == ".tran" && c.fields.size() > 1 && c.fields[1].kind == TokenKind::word)
+        if (auto n = parse_spice_number(c.field_text(1)); n.number && n.number->value <= 0)
+            throw DeckError(c.file->diagnose(
+                Severity::error, c.fields[1].begin, c.fields[1].size(),
+                "a .tran step of 0: ngspice 39 stops with \"TSTEP is invalid, must be greater "
+                "than zero\"; give the printing step (such as the stop time / 1000)"));
     if (known_dots().count(kw)) return;
     // ngspice 39 stops on every dot card it does not know with "unimplemented control card -
     // error" (tried: .step, .backanno, .wave, .net, .hdl, .alter, .spinit, .mc_source,

@@ -181,6 +181,24 @@ TEST(Deck, AnUnknownDotCardIsRefused) {
               "  ^~~~~~~~~~~\n");
 }
 
+// Another simulator's ".tran 0 5m 0 1u" (the step left to the simulator): ngspice 39 stops
+// with "TSTEP is invalid, must be greater than zero" (tried).
+TEST(Deck, ATransientStepOfZeroIsRefused) {
+    MemoryFileSystem fs;
+    fs.add("d.cir", "t\nR1 a 0 1\n.TRAN 0 5m 0 1u\n.end\n");
+    try {
+        load_deck("d.cir", fs);
+        ADD_FAILURE() << "no DeckError";
+    } catch (const DeckError& e) {
+        EXPECT_EQ(render(e.diagnostic()),
+                  "d.cir:3:7: error: a .tran step of 0: ngspice 39 stops with \"TSTEP is invalid, "
+                  "must be greater than zero\"; give the printing step (such as the stop time / "
+                  "1000)\n"
+                  "  .TRAN 0 5m 0 1u\n"
+                  "        ^\n");
+    }
+}
+
 // Dot cards ngspice 39 reads that belong to no analysis (tried: each loads and runs).
 TEST(Deck, OptranProtAndMacroAreKnown) {
     MemoryFileSystem fs;
