@@ -8,7 +8,7 @@
 #include <gtest/gtest.h>
 
 #include "support/common.hpp"
-#include "verify/pair.hpp"
+#include "support/verify.hpp"
 
 namespace deckscale {
 namespace {
@@ -173,20 +173,7 @@ const char* kRcScaled =
     ".meas tran ipk max i(v1)\n.options abstol=1e-13 chgtol=1e-17\n.end\n";
 
 TEST(CompareMeasures, NgspiceMeasuresBothDecksAndCatchesAnUnscaledAt) {
-    test::TempDir dir;
-    test::write_bytes(dir.file("o.cir"), kRc);
-    test::write_bytes(dir.file("s.cir"), kRcScaled);
-    std::string wrong = kRcScaled;
-    wrong.replace(wrong.find("at=40u"), 6, "at=4m ");
-    test::write_bytes(dir.file("w.cir"), wrong);
-    PairRequest r;
-    r.original = dir.file("o.cir");
-    r.scaled = dir.file("s.cir");
-    r.factors_given = true;
-    r.km = 10;
-    r.kf = 100;
-    DiskFileSystem disk;
-    PairVerification v = verify_pair(r, disk);
+    PairVerification v = test::verify_texts(kRc, kRcScaled, 10, 100);
     ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
     EXPECT_TRUE(v.report.passed());
     const Comparison* meas = nullptr;
@@ -200,8 +187,9 @@ TEST(CompareMeasures, NgspiceMeasuresBothDecksAndCatchesAnUnscaledAt) {
             EXPECT_NEAR(m.scaled_value, m.original_value / 100, 1e-6 * m.scaled_value);
         }
 
-    r.scaled = dir.file("w.cir");  // at=4m lies past the scaled run's 50 us
-    v = verify_pair(r, disk);
+    std::string wrong = kRcScaled;  // at=4m lies past the scaled run's 50 us
+    wrong.replace(wrong.find("at=40u"), 6, "at=4m ");
+    v = test::verify_texts(kRc, wrong, 10, 100);
     ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
     EXPECT_FALSE(v.report.passed());
 }
@@ -210,7 +198,6 @@ TEST(CompareMeasures, NgspiceMeasuresBothDecksAndCatchesAnUnscaledAt) {
 // low-pass, 1/(2 pi R C) = 1591.5 Hz at 1 kOhm, 100 nF (first-order low-pass, common practice;
 // ngspice reads it off a 20-per-decade grid by straight lines in dB, so a little lower).
 TEST(CompareMeasures, AControlBlocksMeasCommandIsComparedToo) {
-    test::TempDir dir;
     const char* deck = "rc\nV1 in 0 ac 1\nR1 in out {r}\nC1 out 0 {c}\n.control\n"
                        "ac dec 20 {f1} {f2}\nmeas ac f3db when vdb(out)=-3\nprint f3db\n.endc\n"
                        ".end\n";
@@ -220,16 +207,8 @@ TEST(CompareMeasures, AControlBlocksMeasCommandIsComparedToo) {
             d.replace(d.find(key), std::string(key).size(), value);
         return d;
     };
-    test::write_bytes(dir.file("o.cir"), with("1k", "100n", "10", "100k"));
-    test::write_bytes(dir.file("s.cir"), with("10k", "100p", "1000", "10meg"));
-    PairRequest r;
-    r.original = dir.file("o.cir");
-    r.scaled = dir.file("s.cir");
-    r.factors_given = true;
-    r.km = 10;
-    r.kf = 100;
-    DiskFileSystem disk;
-    PairVerification v = verify_pair(r, disk);
+    PairVerification v = test::verify_texts(with("1k", "100n", "10", "100k"),
+                                            with("10k", "100p", "1000", "10meg"), 10, 100);
     ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
     EXPECT_TRUE(v.report.passed());
     const Comparison& meas = v.report.comparisons.back();

@@ -5,6 +5,7 @@
 #include <gtest/gtest.h>
 
 #include "support/common.hpp"
+#include "support/verify.hpp"
 
 namespace deckscale {
 namespace {
@@ -86,17 +87,7 @@ TEST(VerifyPair, AGateCurrentThatRingsPasses) {
         ".model nch nmos level=49 version=3.3 tox=4e-9 vth0=0.4\n"
         ".model pch pmos level=49 version=3.3 tox=4e-9 vth0=-0.4\n.tran 10p 8n\n"
         ".options abstol=3.33333333e-13 chgtol=3.33333333e-15\n.end\n";
-    test::TempDir dir;
-    test::write_bytes(dir.file("o.cir"), original);
-    test::write_bytes(dir.file("s.cir"), scaled);
-    PairRequest r;
-    r.original = dir.file("o.cir");
-    r.scaled = dir.file("s.cir");
-    r.factors_given = true;
-    r.km = 3;
-    r.kf = 1;
-    DiskFileSystem disk;
-    PairVerification v = verify_pair(r, disk);
+    PairVerification v = test::verify_texts(original, scaled, 3, 1);
     ASSERT_EQ(v.outcome, PairVerification::Outcome::compared);
     EXPECT_TRUE(v.report.passed()) << report_text(v.report);
     ASSERT_FALSE(v.report.comparisons.empty());
