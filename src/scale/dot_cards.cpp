@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "base/text_util.hpp"
+#include "deck/control_script.hpp"
 #include "deck/spice_number.hpp"
 #include "scale/expression.hpp"
 #include "scale/flicker.hpp"
@@ -109,15 +110,15 @@ bool at_sweep_end(ScalePass& p, const Token& value, Unit unit, const std::string
 // A number in `expr` written with a power of ten or a scale suffix ("1u", "1e6", "2meg"),
 // as a unit conversion is ("trise/1u"); a number inside a name ("t2") is none.
 bool has_dimensioned_number(std::string_view expr) {
-    auto name_char = [](char c) { return std::isalnum(static_cast<unsigned char>(c)) || c == '_'; };
-    auto digit = [](char c) { return c >= '0' && c <= '9'; };
-    for (std::size_t i = 0; i < expr.size(); ++i) {
-        bool starts = digit(expr[i]) || (expr[i] == '.' && i + 1 < expr.size() && digit(expr[i + 1]));
-        if (!starts || (i > 0 && (name_char(expr[i - 1]) || expr[i - 1] == '.'))) continue;
-        std::size_t j = i;
-        while (j < expr.size() && (digit(expr[j]) || expr[j] == '.')) ++j;
-        if (j < expr.size() && std::isalpha(static_cast<unsigned char>(expr[j]))) return true;
-        i = j;
+    for (std::size_t from = 0; from < expr.size();) {
+        std::size_t at = first_literal(expr.substr(from));
+        if (at == std::string_view::npos) return false;
+        std::size_t end = from + at;
+        while (end < expr.size() && (std::isdigit(static_cast<unsigned char>(expr[end])) ||
+                                     expr[end] == '.'))
+            ++end;
+        if (end < expr.size() && std::isalpha(static_cast<unsigned char>(expr[end]))) return true;
+        from = end;
     }
     return false;
 }

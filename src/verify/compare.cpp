@@ -463,8 +463,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
         if (ringing_points > 0)
             c.notes.push_back(fmt::format(
                 "{}: trapezoidal ringing (values or slopes alternating from step to step) at {} "
-                "point(s), "
-                "compared there by the average of neighbouring points",
+                "point(s), compared there by the average of neighbouring points",
                 vo.name, ringing_points));
         if (r.peak == 0 && noise_floor(vo.kind) == 0) {
             r.worst = 0;

@@ -194,6 +194,10 @@ std::string measure_failure(const std::vector<std::string>& log, const std::stri
     return "";
 }
 
+double measure_base_tolerance(const std::string& analysis, const Tolerances& t) {
+    return analysis == "tran" ? t.transient : t.relative;
+}
+
 Comparison compare_measures(const std::vector<MeasureSpec>& specs, const std::string& analysis,
                             const SimOutcome& original, const SimOutcome& scaled, double km,
                             double axis_factor, double tolerance) {
@@ -201,7 +205,7 @@ Comparison compare_measures(const std::vector<MeasureSpec>& specs, const std::st
     c.analysis = "meas";
     c.part = analysis;
     c.points = 1;
-    const double tol = tolerance + 1e-6;  // 7 printed digits in each run
+    const double tol = tolerance + kPrintedDigitsTolerance;
     for (const auto& m : specs) {
         if (m.analysis != analysis) continue;
         auto a = measure_result(original.log, m.name);

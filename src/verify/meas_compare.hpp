@@ -47,9 +47,16 @@ std::optional<double> measure_result(const std::vector<std::string>& log, const 
 // failed!", or "".
 std::string measure_failure(const std::vector<std::string>& log, const std::string& name);
 
+// ngspice prints most results with 7 significant digits: this is added to the tolerance.
+constexpr double kPrintedDigitsTolerance = 1e-6;
+
+// The tolerance given for the measurements of `analysis` ("tran": the transient's, else the
+// relative one), before kPrintedDigitsTolerance is added.
+double measure_base_tolerance(const std::string& analysis, const Tolerances& t);
+
 // Compares the measurements of one analysis. `axis_factor`: the scaled run's axis over the
 // original's (1/Kf for time, Kf for frequency, the swept item's factor on a DC sweep).
-// ngspice prints most results with 7 significant digits, so 1e-6 is added to the tolerance.
+// `tolerance`: measure_base_tolerance; kPrintedDigitsTolerance is added.
 Comparison compare_measures(const std::vector<MeasureSpec>& specs, const std::string& analysis,
                             const SimOutcome& original, const SimOutcome& scaled, double km,
                             double axis_factor, double tolerance);

@@ -108,6 +108,12 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
     DcLevel dc_level;                  // the inner level of the .dc sweep compared
     std::optional<TfSpec> tf;
     std::vector<MeasureSpec> measures;  // the original's .meas cards, compared per analysis
+    // The original measures something in its runs of `analysis`.
+    auto measured = [&](const std::string& analysis) {
+        return measurable(analysis) &&
+               std::any_of(measures.begin(), measures.end(),
+                           [&](const MeasureSpec& m) { return m.analysis == analysis; });
+    };
     {
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
@@ -189,15 +195,13 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
             SimJob j;
             j.label = path;
             std::string kind = card.substr(1, card.find(' ') - 1);  // ".tran 1u 1m" -> "tran"
-            bool measured = measurable(kind) &&
-                            std::any_of(measures.begin(), measures.end(),
-                                        [&](const MeasureSpec& m) { return m.analysis == kind; });
+            bool measures_kind = measured(kind);
             j.cards = simulation_cards(
                 d, SimDeckOptions{
                        card, driven, drive_ac,
                        &d == &original ? ScaleFactors{} : ScaleFactors{report.km, report.kf},
-                       measured ? kind : "",
-                       measured ? control_measures(d, kind) : std::vector<std::string>{}});
+                       measures_kind ? kind : "",
+                       measures_kind ? control_measures(d, kind) : std::vector<std::string>{}});
             j.work_dir = fs::absolute(path).parent_path().string();
             j.timeout = o.timeout;
             j.memory_limit_mb = o.memory_mb;
@@ -327,15 +331,13 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         } else {
             report.comparisons.push_back(compare_tran(*po, *ps, report.km, report.kf, report.tolerances));
         }
-        if (measurable(a) && std::any_of(measures.begin(), measures.end(),
-                                         [&](const MeasureSpec& m) { return m.analysis == a; })) {
+        if (measured(a)) {
             double axis = a == "tran" ? 1 / report.kf
                           : a == "dc" ? dc_item_factor(dc_level, report.km).value_or(1)
                                       : report.kf;
-            double tol = a == "tran" ? report.tolerances.transient : report.tolerances.relative;
-            report.comparisons.push_back(compare_measures(measures, a, outcomes[2 * i],
-                                                          outcomes[2 * i + 1], report.km, axis,
-                                                          tol));
+            report.comparisons.push_back(
+                compare_measures(measures, a, outcomes[2 * i], outcomes[2 * i + 1], report.km,
+                                 axis, measure_base_tolerance(a, report.tolerances)));
         }
     }
     return result;

@@ -8,6 +8,7 @@
 
 #include "scale/expression.hpp"
 #include "verify/held_report.hpp"
+#include "verify/meas_compare.hpp"
 #include "verify/noise_compare.hpp"
 
 namespace deckscale {
@@ -74,9 +75,9 @@ bool single_point(const Comparison& c) {
 // The tolerance a comparison was judged by (measurements of a transient run: the transient's,
 // plus the 1e-6 of ngspice's 7 printed digits).
 double tolerance_of(const Comparison& c, const VerifyReport& r) {
-    bool transient = c.analysis == "tran" || (c.analysis == "meas" && c.part == "tran");
-    double tol = transient ? r.tolerances.transient : r.tolerances.relative;
-    return c.analysis == "meas" ? tol + 1e-6 : tol;
+    if (c.analysis == "meas")
+        return measure_base_tolerance(c.part, r.tolerances) + kPrintedDigitsTolerance;
+    return c.analysis == "tran" ? r.tolerances.transient : r.tolerances.relative;
 }
 
 // The deck's own measurements: both results, what they measure and the factor between them.
