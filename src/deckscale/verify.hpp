@@ -42,7 +42,7 @@ struct VectorError {
     // A measurement (analysis "meas"): the deck's .meas result in each run (NaN where ngspice
     // gave none) and what it measures with the factor between them ("time (x 1/Kf)").
     double original_value = 0, scaled_value = 0;
-    std::string quantity;
+    std::string quantity = "";
 };
 
 struct AnalysisComparison {

@@ -49,7 +49,7 @@ struct VectorResult {
     // A measurement (analysis "meas", verify/meas_compare.hpp): both results as ngspice
     // printed them (NaN where it gave none) and what it measures, with the expected factor.
     double original_value = 0, scaled_value = 0;
-    std::string quantity;
+    std::string quantity = "";
 };
 
 struct Comparison {
