@@ -188,7 +188,7 @@ DeckAnalyses find_analyses(const Deck& deck) {
             if (c.kind == CardKind::element && (kw[0] == 'v' || kw[0] == 'i')) {
                 a.sources.push_back(kw);
                 for (std::size_t i = 3; i < c.fields.size(); ++i)
-                    if (iequals(c.field_text(i), "ac")) {
+                    if (iequals(c.field_text(i), "ac") || iequals(c.field_text(i), "acmag")) {
                         a.ac_sources.push_back(kw);
                         break;
                     }

@@ -28,12 +28,14 @@ constexpr FieldRule kRules[] = {
     // ---- coupling (3.3.12): a ratio ----
     {"k", "value", U::none},
     // ---- independent sources (4.1; notes §2) ----
-    {"v", "dc", U::signal}, {"v", "ac", U::signal}, {"v", "acphase", U::none},
+    {"v", "dc", U::signal}, {"v", "ac", U::signal}, {"v", "acmag", U::signal},
+    {"v", "acphase", U::none},
     {"v", "distof1", U::signal}, {"v", "distof1phase", U::none}, {"v", "distof2", U::signal},
     {"v", "distof2phase", U::none}, {"v", "z0", U::ohm}, {"v", "portnum", U::none},
     {"v", "freq", U::hertz}, {"v", "phase", U::none},  // RF port; its pwr: scale/sources.cpp
     {"v", "r", U::second}, {"v", "td", U::second},
-    {"i", "dc", U::signal}, {"i", "ac", U::signal}, {"i", "acphase", U::none},
+    {"i", "dc", U::signal}, {"i", "c", U::signal}, {"i", "ac", U::signal},
+    {"i", "acmag", U::signal}, {"i", "acphase", U::none},
     {"i", "distof1", U::signal}, {"i", "distof1phase", U::none}, {"i", "distof2", U::signal},
     {"i", "distof2phase", U::none}, {"i", "m", U::none},
     // source functions: positional arguments

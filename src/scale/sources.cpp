@@ -13,8 +13,18 @@ namespace deckscale {
 namespace {
 
 bool is_function(const std::string& w) {
-    return w == "pulse" || w == "sin" || w == "exp" || w == "pwl" || w == "sffm" || w == "am" ||
-           w == "trnoise" || w == "trrandom";
+    return w == "pulse" || w == "sin" || w == "sine" || w == "exp" || w == "pwl" || w == "sffm" ||
+           w == "am" || w == "trnoise" || w == "trrandom";
+}
+
+// Fields of one value that ngspice 39 takes bare ("acmag 2") as well as keyed ("acmag=2"):
+// names of the parameter tables in vsrc.c and isrc.c of ngspice-39.3, where "c" is the
+// current source's alias of "dc" and "r"/"td" (PWL repeat and delay) are voltage-source
+// only [T: libngspice 39 reads "I1 b 0 c 2m acmag 1m" as 2 mA DC and 1 mA AC, and refuses
+// "r=0" on a current source as an unknown parameter].
+bool is_single_value_field(const std::string& w, char letter) {
+    if (w == "acmag" || w == "acphase") return true;
+    return letter == 'v' ? (w == "r" || w == "td") : (w == "c" || w == "m");
 }
 
 Unit resolve(Unit u, char letter) {
@@ -147,7 +157,7 @@ void scale_source(ScalePass& p, char letter) {
                     field = fmt::format("pwl {} {}", field, k / 2 + 1);
                 } else {
                     std::string pos = fmt::format("#{}", k + 1);
-                    auto r = find_rule(w, pos);
+                    auto r = find_rule(w == "sine" ? "sin" : w, pos);
                     if (!r) {
                         p.unscalable(*args[k], fmt::format("{} has no argument {}", p.text(t), k + 1));
                         continue;
@@ -158,6 +168,12 @@ void scale_source(ScalePass& p, char letter) {
                 p.scale_value(*args[k], u, field);
             }
             i = j - 1;
+        } else if (is_single_value_field(w, letter)) {
+            if (value_at(i + 1))
+                p.scale_value(*atoms[++i].value, rule(scope, w), w);
+            else
+                p.unscalable(t, fmt::format("source field '{}' needs a value", p.text(t)));
+            if (w == "c") have_dc = true;
         } else if (w == "external") {
             p.unscalable(t, "EXTERNAL sources get their values from the host program, which "
                             "must supply scaled values itself");

@@ -42,6 +42,16 @@ std::vector<LineCase> line_cases() {
         {__LINE__, "", "Ve e 0 EXP(0 1 1u 2u 3u 4u)", "Ve e 0 EXP(0 1 1n 2n 3n 4n)"},
         {__LINE__, "", "Vw w 0 PWL(0 0 1u 1 2u 0) r=1u td=0.5u", "Vw w 0 PWL(0 0 1n 1 2n 0) r=1n td=500p"},
         {__LINE__, "", "Iw 0 w PWL(0 0 1u 1m 2u 0)", "Iw 0 w PWL(0 0 1n 100u 2n 0)"},
+        // The parameter names of vsrc.c / isrc.c (ngspice-39.3), bare or keyed, as schematic
+        // exporters write them: SINE is SIN; ACMAG is the AC value and ACPHASE its phase; "c"
+        // is a current source's DC value; "r"/"td" may stand bare after a PWL (each form read
+        // by libngspice 39 on this machine with the values meant).
+        {__LINE__, "", "Vq q 0 DC 0 SINE(0 1 1K 0 0 0) ACMAG 2 ACPHASE 90",
+         "Vq q 0 DC 0 SINE(0 1 1MEG 0 0 0) ACMAG 2 ACPHASE 90"},
+        {__LINE__, "", "Vq q 0 sine 0 1 1k", "Vq q 0 sine 0 1 1meg"},
+        {__LINE__, "", "Iq q 0 c=1m acmag=3m acphase=45", "Iq q 0 c=100u acmag=300u acphase=45"},
+        {__LINE__, "", "Iq q 0 c 2m acmag 1m m 3", "Iq q 0 c 200u acmag 100u m 3"},
+        {__LINE__, "", "Vw w 0 PWL(0 0 1u 1 2u 0) r 1u td 0.5u", "Vw w 0 PWL(0 0 1n 1 2n 0) r 1n td 500p"},
         {__LINE__, "", "Vf f 0 SFFM(0 1 1k 2 100 10 20)", "Vf f 0 SFFM(0 1 1meg 2 100000 10 20)"},
         {__LINE__, "", "If 0 f SFFM(1m 2m 1k 2 100)", "If 0 f SFFM(100u 200u 1meg 2 100000)"},
         // AM on a current source: VA is a current, VO a dimensionless offset.
@@ -196,6 +206,10 @@ TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
         {__LINE__, "J1 d g s jm\n.model jm njf level=2\n", {"3:11"}},
         {__LINE__, "A1 a b amp\n", {"2:1"}},
         {__LINE__, "V1 a 0 EXTERNAL\n", {"2:8"}},
+        // A one-value source field without its value; "r" on a current source, which
+        // libngspice 39 refuses as an unknown parameter.
+        {__LINE__, "V1 a 0 dc 1 acmag\n", {"2:13"}},
+        {__LINE__, "I1 a 0 PWL(0 0 1u 1m) r 0\n", {"2:23"}},
         {__LINE__, "Y1 a 0 b 0 txlmod\n", {"2:1"}},
         {__LINE__, "R1 a 0 1k\n.control\nlet x = 2*v(a)\n.endc\n", {"4:9"}},
         {__LINE__, "L1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n", {"4:7"}},

@@ -57,6 +57,7 @@ std::vector<FieldCase> field_cases() {
         add(__LINE__, s, "dc", card + " dc 3.17", "3.17", a, 0);
         add(__LINE__, s, "ac", card + " ac 3.17", "3.17", a, 0);
         add(__LINE__, s, "acphase", card + " ac 2 3.17", "3.17", 0, 0);
+        add(__LINE__, s, "acmag", card + " acmag 3.17 acphase 45", "3.17", a, 0);
         add(__LINE__, s, "distof1", card + " distof1 3.17", "3.17", a, 0);
         add(__LINE__, s, "distof1phase", card + " distof1 2 3.17", "3.17", 0, 0);
         add(__LINE__, s, "distof2", card + " distof2 3.17", "3.17", a, 0);
@@ -69,6 +70,7 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "v", "r", "V1 a 0 PWL(0 0 1 1 2 0) r=0.317", "0.317", 0, -1);
     add(__LINE__, "v", "td", "V1 a 0 PWL(0 0 1 1 2 0) td=0.317", "0.317", 0, -1);
     add(__LINE__, "i", "m", "I1 0 a dc 1 m=3.17", "3.17", 0, 0);
+    add(__LINE__, "i", "c", "I1 0 a c=3.17", "3.17", -1, 0);
     // Source functions, on current sources so that amplitudes must be divided by Km.
     struct Fn {
         const char* name;
