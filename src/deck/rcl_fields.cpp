@@ -33,7 +33,8 @@ std::optional<RclFields> rcl_fields(const Card& c) {
         bool keyed = i + 1 < fl.size() && fl[i + 1].kind == TokenKind::equals;
         if (keyed) {
             std::string key = to_lower(c.field_text(i));
-            bool value_key = (key.size() == 1 && key[0] == out.letter) || key == long_key;
+            bool value_key = (key.size() == 1 && key[0] == out.letter) || key == long_key ||
+                             (out.letter == 'c' && key == "cap");  // ngspice 39's alias
             // A value key wins over a positional field (`C1 a b cmod c=1n`).
             if (value_key && positional >= 2 && i + 2 < fl.size() && !out.keyed) {
                 out.value = i + 2;

@@ -121,7 +121,8 @@ void scale_passive(ScalePass& p, char letter) {
         if (a.key) {
             std::string key = to_lower(p.text(*a.key));
             bool value_key = key == scope || key == "r" || key == "c" || key == "l" ||
-                             key == "resistance" || key == "capacitance" || key == "inductance";
+                             key == "resistance" || key == "capacitance" || key == "inductance" ||
+                             (scope == "c" && key == "cap");
             if (value_key) has_value = true;
             if (value_key && (inside_until = scale_parenthesised(p, a, scope)) != 0) continue;
             scale_keyed(p, a, scope);

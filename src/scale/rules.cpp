@@ -14,6 +14,9 @@ constexpr FieldRule kRules[] = {
     {"r", "m", U::none}, {"r", "scale", U::none}, {"r", "tc1", U::none}, {"r", "tc2", U::none},
     {"r", "tce", U::none}, {"r", "temp", U::none}, {"r", "dtemp", U::none}, {"r", "noisy", U::none},
     {"r", "l", U::none}, {"r", "w", U::none},
+    // names ngspice 39's `devhelp resistor` lists besides (tc = tc1, noise = noisy; bv_max is
+    // the safe-operating-area limit on the voltage across it, which scaling keeps)
+    {"r", "tc", U::none}, {"r", "noise", U::none}, {"r", "bv_max", U::volt},
     // ---- capacitor (3.3.6) ----
     {"c", "value", U::farad}, {"c", "c", U::farad}, {"c", "capacitance", U::farad},
     {"c", "ic", U::volt}, {"c", "m", U::none}, {"c", "scale", U::none}, {"c", "tc1", U::none},
@@ -21,12 +24,14 @@ constexpr FieldRule kRules[] = {
     {"c", "w", U::none},
     // behavioural charge Q='expr' (3.3.9; notes §4): coulomb scales like farad
     {"c", "q", U::farad},
+    // `devhelp capacitor` of ngspice 39: cap = capacitance; bv_max a voltage limit
+    {"c", "cap", U::farad}, {"c", "bv_max", U::volt},
     // ---- inductor (3.3.10) ----
     {"l", "value", U::henry}, {"l", "l", U::henry}, {"l", "inductance", U::henry},
     {"l", "ic", U::ampere}, {"l", "m", U::none}, {"l", "scale", U::none}, {"l", "nt", U::none},
     {"l", "tc1", U::none}, {"l", "tc2", U::none}, {"l", "temp", U::none}, {"l", "dtemp", U::none},
     // ---- coupling (3.3.12): a ratio ----
-    {"k", "value", U::none},
+    {"k", "value", U::none}, {"k", "coefficient", U::none},
     // ---- independent sources (4.1; notes §2) ----
     {"v", "dc", U::signal}, {"v", "ac", U::signal}, {"v", "acmag", U::signal},
     {"v", "acphase", U::none},
@@ -64,6 +69,7 @@ constexpr FieldRule kRules[] = {
     {"g", "value", U::siemens}, {"g", "m", U::none}, {"h", "value", U::ohm},
     // ---- behavioural source (5.1): its temperature arguments ----
     {"b", "tc1", U::none}, {"b", "tc2", U::none}, {"b", "temp", U::none}, {"b", "dtemp", U::none},
+    {"b", "m", U::none}, {"b", "reciproctc", U::none}, {"b", "reciprocm", U::none},
     // ---- lossless line (6.1) ----
     {"t", "z0", U::ohm}, {"t", "zo", U::ohm}, {"t", "td", U::second}, {"t", "f", U::hertz},
     {"t", "nl", U::none}, {"t", "ic#1", U::volt}, {"t", "ic#2", U::ampere},
@@ -93,7 +99,8 @@ constexpr FieldRule kRules[] = {
     {"model:r", "defw", U::none}, {"model:r", "w", U::none}, {"model:r", "l", U::none},
     {"model:r", "narrow", U::none}, {"model:r", "short", U::none}, {"model:r", "tc1", U::none},
     {"model:r", "tc2", U::none}, {"model:r", "tce", U::none}, {"model:r", "tnom", U::none},
-    {"model:r", "noise", U::none},
+    {"model:r", "noise", U::none}, {"model:r", "dw", U::none}, {"model:r", "dlr", U::none},
+    {"model:r", "tc1r", U::none}, {"model:r", "tc2r", U::none}, {"model:r", "bv_max", U::volt},
     // Flicker noise (ngspice 39 `devhelp resistor`: KF, AF, EF, LF, WF): no unit that a
     // rescaled circuit follows; --follow-flicker rewrites KF (scale/flicker.hpp).
     {"model:r", "kf", U::none}, {"model:r", "af", U::none}, {"model:r", "ef", U::none},
@@ -103,7 +110,8 @@ constexpr FieldRule kRules[] = {
     {"model:c", "w", U::none}, {"model:c", "l", U::none},
     {"model:c", "narrow", U::none}, {"model:c", "short", U::none}, {"model:c", "tc1", U::none},
     {"model:c", "tc2", U::none}, {"model:c", "tnom", U::none}, {"model:c", "di", U::none},
-    {"model:c", "thick", U::none},
+    {"model:c", "thick", U::none}, {"model:c", "cox", U::farad}, {"model:c", "capsw", U::farad},
+    {"model:c", "del", U::none}, {"model:c", "bv_max", U::volt},
     {"model:l", "ind", U::henry}, {"model:l", "l", U::henry}, {"model:l", "tc1", U::none},
     {"model:l", "tc2", U::none}, {"model:l", "tnom", U::none},
     // ---- analyses (15.3; notes §6) ----

@@ -53,6 +53,7 @@ TEST(RclFields, NodesAndValueInEverySpelling) {
         {__LINE__, "L2 a b inductance={lv}", "a|b|{lv}|-|keyed"},
         {__LINE__, "C3 a b cmod 1n", "a|b|cmod|1n"},        // a model name before the value
         {__LINE__, "C4 a b cmod c=1n", "a|b|1n|-|keyed"},   // a value key wins
+        {__LINE__, "C5 a b cap=2n", "a|b|2n|-|keyed"},      // `devhelp capacitor` (ngspice 39)
         {__LINE__, "R4 a b tc1=0.01 1k", "a|b|1k|-"},       // another key is skipped
         // On an R line a later bare number overrides the value (deck-syntax notes §1, tried).
         {__LINE__, "R6 a b 1,5", "a|b|5|-"},

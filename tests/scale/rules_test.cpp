@@ -37,12 +37,13 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "r", "value", "R1 a 0 3.17", "3.17", 1, 0);
     for (auto k : {"r", "resistance", "ac"}) keyed(__LINE__, "r", "R1 a 0 5", k, 1, 0);
     keyed(__LINE__, "r", "R1 a 0", "r", 1, 0);
-    for (auto k : {"m", "scale", "tc1", "tc2", "tce", "temp", "dtemp", "l", "w"})
+    for (auto k : {"m", "scale", "tc1", "tc2", "tce", "temp", "dtemp", "l", "w", "tc", "bv_max"})
         keyed(__LINE__, "r", "R1 a 0 5", k, 0, 0);
+    add(__LINE__, "r", "noise", "R1 a 0 5 noise=0", "0", 0, 0);
     add(__LINE__, "r", "noisy", "R1 a 0 5 noisy=0", "0", 0, 0);
     add(__LINE__, "c", "value", "C1 a 0 3.17", "3.17", -1, -1);
-    for (auto k : {"c", "capacitance", "q"}) keyed(__LINE__, "c", "C1 a 0", k, -1, -1);
-    for (auto k : {"ic", "m", "scale", "tc1", "tc2", "temp", "dtemp", "l", "w"})
+    for (auto k : {"c", "capacitance", "q", "cap"}) keyed(__LINE__, "c", "C1 a 0", k, -1, -1);
+    for (auto k : {"ic", "m", "scale", "tc1", "tc2", "temp", "dtemp", "l", "w", "bv_max"})
         keyed(__LINE__, "c", "C1 a 0 5", k, 0, 0);
     add(__LINE__, "l", "value", "L1 a 0 3.17", "3.17", 1, -1);
     for (auto k : {"l", "inductance"}) keyed(__LINE__, "l", "L1 a 0", k, 1, -1);
@@ -50,6 +51,7 @@ std::vector<FieldCase> field_cases() {
     for (auto k : {"m", "scale", "nt", "tc1", "tc2", "temp", "dtemp"})
         keyed(__LINE__, "l", "L1 a 0 5", k, 0, 0);
     add(__LINE__, "k", "value", "L1 a 0 1\nL2 b 0 2\nK1 L1 L2 0.317", "0.317", 0, 0);
+    keyed(__LINE__, "k", "L1 a 0 1\nL2 b 0 2\nK1 L1 L2", "coefficient", 0, 0);
     // ---- independent sources ----
     for (std::string s : {"v", "i"}) {
         int a = s == "v" ? 0 : -1;
@@ -115,7 +117,8 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "g", "value", "G1 0 b a 0 3.17", "3.17", -1, 0);
     add(__LINE__, "g", "m", "G1 0 b a 0 2 m=3.17", "3.17", 0, 0);
     add(__LINE__, "h", "value", sense + "H1 b 0 Vs 3.17", "3.17", 1, 0);
-    for (auto k : {"tc1", "tc2", "temp", "dtemp"}) keyed(__LINE__, "b", "B1 b 0 V=v(a)*2", k, 0, 0);
+    for (auto k : {"tc1", "tc2", "temp", "dtemp", "m", "reciproctc", "reciprocm"})
+        keyed(__LINE__, "b", "B1 b 0 V=v(a)*2", k, 0, 0);
     // ---- lines, URC, switches ----
     keyed(__LINE__, "t", "T1 a 0 b 0 TD=1n", "z0", 1, 0);
     keyed(__LINE__, "t", "T1 a 0 b 0 TD=1n", "zo", 1, 0);
@@ -140,11 +143,14 @@ std::vector<FieldCase> field_cases() {
         {"r", {{"rsh", {1, 0}}, {"r", {1, 0}}, {"res", {1, 0}}, {"defw", {0, 0}}, {"w", {0, 0}},
                {"l", {0, 0}}, {"narrow", {0, 0}}, {"short", {0, 0}}, {"tc1", {0, 0}},
                {"tc2", {0, 0}}, {"tce", {0, 0}}, {"tnom", {0, 0}}, {"noise", {0, 0}},
-               {"kf", {0, 0}}, {"af", {0, 0}}, {"ef", {0, 0}}, {"lf", {0, 0}}, {"wf", {0, 0}}}},
+               {"kf", {0, 0}}, {"af", {0, 0}}, {"ef", {0, 0}}, {"lf", {0, 0}}, {"wf", {0, 0}},
+               {"dw", {0, 0}}, {"dlr", {0, 0}}, {"tc1r", {0, 0}}, {"tc2r", {0, 0}},
+               {"bv_max", {0, 0}}}},
         {"c", {{"cap", {-1, -1}}, {"c", {-1, -1}}, {"cj", {-1, -1}}, {"cjsw", {-1, -1}},
                {"defw", {0, 0}}, {"defl", {0, 0}}, {"w", {0, 0}}, {"l", {0, 0}}, {"narrow", {0, 0}},
                {"short", {0, 0}}, {"tc1", {0, 0}}, {"tc2", {0, 0}}, {"tnom", {0, 0}},
-               {"di", {0, 0}}, {"thick", {0, 0}}}},
+               {"di", {0, 0}}, {"thick", {0, 0}}, {"cox", {-1, -1}}, {"capsw", {-1, -1}},
+               {"del", {0, 0}}, {"bv_max", {0, 0}}}},
         {"l", {{"ind", {1, -1}}, {"l", {1, -1}}, {"tc1", {0, 0}}, {"tc2", {0, 0}}, {"tnom", {0, 0}}}},
     };
     for (const auto& [type, fields] : models)
