@@ -25,6 +25,7 @@ struct Parts {
     std::string_view value, suffix, tail;
     bool has_exponent = false;
     char exponent_letter = 'e';
+    std::size_t exponent_at = 0;  // offset of the exponent letter
 };
 
 template <typename Rule>
@@ -40,6 +41,7 @@ struct action<ng::exponent> {
     static void apply(const In& in, Parts& p) {
         p.has_exponent = true;
         p.exponent_letter = *in.begin();
+        p.exponent_at = static_cast<std::size_t>(in.begin() - p.base);
     }
 };
 template <>
@@ -212,6 +214,17 @@ NumberParse parse_spice_number(std::string_view text) {
             r.problem = NumberProblem::trailing_junk;
         return r;
     }
+    // "1d-14", "2D+1": ngspice 39 reads the D exponent only unsigned ("1d3" is 1000). Signed,
+    // it stops at the sign, each reader its own way (tried with libngspice 39: a model's
+    // "is=1d-14" reads 1, "R1 a 0 1d-7" is -7 Ohm, "C1 b 0 1.5d-7" a model name, a source's
+    // "dc 2d-3" and ".tran 1d-6 1d-5" are refused); SPICE2-era decks still carry them.
+    if (p.has_exponent && (p.exponent_letter == 'd' || p.exponent_letter == 'D') &&
+        p.exponent_at + 1 < text.size() &&
+        (text[p.exponent_at + 1] == '-' || text[p.exponent_at + 1] == '+')) {
+        r.problem = NumberProblem::signed_d_exponent;
+        r.problem_offset = p.exponent_at;
+        return r;
+    }
     SpiceNumber n;
     n.mantissa = p.value;
     n.suffix = p.suffix;
@@ -248,6 +261,15 @@ std::string describe(NumberProblem problem, std::string_view text) {
                 "number '{}' is outside the range of a double (about 2.2e-308 to 1.8e308): "
                 "ngspice 39 would read infinity or 0",
                 text);
+        case NumberProblem::signed_d_exponent: {
+            std::size_t d = std::min(text.find_first_of("dD"), text.size());
+            return fmt::format(
+                "Fortran-style exponent with a sign in '{}': ngspice 39 reads a D exponent only "
+                "without one ('1d3' is 1000) and stops at the sign here, so it does not read "
+                "the value meant; write '{}{}{}'",
+                text, text.substr(0, d), d < text.size() && text[d] == 'd' ? "e" : "E",
+                text.substr(std::min(d + 1, text.size())));
+        }
         case NumberProblem::non_ascii:
             return fmt::format(
                 "number '{}' has a non-ASCII character after '{}': it is no SPICE scale suffix "

@@ -27,6 +27,7 @@ enum class NumberProblem {
     rkm_style,     // "4k7": ngspice 39 reads 4000 in its default mode
     non_ascii,     // "2.2µF": the micro sign is no suffix, ngspice reads 2.2
     out_of_range,  // "1e999", "1e-999": beyond a double; ngspice reads infinity or 0
+    signed_d_exponent,  // "1d-14": ngspice 39 reads a D exponent only without a sign
 };
 
 struct NumberParse {

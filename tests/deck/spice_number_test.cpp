@@ -100,12 +100,21 @@ TEST(SpiceNumber, ValuesEqualFromChars) {
             if (before == 0 && after == 0) after = 1;
         }
         for (int i = 0; i < after; ++i) s += static_cast<char>('0' + rng() % 10);
+        bool signed_d = false;
         if (rng() % 2) {
-            s += "eEdD"[rng() % 4];
-            if (rng() % 2) s += rng() % 2 ? '-' : '+';
+            char letter = "eEdD"[rng() % 4];
+            s += letter;
+            if (rng() % 2) {
+                s += rng() % 2 ? '-' : '+';
+                signed_d = letter == 'd' || letter == 'D';
+            }
             s += std::to_string(rng() % 40);
         }
         auto p = parse_spice_number(s);
+        if (signed_d) {  // refused: see RefusedForms
+            ASSERT_EQ(p.problem, NumberProblem::signed_d_exponent) << s;
+            continue;
+        }
         ASSERT_TRUE(p.number) << s;
         std::string c = s.front() == '+' ? s.substr(1) : s;
         for (auto& ch : c)
@@ -183,6 +192,17 @@ TEST(SpiceNumber, RefusedForms) {
         {__LINE__, "1e300T", P::out_of_range,
          "number '1e300T' is outside the range of a double (about 2.2e-308 to 1.8e308): ngspice "
          "39 would read infinity or 0"},
+        // A signed Fortran exponent: ngspice 39 reads "1d3" as 1000 but stops at the sign of
+        // "1d-14" (tried with libngspice 39: a diode model's is=1d-14 reads 1, "R1 a 0 1d-7"
+        // is -7 Ohm, ".tran 1d-6 1d-5" is refused with "TSTOP is invalid").
+        {__LINE__, "1d-14", P::signed_d_exponent,
+         "Fortran-style exponent with a sign in '1d-14': ngspice 39 reads a D exponent only "
+         "without one ('1d3' is 1000) and stops at the sign here, so it does not read the value "
+         "meant; write '1e-14'"},
+        {__LINE__, "2.5D+2k", P::signed_d_exponent,
+         "Fortran-style exponent with a sign in '2.5D+2k': ngspice 39 reads a D exponent only "
+         "without one ('1d3' is 1000) and stops at the sign here, so it does not read the value "
+         "meant; write '2.5E+2k'"},
         {__LINE__, "abc", P::not_a_number, "'abc' is not a number"},
         {__LINE__, "", P::not_a_number, "'' is not a number"},
         {__LINE__, ".", P::not_a_number, "'.' is not a number"},
