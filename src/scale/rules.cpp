@@ -153,6 +153,8 @@ constexpr FieldRule kRules[] = {
     {".options", "defad", U::none}, {".options", "defas", U::none}, {".options", "seed", U::none},
     {".options", "gmin_steps", U::none}, {".options", "numdgt", U::none},
     {".options", "maxstep", U::second}, {".options", "interp", U::none},
+    // the safe-operating-area checks' switch and message count (libngspice 39 takes both)
+    {".options", "warn", U::none}, {".options", "maxwarns", U::none},
 };
 
 }  // namespace

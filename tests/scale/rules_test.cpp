@@ -221,7 +221,7 @@ std::vector<FieldCase> field_cases() {
         {"pivrel", {0, 0}},    {"pivtol", {0, 0}},   {"gminsteps", {0, 0}}, {"srcsteps", {0, 0}},
         {"temp", {0, 0}},      {"tnom", {0, 0}},     {"scale", {0, 0}},    {"defl", {0, 0}},
         {"defw", {0, 0}},      {"defad", {0, 0}},    {"defas", {0, 0}},    {"seed", {0, 0}},
-        {"gmin_steps", {0, 0}}, {"numdgt", {0, 0}},
+        {"gmin_steps", {0, 0}}, {"numdgt", {0, 0}}, {"warn", {0, 0}},     {"maxwarns", {0, 0}},
     };
     for (const auto& [key, e] : options) keyed(__LINE__, ".options", ".options", key, e.first, e.second);
     add(__LINE__, ".options", "interp", ".options interp", "", 0, 0);
