@@ -223,6 +223,10 @@ void scale_controlled(ScalePass& p, char letter) {
                 if (a.value) p.scale_value(*a.value, Unit::none, "m");
                 continue;
             }
+            if (key == "gain") {  // the linear gain, keyed (ngspice 39 reads "G1 o 0 a 0 gain=1m")
+                if (a.value) p.scale_value(*a.value, *find_rule(std::string(1, letter), "gain"), "gain");
+                continue;
+            }
             if ((key == "vol" && letter == 'e') || (key == "cur" && letter == 'g') || key == "value") {
                 if (!a.value) p.fail(*a.key, "expression missing");
                 // value= may be unquoted: take everything to the end of the card.

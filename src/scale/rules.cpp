@@ -67,6 +67,9 @@ constexpr FieldRule kRules[] = {
     // ---- controlled sources (4.2) ----
     {"e", "value", U::none}, {"f", "value", U::none}, {"f", "m", U::none},
     {"g", "value", U::siemens}, {"g", "m", U::none}, {"h", "value", U::ohm},
+    // the keyed form of the value, "gain=" (ngspice 39's devhelp for VCVS, VCCS, CCCS, CCVS)
+    {"e", "gain", U::none}, {"f", "gain", U::none}, {"g", "gain", U::siemens},
+    {"h", "gain", U::ohm},
     // ---- behavioural source (5.1): its temperature arguments ----
     {"b", "tc1", U::none}, {"b", "tc2", U::none}, {"b", "temp", U::none}, {"b", "dtemp", U::none},
     {"b", "m", U::none}, {"b", "reciproctc", U::none}, {"b", "reciprocm", U::none},

@@ -117,6 +117,10 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "g", "value", "G1 0 b a 0 3.17", "3.17", -1, 0);
     add(__LINE__, "g", "m", "G1 0 b a 0 2 m=3.17", "3.17", 0, 0);
     add(__LINE__, "h", "value", sense + "H1 b 0 Vs 3.17", "3.17", 1, 0);
+    keyed(__LINE__, "e", "E1 b 0 a 0", "gain", 0, 0);
+    keyed(__LINE__, "f", sense + "F1 0 b Vs", "gain", 0, 0);
+    keyed(__LINE__, "g", "G1 0 b a 0", "gain", -1, 0);
+    keyed(__LINE__, "h", sense + "H1 b 0 Vs", "gain", 1, 0);
     for (auto k : {"tc1", "tc2", "temp", "dtemp", "m", "reciproctc", "reciprocm"})
         keyed(__LINE__, "b", "B1 b 0 V=v(a)*2", k, 0, 0);
     // ---- lines, URC, switches ----
