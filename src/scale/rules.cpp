@@ -77,6 +77,9 @@ constexpr FieldRule kRules[] = {
     {"t", "z0", U::ohm}, {"t", "zo", U::ohm}, {"t", "td", U::second}, {"t", "f", U::hertz},
     {"t", "nl", U::none}, {"t", "ic#1", U::volt}, {"t", "ic#2", U::ampere},
     {"t", "ic#3", U::volt}, {"t", "ic#4", U::ampere},
+    // the initial conditions one by one (ngspice 39's devhelp for Tranline and LTRA)
+    {"t", "v1", U::volt}, {"t", "i1", U::ampere}, {"t", "v2", U::volt}, {"t", "i2", U::ampere},
+    {"o", "v1", U::volt}, {"o", "i1", U::ampere}, {"o", "v2", U::volt}, {"o", "i2", U::ampere},
     // ---- URC instance (6.3) ----
     {"u", "l", U::none}, {"u", "n", U::none},
     // ---- switches: instances carry no values, models do (3.3.15-16; notes §3) ----

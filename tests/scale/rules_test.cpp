@@ -134,6 +134,10 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "t", "ic#2", tic, "2.22", -1, 0);
     add(__LINE__, "t", "ic#3", tic, "3.33", 0, 0);
     add(__LINE__, "t", "ic#4", tic, "4.44", -1, 0);
+    for (const auto& [k, a] : {std::pair{"v1", 0}, {"i1", -1}, {"v2", 0}, {"i2", -1}}) {
+        keyed(__LINE__, "t", "T1 a 0 b 0 Z0=50 TD=1", k, a, 0);
+        keyed(__LINE__, "o", ".model lm ltra r=1 l=1 c=1 len=1\nO1 a 0 b 0 lm", k, a, 0);
+    }
     const std::string urc = ".model um urc k=2 fmax=1e9 rperl=1000 cperl=1e-15\n";
     add(__LINE__, "u", "l", urc + "U1 a b 0 um l=3.17 n=4", "3.17", 0, 0);
     add(__LINE__, "u", "n", urc + "U1 a b 0 um l=1 n=6", "6", 0, 0);
