@@ -223,10 +223,6 @@ void scale_controlled(ScalePass& p, char letter) {
                 if (a.value) p.scale_value(*a.value, Unit::none, "m");
                 continue;
             }
-            if (key == "gain") {  // the linear gain, keyed (ngspice 39 reads "G1 o 0 a 0 gain=1m")
-                if (a.value) p.scale_value(*a.value, *find_rule(std::string(1, letter), "gain"), "gain");
-                continue;
-            }
             if ((key == "vol" && letter == 'e') || (key == "cur" && letter == 'g') || key == "value") {
                 if (!a.value) p.fail(*a.key, "expression missing");
                 // value= may be unquoted: take everything to the end of the card.
@@ -235,6 +231,12 @@ void scale_controlled(ScalePass& p, char letter) {
                 p.scale_expression(first.begin, lastf.end, out_factor, key,
                                    letter == 'g' ? "A" : "V");
                 return;
+            }
+            // The rest by the table: the linear gain keyed (ngspice 39 reads "G1 o 0 a 0
+            // gain=1m"), the initial controlling voltage of E and G.
+            if (find_rule(std::string(1, letter), key)) {
+                scale_keyed(p, a, std::string(1, letter));
+                continue;
             }
             p.unscalable(*a.key, fmt::format("parameter '{}' is not in the rule table", p.text(*a.key)));
             continue;
@@ -316,7 +318,7 @@ void scale_controlled(ScalePass& p, char letter) {
 void scale_line_or_switch(ScalePass& p, char letter) {
     const auto& atoms = p.atoms(1);
     std::string scope(1, letter);
-    if (letter == 's' || letter == 'w' || letter == 'o') {
+    if (letter == 's' || letter == 'w') {
         // Instances carry nodes, a model name and ON/OFF; the model card holds the values.
         for (const auto& a : atoms)
             if (a.key) scale_keyed(p, a, scope);
@@ -326,11 +328,11 @@ void scale_line_or_switch(ScalePass& p, char letter) {
         const Atom& a = atoms[i];
         if (!a.key) continue;
         std::string key = to_lower(p.text(*a.key));
-        if (letter == 't' && key == "ic") {
-            // IC=v1,i1,v2,i2: voltages stay, currents scale.
-            if (a.value) p.scale_value(*a.value, *find_rule("t", "ic#1"), "ic v1");
+        if (key == "ic") {
+            // T and O (LTRA): IC=v1,i1,v2,i2: voltages stay, currents scale.
+            if (a.value) p.scale_value(*a.value, *find_rule(scope, "ic#1"), "ic v1");
             for (std::size_t j = 1; j < 4 && i + j < atoms.size() && !atoms[i + j].key; ++j)
-                p.scale_value(*atoms[i + j].value, *find_rule("t", fmt::format("ic#{}", j + 1)),
+                p.scale_value(*atoms[i + j].value, *find_rule(scope, fmt::format("ic#{}", j + 1)),
                               fmt::format("ic #{}", j + 1));
             continue;
         }

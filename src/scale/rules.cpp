@@ -31,7 +31,7 @@ constexpr FieldRule kRules[] = {
     {"l", "ic", U::ampere}, {"l", "m", U::none}, {"l", "scale", U::none}, {"l", "nt", U::none},
     {"l", "tc1", U::none}, {"l", "tc2", U::none}, {"l", "temp", U::none}, {"l", "dtemp", U::none},
     // ---- coupling (3.3.12): a ratio ----
-    {"k", "value", U::none}, {"k", "coefficient", U::none},
+    {"k", "value", U::none}, {"k", "k", U::none}, {"k", "coefficient", U::none},
     // ---- independent sources (4.1; notes §2) ----
     {"v", "dc", U::signal}, {"v", "ac", U::signal}, {"v", "acmag", U::signal},
     {"v", "acphase", U::none},
@@ -80,6 +80,8 @@ constexpr FieldRule kRules[] = {
     // the initial conditions one by one (ngspice 39's devhelp for Tranline and LTRA)
     {"t", "v1", U::volt}, {"t", "i1", U::ampere}, {"t", "v2", U::volt}, {"t", "i2", U::ampere},
     {"o", "v1", U::volt}, {"o", "i1", U::ampere}, {"o", "v2", U::volt}, {"o", "i2", U::ampere},
+    {"o", "ic#1", U::volt}, {"o", "ic#2", U::ampere}, {"o", "ic#3", U::volt},
+    {"o", "ic#4", U::ampere},
     // ---- URC instance (6.3) ----
     {"u", "l", U::none}, {"u", "n", U::none},
     // ---- switches: instances carry no values, models do (3.3.15-16; notes §3) ----

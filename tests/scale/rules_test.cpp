@@ -52,6 +52,7 @@ std::vector<FieldCase> field_cases() {
         keyed(__LINE__, "l", "L1 a 0 5", k, 0, 0);
     add(__LINE__, "k", "value", "L1 a 0 1\nL2 b 0 2\nK1 L1 L2 0.317", "0.317", 0, 0);
     keyed(__LINE__, "k", "L1 a 0 1\nL2 b 0 2\nK1 L1 L2", "coefficient", 0, 0);
+    keyed(__LINE__, "k", "L1 a 0 1\nL2 b 0 2\nK1 L1 L2", "k", 0, 0);
     // ---- independent sources ----
     for (std::string s : {"v", "i"}) {
         int a = s == "v" ? 0 : -1;
@@ -134,6 +135,11 @@ std::vector<FieldCase> field_cases() {
     add(__LINE__, "t", "ic#2", tic, "2.22", -1, 0);
     add(__LINE__, "t", "ic#3", tic, "3.33", 0, 0);
     add(__LINE__, "t", "ic#4", tic, "4.44", -1, 0);
+    const std::string oic = ".model lm ltra r=1 l=1 c=1 len=1\nO1 a 0 b 0 lm IC=1.11,2.22,3.33,4.44";
+    add(__LINE__, "o", "ic#1", oic, "1.11", 0, 0);
+    add(__LINE__, "o", "ic#2", oic, "2.22", -1, 0);
+    add(__LINE__, "o", "ic#3", oic, "3.33", 0, 0);
+    add(__LINE__, "o", "ic#4", oic, "4.44", -1, 0);
     for (const auto& [k, a] : {std::pair{"v1", 0}, {"i1", -1}, {"v2", 0}, {"i2", -1}}) {
         keyed(__LINE__, "t", "T1 a 0 b 0 Z0=50 TD=1", k, a, 0);
         keyed(__LINE__, "o", ".model lm ltra r=1 l=1 c=1 len=1\nO1 a 0 b 0 lm", k, a, 0);
