@@ -14,9 +14,11 @@
 #include <map>
 #include <set>
 #include <sstream>
+#include <vector>
 
 #include "scale/codemodel_rules.hpp"
 #include "support/common.hpp"
+#include "support/devhelp.hpp"
 #include "support/scale.hpp"
 
 namespace deckscale {
@@ -323,18 +325,10 @@ TEST(CodeModelNgspiceTest, DefaultsWrittenOutKeepTheResponse) {
 // model; the table must hold exactly those (a missing one would be refused as unknown, an
 // extra one would let a misspelling through).
 TEST(CodeModelNgspiceTest, RuleTableHoldsExactlyTheParametersNgspiceKnows) {
-    test::TempDir dir;
-    std::string deck = "devhelp\n.control\n";
-    for (const auto& t : code_model_types()) deck += "devhelp " + std::string(t.type) + "\n";
-    deck += ".endc\n.end\n";
-    test::write_bytes(dir.file("devhelp.cir"), deck);
-    std::string cmd = test::ngspice_batch() + test::shell_quote(dir.file("devhelp.cir")) + " >" +
-                      test::shell_quote(dir.file("devhelp.log")) + " 2>/dev/null";
-    // Exit status not checked: ngspice -b may return 1 after a good run (codemodel-rules.md
-    // pitfall 13); the listing below is.
-    (void)std::system(cmd.c_str());
+    std::vector<std::string> types;
+    for (const auto& t : code_model_types()) types.emplace_back(t.type);
     // "<model> - <description>", then "Model Parameters", a header and "  <id> <name> ..." rows.
-    std::istringstream in(test::read_bytes(dir.file("devhelp.log")));
+    std::istringstream in(test::devhelp_listing(types));
     std::set<std::pair<std::string, std::string>> listed;
     std::string line, model;
     bool params = false;

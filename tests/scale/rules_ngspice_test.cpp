@@ -6,14 +6,14 @@
 #include <gtest/gtest.h>
 
 #include <cctype>
-#include <cstdlib>
 #include <map>
 #include <set>
 #include <sstream>
 #include <string>
+#include <vector>
 
 #include "scale/rules.hpp"
-#include "support/common.hpp"
+#include "support/devhelp.hpp"
 
 namespace deckscale {
 namespace {
@@ -69,19 +69,9 @@ std::string why_not_a_row(const std::string& scope, const std::string& name) {
 }
 
 TEST(RulesNgspiceTest, EveryParameterNgspiceReadsHasARowOrAReason) {
-    test::TempDir dir;
-    std::string deck = "devhelp\n.control\n";
-    for (const auto& [device, scopes] : devices()) deck += "devhelp " + device + "\n";
-    deck += ".endc\n.end\n";
-    test::write_bytes(dir.file("devhelp.cir"), deck);
-    std::string cmd = test::ngspice_batch() + test::shell_quote(dir.file("devhelp.cir")) + " >" +
-                      test::shell_quote(dir.file("devhelp.log")) + " 2>/dev/null";
-    // Exit status not checked: ngspice -b may return 1 after a good run (codemodel-rules.md
-    // pitfall 13); the listing below is.
-    (void)std::system(cmd.c_str());
-    // "<device> - <description>", then "Model Parameters" and "Instance Parameters", each
-    // with a header and "<id> <name> <dir> <description>" rows.
-    std::istringstream in(test::read_bytes(dir.file("devhelp.log")));
+    std::vector<std::string> names;
+    for (const auto& [device, scopes] : devices()) names.push_back(device);
+    std::istringstream in(test::devhelp_listing(names));
     std::set<std::pair<std::string, std::string>> listed;  // (scope, name)
     std::string line;
     const Scopes* scopes = nullptr;
