@@ -293,7 +293,9 @@ bool scale_code_model(ScalePass& p) {
                               std::string(c.field_text(1)) + uses->groups[g].suffix);
     if (!copies.empty()) {
         if (c.file->text()[c.end() - 1] != '\n') copies.insert(0, "\n");
-        p.insert(c.end(), copies, "copy for other port types", 1);
+        // After the card's own defaults, which end where the card does when its '(' is never
+        // closed on the last line of a file without a line end.
+        p.insert_after(c.end(), copies, "copy for other port types", 1);
     }
     return true;
 }

@@ -135,6 +135,10 @@ public:
     void note_diode_distortion(const Deck& deck);
     // Inserts text at an offset of the current file.
     void insert(std::uint32_t offset, std::string text, std::string_view field, double factor);
+    // The same, after any insertion already stored at that offset (the two become one): for
+    // text that follows a card whose own insertions may end where the card ends.
+    void insert_after(std::uint32_t offset, std::string text, std::string_view field,
+                      double factor);
     // Replaces a name (of a model or .subckt) by the name of its scaled copy.
     void rename(const Token& t, const std::string& name, std::string_view field);
     // Records an item that cannot be scaled exactly.
@@ -191,8 +195,10 @@ private:
     // Records a value that may name parameters; true when the plan leaves it as written.
     bool param_use(std::uint32_t begin, std::uint32_t end, std::optional<UnitExponents> exponents,
                    double factor, std::string_view unit, std::string why);
+    // Stores an edit (and its change record); `after`: an insertion that follows any
+    // insertion already stored at its offset.
     void edit(std::uint32_t offset, std::uint32_t length, std::string text, std::string_view field,
-              std::string_view unit, double factor);
+              std::string_view unit, double factor, bool after = false);
 
     ScaleSettings settings_;
     ScaleResult& result_;

@@ -394,6 +394,11 @@ void ScalePass::insert(std::uint32_t offset, std::string text, std::string_view 
     edit(offset, 0, std::move(text), field, "", factor);
 }
 
+void ScalePass::insert_after(std::uint32_t offset, std::string text, std::string_view field,
+                             double factor) {
+    edit(offset, 0, std::move(text), field, "", factor, true);
+}
+
 void ScalePass::rename(const Token& t, const std::string& name, std::string_view field) {
     edit(t.begin, t.size(), name, field, "", 1);
 }
@@ -404,17 +409,23 @@ EditSet& ScalePass::target() {
 }
 
 void ScalePass::edit(std::uint32_t offset, std::uint32_t length, std::string text,
-                     std::string_view field, std::string_view unit, double factor) {
+                     std::string_view field, std::string_view unit, double factor, bool after) {
     const SourceFile& file = *card_->file;
+    auto store = [&](EditSet& set) {
+        if (after)
+            set.add_after(file.text(), offset, text);
+        else
+            set.add(file.text(), offset, length, text);
+    };
     if (file.view(offset, offset + length) == text) return;
     if (render_ == Render::held) return;
     if (render_ == Render::probe) {
-        render_edits_->add(file.text(), offset, length, text);
+        store(*render_edits_);
         return;
     }
     bool opening = length == 0 && text == "(";  // the opening half of a wrap is not listed
     if (!opening) ++result_.change_count;
-    target().add(file.text(), offset, length, text);
+    store(target());
     if (!settings_.record_changes || opening) return;
     std::string old_text(file.view(offset, offset + length));
     Change ch;

@@ -181,6 +181,22 @@ TEST(CodeModelsTest, ModelSharedByDifferentPortTypesGetsACopyPerSignature) {
         << t.text();
 }
 
+TEST(CodeModelsTest, CopyFollowsDefaultsWrittenAtTheEndOfAnUnclosedLastCard) {
+    // Found by the deck fuzz target (tests/fuzz/regressions/deck-summer-defaults-inserted-
+    // twice.bin): the last card of a file with no line end leaves its '(' open, so the
+    // defaults written out and the copy for other port types both go where the card ends.
+    // They used to collide there ("overlapping edits", an internal error).
+    const std::string head = "t\na2 [%i y] o2 sm\na1 [%v x] o1 sm\n";
+    auto s = test::scale_text(head + ".model sm summer(out_gain=2", 7, 3);
+    EXPECT_EQ(s.text(), "t\na2 [%i y] o2 sm\na1 [%v x] o1 sm_2\n"
+                        ".model sm summer(out_gain=2 in_gain=[7]\n"
+                        ".model sm_2 summer(out_gain=2");
+    // The same with no parameters at all: the defaults open and close their own parentheses.
+    auto t = test::scale_text(head + ".model sm summer", 7, 3);
+    EXPECT_EQ(t.text(), "t\na2 [%i y] o2 sm\na1 [%v x] o1 sm_2\n"
+                        ".model sm summer(in_gain=[7])\n.model sm_2 summer");
+}
+
 TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
     struct Row {
         int line;
