@@ -49,6 +49,9 @@ struct ToleranceScan {
     bool gmin_times_m = false, gmin_apart = false;
     // The first diode, where a note says that ngspice's .disto does not follow its m.
     std::optional<Place> diode;
+    // A semiconductor device was scaled, and an X line met: a .subckt may be a part's model
+    // (scale/part_models.hpp).
+    bool semiconductors = false, subckt_calls = false;
     void merge(const ToleranceScan& later);
 };
 

@@ -206,7 +206,7 @@ void ScalePass::visit(const Card& c) {
         case 'v': case 'i': scale_source(*this, letter); break;
         case 'e': case 'f': case 'g': case 'h': case 'b': scale_controlled(*this, letter); break;
         case 't': case 'o': case 'u': case 's': case 'w': scale_line_or_switch(*this, letter); break;
-        case 'x': break;  // subcircuit definitions are scaled in place
+        case 'x': tolerances_.subckt_calls = true; break;  // .subckt bodies are scaled in place
         case 'd': case 'j': case 'z': scale_semiconductor(*this, letter); break;
         case 'q':
             // Whether a BJT is scaled by m or by its area depends on the other devices of the

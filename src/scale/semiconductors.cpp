@@ -254,6 +254,7 @@ void scale_semiconductor(ScalePass& p, char letter) {
     // stage with .options gmin=1e-10, Km = 10: AC 3e-11 by area, 2e-5 by m); elsewhere by
     // m, which is exact with GMIN as it is.
     ToleranceScan& t = p.tolerances();
+    t.semiconductors = true;
     bool apart = gmin_apart_device(c, p.mos_models());
     if (apart) t.gmin_apart = true;
     if (letter == 'd' && !t.diode) t.diode = ToleranceScan::Place{p.file_index(), c.begin(), ""};

@@ -9,6 +9,8 @@
 #include <cctype>
 
 #include "base/text_util.hpp"
+#include "scale/hold_plan.hpp"
+#include "scale/part_models.hpp"
 #include "scale/pass.hpp"
 #include "scale/rules.hpp"
 
@@ -48,6 +50,8 @@ void ToleranceScan::merge(const ToleranceScan& later) {
     gmin_times_m = gmin_times_m || later.gmin_times_m;
     gmin_apart = gmin_apart || later.gmin_apart;
     if (!diode) diode = later.diode;
+    semiconductors = semiconductors || later.semiconductors;
+    subckt_calls = subckt_calls || later.subckt_calls;
 }
 
 void note_tolerances(ScalePass& p, const std::string& kw) {
@@ -95,6 +99,9 @@ void ScalePass::finish(const Deck& deck) {
     bool gmin = s.gmin_apart && f.km != 1 && !deck.symbols.gmin_set;
     if (f.km != 1) note_gmin(deck);
     if (f.km != 1 && s.diode) note_diode_distortion(deck);
+    if ((f.km != 1 || f.kf != 1) && s.semiconductors && s.subckt_calls)
+        for (auto& d : part_model_notes(deck, hold_ ? hold_->held_subckts : std::set<std::string>{}))
+            result_.notes.push_back(std::move(d));
     if (!s.tran && !gmin) return;
     if (s.tran && f.km != 1 && !deck.symbols.inductors.empty()) {
         // cktterr.c: an inductor's truncation error is judged with ABSTOL on its voltage and
