@@ -16,6 +16,8 @@ namespace fs = std::filesystem;
 
 double db(std::complex<double> x) { return 20 * std::log10(std::max(std::abs(x), 1e-300)); }
 double deg(std::complex<double> x) { return std::arg(x) * 180 / std::numbers::pi; }
+// An angle moved into [-180, 180] degrees.
+double wrapped(double d) { return d - 360 * std::round(d / 360); }
 
 }  // namespace
 
@@ -29,8 +31,12 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
     std::string stem = svg.stem().string();
     std::string dat_name = stem + ".dat", gp_name = stem + ".gp";
 
-    std::string data = "# frequency of the original deck, then per vector: original dB, original deg,\n"
-                       "# scaled (mapped back: current x Km) dB, scaled deg, relative error\n";
+    // Phases are unwrapped along the sweep (no step of more than 180 degrees from one point to
+    // the next), so a fifth-order low-pass runs down to -450 degrees instead of jumping by 360
+    // where it crosses -180; the scaled trace is drawn on the original's branch.
+    std::string data = "# frequency of the original deck, then per vector: original dB, original deg\n"
+                       "# (unwrapped), scaled (mapped back: current x Km) dB, scaled deg, relative "
+                       "error\n";
     std::vector<const SimVector*> vo, vs;
     double worst = 0;  // the largest error drawn
     for (const auto& name : r.vectors) {
@@ -40,6 +46,7 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
         vo.push_back(a);
         vs.push_back(b);
     }
+    std::vector<double> last_phase(vo.size(), std::nan(""));
     for (std::size_t k = 0; k < fo->values.size(); ++k) {
         data += fmt::format("{:.10e}", fo->values[k].real());
         for (std::size_t i = 0; i < vo.size(); ++i) {
@@ -51,8 +58,13 @@ std::string write_bode_plot(const SimPlot& o, const SimPlot& s, const BodePlotRe
             auto b = vs[i]->values[k] * back;
             double err = peak > 0 ? std::abs(b - a) / peak : 0;
             worst = std::max(worst, err);
-            data += fmt::format(" {:.10e} {:.10e} {:.10e} {:.10e} {:.6e}", db(a), deg(a), db(b), deg(b),
-                                std::max(err, 1e-18));
+            double phase = deg(a);
+            if (!std::isnan(last_phase[i]))
+                phase += 360 * std::round((last_phase[i] - phase) / 360);
+            last_phase[i] = phase;
+            double scaled_phase = phase + wrapped(deg(b) - deg(a));
+            data += fmt::format(" {:.10e} {:.10e} {:.10e} {:.10e} {:.6e}", db(a), phase, db(b),
+                                scaled_phase, std::max(err, 1e-18));
         }
         data += "\n";
     }
