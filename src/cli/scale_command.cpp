@@ -45,7 +45,7 @@ bool same_file(const std::string& a, const std::string& b) {
 }
 
 // Cautions for anyone who builds hardware from a rescaled deck.
-std::string cautions(ScaleFactors f, bool held) {
+std::string cautions(ScaleFactors f, bool held, bool semiconductors) {
     std::string s;
     if (f.km == 1 && f.kf == 1) return s;
     s += "deckscale: caution: the values written are ideal. Before building, choose real parts\n"
@@ -55,6 +55,10 @@ std::string cautions(ScaleFactors f, bool held) {
             "  Km = {} < 1: every current grows by 1/Km = {} and every resistor's power at the\n"
             "  same voltage by the same factor.\n",
             factor_text(f.km), factor_text(1 / f.km));
+    if (semiconductors)
+        s += "  Diodes and transistors were scaled too (m or area by 1/Km, their models'\n"
+             "  capacitances and transit times by 1/Kf): a real part must match the scaled\n"
+             "  device, not the original's part number.\n";
     if (held)
         s += "  Held parts were not rescaled: the circuit around them changed, so their\n"
              "  currents, voltages and dissipation are not the original's. Check each held\n"
@@ -155,7 +159,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                    "unchanged\n";
         if (std::string n = noise_effect(deck, settings.factors, o.follow_flicker).line; !n.empty())
             err << "deckscale: " << n << "\n";
-        err << cautions(settings.factors, !result.held.empty());
+        err << cautions(settings.factors, !result.held.empty(), result.semiconductors_scaled);
         if (o.verify) {
             // Verify the pair just written (the CLI allows --verify only with -o).
             VerifyOptions v;

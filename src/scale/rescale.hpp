@@ -52,6 +52,7 @@ struct ScaleResult {
     std::vector<Diagnostic> notes;        // things the user should know (wrapped expressions...)
     std::vector<HeldPart> held;           // parts kept as written, and why (ScaleSettings::hold)
     std::vector<ParamDecision> params;    // how each .param / params: parameter was scaled
+    bool semiconductors_scaled = false;   // a D, Q, J, Z or M device was rewritten
 };
 
 // Throws DeckError for bad input (malformed numbers and the like).

@@ -99,6 +99,7 @@ void ScalePass::finish(const Deck& deck) {
     bool gmin = s.gmin_apart && f.km != 1 && !deck.symbols.gmin_set;
     if (f.km != 1) note_gmin(deck);
     if (f.km != 1 && s.diode) note_diode_distortion(deck);
+    result_.semiconductors_scaled = s.semiconductors;
     if ((f.km != 1 || f.kf != 1) && s.semiconductors && s.subckt_calls)
         for (auto& d : part_model_notes(deck, hold_ ? hold_->held_subckts : std::set<std::string>{}))
             result_.notes.push_back(std::move(d));

@@ -36,6 +36,31 @@ TEST(ScaleCommandTest, RefusesUnscalableItemsWithOneDiagnosticEach) {
     EXPECT_NE(out.find("* deckscale: left unscaled: XSPICE"), std::string::npos) << out;
 }
 
+TEST(ScaleCommandTest, CautionsFollowWhatWasScaled) {
+    // The cautions for whoever builds from the output: always the ratings line, the current
+    // growth only for Km < 1, the semiconductor line only when a diode or transistor was
+    // rewritten, and none at all for factors of one.
+    TempDir dir;
+    write_bytes(dir.file("rc.cir"),
+                "t\nv1 a 0 ac 1\nr1 a b 1k\nc1 b 0 1n\n.ac dec 5 1k 1meg\n.end\n");
+    write_bytes(dir.file("d.cir"), "t\nv1 a 0 ac 1\nr1 a b 1k\nd1 b 0 dm\n.model dm d(cjo=1p)\n"
+                                   ".ac dec 5 1k 1meg\n.end\n");
+    auto scale = [&](const char* deck, const char* km, const char* kf) {
+        auto r = run_binary({"scale", deck, "--km", km, "--kf", kf, "-o", "out.cir"}, dir.path());
+        EXPECT_EQ(r.exit_code, 0) << r.err;
+        return r.err;
+    };
+    std::string rc = scale("rc.cir", "0.5", "1");
+    EXPECT_NE(rc.find("check their power, voltage and current ratings"), std::string::npos) << rc;
+    EXPECT_NE(rc.find("every current grows by 1/Km = 2"), std::string::npos) << rc;
+    EXPECT_EQ(rc.find("Diodes and transistors"), std::string::npos) << rc;
+    std::string d = scale("d.cir", "2", "1");
+    EXPECT_EQ(d.find("every current grows"), std::string::npos) << d;
+    EXPECT_NE(d.find("Diodes and transistors were scaled too"), std::string::npos) << d;
+    EXPECT_NE(scale("d.cir", "1", "3").find("Diodes and transistors"), std::string::npos);
+    EXPECT_EQ(scale("d.cir", "1", "1").find("caution"), std::string::npos);
+}
+
 // A deck with a changed include, an unchanged include and a .lib section, in sub-folders.
 void write_project(const TempDir& dir) {
     write_bytes(dir.file("proj/lib/parts.inc"), "R9 a 0 2k\n");
