@@ -198,6 +198,7 @@ PYBIND11_MODULE(deckscale, m) {
         .def_property_readonly("refused", &api::Scaled::refused)
         .def_readonly("changes_text", &api::Scaled::changes_text)
         .def_readonly("changes_json", &api::Scaled::changes_json)
+        .def_readonly("cautions", &api::Scaled::cautions)
         .def("deck", &api::scaled_deck,
              "The output as a Deck in memory (verify it before writing anything).")
         .def("write", &api::write, py::call_guard<py::gil_scoped_release>(),

@@ -21,6 +21,14 @@ class ScaleTest(unittest.TestCase):
             self.assertEqual(result.text, out.stdout.decode())
             self.assertFalse(result.refused)
 
+    def test_the_cautions_are_the_command_lines(self):
+        out = cli("scale", DEMO, "--km", "0.5", "--kf", "10")
+        self.assertEqual(out.returncode, 0, out.stderr)
+        result = deckscale.scale(DEMO, km=0.5, kf=10)
+        self.assertIn("every current grows by 1/Km = 2", result.cautions)
+        self.assertIn(result.cautions, out.stderr.decode())
+        self.assertEqual(deckscale.scale(DEMO, km=1, kf=1).cautions, "")
+
     def test_a_written_output_equals_the_command_lines_and_the_input_is_untouched(self):
         before = read_bytes(DEMO)
         with TempDir() as d:

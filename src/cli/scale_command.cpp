@@ -8,6 +8,7 @@
 #include "cli/exit_codes.hpp"
 #include "cli/verify_command.hpp"
 #include "deck/load.hpp"
+#include "scale/cautions.hpp"
 #include "scale/change_report.hpp"
 #include "scale/expression.hpp"
 #include "scale/noise_effect.hpp"
@@ -42,30 +43,6 @@ std::string in_place_refusal(const std::string& deck) {
 bool same_file(const std::string& a, const std::string& b) {
     std::error_code ec;
     return fs::exists(a, ec) && fs::exists(b, ec) && fs::equivalent(a, b, ec);
-}
-
-// Cautions for anyone who builds hardware from a rescaled deck.
-std::string cautions(ScaleFactors f, bool held, bool semiconductors) {
-    std::string s;
-    if (f.km == 1 && f.kf == 1) return s;
-    s += "deckscale: caution: the values written are ideal. Before building, choose real parts\n"
-         "  and check their power, voltage and current ratings at the new impedance level.\n";
-    if (f.km < 1)
-        s += fmt::format(
-            "  Km = {} < 1: every current grows by 1/Km = {} and every resistor's power at the\n"
-            "  same voltage by the same factor.\n",
-            factor_text(f.km), factor_text(1 / f.km));
-    if (semiconductors)
-        s += "  Diodes and transistors were scaled too (m or area by 1/Km, their models'\n"
-             "  capacitances and transit times by 1/Kf): a real part must match the scaled\n"
-             "  device, not the original's part number.\n";
-    if (held)
-        s += "  Held parts were not rescaled: the circuit around them changed, so their\n"
-             "  currents, voltages and dissipation are not the original's. Check each held\n"
-             "  part's ratings and stability (an amplifier's phase margin) in the new circuit;\n"
-             "  verify reports how far the response moved.\n";
-    s += "  For mains-connected or high-voltage circuits, local codes and licensed practice govern.\n";
-    return s;
 }
 
 }  // namespace
@@ -159,7 +136,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                    "unchanged\n";
         if (std::string n = noise_effect(deck, settings.factors, o.follow_flicker).line; !n.empty())
             err << "deckscale: " << n << "\n";
-        err << cautions(settings.factors, !result.held.empty(), result.semiconductors_scaled);
+        err << scale_cautions(settings.factors, !result.held.empty(), result.semiconductors_scaled);
         if (o.verify) {
             // Verify the pair just written (the CLI allows --verify only with -o).
             VerifyOptions v;

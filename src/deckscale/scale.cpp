@@ -8,6 +8,7 @@
 #include "base/byte_sink.hpp"
 #include "base/output_file.hpp"
 #include "deckscale/internal.hpp"
+#include "scale/cautions.hpp"
 #include "scale/change_report.hpp"
 #include "scale/rescale.hpp"
 
@@ -47,6 +48,7 @@ Scaled outputs(Deck original, ScaleResult& result, const ScaleOptions& o) {
                              c.new_text, c.factor});
     }
     s.changes_text = change_list_text(deck, result);
+    s.cautions = scale_cautions({o.km, o.kf}, !result.held.empty(), result.semiconductors_scaled);
     if (s.refusals.empty() || o.leave_unscalable) {
         OutputPlan plan = plan_output(deck, std::move(result.edits), o.output, o.flatten);
         plan.parallel = o.threads != 1;

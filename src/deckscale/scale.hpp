@@ -57,6 +57,9 @@ struct Scaled {
     std::vector<Diagnostic> warnings;  // the deck's own
     std::string changes_text;          // as `--changes` lists them
     std::string changes_json;          // as `--changes-json` writes them
+    // For whoever builds from the output: ratings, current growth, rescaled semiconductors
+    // (lines starting "deckscale: caution:", as `scale` prints them; "" for factors of one).
+    std::string cautions;
     std::optional<Deck> original;      // the deck it was made from
 
     bool refused() const { return files.empty() && !refusals.empty(); }
