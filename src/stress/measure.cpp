@@ -33,11 +33,17 @@ struct TwoTerminal {
 std::vector<TwoTerminal> two_terminals(const Deck& deck, std::vector<std::string>& held) {
     std::vector<TwoTerminal> out;
     ParamTable params = top_level_params(deck);
-    visit_circuit_elements(deck, [&](std::size_t, const Card& c, bool in_subckt) {
+    visit_circuit_elements(deck, [&](std::size_t f, const Card& c, bool in_subckt) {
         auto rcl = rcl_fields(c);
         if (!rcl) return;
         std::string kw = card_keyword(c);
-        if (in_subckt) return held.push_back(kw + " (inside a subcircuit)");
+        // Where it is: a part inside a .subckt often shares its name with one at the top level.
+        if (in_subckt) {
+            const SourceFile& file = *deck.files[f].source;
+            return held.push_back(fmt::format("{} (inside a subcircuit, {}:{})", kw,
+                                              fs::path(file.path()).filename().string(),
+                                              file.position(c.begin()).line));
+        }
         if (!rcl->value) return held.push_back(kw + " (no value)");
         auto value = value_with_params(c.field_text(*rcl->value), params);
         if (!value || !(*value > 0) || !std::isfinite(*value))

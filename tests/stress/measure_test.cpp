@@ -145,7 +145,7 @@ TEST(StressMeasure, PartsOfIncludedFilesAreMeasured) {
     ASSERT_EQ(s.rows.size(), 2u);
     EXPECT_EQ(s.rows[1].part, "r2");
     EXPECT_NEAR(s.rows[1].scaled.dc_voltage, 10.0 / 3, 1e-6);
-    EXPECT_EQ(s.held, std::vector<std::string>{"r3 (inside a subcircuit)"});
+    EXPECT_EQ(s.held, std::vector<std::string>{"r3 (inside a subcircuit, arm.inc:1)"});
 }
 
 TEST(StressMeasure, RatingTextsAreReadOrRefused) {
