@@ -221,8 +221,8 @@ py::dict retarget(py::handle deck, py::handle output, py::object impedance,
 py::dict tolerance_yield(py::handle deck, std::uint64_t trials, std::uint64_t seed,
                          py::object tolerance, const std::string& spread, double mask_db,
                          py::object band, py::object corner, py::object mask_file, py::object sweep,
-                         py::object drive, py::object output, unsigned workers, double timeout,
-                         std::uint64_t memory_mb) {
+                         py::object drive, py::object node, py::object output, unsigned workers,
+                         double timeout, std::uint64_t memory_mb) {
     YieldRequest q;
     q.deck = path_of(deck);
     q.trials = trials;
@@ -256,7 +256,10 @@ py::dict tolerance_yield(py::handle deck, std::uint64_t trials, std::uint64_t se
     }
     q.sweep = sweep_of(sweep);
     q.drive = drive.is_none() ? "" : drive.cast<std::string>();
-    q.output = output.is_none() ? "" : output.cast<std::string>();
+    // `output` is the name `node` had first (elsewhere `output` names a file).
+    if (!node.is_none() && !output.is_none()) raise_request_error("give node or output, not both");
+    py::object judged = node.is_none() ? output : node;
+    q.output = judged.is_none() ? "" : judged.cast<std::string>();
     q.workers = workers;
     q.timeout = std::chrono::milliseconds(static_cast<long>(timeout * 1000));
     q.memory_mb = memory_mb;
@@ -392,8 +395,8 @@ void add_commands(py::module_& m) {
     m.def("yield_", &tolerance_yield, "deck"_a, py::kw_only(), "trials"_a = 500, "seed"_a = 1,
           "tolerance"_a = py::none(), "spread"_a = "uniform", "mask_db"_a = 1.0,
           "band"_a = py::none(), "corner"_a = py::none(), "mask_file"_a = py::none(),
-          "sweep"_a = py::none(), "drive"_a = py::none(), "output"_a = py::none(), "workers"_a = 0,
-          "timeout"_a = 600.0, "memory_mb"_a = 8192,
+          "sweep"_a = py::none(), "drive"_a = py::none(), "node"_a = py::none(),
+          "output"_a = py::none(), "workers"_a = 0, "timeout"_a = 600.0, "memory_mb"_a = 8192,
           "Monte Carlo tolerance yield (the yield command): the --json report as a dict, with "
           "the swept frequencies, nominal response, envelope and mask as arrays.");
     m.def("stress", &stress, "original"_a, "scaled"_a, py::kw_only(), "ratio"_a = 2.0,

@@ -54,6 +54,12 @@ class YieldTest(unittest.TestCase):
         self.assertTrue(all(lo <= hi for lo, hi in zip(r["low_db"], r["high_db"])))
         with self.assertRaises(deckscale.DeckError):
             deckscale.yield_(DEMO, tolerance="C=five")
+        # The judged node: `node`, or `output`, the name it had first; not both.
+        for kw in ("node", "output"):
+            r = deckscale.yield_(DEMO, trials=3, workers=1, **{kw: "n1"})
+            self.assertIn("output n1;", r["text"])
+        with self.assertRaises(deckscale.DeckError):
+            deckscale.yield_(DEMO, trials=3, node="n1", output="n2")
 
 
 class StressTest(unittest.TestCase):

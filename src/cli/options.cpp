@@ -39,8 +39,10 @@ void add_yield_options(CLI::App& c, YieldOptions& y) {
     c.add_option("--band", y.band,
                  "Frequencies F1:F2 the --mask window applies to (default: the passband)");
     c.add_option("--corner", y.corner, "Window F1:F2 the -3 dB corner must lie in");
-    c.add_option("--output", y.output,
+    c.add_option("--node", y.output,
                  "The node whose response is judged (default: out, vout, output, else the first)");
+    // The name this option had first; hidden, since elsewhere --output names a file.
+    c.add_option("--output", y.output, "Same as --node")->group("");
     c.add_option("--sweep", y.sweep, "AC sweep instead of the deck's .ac: dec|oct|lin N F1 F2")
         ->expected(4);
     c.add_option("--drive", y.drive, "The independent source that drives the circuit (gets AC 1)");

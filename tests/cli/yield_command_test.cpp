@@ -80,6 +80,19 @@ TEST(YieldCommand, UsageErrorsNameTheOption) {
     }
 }
 
+TEST(YieldCommand, TheJudgedNodeIsNamedByNodeOrByItsOlderNameOutput) {
+    TempDir dir;
+    write_bytes(dir.file("rc.cir"), kLowPass);
+    for (const char* option : {"--node", "--output"}) {
+        RunResult r = run_binary({"yield", "rc.cir", "--trials", "5", option, "in"}, dir.path());
+        ASSERT_EQ(r.exit_code, 0) << option << r.err;
+        EXPECT_NE(r.out.find("output in;"), std::string::npos) << option << r.out;
+    }
+    RunResult help = run_binary({"yield", "--help"}, dir.path());
+    EXPECT_NE(help.out.find("--node"), std::string::npos) << help.out;
+    EXPECT_EQ(help.out.find("--output"), std::string::npos) << help.out;  // hidden
+}
+
 // A resistor given a rating below its new dissipation is flagged, and the command says so by
 // its exit code. 10 V across 1 kOhm: 0.1 W (P = V^2 / R); across 100 Ohm at Km = 0.1: 1 W.
 TEST(StressCommand, APartOverItsRatingIsFlagged) {
