@@ -183,6 +183,15 @@ TEST(SemiconductorsTest, ABjtBesideAJunctionOfTheOtherKindGoesByArea) {
     EXPECT_TRUE(own.result.notes.empty());
 }
 
+TEST(SemiconductorsTest, AKeyedAreaOnACardTooShortForItsNodesIsScaledOnce) {
+    // Found by the deck fuzz target (tests/fuzz/regressions/deck-bjt-area-scaled-twice.bin):
+    // 'q(] area=1' has too few fields for its nodes, so the field where its model name would
+    // be is the '=', and the value after it was taken both as the positional area and as
+    // area=, two edits of one token ("overlapping edits", an internal error).
+    auto s = test::scale_text("t\nd1 a 0 dm\n.model dm d\nq(] area=1 .\n.end\n", 10, 1);
+    EXPECT_NE(s.text().find("\nq(] area=0.1 .\n"), std::string::npos) << s.text();
+}
+
 // ngspice 39's .disto leaves a diode's m and area out of its distortion terms (shared notes
 // "scaling-rules.md" §6, and a run here: harmonics 99 % low with m = 0.1), while the model
 // card scaled in place of m follows (ibid. §4 "D model alternative"): in a deck with .disto
