@@ -159,20 +159,17 @@ void scale_bjt_area(ScalePass& p, double k) {
     ElementLinks links =
         element_links(c, [&](const std::string& name) { return p.model_type(name) != nullptr; });
     bool area = false;
-    const Token* positional = nullptr;
-    // Not when the "model name" is an '=' (a card too short for its nodes, 'q(] area=1'): the
-    // value after it belongs to a key and is scaled below, once.
-    if (links.model && c.fields[*links.model].kind != TokenKind::equals) {
+    // The model name is a plain word (element_links), so the value after it is no key's.
+    if (links.model) {
         std::size_t at = *links.model + 1;
         if (at < c.fields.size() && p.is_value_token(c.fields[at]) &&
             (at + 1 == c.fields.size() || c.fields[at + 1].kind != TokenKind::equals)) {
-            positional = &c.fields[at];
-            p.scale_by(*positional, k, "area", "-", UnitExponents{-1, 0});
+            p.scale_by(c.fields[at], k, "area", "-", UnitExponents{-1, 0});
             area = true;
         }
     }
     for (const auto& a : p.atoms(1)) {
-        if (!a.key || !a.value || a.value == positional) continue;
+        if (!a.key || !a.value) continue;
         std::string key = to_lower(c.text(*a.key));
         if (key != "area" && key != "areab" && key != "areac") continue;
         p.scale_by(*a.value, k, key, "-", UnitExponents{-1, 0});

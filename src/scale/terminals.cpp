@@ -68,9 +68,11 @@ ElementLinks element_links(const Card& c, const std::function<bool(const std::st
         case 'q':
         case 'm': {
             // c b e [s] model; d g s [b, more for SOI] model (a VDMOS has three nodes): the
-            // first model name after them; without one known, the model's usual field.
-            std::size_t at = first_model(c, 4, is_model).value_or(letter == 'q' ? 4 : 5);
-            if (at < n) l.model = at;
+            // first model name after them; without one known, the model's usual field if it
+            // holds a plain word (not an '=' or the value of a key, as in 'q(] area=1').
+            auto known = first_model(c, 4, is_model);
+            std::size_t at = known.value_or(letter == 'q' ? 4 : 5);
+            if (known || plain_word(c, at)) l.model = at;
             nodes(l, 1, std::min(at, n) - 1);
             break;
         }
