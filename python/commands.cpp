@@ -8,7 +8,6 @@
 #include "batch/report.hpp"
 #include "batch/summary.hpp"
 #include "batch/workers.hpp"
-#include "cli/retarget_command.hpp"
 #include "deckscale/internal.hpp"
 #include "python/convert.hpp"
 #include "python/interrupt.hpp"
@@ -19,6 +18,7 @@
 #include "values/snap.hpp"
 #include "yield/report.hpp"
 #include "yield/run.hpp"
+#include "scale/cautions.hpp"
 
 namespace deckscale::python {
 namespace {

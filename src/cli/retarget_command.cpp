@@ -9,6 +9,7 @@
 #include "cli/exit_codes.hpp"
 #include "retarget/fit.hpp"
 #include "retarget/quantity.hpp"
+#include "scale/cautions.hpp"
 #include "scale/expression.hpp"
 #include "verify/bode_plot.hpp"
 
@@ -52,13 +53,6 @@ std::string fit_text(const RetargetResult& r, const RetargetRequest& q) {
 }
 
 }  // namespace
-
-std::string nominal_value_cautions() {
-    return "deckscale: caution: the values written are nominal. Before building, check the chosen\n"
-           "  parts' tolerances, temperature coefficients, voltage and power ratings at the new\n"
-           "  impedance level. For mains-connected or high-voltage circuits, local codes and\n"
-           "  licensed practice govern.\n";
-}
 
 std::optional<RetargetRequest> retarget_request(const RetargetOptions& o, std::string& error) {
     RetargetRequest r;

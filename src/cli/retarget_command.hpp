@@ -14,9 +14,6 @@ namespace deckscale {
 // The request the options describe, or nullopt with `error` set (a usage error).
 std::optional<RetargetRequest> retarget_request(const RetargetOptions& options, std::string& error);
 
-// The cautions printed with every result that can lead to hardware.
-std::string nominal_value_cautions();
-
 // Returns exit_ok (target reached within 0.1 % and the pair equivalent), exit_not_equivalent,
 // exit_bad_input, exit_sim_failed or exit_refused.
 int run_retarget(const RetargetOptions& options, std::ostream& out, std::ostream& err);

@@ -29,4 +29,11 @@ std::string scale_cautions(ScaleFactors f, bool held, bool semiconductors) {
     return s;
 }
 
+std::string nominal_value_cautions() {
+    return "deckscale: caution: the values written are nominal. Before building, check the chosen\n"
+           "  parts' tolerances, temperature coefficients, voltage and power ratings at the new\n"
+           "  impedance level. For mains-connected or high-voltage circuits, local codes and\n"
+           "  licensed practice govern.\n";
+}
+
 }  // namespace deckscale
