@@ -1,5 +1,6 @@
 #include "scale/codemodel_rules.hpp"
 
+#include <algorithm>
 #include <string>
 #include <unordered_map>
 
@@ -341,6 +342,20 @@ constexpr CodeModelRefusal kRefusals[] = {
 std::span<const CodeModelType> code_model_types() { return kTypes; }
 std::span<const CodeModelParam> code_model_params() { return kParams; }
 std::span<const CodeModelRefusal> code_model_refusals() { return kRefusals; }
+
+bool event_driven_model(std::string_view type) {
+    if (type.starts_with("d_") || type == "bidi_bridge") return find_code_model(type) != nullptr;
+    const CodeModelType* t = find_code_model(type);
+    if (!t) return false;
+    // Each port is "name:dir:type", separated by blanks.
+    for (std::string_view rest = t->ports; !rest.empty();) {
+        std::string_view port = rest.substr(0, rest.find(' '));
+        rest.remove_prefix(std::min(rest.size(), port.size() + 1));
+        std::string_view kind = port.substr(port.rfind(':') + 1);
+        if (kind == "d" || kind == "real") return true;
+    }
+    return false;
+}
 
 const CodeModelType* find_code_model(std::string_view type) {
     static const std::unordered_map<std::string_view, const CodeModelType*> index = [] {

@@ -50,4 +50,10 @@ std::span<const CodeModelType> code_model_types();
 std::span<const CodeModelParam> code_model_params();
 std::span<const CodeModelRefusal> code_model_refusals();
 
+// The model is event-driven: it has a digital or real port (the d_* gates and flip-flops, the
+// bridges, d_osc, d_pwm, the real_* blocks). ngspice evaluates such models only at the
+// analog time points (manual ch. 12, "mixed-mode simulation"), so their edges fall on the
+// time grid a run happens to take.
+bool event_driven_model(std::string_view type);
+
 }  // namespace deckscale

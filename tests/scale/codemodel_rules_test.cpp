@@ -407,5 +407,16 @@ TEST(CodeModelRulesTest, NoDuplicateRowsAndEveryTypeHasItsParameters) {
         EXPECT_NE(find_code_model(r.type), nullptr) << r.type;
 }
 
+// Which models are event-driven: ngspice 39 manual §12.4 (digital models) and §12.3 (hybrid
+// models: the bridges, d_osc, d_pwm, the real_* nodes); the analog §12.2 models are not.
+TEST(CodeModelRulesTest, EventDrivenModelsAreThoseWithDigitalOrRealPorts) {
+    for (const char* t : {"adc_bridge", "dac_bridge", "bidi_bridge", "d_osc", "d_pwm", "d_and",
+                          "d_dff", "d_source", "d_to_real", "real_gain", "real_to_v"})
+        EXPECT_TRUE(event_driven_model(t)) << t;
+    for (const char* t : {"gain", "int", "hyst", "aswitch", "multi_input_pwl", "spice2poly",
+                          "sidiode", "filesource", "d_nonsense", "", "r"})
+        EXPECT_FALSE(event_driven_model(t)) << t;
+}
+
 }  // namespace
 }  // namespace deckscale
