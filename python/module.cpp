@@ -72,7 +72,7 @@ api::Deck pair_member(py::handle x) {
 py::dict verify(py::handle original, py::handle scaled, py::object km, py::object kf,
                 py::object sweep, py::object drive, double tolerance, double tran_tolerance,
                 double tolerance_db, double tolerance_deg, double timeout,
-                std::uint64_t memory_mb) {
+                std::uint64_t memory_mb, double max_step) {
     api::VerifyOptions o;
     if (!km.is_none()) o.km = factor_of(km);
     if (!kf.is_none()) o.kf = factor_of(kf);
@@ -84,6 +84,7 @@ py::dict verify(py::handle original, py::handle scaled, py::object km, py::objec
     o.tolerance_deg = tolerance_deg;
     o.timeout_s = timeout;
     o.memory_mb = memory_mb;
+    o.max_step = max_step;
     api::Deck a = pair_member(original), b = pair_member(scaled);
     api::Verification v;
     {
@@ -214,7 +215,7 @@ PYBIND11_MODULE(deckscale, m) {
     m.def("verify", &verify, "original"_a, "scaled"_a, "km"_a = py::none(), "kf"_a = py::none(),
           py::kw_only(), "sweep"_a = py::none(), "drive"_a = py::none(), "tolerance"_a = 1e-6,
           "tran_tolerance"_a = 1e-3, "tolerance_db"_a = 0.0, "tolerance_deg"_a = 0.0,
-          "timeout"_a = 60.0, "memory_mb"_a = 8192,
+          "timeout"_a = 60.0, "memory_mb"_a = 8192, "max_step"_a = 0.0,
           "Simulates both decks (paths, Decks or a ScaleResult) and compares every vector; "
           "returns the report as a dict (the --json report, 'text', 'outcome', and per analysis "
           "'errors': the vectors' errors as columns).");

@@ -79,6 +79,24 @@ class VerifyTest(unittest.TestCase):
             deckscale.verify(DEMO, scaled, km=2, kf=1, drive="vnothere")
         self.assertIn("no independent source", caught.exception.message)
 
+    def test_max_step_sets_both_transient_runs_step(self):
+        # An RC charged by a pulse (invented demo), scaled at Km 10, Kf 4 by the command line.
+        deck = ("rc step\nV1 in 0 pulse(0 1 10u 1n 1n 1 2)\nR1 in out 1k\nC1 out 0 10n\n"
+                ".tran 1u 100u\n.end\n")
+        with TempDir() as d:
+            original = os.path.join(d, "o.cir")
+            with open(original, "w") as f:
+                f.write(deck)
+            scaled = deckscale.scale(original, km=10, kf=4)
+            report = deckscale.verify(original, scaled, km=10, kf=4, max_step=0.25e-6)
+            self.assertTrue(report["passed"], report["text"])
+            self.assertIn("transient: both runs with a largest time step of 2.5e-07 s of the "
+                          "original's time (the scaled run's 6.25e-08 s)", report["notes"][0])
+            self.assertEqual(deckscale.verify(original, scaled, km=10, kf=4)["notes"], [])
+            with self.assertRaises(deckscale.DeckError) as caught:
+                deckscale.verify(original, scaled, km=10, kf=4, max_step=-1.0)
+            self.assertIn("max_step must be 0", caught.exception.message)
+
     def test_arrays_are_numpy_arrays_with_numpy_and_lists_without(self):
         try:
             import numpy

@@ -14,11 +14,13 @@ const char* kAbout =
     "deckscale: move a SPICE deck to a new impedance level (Km) and frequency (Kf), and\n"
     "prove by simulation that the rewritten deck behaves like the original.";
 
-// Checks a factor text and stores its value; returns an error text or "".
-std::string take_factor(const std::string& name, const std::string& text, double& value) {
+// Checks a factor text (or another positive number: `what` names it) and stores its value;
+// returns an error text or "".
+std::string take_factor(const std::string& name, const std::string& text, double& value,
+                        const char* what = "the factor") {
     auto v = parse_factor(text);
     if (!v) return fmt::format("{}: '{}' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)", name, text);
-    if (!(*v > 0)) return fmt::format("{}: the factor must be positive, got '{}'", name, text);
+    if (!(*v > 0)) return fmt::format("{}: {} must be positive, got '{}'", name, what, text);
     value = *v;
     return "";
 }
@@ -127,6 +129,9 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
     verify->add_option("--tran-tolerance", v.tran_tolerance,
                        "Tolerance for transients, relative to each waveform's peak (default 1e-3)")
         ->check(CLI::PositiveNumber);
+    verify->add_option("--max-step", v.max_step_text,
+                       "Largest transient time step, in the original's time (e.g. 50n); the "
+                       "scaled run gets it divided by Kf (default: as the .tran card says)");
     add_sim_limits(*verify, v.timeout_s, v.memory_mb);
 
     auto* yield = app.add_subcommand(
@@ -273,6 +278,10 @@ Invocation parse_command_line(const std::vector<std::string>& args) {
             if (auto err = take_factor("--km", v.km_text, v.km); !err.empty()) return usage(err);
             if (auto err = take_factor("--kf", v.kf_text, v.kf); !err.empty()) return usage(err);
         }
+        if (!v.max_step_text.empty())
+            if (auto err = take_factor("--max-step", v.max_step_text, v.max_step, "the step");
+                !err.empty())
+                return usage(err);
         return inv;
     }
     if (yield->parsed()) {

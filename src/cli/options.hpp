@@ -41,6 +41,8 @@ struct VerifyOptions {
     double tolerance_deg = 0;       // 0 = not used
     double timeout_s = 60;
     std::uint64_t memory_mb = 8192;  // address space per simulator process; 0 = no limit
+    std::string max_step_text;       // --max-step: the transient runs' largest step
+    double max_step = 0;             // its value in seconds; 0 = as the .tran card says
 };
 
 struct YieldOptions {

@@ -55,6 +55,7 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     request.tolerances = {o.tolerance, o.tran_tolerance, o.tolerance_db, o.tolerance_deg};
     request.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
     request.memory_mb = o.memory_mb;
+    request.max_step = o.max_step;
     DiskFileSystem disk;
     PairVerification v;
     try {

@@ -29,6 +29,10 @@ PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOpt
     r.tolerances = {o.tolerance, o.tran_tolerance, o.tolerance_db, o.tolerance_deg};
     r.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
     r.memory_mb = o.memory_mb;
+    if (!std::isfinite(o.max_step) || o.max_step < 0)
+        throw request_error(fmt::format("max_step must be 0 (as the deck says) or a positive "
+                                        "time in seconds, got {}", o.max_step));
+    r.max_step = o.max_step;
     return r;
 }
 

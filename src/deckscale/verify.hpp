@@ -25,6 +25,11 @@ struct VerifyOptions {
     double tolerance_deg = 0;        // > 0: a phase limit in degrees as well
     double timeout_s = 60;           // per simulation
     std::uint64_t memory_mb = 8192;  // address space per simulation; 0: no limit
+    // > 0: the transient runs' largest time step in seconds of the original's time (the
+    // scaled run's is this / Kf), instead of the .tran card's. Decks with event-driven code
+    // models resolve their edges to the time step: a finer step shows whether a transient
+    // difference is that resolution (it falls with the step) or the rewrite's (it stays).
+    double max_step = 0;
 };
 
 // One compared vector's worst point.

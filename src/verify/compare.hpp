@@ -26,6 +26,10 @@ struct Tolerances {
     // allows (a clamp diode's 1e-11 A wandered by 1e-4 with Km = 1.000001): where such a
     // vector fails, it is shown as at the GMIN level and not judged.
     double gmin = 1e-12;
+    // The original deck has event-driven code models (scale/codemodel_rules.hpp): transient
+    // points are compared with the runs allowed up to two of their longest time steps apart
+    // (verify/event_timing.hpp).
+    bool event_driven = false;
 };
 
 constexpr double kGminLevels = 10;

@@ -8,6 +8,7 @@
 #include "base/text_util.hpp"
 #include "deck/analyses.hpp"
 #include "deck/load.hpp"
+#include "scale/codemodel_rules.hpp"
 #include "scale/hold_items.hpp"
 #include "scale/hold_plan.hpp"
 #include "sim/head_start.hpp"
@@ -118,6 +119,9 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         Deck original = load_deck(o.original, files);
         Deck scaled = load_deck(o.scaled, files);
         report.tolerances.gmin = original.symbols.gmin;
+        report.tolerances.event_driven =
+            std::any_of(original.symbols.models.begin(), original.symbols.models.end(),
+                        [](const auto& m) { return event_driven_model(m.second); });
         auto vo = element_values(original), vs = element_values(scaled);
         std::optional<HeldLine> held = find_held_line(scaled);
         if (held) {
@@ -216,10 +220,19 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         if (an.op || (!sweep && !an.tran && !an.sp))
             pairs.push_back({"op", job(original, o.original, ".op", 1, drive),
                              job(scaled, o.scaled, ".op", scaled_drive, drive)});
-        if (an.tran)
-            pairs.push_back({"tran", job(original, o.original, tran_card(*an.tran), 1, drive),
-                             job(scaled, o.scaled, tran_card(map_tran(*an.tran, report.kf)),
+        if (an.tran) {
+            TranSpec t = *an.tran;
+            if (o.max_step > 0) {
+                t.tmax = o.max_step;
+                report.notes.push_back(fmt::format(
+                    "transient: both runs with a largest time step of {:.4g} s of the "
+                    "original's time (the scaled run's {:.4g} s), not the .tran card's",
+                    o.max_step, o.max_step / report.kf));
+            }
+            pairs.push_back({"tran", job(original, o.original, tran_card(t), 1, drive),
+                             job(scaled, o.scaled, tran_card(map_tran(t, report.kf)),
                                  scaled_drive, drive)});
+        }
         if (an.noise) {
             // ngspice 39 refuses a noise input without an AC value ("Noise input source i1 has
             // no AC value" for a current source); its magnitude does not enter the results.

@@ -27,6 +27,10 @@ struct PairRequest {
     Tolerances tolerances;
     std::chrono::milliseconds timeout{60000};  // per simulation
     std::uint64_t memory_mb = 8192;             // per simulation; 0 = no limit
+    // > 0: the transient runs' largest time step, in the original's time (the scaled run gets
+    // it divided by Kf) instead of the .tran card's; a finer step resolves the edges of
+    // event-driven models more finely (verify/event_timing.hpp).
+    double max_step = 0;
 };
 
 // A simulation that did not give results.

@@ -48,6 +48,10 @@ TEST(Cli, ParseTable) {
          "--kf: '1/0' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)"},
         {__LINE__, {"scale", "d.cir", "-i", "-o", "x.cir"}, W::usage_error, 1, 1,
          "-i/--in-place and -o/--output exclude each other"},
+        {__LINE__, {"verify", "a.cir", "b.cir", "--max-step", "0"}, W::usage_error, 1, 1,
+         "--max-step: the step must be positive, got '0'"},
+        {__LINE__, {"verify", "a.cir", "b.cir", "--max-step", "1u?"}, W::usage_error, 1, 1,
+         "--max-step: '1u?' is not a number (write e.g. 1k, 2.2MEG, 2*pi*1k)"},
     };
     for (const auto& row : rows) {
         SCOPED_TRACE(testing::Message() << "row at line " << row.line);
@@ -93,6 +97,15 @@ TEST(Cli, ScaleOptionsAreKept) {
     EXPECT_EQ(inv.text,
               "--hold 'chip:U1': the prefixes are model: and subckt: (a bare name is an element "
               "or X instance, else a .subckt, else a .model)");
+}
+
+TEST(Cli, VerifyMaxStepIsASpiceNumber) {
+    Invocation inv = parse_command_line({"verify", "a.cir", "b.cir", "--max-step", "50n"});
+    ASSERT_EQ(inv.what, W::verify) << inv.text;
+    EXPECT_DOUBLE_EQ(inv.verify.max_step, 50e-9);
+    inv = parse_command_line({"verify", "a.cir", "b.cir"});
+    ASSERT_EQ(inv.what, W::verify) << inv.text;
+    EXPECT_EQ(inv.verify.max_step, 0);  // as the .tran card says
 }
 
 // ---- the binary: scale by 1 -------------------------------------------------------------

@@ -2,6 +2,10 @@
 // data, never printed.
 #include "verify/pair.hpp"
 
+#include <algorithm>
+#include <string>
+
+#include <fmt/format.h>
 #include <gtest/gtest.h>
 
 #include "support/common.hpp"
@@ -94,6 +98,69 @@ TEST(VerifyPair, AGateCurrentThatRingsPasses) {
     const Comparison& tran = v.report.comparisons.back();
     ASSERT_EQ(tran.notes.size(), 1u);
     EXPECT_NE(tran.notes[0].find("vin#branch: trapezoidal ringing"), std::string::npos);
+}
+
+// A level-crossing detector (invented demo): a 3 kHz sine into an adc_bridge and back out
+// through a dac_bridge into an RC. Scaled here by hand at Kf = 2.5 by the laws (common
+// practice: delays and rise times / Kf, C / (Km Kf), the sine's frequency x Kf). ngspice
+// evaluates the bridges only at its time points, and with Kf = 2.5 the runs' grids round
+// apart: point by point the 2 V edges would differ by a step (verify/event_timing.hpp). The
+// pair passes at 1e-6 with a note; a delay left unscaled still fails; and a capacitor 1 % off,
+// a time shift within two steps of 0.25 us here, passes at 1e-3 but fails once --max-step
+// resolves the timing finely.
+TEST(VerifyPair, EventDrivenEdgesAStepApartPassAndWrongTimingFails) {
+    auto deck = [](const char* f, const char* rise, const char* fall, const char* t_edge,
+                   const char* c2, const char* tran) {
+        return fmt::format(
+            "level crossing\nVin ain 0 dc 0 sin(0.5 0.5 {})\nabr [ain] [d1] adc1\n"
+            ".model adc1 adc_bridge(in_low=0.45 in_high=0.55 rise_delay={} fall_delay={})\n"
+            "adac [d1] [ad1] dac1\n"
+            ".model dac1 dac_bridge(out_low=0 out_high=2 t_rise={} t_fall={})\n"
+            "R1 ad1 0 2.2k\nR2 ad1 f 4.7k\nC2 f 0 {}\n{}\n.end\n",
+            f, rise, fall, t_edge, t_edge, c2, tran);
+    };
+    std::string original = deck("3k", "1u", "1.5u", "0.3u", "3.3n", ".tran 0.25u 1.5m 0 0.25u");
+    std::string scaled =
+        deck("7.5k", "0.4u", "0.6u", "0.12u", "1.32n", ".tran 0.1u 0.6m 0 0.1u");
+    test::TempDir dir;
+    test::write_bytes(dir.file("o.cir"), original);
+    auto verify = [&](const std::string& text, double tolerance, double max_step) {
+        test::write_bytes(dir.file("s.cir"), text);
+        PairRequest r;
+        r.original = dir.file("o.cir");
+        r.scaled = dir.file("s.cir");
+        r.factors_given = true;
+        r.kf = 2.5;
+        r.tolerances.transient = tolerance;
+        r.max_step = max_step;
+        DiskFileSystem disk;
+        PairVerification v = verify_pair(r, disk);
+        EXPECT_EQ(v.outcome, PairVerification::Outcome::compared);
+        return v;
+    };
+    PairVerification v = verify(scaled, 1e-6, 0);
+    EXPECT_TRUE(v.report.tolerances.event_driven);
+    EXPECT_TRUE(v.report.passed()) << report_text(v.report);
+    ASSERT_FALSE(v.report.comparisons.empty());
+    const auto& notes = v.report.comparisons.back().notes;
+    EXPECT_TRUE(std::any_of(notes.begin(), notes.end(), [](const std::string& n) {
+        return n.starts_with("ad1: agrees at ");
+    })) << report_text(v.report);
+
+    std::string unscaled_delay =
+        deck("7.5k", "0.4u", "1.5u", "0.12u", "1.32n", ".tran 0.1u 0.6m 0 0.1u");
+    v = verify(unscaled_delay, 1e-3, 0);
+    EXPECT_FALSE(v.report.passed());
+
+    std::string c_off = deck("7.5k", "0.4u", "0.6u", "0.12u", "1.3332n", ".tran 0.1u 0.6m 0 0.1u");
+    EXPECT_TRUE(verify(c_off, 1e-3, 0).report.passed());
+    v = verify(c_off, 1e-3, 50e-9);
+    EXPECT_FALSE(v.report.passed());
+    EXPECT_EQ(v.report.notes,
+              std::vector<std::string>{"transient: both runs with a largest time step of 5e-08 s "
+                                       "of the original's time (the scaled run's 2e-08 s), not "
+                                       "the .tran card's"});
+    EXPECT_TRUE(verify(scaled, 1e-6, 50e-9).report.passed());
 }
 
 // A diode clamp fed by a current source, swept over the current and the load, and its
