@@ -188,7 +188,8 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
         return;
     }
     if (cmd == "set" || cmd == "setcs") return scale_set(p, c);
-    if (cmd == "let" || cmd == "define") return scale_let(p, c);
+    if (cmd == "let") return scale_let(p, c, st);
+    if (cmd == "define") return refuse_literal(p, c, 1, kUseTells);
     if (cmd == "alter") return scale_alter(p, c, st);
     if (cmd == "altermod") return scale_altermod(p, c);
     if (cmd == "stop") return scale_stop(p, c);
@@ -214,8 +215,7 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
         return;
     }
     if (passes(cmd)) return;
-    if (cmd == "if" || cmd == "while" || cmd == "dowhile")
-        return refuse_literal(p, c, 1, kUseTells);
+    if (cmd == "if" || cmd == "while" || cmd == "dowhile") return scale_expression(p, c, st);
     if (cmd == "foreach") {
         // foreach var v1 v2 ... (manual 17.6.4): the values take the unit of the one use
         // the block makes of $var, as the value of `alter` (BlockState::foreach_units).
@@ -255,8 +255,11 @@ void scale_control_block(ScalePass& p) {
     cards.reserve(commands.size());
     for (const auto& cmd : commands) cards.push_back(cmd.as_card(*block.file));
     st.foreach_units = foreach_units(cards);
-    for (std::size_t i = 0; i < commands.size(); ++i)
+    st.expressions = control_expression_units(cards);
+    for (std::size_t i = 0; i < commands.size(); ++i) {
+        st.index = i;
         p.with_command(cards[i], commands[i].line_begin, [&] { scale_command(p, cards[i], st); });
+    }
     p.block_dc_seen = false;
     p.block_dc_unit.reset();
 }

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "deck/card.hpp"
+#include "scale/control_units.hpp"
 #include "scale/pass.hpp"
 #include "scale/units.hpp"
 
@@ -24,6 +25,10 @@ struct BlockState {
     // `foreach var v1 v2 ...` loops whose variable the block uses only as the value of
     // `alter` commands of one unit (and in `echo`): that unit, by variable (lower case).
     std::map<std::string, Unit> foreach_units;
+    // The numbers of each command's expression (scale/control_units.hpp), by command, and the
+    // command being scaled.
+    std::vector<std::vector<ExpressionLiteral>> expressions;
+    std::size_t index = 0;
 };
 
 inline constexpr std::string_view kUseTells =
@@ -41,7 +46,9 @@ bool is_number_word(const Card& c, const Token& t);
 void refuse_literal(ScalePass& p, const Card& c, std::size_t from, std::string_view why);
 
 void scale_set(ScalePass& p, const Card& c);
-void scale_let(ScalePass& p, const Card& c);
+void scale_let(ScalePass& p, const Card& c, const BlockState& st);
+// The numbers of an `if`, `while` or `dowhile` condition, or of a `let` expression.
+void scale_expression(ScalePass& p, const Card& c, const BlockState& st);
 void scale_alter(ScalePass& p, const Card& c, const BlockState& st);
 // What an `alter` command sets (manual 17.5.3: alter dev = v, alter dev par = v,
 // alter @dev[par] = v): the field of its value, the parameter and the parameter's unit.

@@ -10,6 +10,7 @@
 #include "deck/control_script.hpp"
 #include "scale/control.hpp"
 #include "scale/rules.hpp"
+#include "scale/semiconductors.hpp"
 
 namespace deckscale {
 
@@ -43,8 +44,9 @@ void scale_set(ScalePass& p, const Card& c) {
 }
 
 // let lin-tstart = 1m and the other special vectors of linearize and cutout (manual 17.5.40,
-// 17.5.14) are times; any other number in an expression is refused.
-void scale_let(ScalePass& p, const Card& c) {
+// 17.5.14) are times; the numbers of any other expression take the units of what they meet
+// (scale/control_units.hpp).
+void scale_let(ScalePass& p, const Card& c, const BlockState& st) {
     const auto& f = c.fields;
     static const std::array<std::string_view, 5> times = {"lin-tstart", "lin-tstop", "lin-tstep",
                                                           "cut-tstart", "cut-tstop"};
@@ -53,7 +55,44 @@ void scale_let(ScalePass& p, const Card& c) {
         p.scale_value(f[3], Unit::second, to_lower(c.text(f[1])));
         return;
     }
-    refuse_literal(p, c, 1, kUseTells);
+    scale_expression(p, c, st);
+}
+
+void scale_expression(ScalePass& p, const Card& c, const BlockState& st) {
+    std::string cmd = to_lower(c.field_text(0));
+    const std::vector<ExpressionLiteral>& literals =
+        st.index < st.expressions.size() ? st.expressions[st.index]
+                                         : std::vector<ExpressionLiteral>{};
+    if (literals.empty()) {
+        // Nothing read: any number beyond the assigned name stays refused.
+        std::size_t from = cmd == "let" ? 2 : 1;
+        return refuse_literal(p, c, from, kUseTells);
+    }
+    // A command is scaled whole or not at all.
+    bool known = true;
+    for (const auto& l : literals)
+        if (!l.exponents) {
+            known = false;
+            p.unscalable(l.at, fmt::format("'{}' in '{}': {}", c.text(l.at), cmd, l.why));
+        }
+    if (!known) return;
+    for (const auto& l : literals) {
+        if (l.coefficient)
+            p.note(l.at, fmt::format("'{}' in '{}' is kept as a pure number: it multiplies or "
+                                     "divides a vector; if it stands for a part value (a "
+                                     "resistance, a capacitance), rescale it by hand",
+                                     c.text(l.at), cmd));
+        UnitExponents e = *l.exponents;
+        if (e.km == 0 && e.kf == 0) continue;
+        std::optional<Unit> unit;
+        for (Unit u : {Unit::ampere, Unit::ohm, Unit::second, Unit::hertz, Unit::farad,
+                       Unit::henry})
+            if (exponents(u).km == e.km && exponents(u).kf == e.kf) unit = u;
+        if (unit)
+            p.scale_value(l.at, *unit, cmd);
+        else
+            p.scale_by(l.at, factor_of(e, p.factors()), cmd, "-", e);
+    }
 }
 
 // alter dev = v | alter dev par = v | alter @dev[par] = v | alter dev v (manual 17.5.3): the
@@ -191,6 +230,19 @@ void scale_altermod(ScalePass& p, const Card& c) {
         value = 4;
     }
     const std::string* type = p.model_type(mod);
+    if (type && !par.empty() && is_semiconductor_model_type(*type)) {
+        // As the .model card's rewrite scales that parameter (scale/semiconductors.hpp).
+        std::string why;
+        bool by_model = *type == "d" && p.diode_by_model();
+        auto e = semiconductor_model_param(*type, par, p.factors(), by_model, why);
+        if (!e || !is_number_word(c, f[value])) {
+            refuse_literal(p, c, 1, e ? "the new value is not a plain number" : why);
+            return;
+        }
+        if (e->km != 0 || e->kf != 0)
+            p.scale_by(f[value], factor_of(*e, p.factors()), par, "-", *e);
+        return;
+    }
     std::optional<Unit> u;
     if (type && !par.empty())
         u = find_rule("model:" + (*type == "res" ? std::string("r") : *type), par);

@@ -389,6 +389,38 @@ void scale_semiconductor_model(ScalePass& p, const std::string& type) {
     if (by_model) add_diode_model_defaults(p, atoms);
 }
 
+std::optional<UnitExponents> semiconductor_model_param(const std::string& type,
+                                                       const std::string& key, ScaleFactors f,
+                                                       bool diode_by_model, std::string& why) {
+    for (const char* k : kThermalKeys)
+        if (key == k) {
+            why = fmt::format("self-heating parameter '{}': the device's m is not known to "
+                              "scale its thermal network",
+                              key);
+            return std::nullopt;
+        }
+    if (key == "kf" || key == "af" || key == "level") {
+        why = fmt::format("'{}' is not followed by a factor ({})", key,
+                          key == "level" ? "the model's equations change"
+                                         : "flicker noise follows m only in part");
+        return std::nullopt;
+    }
+    char family = family_of(type);
+    ModelKmRule km = family == 'd' && diode_by_model ? diode_model_km_rule(key) : ModelKmRule{};
+    if (type == "vdmos" && f.km != 1)
+        for (const char* cap : kVdmosGateCaps)
+            if (key == cap) km = ModelKmRule{-1, "F"};
+    UnitExponents e{km.km_power, 0};
+    char rules = type == "vdmos" ? 'v' : family;
+    if (f.kf != 1)
+        for (const auto& r : kChargeRules)
+            if (r.family == rules && key == r.key) {
+                e.kf = r.kf_power > 0 ? 1 : -1;
+                break;
+            }
+    return e;
+}
+
 void ScalePass::note_diode_distortion(const Deck& deck) {
     if (!analyses_) analyses_ = std::make_shared<const DeckAnalyses>(find_analyses(deck));
     if (!analyses_->asks_disto || diode_by_model()) return;

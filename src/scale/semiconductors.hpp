@@ -8,9 +8,11 @@
 
 #include <map>
 #include <memory>
+#include <optional>
 #include <string>
 
 #include "deck/load.hpp"
+#include "scale/units.hpp"
 
 namespace deckscale {
 
@@ -35,6 +37,16 @@ bool gmin_apart_device(const Card& c, const MosModels& models);
 
 // True for the .model types handled here (d npn pnp njf pjf nmf pmf nmos pmos vdmos).
 bool is_semiconductor_model_type(const std::string& lower_type);
+
+// How the .model rewrite scales parameter `key` (lower case) of a model of `lower_type`, as
+// exponents of Km and Kf, for `altermod` of that parameter: a charge parameter by 1/Kf (TOX by
+// Kf), a VDMOS gate capacitance by 1/Km too, every other by nothing (the instances' m does a
+// magnitude change); with `diode_by_model`, a diode's by its Km rule (scale/diode_model.hpp).
+// nullopt, with `why`, for what a card rewrite does not follow by a factor: self-heating,
+// flicker noise and the level.
+std::optional<UnitExponents> semiconductor_model_param(const std::string& lower_type,
+                                                       const std::string& key, ScaleFactors f,
+                                                       bool diode_by_model, std::string& why);
 
 // Handlers called by the pass: an instance line and a .model card of a type above.
 void scale_semiconductor(ScalePass& p, char letter);

@@ -20,10 +20,10 @@ using test::write_bytes;
 TEST(ScaleCommandTest, RefusesUnscalableItemsWithOneDiagnosticEach) {
     TempDir dir;
     write_bytes(dir.file("d.cir"), "t\nR1 a 0 1k\nY1 a 0 c 0 tm\nA1 a b amp\nV2 b 0 EXTERNAL\n"
-                                   ".control\nlet x = 5*2\n.endc\n.end\n");
+                                   ".control\nlet x = a + 5\n.endc\n.end\n");
     auto r = run_binary({"scale", "d.cir", "--km", "10", "--kf", "1", "-o", "out.cir"}, dir.path());
     EXPECT_EQ(r.exit_code, 4) << r.err;
-    for (const char* at : {"d.cir:3:1: error:", "d.cir:4:1: error:", "d.cir:5:8: error:", "d.cir:7:9: error:"})
+    for (const char* at : {"d.cir:3:1: error:", "d.cir:4:1: error:", "d.cir:5:8: error:", "d.cir:7:13: error:"})
         EXPECT_NE(r.err.find(at), std::string::npos) << at << "\n" << r.err;
     EXPECT_FALSE(std::filesystem::exists(dir.file("out.cir")));
     auto w = run_binary({"scale", "d.cir", "--km", "10", "--kf", "1", "-o", "out.cir",

@@ -220,6 +220,85 @@ TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
                     1e-5);
 }
 
+// Expressions in let, if and while (manual 17.2, 17.6): a threshold compared with time or a
+// current scales with it, a loop counter and a coefficient stay. ngspice computes each
+// value in both decks; the scaled deck's values are the original's times their unit's
+// factor, and the one branch taken on a current threshold is taken in both. (Had 50u stayed,
+// no scaled time would pass it and vlate would be 0; had 0.1m stayed, the scaled current,
+// 47 times smaller, would not pass it.)
+TEST(ControlReference, ExpressionsInLetIfAndWhileKeepTheirMeaning) {
+    const std::string deck =
+        "pulse into an RC, checks computed in .control\n"
+        "V1 in 0 pulse(0 1 10u 1n 1n 1 2)\nR1 in out 1k\nC1 out 0 10n\n"
+        ".control\n"
+        "set numdgt=12\n"
+        "option abstol=1e-12 chgtol=1e-14\n"
+        "tran 0.2u 100u\n"
+        "let vlate = vecmax(v(out)*(time gt 50u))\n"
+        "let ilate = vecmax(-i(v1)*(time gt 30u))\n"
+        "let tlast = vecmax(time) - 20u\n"
+        "let w = 2*pi*1k\n"
+        "let n = 0\n"
+        "while n < 3\n"
+        "  let n = n + 1\n"
+        "end\n"
+        "let above = 0\n"
+        "if ilate > 0.1m\n"
+        "  let above = 1\n"
+        "end\n"
+        "print vlate ilate tlast w n above\n"
+        ".endc\n.end\n";
+    const double km = 47, kf = 1024;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    test::TempDir dir;
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {});
+    compare_results(a, b,
+                    {{"vlate", 1}, {"ilate", 1 / km}, {"tlast", 1 / kf}, {"w", 1}, {"n", 1},
+                     {"above", 1}},
+                    1e-6);
+    EXPECT_GT(a.results.at("vlate"), 0.99);  // 1 - exp(-4): the late part is there
+    EXPECT_EQ(a.results.at("n"), 3);
+    EXPECT_EQ(a.results.at("above"), 1);  // 1 mA exp(-2) = 0.135 mA > 0.1 mA
+}
+
+// altermod of a diode model's parameters (manual 17.5.4) as its .model card's rewrite scales
+// them: IS stays (the instance's m = 1/Km carries the magnitude), CJO and TT divide by Kf.
+// ngspice runs both decks: the DC curve after the first altermod and the AC response after
+// the second agree at mapped currents and frequencies.
+TEST(ControlReference, AltermodOfADiodeModelFollowsItsCard) {
+    const std::string deck =
+        "biased varactor-like diode, its model changed in .control\n"
+        "I1 0 out DC 0.4m AC 1m\nR1 out 0 2.7k\nD1 out 0 dvar\n"
+        ".model dvar D(IS=3e-15 N=1.1 RS=12 CJO=15p TT=20n)\n"
+        ".control\n"
+        "set wr_singlescale\n"
+        // Tight tolerances: both runs' operating points converge alike (the AC response
+        // rests on them).
+        "option abstol=1e-15 reltol=1e-9 vntol=1e-12\n"
+        "altermod dvar is=1e-14\n"
+        "dc I1 0 1m 0.05m\n"
+        "wrdata dc.txt v(out)\n"
+        "altermod dvar cjo=40p\n"
+        "altermod dvar tt=5n\n"
+        "ac dec 10 10k 100meg\n"
+        "wrdata ac.txt v(out)\n"
+        ".endc\n.end\n";
+    const double km = 6, kf = 250;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    EXPECT_NE(s.text().find("altermod dvar is=1e-14\n"), std::string::npos) << s.text();
+    EXPECT_NE(s.text().find("altermod dvar cjo=160f\n"), std::string::npos) << s.text();
+    EXPECT_NE(s.text().find("altermod dvar tt=20p\n"), std::string::npos) << s.text();
+    test::TempDir dir;
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {"dc.txt", "ac.txt"});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {"dc.txt", "ac.txt"});
+    // I1 / Km, v(out); f x Kf, re/im v(out) of a drive of 1m / Km: I1's AC value scales too.
+    compare_table(a, b, "dc.txt", {1 / km, 1}, 1e-7);
+    compare_table(a, b, "ac.txt", {kf, 1, 1}, 1e-7);
+}
+
 // DC sweeps of a current source and of a resistor, in .control and as dot cards: at=, when
 // results take the swept quantity's unit.
 TEST(ControlReference, DcSweepsAndMeasurementsInTheSweptUnit) {

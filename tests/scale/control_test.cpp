@@ -132,9 +132,12 @@ struct Refusal {
 
 TEST(ControlBlock, NumbersOfUnknownUnitAreRefusedAtTheirWord) {
     const Refusal cases[] = {
-        {__LINE__, "let x = 5*2\n",
-         "deck.cir:8:9: error: '5' in 'let': the unit of this number is known only from how its "
-         "value is used\n  let x = 5*2\n          ^\n"},
+        {__LINE__, "let x = out + 5\n",
+         "deck.cir:8:15: error: '5' in 'let': it meets 'out', whose unit is not known here\n"
+         "  let x = out + 5\n                ^\n"},
+        {__LINE__, "define f(x) = x*2\n",
+         "deck.cir:8:17: error: '2' in 'define': the unit of this number is known only from how "
+         "its value is used\n  define f(x) = x*2\n                  ^\n"},
         {__LINE__, "ac dec 10 1 $fstop\n",
          "deck.cir:8:13: error: '$fstop' is replaced by a variable's value before 'ac' reads its "
          "words: that value's unit is not known here\n  ac dec 10 1 $fstop\n              "
@@ -179,13 +182,134 @@ TEST(ControlBlock, NumbersOfUnknownUnitAreRefusedAtTheirWord) {
     }
 }
 
+// Numbers in let, if, while and dowhile take the unit of what they meet (scale/control_units):
+// compared with or added to time, a frequency or a current, they scale as one (common
+// practice: t / Kf, f x Kf, I / Km); beside a voltage, as a coefficient, an index, or in a
+// loop counter that never meets the circuit, they stay. Km = 10, Kf = 1000.
+TEST(ControlBlock, ExpressionNumbersTakeTheUnitOfWhatTheyMeet) {
+    const Case cases[] = {
+        {__LINE__, "let vlate = v(out)*(time gt 1.1m)\n", "let vlate = v(out)*(time gt 1.1u)\n"},
+        {__LINE__, "let w = 2*pi*frequency\n", "let w = 2*pi*frequency\n"},
+        {__LINE__, "let f2 = frequency + 1k\n", "let f2 = frequency + 1meg\n"},
+        {__LINE__, "let t2 = time - 20u\n", "let t2 = time - 20n\n"},
+        {__LINE__, "let i = 0\nwhile i < 3\nlet i = i + 1\nend\n",
+         "let i = 0\nwhile i < 3\nlet i = i + 1\nend\n"},
+        {__LINE__, "let iin = -i(v1)\nif iin[10] < 0.5m\necho small\nend\n",
+         "let iin = -i(v1)\nif iin[10] < 50u\necho small\nend\n"},
+        {__LINE__, "if v(out) > 0.5 and v1#branch ge -2m\necho hi\nend\n",
+         "if v(out) > 0.5 and v1#branch ge -200u\necho hi\nend\n"},
+        // A variable carries the unit its other uses give it, wherever they are.
+        {__LINE__, "let tp = 1m\ndowhile time[0] lt tp\nend\n",
+         "let tp = 1u\ndowhile time[0] lt tp\nend\n"},
+        {__LINE__, "let gain = vdb(out) - 3\nlet k = mag(v(out))/2\n",
+         "let gain = vdb(out) - 3\nlet k = mag(v(out))/2\n"},
+        {__LINE__, "let p = v(out)*i(v1)\nif p > 1m\nend\n", "let p = v(out)*i(v1)\nif p > 100u\nend\n"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "control_test.cpp:" << c.line << ": " << c.body);
+        try {
+            auto s = test::scale_text(kHead + "tran 1u 2m\n" + c.body + ".endc\n.end\n", 10, 1000);
+            EXPECT_EQ(block_of(s.text()), "tran 1n 2u\n" + c.expected);
+            for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+// A number kept as a coefficient beside a vector other than pi gets a note: v(out)/1k could
+// be a resistance.
+TEST(ControlBlock, ACoefficientBesideAVectorIsNoted) {
+    auto s = test::scale_text(kHead + "let iout = v(out)/1k\nlet w = 2*pi*frequency\n.endc\n.end\n",
+                              10, 1000);
+    EXPECT_TRUE(s.result.unscalable.empty());
+    ASSERT_EQ(s.result.notes.size(), 1u);
+    EXPECT_EQ(render(s.result.notes[0]),
+              "deck.cir:8:19: note: '1k' in 'let' is kept as a pure number: it multiplies or "
+              "divides a vector; if it stands for a part value (a resistance, a capacitance), "
+              "rescale it by hand\n  let iout = v(out)/1k\n                    ^~\n");
+}
+
+TEST(ControlBlock, ExpressionNumbersOfUnknownUnitAreRefused) {
+    struct Refused {
+        int line;
+        std::string body;
+        std::vector<std::string> why;  // each refusal's message, in order
+    } cases[] = {
+        {__LINE__, "let twice = 2*1m\nif twice > time[3]\nend\n",
+         {"'2' in 'let': it is one factor of a product of numbers that has a unit: which factor "
+          "carries it is not known",
+          "'1m' in 'let': it is one factor of a product of numbers that has a unit: which factor "
+          "carries it is not known"}},
+        {__LINE__, "let tau = 10u\nlet tn = time/tau\n",
+         {"'10u' in 'let': its variable 'tau' is multiplied or divided by another quantity, and "
+          "a variable's unit is not followed through a product"}},
+        {__LINE__, "let tt = 1m\nmeas tran vx find v(out) at=$&tt\n",
+         {"'1m' in 'let': its variable 'tt' is read by 'meas' through '$', whose reading of it "
+          "is not followed",
+          "'$&tt' is replaced by a variable's value before 'meas' reads its words: that value's "
+          "unit is not known here"}},
+        {__LINE__, "let x = 1m\nif x > time[1]\nend\nif x > i(v1)[1]\nend\n",
+         // (Then nothing read from a variable is trusted: the indices are refused too.)
+         {"'1m' in 'let': it meets quantities of two units (s and A)",
+          "'1' in 'if': a variable of the block meets quantities of two units",
+          "'1' in 'if': a variable of the block meets quantities of two units"}},
+        {__LINE__, "if $n > 3\nend\n", {"'3' in 'if': it meets '$n', whose unit is not known here"}},
+        {__LINE__, "if idb(v1) > -60\nend\n",
+         {"'60' in 'if': it meets 'idb(...)', whose unit is not known here"}},
+        {__LINE__, "let y = deriv(v(out)) + 1k\n",
+         {"'1k' in 'let': it meets 'deriv(...)', whose unit is not known here"}},
+        {__LINE__, "let y = v(out) ? 1 : 2\n",
+         {"'1' in 'let': the expression is not one whose units deckscale reads"}},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "control_test.cpp:" << c.line << ": " << c.body);
+        try {
+            auto s = test::scale_text(kHead + "tran 1u 2m\n" + c.body + ".endc\n.end\n", 10, 1000);
+            std::vector<std::string> got;
+            for (const auto& d : s.result.unscalable) got.push_back(d.message);
+            EXPECT_EQ(got, c.why);
+        } catch (const DeckError& e) {
+            ADD_FAILURE() << render(e.diagnostic());
+        }
+    }
+}
+
+// altermod of a semiconductor model takes the factor its .model card's rewrite gives the
+// parameter (scale/semiconductors.hpp): IS stays, CJO and TT / Kf, a VDMOS gate capacitance
+// / (Km Kf); flicker noise, the level and self-heating are refused. Km = 10, Kf = 1000.
+TEST(ControlBlock, AltermodOfASemiconductorModelFollowsItsCard) {
+    const std::string head =
+        "diodes\nV1 in 0 DC 1\nR1 in a 1k\nD1 a 0 dm\nM1 a in 0 vd\n"
+        ".model dm D(IS=1e-14 CJO=2p)\n.model vd vdmos(kp=1 cgs=1n)\n.control\n";
+    const Case cases[] = {
+        {__LINE__, "altermod dm is=2e-14\n", "altermod dm is=2e-14\n"},
+        {__LINE__, "altermod dm cjo=4p\n", "altermod dm cjo=4f\n"},
+        {__LINE__, "altermod @dm[tt] = 10n\n", "altermod @dm[tt] = 10p\n"},
+        {__LINE__, "altermod vd cgs = 2n\n", "altermod vd cgs = 200f\n"},
+    };
+    for (const auto& c : cases) {
+        SCOPED_TRACE(testing::Message() << "control_test.cpp:" << c.line << ": " << c.body);
+        auto s = test::scale_text(head + c.body + ".endc\n.end\n", 10, 1000);
+        EXPECT_EQ(block_of(s.text()), c.expected);
+        for (const auto& d : s.result.unscalable) ADD_FAILURE() << render(d);
+    }
+    for (const char* body : {"altermod dm kf=1e-14\n", "altermod dm level=3\n",
+                             "altermod vd rthjc=2\n"}) {
+        SCOPED_TRACE(body);
+        auto s = test::scale_text(head + body + ".endc\n.end\n", 10, 1000);
+        ASSERT_EQ(s.result.unscalable.size(), 1u);
+        EXPECT_NE(s.result.unscalable[0].message.find("in 'altermod': "), std::string::npos);
+    }
+}
+
 TEST(ControlBlock, LeaveUnscalableMarksEachLineOnce) {
-    auto s = test::scale_text(kHead + "tran 1u 2m\nlet x = 5 ; let y = 2\n.endc\n.end\n", 10, 1000,
-                              7, true);
+    auto s = test::scale_text(kHead + "tran 1u 2m\nlet x = a + 5 ; let y = b - 2\n.endc\n.end\n",
+                              10, 1000, 7, true);
     EXPECT_EQ(s.result.unscalable.size(), 2u);
     EXPECT_EQ(block_of(s.text()),
-              "tran 1n 2u\n* deckscale: left unscaled: '5' in 'let': the unit of this number is "
-              "known only from how its value is used\nlet x = 5 ; let y = 2\n");
+              "tran 1n 2u\n* deckscale: left unscaled: '5' in 'let': it meets 'a', whose unit is "
+              "not known here\nlet x = a + 5 ; let y = b - 2\n");
 }
 
 TEST(ControlBlock, MeasOnADcCardTakesTheSweptUnitWhereverTheCardIs) {

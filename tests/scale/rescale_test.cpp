@@ -211,7 +211,7 @@ TEST(ScalerTest, UnscalableItemsAreListedOneEach) {
         {__LINE__, "V1 a 0 dc 1 acmag\n", {"2:13"}},
         {__LINE__, "I1 a 0 PWL(0 0 1u 1m) r 0\n", {"2:23"}},
         {__LINE__, "Y1 a 0 b 0 txlmod\n", {"2:1"}},
-        {__LINE__, "R1 a 0 1k\n.control\nlet x = 2*v(a)\n.endc\n", {"4:9"}},
+        {__LINE__, "R1 a 0 1k\n.control\nlet x = a - 2\n.endc\n", {"4:13"}},
         {__LINE__, "L1 a 0 1u\nR1 a 0 1k\nK1 L1 R1 0.5\n", {"4:7"}},
         {__LINE__, "E1 a 0 LAPLACE {v(b)} {1/(1+s)}\n", {"2:8"}},
         // A unit conversion inside a measurement's expression does not follow the factors.

@@ -1,0 +1,45 @@
+// The units of the numbers in a .control block's expressions: the right side of `let`, and
+// the conditions of `if`, `while` and `dowhile` (ngspice 39 manual 17.2 and 17.6). A number's
+// unit is taken from what it meets:
+// - added to, subtracted from or compared with a quantity of known unit, it has that unit:
+//   `time gt 1.1m` makes 1.1m a time (divided by Kf), `i(v1) < 1m` a current (divided by Km),
+//   `v(out) > 0.5` a voltage (kept);
+// - multiplying or dividing a vector, it is a pure number (a coefficient) and kept: `2*pi*
+//   frequency`, `v(out)/2`. Where it stands beside a vector other than the constant pi, a note
+//   says so, since `v(out)/1k` could mean a resistance;
+// - an index `x[3]`, an exponent `x^2`, the argument of log, exp, sin, ... is a pure number.
+// A variable (`let name = ...`) carries one unit through the whole block: the unit of its
+// value, as what it meets elsewhere tells. Numbers whose variables never meet a quantity of
+// the circuit (loop counters: `let i = 0`, `while i < 3`, `let i = i + 1`) work the same in
+// both decks and are kept. A number is not known, and refused, where it meets a vector whose
+// unit is not known here (a bare node name, `@r1[i]`, a `set` variable), where one variable
+// meets two units, where a product of numbers would have to carry a unit (which of them?), and
+// where a variable's value is read by another command through `$var` (its use there is not
+// followed).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "deck/card.hpp"
+#include "scale/units.hpp"
+
+namespace deckscale {
+
+struct ExpressionLiteral {
+    Token at;  // the number's bytes
+    // How it scales (by Km^km Kf^kf); nullopt: not known, `why` says why.
+    std::optional<UnitExponents> exponents;
+    std::string why;
+    // Kept as a pure number because it multiplies or divides a vector other than pi.
+    bool coefficient = false;
+};
+
+// For each command of a block (as cards, in block order): the numbers of its expression, in
+// text order, for let, if, while and dowhile; empty for every other command, and for `let`
+// of the special vectors of linearize and cutout (lin-tstart, ...), which scale_let handles.
+std::vector<std::vector<ExpressionLiteral>> control_expression_units(
+    const std::vector<Card>& commands);
+
+}  // namespace deckscale
