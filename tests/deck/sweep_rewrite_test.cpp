@@ -216,6 +216,13 @@ TEST(SweepRewrite, RefusesWhatNgspiceCannotStep) {
          {"dec", "463366804", "10", "1k"},
          "this sweep asks for 9.26935e+08 points, more than the 4194304 this check steps "
          "through: write fewer points"},
+        // 4.7 million points, between the limit and twice it: also from the count (a slow
+        // input of the deck fuzz target, 14 s stepping to the limit under its sanitizers).
+        {__LINE__,
+         SweepKind::dc,
+         {"10", "1k", "210u"},
+         "this DC sweep asks for 4.71429e+06 points, more than the 4194304 this check steps "
+         "through: write fewer points"},
         {__LINE__,
          SweepKind::noise,
          {"oct", "1e7", "1", "4"},

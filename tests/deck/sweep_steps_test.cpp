@@ -157,6 +157,14 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
     SweepPoints near = ac_points("dec", 1.5e6, 1, 10, 1e-3, true);
     EXPECT_FALSE(near.over_limit);
     EXPECT_GE(near.count, 1500001u);  // the stop test lets reltol past fstop (acan.c)
+    // A DC sweep just over the limit: from the count, nothing stepped; just under it, stepped.
+    SweepPoints over = dc_points(10, 1000, 210e-6);
+    EXPECT_TRUE(over.over_limit);
+    EXPECT_TRUE(over.values.empty());
+    SweepPoints under = dc_points(0, 4.19e6 - 1, 1);
+    EXPECT_FALSE(under.over_limit);
+    EXPECT_FALSE(under.endless);
+    EXPECT_EQ(under.values.size(), 4190000u);
     SweepPoints dc = dc_points(1e20, 1e20 + 1e5, 1);  // 1e20 + 1 == 1e20
     EXPECT_TRUE(dc.endless);
     EXPECT_EQ(dc.values.size(), 1u);
