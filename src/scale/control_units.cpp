@@ -108,9 +108,12 @@ private:
 };
 
 // What a subexpression is: a quantity of known unit, a slot (numbers and variables whose
-// unit is to be found), or opaque (a unit not known here).
+// unit is to be found), a number times or over a quantity of known unit (`scaled`: its unit
+// is k * unit(slot) + e, k = +1 or -1, so what it meets tells the number's unit: the 1m in
+// exp(-time/1m) is a time), or opaque (a unit not known here).
 struct Term {
-    enum Kind { fixed, slot, opaque } kind = opaque;
+    enum Kind { fixed, slot, scaled, opaque } kind = opaque;
+    int k = 1;  // scaled: the sign of the number's unit in the term's
     UnitExponents e{0, 0};
     int s = -1;
     bool constant = false;  // made of numbers and pi only
@@ -159,7 +162,7 @@ public:
 
     // The whole text as one expression; false when it is not one this reader knows.
     bool read(Term& out) {
-        out = disjunction();
+        out = settle(disjunction());
         return ok_ && cur_.kind == Lexeme::end;
     }
 
@@ -229,8 +232,17 @@ private:
 
     // ---- what operators do to units ----
     // a + b, a - b, a < b, ...: both have one unit.
-    Term same_unit(Term a, const Term& b) {
+    Term same_unit(Term a, Term b) {
         bool constant = a.constant && b.constant;
+        if (a.kind == Term::scaled && b.kind == Term::fixed) {
+            bind_term(a, b.e);
+            a = b;
+        } else if (b.kind == Term::scaled && a.kind == Term::fixed) {
+            bind_term(b, a.e);
+            b = a;
+        }
+        a = settle(a);
+        b = settle(b);
         if (a.kind == Term::opaque || b.kind == Term::opaque) {
             const Term& o = a.kind == Term::opaque ? a : b;
             const Term& other = a.kind == Term::opaque ? b : a;
@@ -256,13 +268,29 @@ private:
         return a;
     }
 
+    // A term that must have unit e: its numbers take what that leaves them.
+    void bind_term(const Term& t, UnitExponents e) {
+        if (t.kind == Term::slot) slots_.bind(t.s, e);
+        if (t.kind == Term::scaled)
+            slots_.bind(t.s, {t.k * (e.km - t.e.km), t.k * (e.kf - t.e.kf)});
+    }
+
     // A term that must be a pure number (an index, an exponent, a function's argument).
-    void pure(const Term& t) {
-        if (t.kind == Term::slot) slots_.bind(t.s, kPure);
+    void pure(const Term& t) { bind_term(t, kPure); }
+
+    // A number times or over a quantity that nothing else tells the unit of: a coefficient,
+    // taken as a pure number (noted unless it is a multiple of pi).
+    Term settle(const Term& t) {
+        if (t.kind != Term::scaled) return t;
+        slots_.bind(t.s, kPure);
+        coefficient_slots_.push_back({t.s, !t.pi});
+        return fixed(t.e);
     }
 
     // a * b (sign +1) or a / b (sign -1).
     Term product(Term a, Term b, int sign) {
+        a = settle(a);
+        b = settle(b);
         if (a.kind == Term::fixed && b.kind == Term::fixed)
             return fixed({a.e.km + sign * b.e.km, a.e.kf + sign * b.e.kf},
                          a.constant && b.constant);
@@ -280,10 +308,24 @@ private:
         for (Term* c : {&a, &b}) {
             Term* other = c == &a ? &b : &a;
             if (!c->constant || other->constant) continue;
-            // A coefficient of a vector or variable.
+            if (c->kind == Term::slot && other->kind == Term::fixed) {
+                // A number times or over a quantity: what the product meets tells its unit.
+                Term t;
+                t.kind = Term::scaled;
+                t.s = c->s;
+                t.pi = c->pi;
+                t.k = c == &b && sign < 0 ? -1 : 1;
+                int ko = c == &a && sign < 0 ? -1 : 1;
+                t.e = {ko * other->e.km, ko * other->e.kf};
+                return t;
+            }
+            // A coefficient of a variable or of what is not known here.
             if (c->kind == Term::slot) {
-                slots_.bind(c->s, kPure);
-                coefficient_slots_.push_back({c->s, !c->pi});
+                Term coefficient;
+                coefficient.kind = Term::scaled;
+                coefficient.s = c->s;
+                coefficient.pi = c->pi;
+                settle(coefficient);
             }
             Term r = *other;
             if (r.kind == Term::fixed && c == &b && sign < 0) return r;
@@ -385,6 +427,7 @@ private:
     }
     Term power() {
         Term base = postfix();
+        if (ok_ && at_op({"^"})) base = settle(base);
         if (!ok_ || !at_op({"^"})) return base;
         next();
         std::string_view exponent = cur_.kind == Lexeme::number ? cur_.text : "";
@@ -501,7 +544,7 @@ private:
         expect(Lexeme::close);
         if (args.size() != 1) {
             for (const auto& a : args)
-                if (a.kind == Term::slot)
+                if (a.kind == Term::slot || a.kind == Term::scaled)
                     slots_.fail(a.s, fmt::format("it is an argument of '{}'", name));
             return opaque(name + "(...)");
         }
@@ -524,9 +567,10 @@ private:
                 pure(a);
                 return fixed(kPure);
             }
+        if (name == "sqrt") a = settle(a);
         if (name == "sqrt" && a.kind == Term::fixed && a.e.km % 2 == 0 && a.e.kf % 2 == 0)
             return fixed({a.e.km / 2, a.e.kf / 2});
-        if (a.kind == Term::slot)
+        if (a.kind == Term::slot || a.kind == Term::scaled)
             slots_.fail(a.s, fmt::format("it is the argument of '{}'", name));
         return opaque(name + "(...)");
     }

@@ -4,9 +4,12 @@
 // - added to, subtracted from or compared with a quantity of known unit, it has that unit:
 //   `time gt 1.1m` makes 1.1m a time (divided by Kf), `i(v1) < 1m` a current (divided by Km),
 //   `v(out) > 0.5` a voltage (kept);
-// - multiplying or dividing a vector, it is a pure number (a coefficient) and kept: `2*pi*
-//   frequency`, `v(out)/2`. Where it stands beside a vector other than the constant pi, a note
-//   says so, since `v(out)/1k` could mean a resistance;
+// - multiplying or dividing a quantity, it takes its unit from what the product meets:
+//   `exp(-time/1m)` makes 1m a time, `i(v1)*2k > v(out)` 2k an ohm (in `sin(2*pi*1k*time)`
+//   which of 2 and 1k carries the frequency is not known: refused); where nothing tells, it
+//   is a pure number (a coefficient) and kept: `2*pi*frequency`, `v(out)/2`. Where such a
+//   coefficient stands beside a vector other than the constant pi, a note says so, since
+//   `v(out)/1k` could mean a resistance;
 // - an index `x[3]`, an exponent `x^2`, the argument of log, exp, sin, ... is a pure number.
 // A variable (`let name = ...`) carries one unit through the whole block: the unit of its
 // value, as what it meets elsewhere tells. Numbers whose variables never meet a quantity of

@@ -221,7 +221,7 @@ TEST(ControlReference, TranAtMappedTimesAndMeasurements) {
 }
 
 // Expressions in let, if and while (manual 17.2, 17.6): a threshold compared with time or a
-// current scales with it, a loop counter and a coefficient stay. ngspice computes each
+// current scales with it, a time constant in exp() too, a loop counter and a coefficient stay. ngspice computes each
 // value in both decks; the scaled deck's values are the original's times their unit's
 // factor, and the one branch taken on a current threshold is taken in both. (Had 50u stayed,
 // no scaled time would pass it and vlate would be 0; had 0.1m stayed, the scaled current,
@@ -237,6 +237,8 @@ TEST(ControlReference, ExpressionsInLetIfAndWhileKeepTheirMeaning) {
         "let vlate = vecmax(v(out)*(time gt 50u))\n"
         "let ilate = vecmax(-i(v1)*(time gt 30u))\n"
         "let tlast = vecmax(time) - 20u\n"
+        "let env = exp(-time/20u)\n"
+        "let elast = env[length(env) - 1]\n"
         "let w = 2*pi*1k\n"
         "let n = 0\n"
         "while n < 3\n"
@@ -246,7 +248,7 @@ TEST(ControlReference, ExpressionsInLetIfAndWhileKeepTheirMeaning) {
         "if ilate > 0.1m\n"
         "  let above = 1\n"
         "end\n"
-        "print vlate ilate tlast w n above\n"
+        "print vlate ilate tlast elast w n above\n"
         ".endc\n.end\n";
     const double km = 47, kf = 1024;
     auto s = test::scale_text(deck, km, kf, 15);
@@ -255,12 +257,13 @@ TEST(ControlReference, ExpressionsInLetIfAndWhileKeepTheirMeaning) {
     NgspiceRun a = run_ngspice(deck, dir, "orig", {});
     NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {});
     compare_results(a, b,
-                    {{"vlate", 1}, {"ilate", 1 / km}, {"tlast", 1 / kf}, {"w", 1}, {"n", 1},
-                     {"above", 1}},
+                    {{"vlate", 1}, {"ilate", 1 / km}, {"tlast", 1 / kf}, {"elast", 1}, {"w", 1},
+                     {"n", 1}, {"above", 1}},
                     1e-6);
     EXPECT_GT(a.results.at("vlate"), 0.99);  // 1 - exp(-4): the late part is there
     EXPECT_EQ(a.results.at("n"), 3);
     EXPECT_EQ(a.results.at("above"), 1);  // 1 mA exp(-2) = 0.135 mA > 0.1 mA
+    EXPECT_NEAR(a.results.at("elast"), std::exp(-5.0), 1e-6);  // exp(-100u/20u)
 }
 
 // altermod of a diode model's parameters (manual 17.5.4) as its .model card's rewrite scales

@@ -64,6 +64,22 @@ TEST(ControlUnits, CoefficientsIndicesAndExponentsArePure) {
     EXPECT_EQ(units_of("let l = log10(2)\n"), (V{"2 0 0"}));
 }
 
+// A number times or over a quantity takes its unit from what the product meets: in exp(),
+// sin() or a comparison; only when nothing tells is it a coefficient. (Binding every such
+// number pure at once kept the 1k of sin(2*pi*1k*time), a frequency, as written.)
+TEST(ControlUnits, ANumberInAProductTakesItsUnitFromWhatTheProductMeets) {
+    EXPECT_EQ(units_of("let d = exp(-time/1m)\n"), (V{"1m 0 -1"}));
+    EXPECT_EQ(units_of("let g = exp(frequency*2u)\n"), (V{"2u 0 -1"}));
+    // Against another number nothing tells which carries the unit: the coefficient stays and
+    // the number compared takes the current's unit (the same branch either way).
+    EXPECT_EQ(units_of("if i(v1)*2k > 1\nend\n"), (V{"2k c", "1 -1 0"}));
+    EXPECT_EQ(units_of("if i(v1)*2k > v(out)\nend\n"), (V{"2k 1 0"}));
+    EXPECT_EQ(units_of("if 2*time > 1m\nend\n"), (V{"2 c", "1m 0 -1"}));
+    // Which of 2 and 1k would carry the frequency is not known: refused, not kept.
+    EXPECT_EQ(units_of("let s = sin(2*pi*1k*time)\n"), (V{"2 ?", "1k ?"}));
+    EXPECT_EQ(units_of("let s = sin(6283*time)\n"), (V{"6283 0 1"}));
+}
+
 TEST(ControlUnits, VariablesCarryOneUnitThroughTheBlock) {
     // The use comes after the definition, or before it: the block is read whole.
     EXPECT_EQ(units_of("let t0 = 2m\nif time[1] > t0\nend\n"), (V{"2m 0 -1", "1 0 0"}));
