@@ -119,7 +119,7 @@ struct Term {
     bool constant = false;  // made of numbers and pi only
     bool pi = false;        // holds the constant pi
     std::string name;       // for opaque terms: what is not known
-    int var = -1;           // a fixed term read from a variable: the variable's slot
+    int var = -1;  // a fixed term read from a variable, or a scaled term of one: its slot
 };
 
 Term fixed(UnitExponents e, bool constant = false) {
@@ -283,7 +283,7 @@ private:
     Term settle(const Term& t) {
         if (t.kind != Term::scaled) return t;
         slots_.bind(t.s, kPure);
-        coefficient_slots_.push_back({t.s, !t.pi});
+        coefficient_slots_.push_back({t.s, !t.pi && t.var < 0});
         return fixed(t.e);
     }
 
@@ -317,16 +317,13 @@ private:
                 t.k = c == &b && sign < 0 ? -1 : 1;
                 int ko = c == &a && sign < 0 ? -1 : 1;
                 t.e = {ko * other->e.km, ko * other->e.kf};
+                t.var = other->var;  // the quantity is a variable's: no note when it settles
                 return t;
             }
-            // A coefficient of a variable or of what is not known here.
-            if (c->kind == Term::slot) {
-                Term coefficient;
-                coefficient.kind = Term::scaled;
-                coefficient.s = c->s;
-                coefficient.pi = c->pi;
-                settle(coefficient);
-            }
+            // A coefficient of a variable (the product then has the variable's unit, so
+            // anything else it meets with another unit is caught there) or of what is not
+            // known here (whatever the product meets is refused): no note.
+            if (c->kind == Term::slot) slots_.bind(c->s, kPure);
             Term r = *other;
             if (r.kind == Term::fixed && c == &b && sign < 0) return r;
             if (r.kind == Term::fixed && c == &a && sign < 0)
@@ -655,6 +652,46 @@ void taint_substituted(const Card& c, const std::string& cmd, Slots& slots,
     }
 }
 
+// Commands that read a vector by its name only to show, write or transform it: a let
+// variable named there is no use of its unit.
+bool shows_only(const std::string& cmd) {
+    static constexpr std::array<std::string_view, 20> names = {
+        "print", "echo",    "plot",    "asciiplot", "gnuplot", "hardcopy", "wrdata",
+        "write", "wrs2p",   "display", "destroy",   "unlet",   "setplot",  "linearize",
+        "fft",   "psd",     "settype", "meas",      "measure", "save"};
+    for (auto n : names)
+        if (n == cmd) return true;
+    return false;
+}
+
+// A let variable named by another command: `alter dev = var` gives it the unit of what it
+// sets (an ngspice alter value may be a vector: manual 17.5.3); any other command but those
+// that only show a vector reads it in a way not followed here.
+void read_by_name(const Card& c, const std::string& cmd, Slots& slots,
+                  const std::map<std::string, int>& vars) {
+    if (shows_only(cmd)) return;
+    std::optional<std::size_t> alter_value;
+    std::optional<UnitExponents> alter_unit;
+    if (cmd == "alter") {
+        AlterTarget t = alter_target(c);
+        if (t.form_known && t.unit) {
+            alter_value = t.value;
+            alter_unit = exponents(*t.unit);
+        }
+    }
+    for (std::size_t i = 1; i < c.fields.size(); ++i) {
+        if (c.fields[i].kind != TokenKind::word) continue;
+        auto it = vars.find(to_lower(c.field_text(i)));
+        if (it == vars.end()) continue;
+        if (alter_value && i == *alter_value)
+            slots.bind(it->second, *alter_unit);
+        else
+            slots.fail(it->second, fmt::format("its variable '{}' is read by '{}', whose "
+                                               "reading of it is not followed",
+                                               it->first, cmd));
+    }
+}
+
 }  // namespace
 
 std::vector<std::vector<ExpressionLiteral>> control_expression_units(
@@ -691,6 +728,7 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
             from = 1;
         } else {
             taint_substituted(c, cmd, slots, vars);
+            read_by_name(c, cmd, slots, vars);
             continue;
         }
         std::optional<Token> span = expression_span(c, from);

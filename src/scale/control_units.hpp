@@ -17,8 +17,10 @@
 // both decks and are kept. A number is not known, and refused, where it meets a vector whose
 // unit is not known here (a bare node name, `@r1[i]`, a `set` variable), where one variable
 // meets two units, where a product of numbers would have to carry a unit (which of them?), and
-// where a variable's value is read by another command through `$var` (its use there is not
-// followed).
+// where a variable's value is read by another command through `$var`, or by name (its use
+// there is not followed), except `alter dev = var`, which gives the variable the unit of what
+// it sets (manual 17.5.3: the value may be a vector), and commands that only show or write a
+// vector (print, plot, wrdata, meas, ...).
 #pragma once
 
 #include <optional>

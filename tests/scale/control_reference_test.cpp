@@ -266,6 +266,41 @@ TEST(ControlReference, ExpressionsInLetIfAndWhileKeepTheirMeaning) {
     EXPECT_NEAR(a.results.at("elast"), std::exp(-5.0), 1e-6);  // exp(-100u/20u)
 }
 
+// A resistor stepped by a while loop through a let variable that alter reads (manual 17.5.3:
+// the value may be a vector): the variable takes the unit of R1 (x Km), so does the bound it
+// is compared with, and the factor it is multiplied by stays. Each pass measures the corner;
+// ngspice finds the same number of passes and each corner at Kf f. (Before the variable's
+// unit was followed, every number of the loop was refused.)
+TEST(ControlReference, ALoopVariableThatAlterReadsTakesTheElementsUnit) {
+    const std::string deck =
+        "rc corner over resistors chosen in a loop\n"
+        "V1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 100n\n"
+        ".control\n"
+        "let rval = 500\n"
+        "let passes = 0\n"
+        "while rval < 3k\n"
+        "  alter r1 = rval\n"
+        "  ac dec 20 10 100k\n"
+        "  meas ac fc when vdb(out) = -3\n"
+        "  let passes = passes + 1\n"
+        "  let rval = rval * 2\n"
+        "end\n"
+        "print passes\n"
+        ".endc\n.end\n";
+    const double km = 10, kf = 100;
+    auto s = test::scale_text(deck, km, kf, 15);
+    ASSERT_TRUE(s.result.unscalable.empty());
+    EXPECT_NE(s.text().find("let rval = 5000\n"), std::string::npos) << s.text();
+    EXPECT_NE(s.text().find("while rval < 30k\n"), std::string::npos) << s.text();
+    test::TempDir dir;
+    NgspiceRun a = run_ngspice(deck, dir, "orig", {});
+    NgspiceRun b = run_ngspice(s.text(), dir, "scaled", {});
+    // The last pass (R = 2k): 1 / (2 pi 2k 100n) = 796 Hz.
+    compare_results(a, b, {{"passes", 1}, {"fc", kf}}, 1e-6);
+    EXPECT_EQ(a.results.at("passes"), 3);
+    EXPECT_NEAR(a.results.at("fc"), 1 / (2 * std::numbers::pi * 2e3 * 100e-9), 5);
+}
+
 // altermod of a diode model's parameters (manual 17.5.4) as its .model card's rewrite scales
 // them: IS stays (the instance's m = 1/Km carries the magnitude), CJO and TT divide by Kf.
 // ngspice runs both decks: the DC curve after the first altermod and the AC response after

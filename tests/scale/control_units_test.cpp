@@ -80,6 +80,18 @@ TEST(ControlUnits, ANumberInAProductTakesItsUnitFromWhatTheProductMeets) {
     EXPECT_EQ(units_of("let s = sin(6283*time)\n"), (V{"6283 0 1"}));
 }
 
+// A let variable named by another command: `alter dev = var` gives it the unit of what it
+// sets; a command that only shows it says nothing; any other reading is not followed.
+TEST(ControlUnits, AVariableNamedByAnotherCommand) {
+    EXPECT_EQ(units_of("let rval = 500\nwhile rval < 3k\nalter r1 = rval\n"
+                       "let rval = rval * 2\nend\n"),
+              (V{"500 1 0", "3k 1 0", "2 0 0"}));
+    EXPECT_EQ(units_of("let c = 1n\nalter c1 c\n"), (V{"1n -1 -1"}));
+    EXPECT_EQ(units_of("let x = 1m\nplot v(out) vs x\n"), (V{"1m 0 0"}));
+    EXPECT_EQ(units_of("let x = 1m\nstop when time > x\n"), (V{"1m ?"}));
+    EXPECT_EQ(units_of("let x = 1m\nalter r1 = x\nalter c1 = x\n"), (V{"1m ?"}));
+}
+
 TEST(ControlUnits, VariablesCarryOneUnitThroughTheBlock) {
     // The use comes after the definition, or before it: the block is read whole.
     EXPECT_EQ(units_of("let t0 = 2m\nif time[1] > t0\nend\n"), (V{"2m 0 -1", "1 0 0"}));
