@@ -145,6 +145,12 @@ void scale_alter(ScalePass& p, const Card& c, const BlockState& st) {
         refuse_literal(p, c, 1, t.why);
         return;
     }
+    // A let variable as the value whose unit is not known (scale/control_units.hpp).
+    if (st.index < st.expressions.size() && !st.expressions[st.index].empty()) {
+        for (const auto& l : st.expressions[st.index])
+            p.unscalable(l.at, fmt::format("'{}' in 'alter': {}", c.text(l.at), l.why));
+        return;
+    }
     const Token& v = f[t.value];
     if (first_literal(c.text(v)) == std::string_view::npos &&
         c.text(v).find('$') == std::string_view::npos)

@@ -320,10 +320,16 @@ private:
                 t.var = other->var;  // the quantity is a variable's: no note when it settles
                 return t;
             }
-            // A coefficient of a variable (the product then has the variable's unit, so
-            // anything else it meets with another unit is caught there) or of what is not
-            // known here (whatever the product meets is refused): no note.
-            if (c->kind == Term::slot) slots_.bind(c->s, kPure);
+            // A coefficient of a variable: the product has the variable's unit, so anything
+            // else it meets with another unit is caught there; no note. Of what is not known
+            // here: not known either (the product may end where no number shows, as the
+            // value an `alter` reads by name).
+            if (c->kind == Term::slot && other->kind == Term::opaque)
+                slots_.fail(c->s, fmt::format("it multiplies or divides '{}', whose unit is not "
+                                              "known here",
+                                              other->name));
+            else if (c->kind == Term::slot)
+                slots_.bind(c->s, kPure);
             Term r = *other;
             if (r.kind == Term::fixed && c == &b && sign < 0) return r;
             if (r.kind == Term::fixed && c == &a && sign < 0)
@@ -665,11 +671,14 @@ bool shows_only(const std::string& cmd) {
 }
 
 // A let variable named by another command: `alter dev = var` gives it the unit of what it
-// sets (an ngspice alter value may be a vector: manual 17.5.3); any other command but those
-// that only show a vector reads it in a way not followed here.
-void read_by_name(const Card& c, const std::string& cmd, Slots& slots,
-                  const std::map<std::string, int>& vars) {
-    if (shows_only(cmd)) return;
+// sets (an ngspice alter value may be a vector: manual 17.5.3; returned, so that a variable
+// whose unit ends not known refuses the alter); any other command but those that only show a
+// vector reads it in a way not followed here.
+std::optional<std::pair<Token, int>> read_by_name(const Card& c, const std::string& cmd,
+                                                  Slots& slots,
+                                                  const std::map<std::string, int>& vars) {
+    std::optional<std::pair<Token, int>> altered;
+    if (shows_only(cmd)) return altered;
     std::optional<std::size_t> alter_value;
     std::optional<UnitExponents> alter_unit;
     if (cmd == "alter") {
@@ -683,13 +692,15 @@ void read_by_name(const Card& c, const std::string& cmd, Slots& slots,
         if (c.fields[i].kind != TokenKind::word) continue;
         auto it = vars.find(to_lower(c.field_text(i)));
         if (it == vars.end()) continue;
-        if (alter_value && i == *alter_value)
+        if (alter_value && i == *alter_value) {
             slots.bind(it->second, *alter_unit);
-        else
+            altered = {c.fields[i], it->second};
+        } else
             slots.fail(it->second, fmt::format("its variable '{}' is read by '{}', whose "
                                                "reading of it is not followed",
                                                it->first, cmd));
     }
+    return altered;
 }
 
 }  // namespace
@@ -709,6 +720,7 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
         Token at;
         int slot;
         bool readable;
+        bool name = false;  // a variable's name (an alter value): listed only when not known
     };
     std::vector<Pending> pending;
     std::vector<std::pair<int, bool>> coefficients;
@@ -728,7 +740,8 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
             from = 1;
         } else {
             taint_substituted(c, cmd, slots, vars);
-            read_by_name(c, cmd, slots, vars);
+            if (auto a = read_by_name(c, cmd, slots, vars))
+                pending.push_back({k, a->first, a->second, true, true});
             continue;
         }
         std::optional<Token> span = expression_span(c, from);
@@ -784,6 +797,7 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
                 l.why = "a variable of the block meets quantities of two units";
             }
         }
+        if (p.name && l.exponents) continue;
         if (l.exponents && same(*l.exponents, kPure) && p.slot >= 0)
             l.coefficient = noted.count(slots.find(p.slot)) > 0;
         out[p.command].push_back(std::move(l));

@@ -42,8 +42,10 @@ struct ExpressionLiteral {
 };
 
 // For each command of a block (as cards, in block order): the numbers of its expression, in
-// text order, for let, if, while and dowhile; empty for every other command, and for `let`
-// of the special vectors of linearize and cutout (lin-tstart, ...), which scale_let handles.
+// text order, for let, if, while and dowhile; for `alter dev = var`, the variable's name when
+// its unit is not known (that alter is then refused); empty for every other command, and for
+// `let` of the special vectors of linearize and cutout (lin-tstart, ...), which scale_let
+// handles.
 std::vector<std::vector<ExpressionLiteral>> control_expression_units(
     const std::vector<Card>& commands);
 

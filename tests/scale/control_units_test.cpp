@@ -89,7 +89,12 @@ TEST(ControlUnits, AVariableNamedByAnotherCommand) {
     EXPECT_EQ(units_of("let c = 1n\nalter c1 c\n"), (V{"1n -1 -1"}));
     EXPECT_EQ(units_of("let x = 1m\nplot v(out) vs x\n"), (V{"1m 0 0"}));
     EXPECT_EQ(units_of("let x = 1m\nstop when time > x\n"), (V{"1m ?"}));
-    EXPECT_EQ(units_of("let x = 1m\nalter r1 = x\nalter c1 = x\n"), (V{"1m ?"}));
+    EXPECT_EQ(units_of("let x = 1m\nalter r1 = x\nalter c1 = x\n"), (V{"1m ?", "x ?", "x ?"}));
+    // A value alter reads whose unit is not known refuses the alter; a number times what is
+    // not known here is not known either (before, it was kept as a coefficient, and the alter
+    // set the original's value).
+    EXPECT_EQ(units_of("let x = deriv(v(out))\nalter c1 = x\n"), (V{"x ?"}));
+    EXPECT_EQ(units_of("let x = $v*1m\nalter c1 = x\n"), (V{"1m ?", "x ?"}));
 }
 
 TEST(ControlUnits, VariablesCarryOneUnitThroughTheBlock) {
