@@ -241,6 +241,17 @@ void scale_command(ScalePass& p, const Card& c, BlockState& st) {
 
 }  // namespace
 
+std::optional<bool> ScalePass::several_control_blocks() {
+    if (observing_ || !deck_) return std::nullopt;
+    if (!several_blocks_) {
+        std::size_t n = 0;
+        for (std::size_t f = 0; f < deck_->files.size() && n < 2; ++f)
+            deck_->visit_file(f, [&](const Card& c) { n += c.kind == CardKind::control; });
+        several_blocks_ = n > 1;
+    }
+    return several_blocks_;
+}
+
 void scale_control_block(ScalePass& p) {
     const Card& block = p.card();
     const Token* t = control_token(block);
@@ -255,7 +266,12 @@ void scale_control_block(ScalePass& p) {
     cards.reserve(commands.size());
     for (const auto& cmd : commands) cards.push_back(cmd.as_card(*block.file));
     st.foreach_units = foreach_units(cards);
-    st.expressions = control_expression_units(cards);
+    std::optional<bool> several = p.several_control_blocks();
+    ControlUnits units = control_expression_units(cards, several.value_or(false));
+    // While reading, other blocks may follow: numbers kept for variables nothing in this
+    // block tells the unit of are decided by the pass over the complete deck.
+    if (units.free_variables && !several) p.rescan_when_complete();
+    st.expressions = std::move(units.by_command);
     for (std::size_t i = 0; i < commands.size(); ++i) {
         st.index = i;
         p.with_command(cards[i], commands[i].line_begin, [&] { scale_command(p, cards[i], st); });

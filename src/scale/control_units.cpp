@@ -31,11 +31,12 @@ std::string unit_text(UnitExponents e) {
 // has one; a slot ends bound to exponents, unbound, or bad (with a reason).
 class Slots {
 public:
-    int make() {
+    int make(bool variable = false) {
         parent_.push_back(static_cast<int>(parent_.size()));
         dim_.emplace_back();
         why_.emplace_back();
         product_.push_back(false);
+        variable_.push_back(variable);
         return parent_.back();
     }
     int find(int s) {
@@ -56,6 +57,7 @@ public:
         if (a == b) return;
         parent_[b] = a;
         product_[a] = product_[a] || product_[b];
+        variable_[a] = variable_[a] || variable_[b];
         if (why_[a].empty()) why_[a] = why_[b];
         if (dim_[b]) bind(a, *dim_[b]);
     }
@@ -83,6 +85,12 @@ public:
                 fail(static_cast<int>(s), met_[s]);
     }
 
+    // A slot with a variable and no unit: what its numbers are is told by nothing here.
+    bool free_variable(int s) {
+        s = find(s);
+        return variable_[s] && !dim_[s] && why_[s].empty();
+    }
+
     // The outcome for a number of slot s.
     void resolve(int s, ExpressionLiteral& l) {
         s = find(s);
@@ -104,6 +112,7 @@ private:
     std::vector<std::optional<UnitExponents>> dim_;
     std::vector<std::string> why_;
     std::vector<bool> product_;
+    std::vector<bool> variable_;
     std::vector<std::string> met_;
 };
 
@@ -705,15 +714,15 @@ std::optional<std::pair<Token, int>> read_by_name(const Card& c, const std::stri
 
 }  // namespace
 
-std::vector<std::vector<ExpressionLiteral>> control_expression_units(
-    const std::vector<Card>& commands) {
+ControlUnits control_expression_units(const std::vector<Card>& commands, bool other_blocks) {
     Slots slots;
     std::map<std::string, int> vars;
     for (const auto& c : commands) {
         if (c.fields.empty() || !iequals(c.field_text(0), "let")) continue;
         std::size_t equals = 0;
         std::string name = let_target(c, equals);
-        if (!name.empty() && !special_let(name) && !vars.count(name)) vars[name] = slots.make();
+        if (!name.empty() && !special_let(name) && !vars.count(name))
+            vars[name] = slots.make(true);
     }
     struct Pending {
         std::size_t command;
@@ -784,12 +793,22 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
     std::unordered_set<int> noted;  // roots of the slots kept as coefficients with a note
     for (const auto& [s, note] : coefficients)
         if (note) noted.insert(slots.find(s));
-    std::vector<std::vector<ExpressionLiteral>> out(commands.size());
+    ControlUnits units;
+    auto& out = units.by_command;
+    out.resize(commands.size());
     for (const auto& p : pending) {
         ExpressionLiteral l;
         l.at = p.at;
         if (!p.readable) {
             l.why = "the expression is not one whose units deckscale reads";
+        } else if (slots.free_variable(p.slot)) {
+            units.free_variables = true;
+            if (other_blocks)
+                l.why = "nothing in its .control block tells the unit of its variable, and "
+                        "another .control block of the deck may read it (a variable's unit is "
+                        "not followed across blocks)";
+            else
+                l.exponents = kPure;
         } else {
             slots.resolve(p.slot, l);
             if (l.exponents && broken) {
@@ -802,7 +821,7 @@ std::vector<std::vector<ExpressionLiteral>> control_expression_units(
             l.coefficient = noted.count(slots.find(p.slot)) > 0;
         out[p.command].push_back(std::move(l));
     }
-    return out;
+    return units;
 }
 
 }  // namespace deckscale

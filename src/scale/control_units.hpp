@@ -41,12 +41,21 @@ struct ExpressionLiteral {
     bool coefficient = false;
 };
 
-// For each command of a block (as cards, in block order): the numbers of its expression, in
-// text order, for let, if, while and dowhile; for `alter dev = var`, the variable's name when
-// its unit is not known (that alter is then refused); empty for every other command, and for
-// `let` of the special vectors of linearize and cutout (lin-tstart, ...), which scale_let
-// handles.
-std::vector<std::vector<ExpressionLiteral>> control_expression_units(
-    const std::vector<Card>& commands);
+struct ControlUnits {
+    // For each command of a block (in block order): the numbers of its expression, in text
+    // order, for let, if, while and dowhile; for `alter dev = var`, the variable's name when
+    // its unit is not known (that alter is then refused); empty for every other command, and
+    // for `let` of the special vectors of linearize and cutout (lin-tstart, ...), which
+    // scale_let handles.
+    std::vector<std::vector<ExpressionLiteral>> by_command;
+    // Numbers of variables whose unit nothing in the block tells were kept: right only if no
+    // other .control block of the deck reads those variables (vectors outlive their block).
+    bool free_variables = false;
+};
+
+// `other_blocks`: the deck has another .control block; the numbers of variables whose unit
+// nothing in this block tells are then not known (a variable's unit is not followed across
+// blocks).
+ControlUnits control_expression_units(const std::vector<Card>& commands, bool other_blocks);
 
 }  // namespace deckscale

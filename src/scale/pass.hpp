@@ -168,6 +168,9 @@ public:
     std::optional<std::pair<double, double>> sweep_bounds(std::string_view analysis);
     std::optional<Unit> block_dc_unit;  // set by a 'dc' command of the block being read
     bool block_dc_seen = false;
+    // Whether the deck has more than one .control block (looked up once per run; nullopt
+    // while observing: the complete deck decides, scale/control_units).
+    std::optional<bool> several_control_blocks();
 
     // True when a token can carry a value (number, {expr}, 'expr', parameter name).
     bool is_value_token(const Token& t) const;
@@ -250,6 +253,7 @@ private:
     const ParamPlan* plan_ = nullptr;
     std::vector<ParamUse> param_uses_;
     bool in_control_ = false;  // visiting a .control block
+    std::optional<bool> several_blocks_;  // several_control_blocks, once per run
 };
 
 // Card handlers, one per family.

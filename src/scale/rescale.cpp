@@ -58,6 +58,7 @@ void ScalePass::run(const Deck& deck) {
     mos_models_.reset();
     bjt_by_area_.reset();
     diode_by_model_.reset();
+    several_blocks_.reset();
     result_.edits.resize(deck.files.size());
     if (hold_) probe_shared_models(deck);
     for (std::size_t f = 0; f < deck.files.size(); ++f)

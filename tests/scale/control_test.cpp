@@ -303,6 +303,40 @@ TEST(ControlBlock, AltermodOfASemiconductorModelFollowsItsCard) {
     }
 }
 
+// A variable that nothing in its block gives a unit keeps its numbers only when the deck has
+// one .control block: vectors outlive their block, and another block may read it (here
+// `alter c1 = t0` would have set C1 to the original's 2m farads). Both with the deck read
+// first and with the one-pass reader, which cannot know of the later block when it meets
+// the first.
+TEST(ControlBlock, AVariableAnotherBlockMayReadIsRefused) {
+    const std::string one_block =
+        "two blocks\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 100n\n.control\nlet t0 = 2m\n"
+        ".endc\n.ac dec 10 1 1k\n.end\n";
+    const std::string two_blocks =
+        "two blocks\nV1 in 0 DC 0 AC 1\nR1 in out 1k\nC1 out 0 100n\n.control\nlet t0 = 2m\n"
+        ".endc\n.ac dec 10 1 1k\n.control\nalter c1 = t0\n.endc\n.end\n";
+    for (const auto* deck : {&one_block, &two_blocks}) {
+        bool several = deck == &two_blocks;
+        SCOPED_TRACE(several ? "two blocks" : "one block");
+        auto s = test::scale_text(*deck, 10, 1000);
+        MemoryFileSystem fs;
+        fs.add("deck.cir", *deck);
+        ScaleSettings settings;
+        settings.factors = {10, 1000};
+        settings.digits = 7;
+        ScaledDeck one = load_and_scale("deck.cir", fs, settings);
+        for (const auto& r : {s.result, one.result}) {
+            ASSERT_EQ(r.unscalable.size(), several ? 1u : 0u);
+            if (several)
+                EXPECT_EQ(render(r.unscalable[0]),
+                          "deck.cir:6:10: error: '2m' in 'let': nothing in its .control block "
+                          "tells the unit of its variable, and another .control block of the "
+                          "deck may read it (a variable's unit is not followed across "
+                          "blocks)\n  let t0 = 2m\n           ^~\n");
+        }
+    }
+}
+
 TEST(ControlBlock, LeaveUnscalableMarksEachLineOnce) {
     auto s = test::scale_text(kHead + "tran 1u 2m\nlet x = a + 5 ; let y = b - 2\n.endc\n.end\n",
                               10, 1000, 7, true);

@@ -15,7 +15,7 @@ namespace {
 
 // Each number of the block as "text km kf" (or "text ?" when not known, "text c" for a
 // coefficient kept), commands in order.
-std::vector<std::string> units_of(const std::string& body) {
+std::vector<std::string> units_of(const std::string& body, bool other_blocks = false) {
     MemoryFileSystem fs;
     fs.add("c.cir", "t\nV1 in 0 1\nR1 in out 1k\n.control\n" + body + ".endc\n.end\n");
     Deck d = load_deck("c.cir", fs);
@@ -27,7 +27,7 @@ std::vector<std::string> units_of(const std::string& body) {
             std::vector<ControlCommand> commands = control_commands(*c.file, t);
             std::vector<Card> cards;
             for (const auto& cmd : commands) cards.push_back(cmd.as_card(*c.file));
-            for (const auto& literals : control_expression_units(cards))
+            for (const auto& literals : control_expression_units(cards, other_blocks).by_command)
                 for (const auto& l : literals) {
                     std::string s(c.text(l.at));
                     if (!l.exponents)
@@ -95,6 +95,16 @@ TEST(ControlUnits, AVariableNamedByAnotherCommand) {
     // set the original's value).
     EXPECT_EQ(units_of("let x = deriv(v(out))\nalter c1 = x\n"), (V{"x ?"}));
     EXPECT_EQ(units_of("let x = $v*1m\nalter c1 = x\n"), (V{"1m ?", "x ?"}));
+}
+
+// A variable whose unit nothing in its block tells (a counter, a value only shown) keeps its
+// numbers; with another .control block in the deck, which may read it (vectors outlive their
+// block), they are not known.
+TEST(ControlUnits, FreeVariablesAreKeptOnlyInTheDecksOneBlock) {
+    EXPECT_EQ(units_of("let t0 = 1m\nlet n = 0\nif time > 2m\nend\n"),
+              (V{"1m 0 0", "0 0 0", "2m 0 -1"}));
+    EXPECT_EQ(units_of("let t0 = 1m\nlet n = 0\nif time > 2m\nend\n", true),
+              (V{"1m ?", "0 ?", "2m 0 -1"}));
 }
 
 TEST(ControlUnits, VariablesCarryOneUnitThroughTheBlock) {
