@@ -52,7 +52,10 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     request.kf = o.kf;
     request.sweep = o.sweep;
     request.drive = o.drive;
-    request.tolerances = {o.tolerance, o.tran_tolerance, o.tolerance_db, o.tolerance_deg};
+    request.tolerances.relative = o.tolerance;
+    request.tolerances.transient = o.tran_tolerance;
+    request.tolerances.db = o.tolerance_db;
+    request.tolerances.degrees = o.tolerance_deg;
     request.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
     request.memory_mb = o.memory_mb;
     request.max_step = o.max_step;

@@ -26,7 +26,10 @@ PairRequest request_of(const Deck& original, const Deck& scaled, const VerifyOpt
     r.kf = o.kf.value_or(1);
     r.sweep = o.sweep;
     r.drive = o.drive;
-    r.tolerances = {o.tolerance, o.tran_tolerance, o.tolerance_db, o.tolerance_deg};
+    r.tolerances.relative = o.tolerance;
+    r.tolerances.transient = o.tran_tolerance;
+    r.tolerances.db = o.tolerance_db;
+    r.tolerances.degrees = o.tolerance_deg;
     r.timeout = std::chrono::milliseconds(static_cast<long>(o.timeout_s * 1000));
     r.memory_mb = o.memory_mb;
     if (!std::isfinite(o.max_step) || o.max_step < 0)

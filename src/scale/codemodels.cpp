@@ -134,6 +134,9 @@ std::shared_ptr<const CodeModelUses> collect_code_model_uses(const Deck& deck, S
             if (!read_ports(connection_items(c), s.specs, s.ports, why, &s.nodes)) return;
             for (const auto& n : s.nodes)
                 if (!is_digital(n.type) && n.type != "vnam") uses->analog_nodes.insert(n.node);
+            if (s.type->type == "lcouple" || s.type->type == "core")
+                for (std::size_t i = s.type->type == "lcouple" ? 2 : 0; i < s.nodes.size(); ++i)
+                    uses->magnetic_nodes.insert(s.nodes[i].node);
             seen.push_back(std::move(s));
         });
     type_real_nets(seen, f);

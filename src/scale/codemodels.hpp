@@ -37,6 +37,8 @@ struct CodeModelUses {
     // Words of element cards other than V, X and A sources: such an element on a magnetic loop
     // (between lcouple and core) would relate its flux and mmf by a fixed value.
     std::set<std::string> loop_breaking_nodes;
+    // The mmf nodes of magnetic loops: lcouple's mmf_out port and core's (notes §5).
+    std::set<std::string> magnetic_nodes;
 };
 
 // Reads the deck's A devices; null when the deck declares no model of a code-model type.

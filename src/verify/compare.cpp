@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 #include <fmt/ranges.h>
 
+#include "base/text_util.hpp"
 #include "verify/event_timing.hpp"
 #include "verify/helper_vectors.hpp"
 #include "verify/ringing.hpp"
@@ -57,8 +58,12 @@ void note_internal_states(const SimPlot& o, Comparison& c) {
         if (internal_state(v, o)) c.not_compared.push_back(v.name);
 }
 
-// Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents.
-double back_factor(const SimVector& v, double km) {
+// Factor that maps a scaled-deck value back onto the original: 1 for voltages, Km for currents,
+// Km Kf for the flux of a magnetic loop.
+double back_factor(const SimVector& v, double km, const Tolerances& tol) {
+    if (v.kind == VectorKind::current && !tol.flux_currents.empty() &&
+        tol.flux_currents.count(to_lower(v.name)))
+        return km * tol.kf;
     return v.kind == VectorKind::current || current_as_voltage(v) ? km : 1;
 }
 
@@ -122,7 +127,8 @@ void excuse_gmin_level(const SimPlot& o, const SimPlot& s, double km, const Tole
         const SimVector* vs = s.find(r.name);
         double scaled_peak = 0;
         if (vs)
-            for (const auto& x : vs->values) scaled_peak = std::max(scaled_peak, std::abs(x) * km);
+            for (const auto& x : vs->values)
+                scaled_peak = std::max(scaled_peak, std::abs(x) * back_factor(*vs, km, tol));
         if (!(scaled_peak <= level)) continue;
         r.passed = true;
         r.gmin_level = true;
@@ -213,7 +219,7 @@ Comparison compare_ac(const SimPlot& o, const SimPlot& s, double km, double kf, 
     for (const auto& [po, vs] : pairs_to_compare(o, s, c)) {
         const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
-        double back = back_factor(vo, km);
+        double back = back_factor(vo, km, tol);
         // Magnitudes (hypot), dB and phases are costly: each is computed where it can matter.
         // A squared magnitude (std::norm) well below the square of the largest so far cannot
         // become the largest; any other point is judged exactly as every point would be.
@@ -277,7 +283,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
     for (const SimPlot* p : {&o, &s})
         for (const auto& v : p->vectors)
             if (compared(v, *p) && !v.values.empty()) {
-                double x = std::abs(v.values[0]) * (p == &s ? back_factor(v, km) : 1);
+                double x = std::abs(v.values[0]) * (p == &s ? back_factor(v, km, tol) : 1);
                 double& m = v.kind == VectorKind::current ? imax : vmax;
                 m = std::max(m, x);
             }
@@ -285,7 +291,7 @@ Comparison compare_op(const SimPlot& o, const SimPlot& s, double km, const Toler
         const SimVector& vo = *po;
         if (vo.values.empty() || vs->values.empty()) continue;
         VectorResult r{vo.name, vo.kind};
-        double a = vo.values[0].real(), b = vs->values[0].real() * back_factor(vo, km);
+        double a = vo.values[0].real(), b = vs->values[0].real() * back_factor(vo, km, tol);
         // Relative to the value itself, but never to less than a millionth of the largest
         // value of its kind (a node at 0 V must not make 1e-15 V look like an error).
         double scale = std::max(std::fabs(a), 1e-6 * (vo.kind == VectorKind::current ? imax : vmax));
@@ -339,7 +345,7 @@ Comparison compare_dc(const SimPlot& o, const SimPlot& s, double km, double swee
     for (const auto& [po, vs] : pairs_to_compare(o, s, c)) {
         const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
-        double back = back_factor(vo, km);
+        double back = back_factor(vo, km, tol);
         for (std::size_t k = 0; k < n && k < vo.values.size(); ++k)
             r.peak = std::max(r.peak, std::fabs(vo.values[k].real()));
         double floor = std::max(r.peak, noise_floor(vo.kind));
@@ -407,7 +413,7 @@ Comparison compare_tran(const SimPlot& o, const SimPlot& s, double km, double kf
     for (const auto& [po, vs] : pairs) {
         const SimVector& vo = *po;
         VectorResult r{vo.name, vo.kind};
-        double back = back_factor(vo, km);
+        double back = back_factor(vo, km, tol);
         for (const auto& x : vo.values) r.peak = std::max(r.peak, std::fabs(x.real()));
         double floor = std::max(r.peak, noise_floor(vo.kind));
         if (floor == 0) floor = 1e-300;

@@ -4,6 +4,7 @@
 // vector's largest magnitude (AC, transient) or to its own value (operating point).
 #pragma once
 
+#include <set>
 #include <string>
 #include <vector>
 
@@ -30,6 +31,11 @@ struct Tolerances {
     // points are compared with the runs allowed up to two of their longest time steps apart
     // (verify/event_timing.hpp).
     bool event_driven = false;
+    // Branch currents (lower-case vector names, "vflux#branch") of voltage sources on a
+    // magnetic loop: a loop's current is its flux, scaled by 1/(Km Kf) (scale/codemodels.hpp),
+    // so the scaled run's is mapped back by Km Kf; `kf` is that Kf.
+    std::set<std::string> flux_currents;
+    double kf = 1;
 };
 
 constexpr double kGminLevels = 10;

@@ -9,6 +9,7 @@
 #include "deck/analyses.hpp"
 #include "deck/load.hpp"
 #include "scale/codemodel_rules.hpp"
+#include "scale/codemodels.hpp"
 #include "scale/hold_items.hpp"
 #include "scale/hold_plan.hpp"
 #include "sim/head_start.hpp"
@@ -25,6 +26,28 @@
 
 namespace deckscale {
 namespace {
+
+// The branch currents of the voltage sources whose nodes are all on magnetic loops (or
+// ground): a loop's current is its flux (scale/codemodels.hpp), "vflux#branch".
+std::set<std::string> flux_currents(const Deck& deck) {
+    std::set<std::string> out;
+    auto uses = collect_code_model_uses(deck, {});
+    if (!uses || uses->magnetic_nodes.empty()) return out;
+    auto on_loop = [&](std::string_view node) {
+        std::string n = to_lower(node);
+        return n == "0" || n == "gnd" || uses->magnetic_nodes.count(n) > 0;
+    };
+    for (std::size_t f = 0; f < deck.files.size(); ++f)
+        deck.visit_file(f, [&](const Card& c) {
+            if (c.kind != CardKind::element || c.fields.size() < 3 ||
+                ascii_lower(c.field_text(0)[0]) != 'v')
+                return;
+            if (on_loop(c.field_text(1)) && on_loop(c.field_text(2)))
+                out.insert(to_lower(c.field_text(0)) + "#branch");
+        });
+    return out;
+}
+
 
 namespace fs = std::filesystem;
 
@@ -152,6 +175,8 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         }
         // Values are written with 7 significant digits by default: 1e-5 is well above that.
         report.mismatches = check_ratios(vo, vs, report.km, report.kf, 1e-5);
+        report.tolerances.flux_currents = flux_currents(original);
+        report.tolerances.kf = report.kf;
 
         DeckAnalyses an = find_analyses(original);
         for (const auto& p : an.problems) report.notes.push_back(p + " (not compared)");

@@ -6,6 +6,7 @@
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
+#include "base/text_util.hpp"
 #include "scale/expression.hpp"
 #include "verify/held_report.hpp"
 #include "verify/meas_compare.hpp"
@@ -172,7 +173,9 @@ std::string report_text(const VerifyReport& r) {
         // "info" below).
         // The name column fits the longest name shown ("(x Km)" marks a current).
         std::size_t width = 22;
-        for (const auto& v : c.vectors) width = std::max(width, v.name.size() + 8);
+        for (const auto& v : c.vectors)
+            width = std::max(width, v.name.size() +
+                                        (r.tolerances.flux_currents.count(to_lower(v.name)) ? 11 : 8));
         if (ac_like(c))
             s += fmt::format("    {:<{}} {:>12} {:>14} {:>12} {:>12}\n", "vector", width, "rel. error", "at Hz",
                              "mag. dB", "phase deg");
@@ -186,9 +189,10 @@ std::string report_text(const VerifyReport& r) {
         for (const auto& v : c.vectors) {
             if (shown >= 8 && v.passed && !v.gmin_level) continue;  // GMIN-level ones are shown
             ++shown;
-            std::string name = v.kind == VectorKind::current && c.analysis != "noise"
-                                   ? v.name + " (x Km)"
-                                   : v.name;
+            bool flux = r.tolerances.flux_currents.count(to_lower(v.name)) > 0;
+            std::string name = v.kind != VectorKind::current || c.analysis == "noise" ? v.name
+                               : flux ? v.name + " (x Km Kf)"
+                                      : v.name + " (x Km)";
             const char* verdict = !r.held.empty() ? "info"
                                   : v.gmin_level  ? "GMIN level"
                                   : v.passed      ? "ok"
