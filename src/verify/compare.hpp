@@ -31,6 +31,9 @@ struct Tolerances {
     // points are compared with the runs allowed up to two of their longest time steps apart
     // (verify/event_timing.hpp).
     bool event_driven = false;
+    // The original deck has XSPICE code models of any kind: a transient failure then says how
+    // to tell their time resolution from the rewrite's error.
+    bool code_models = false;
     // Branch currents (lower-case vector names, "vflux#branch") of voltage sources on a
     // magnetic loop: a loop's current is its flux, scaled by 1/(Km Kf) (scale/codemodels.hpp),
     // so the scaled run's is mapped back by Km Kf; `kf` is that Kf.

@@ -145,6 +145,9 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         report.tolerances.event_driven =
             std::any_of(original.symbols.models.begin(), original.symbols.models.end(),
                         [](const auto& m) { return event_driven_model(m.second); });
+        report.tolerances.code_models =
+            std::any_of(original.symbols.models.begin(), original.symbols.models.end(),
+                        [](const auto& m) { return find_code_model(m.second) != nullptr; });
         auto vo = element_values(original), vs = element_values(scaled);
         std::optional<HeldLine> held = find_held_line(scaled);
         if (held) {

@@ -494,6 +494,25 @@ TEST(CompareTran, EventDrivenEdgesAStepApartAgreeWithANote) {
     EXPECT_FALSE(compare_tran(original, staircase(kf, 4 * h, 1), 1, kf, events).passed());
 }
 
+// A transient failure in a deck with analog code models (an integrator that clips, say) says
+// how to tell the simulator's time resolution from the rewrite's error; without code models,
+// nothing is said.
+TEST(CompareTran, AFailureInADeckWithCodeModelsSaysHowToCheckTheStep) {
+    SimPlot original = tran_plot(grid(5e-3, 500), 1e-3, 1, 1e-3);
+    SimPlot wrong = tran_plot(grid(5e-3, 500), 1.01e-3, 1, 1e-3);
+    auto noted = [](const Comparison& c) {
+        return std::any_of(c.notes.begin(), c.notes.end(), [](const std::string& n) {
+            return n.starts_with("the deck's XSPICE code models integrate, limit or switch") &&
+                   n.find("(steps up to 1e-05 s here)") != std::string::npos;
+        });
+    };
+    Tolerances with;
+    with.code_models = true;
+    EXPECT_TRUE(noted(compare_tran(original, wrong, 1, 1, with)));
+    EXPECT_FALSE(noted(compare_tran(original, original, 1, 1, with)));  // passes: no note
+    EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
+}
+
 TEST(CompareTran, NoTimeVector) {
     SimPlot original = tran_plot(grid(1, 10), 1, 1, 1);
     SimPlot scaled = original;
