@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "base/output_file.hpp"
+#include "write/data_files.hpp"
 #include "cli/exit_codes.hpp"
 #include "cli/verify_command.hpp"
 #include "deck/load.hpp"
@@ -130,6 +131,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                                result.change_count, factor_text(o.km), factor_text(o.kf));
             for (const auto& f : plan.files) err << " " << f.path;
             err << "\n";
+            err << render(data_files_left_behind(deck, o.deck, output, disk));
         }
         if (o.km == 1 && o.kf == 1)
             err << "deckscale: note: Km = Kf = 1 (no --km or --kf given?): the deck is written "

@@ -9,9 +9,11 @@
 #include "base/output_file.hpp"
 #include "base/text_util.hpp"
 #include "cli/exit_codes.hpp"
+#include "deck/load.hpp"
 #include "sim/head_start.hpp"
 #include "verify/bode_plot.hpp"
 #include "verify/pair.hpp"
+#include "write/data_files.hpp"
 
 namespace deckscale {
 namespace {
@@ -77,7 +79,16 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     }
     for (const auto& p : v.problems) err << "deckscale: error: " << p << "\n";
     if (v.outcome == PairVerification::Outcome::bad_input) return exit_bad_input;
-    if (v.outcome == PairVerification::Outcome::sim_failed) return exit_sim_failed;
+    if (v.outcome == PairVerification::Outcome::sim_failed) {
+        // ngspice seldom says that a code model's data file is missing ("timestep too
+        // small"): name those beside the original but not beside the scaled deck.
+        try {
+            err << render(data_files_left_behind(load_deck(o.original, disk), o.original,
+                                                 o.scaled, disk));
+        } catch (const DeckError&) {
+        }
+        return exit_sim_failed;
+    }
 
     const VerifyReport& report = v.report;
     out << report_text(report);

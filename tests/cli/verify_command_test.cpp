@@ -110,6 +110,37 @@ TEST(VerifyCommand, DecksInDifferentFoldersWithTheirOwnIncludes) {
     EXPECT_EQ(r.exit_code, 0) << r.out << r.err;
 }
 
+// A filesource model reads its data file from the folder its deck runs in (ngspice 39 manual
+// 12.2.9). Scaled into another folder without the file, the scaled run fails with ngspice's
+// words, which do not name the file: scale and verify both say which file is left behind,
+// and with the file copied beside it the pair verifies.
+TEST(VerifyCommand, ADataFileLeftBehindIsNamed) {
+    TempDir dir;
+    write_bytes(dir.path() / "bench/rec.cir",
+                "recorded stimulus\n"
+                "a1 [%v src] play\n"
+                ".model play filesource(file=\"rec.txt\" timescale=1m amploffset=[0] "
+                "amplscale=[1])\n"
+                "R1 src out 1k\nC1 out 0 100n\n.tran 10u 3m\n.end\n");
+    write_bytes(dir.path() / "bench/rec.txt", "0 0\n1 1\n2 1\n3 0\n");
+    fs::create_directories(dir.path() / "out");
+    RunResult s = run_binary({"scale", "bench/rec.cir", "--km", "10", "--kf", "100", "-o",
+                              "out/rec.cir"},
+                             dir.path());
+    ASSERT_EQ(s.exit_code, 0) << s.err;
+    const std::string named = "note: model 'play' reads 'rec.txt' from the folder ngspice runs in";
+    EXPECT_NE(s.err.find(named), std::string::npos) << s.err;
+    RunResult v = run_binary({"verify", "bench/rec.cir", "out/rec.cir"}, dir.path());
+    EXPECT_EQ(v.exit_code, 3) << v.out << v.err;
+    EXPECT_NE(v.err.find("simulating out/rec.cir (tran) failed"), std::string::npos) << v.err;
+    EXPECT_EQ(v.err.find("simulating bench/rec.cir"), std::string::npos) << v.err;
+    EXPECT_NE(v.err.find(named), std::string::npos) << v.err;
+    write_bytes(dir.path() / "out/rec.txt", read_bytes(dir.path() / "bench/rec.txt"));
+    v = run_binary({"verify", "bench/rec.cir", "out/rec.cir"}, dir.path());
+    EXPECT_EQ(v.exit_code, 0) << v.out << v.err;
+    EXPECT_EQ(v.err.find(named), std::string::npos) << v.err;
+}
+
 TEST(VerifyCommand, ControlBlocksNeverRun) {
     struct Case {
         int line;
