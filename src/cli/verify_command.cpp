@@ -79,16 +79,21 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     }
     for (const auto& p : v.problems) err << "deckscale: error: " << p << "\n";
     if (v.outcome == PairVerification::Outcome::bad_input) return exit_bad_input;
-    if (v.outcome == PairVerification::Outcome::sim_failed) {
-        // ngspice seldom says that a code model's data file is missing ("timestep too
-        // small"): name those beside the original but not beside the scaled deck.
+    // ngspice hardly says that a code model's data file is missing: the run fails ("timestep
+    // too small") or gives values read from nowhere. Either way, name the files beside the
+    // original but not beside the scaled deck.
+    auto left_behind = [&] {
         try {
             err << render(data_files_left_behind(load_deck(o.original, disk), o.original,
                                                  o.scaled, disk));
         } catch (const DeckError&) {
         }
+    };
+    if (v.outcome == PairVerification::Outcome::sim_failed) {
+        left_behind();
         return exit_sim_failed;
     }
+    if (!v.report.passed()) left_behind();
 
     const VerifyReport& report = v.report;
     out << report_text(report);

@@ -111,8 +111,9 @@ TEST(VerifyCommand, DecksInDifferentFoldersWithTheirOwnIncludes) {
 }
 
 // A filesource model reads its data file from the folder its deck runs in (ngspice 39 manual
-// 12.2.9). Scaled into another folder without the file, the scaled run fails with ngspice's
-// words, which do not name the file: scale and verify both say which file is left behind,
+// 12.2.9). Scaled into another folder without the file, the scaled run fails ("timestep too
+// small") or, as seen under the sanitizers, runs on values read from nowhere and fails the
+// comparison; neither names the file: scale and verify both say which file is left behind,
 // and with the file copied beside it the pair verifies.
 TEST(VerifyCommand, ADataFileLeftBehindIsNamed) {
     TempDir dir;
@@ -131,8 +132,7 @@ TEST(VerifyCommand, ADataFileLeftBehindIsNamed) {
     const std::string named = "note: model 'play' reads 'rec.txt' from the folder ngspice runs in";
     EXPECT_NE(s.err.find(named), std::string::npos) << s.err;
     RunResult v = run_binary({"verify", "bench/rec.cir", "out/rec.cir"}, dir.path());
-    EXPECT_EQ(v.exit_code, 3) << v.out << v.err;
-    EXPECT_NE(v.err.find("simulating out/rec.cir (tran) failed"), std::string::npos) << v.err;
+    EXPECT_TRUE(v.exit_code == 3 || v.exit_code == 1) << v.out << v.err;
     EXPECT_EQ(v.err.find("simulating bench/rec.cir"), std::string::npos) << v.err;
     EXPECT_NE(v.err.find(named), std::string::npos) << v.err;
     write_bytes(dir.path() / "out/rec.txt", read_bytes(dir.path() / "bench/rec.txt"));
