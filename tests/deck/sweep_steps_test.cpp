@@ -165,6 +165,20 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
     EXPECT_FALSE(under.over_limit);
     EXPECT_FALSE(under.endless);
     EXPECT_EQ(under.values.size(), 4190000u);
+    // A sweep that moves away from its stop test's bound while the test passes (a falling
+    // lin sweep with a negative reltol; a falling dec sweep with a huge one): endless at
+    // once, nothing stepped (a slow input of the deck fuzz target, four million points per
+    // card).
+    for (SweepPoints away : {ac_points("lin", 201, 400e3, 51222, -3000),
+                             noise_points("lin", 201, 400e3, 51222, -3000),
+                             ac_points("dec", 10, 1e6, 1e3, 1e6)}) {
+        EXPECT_TRUE(away.endless);
+        EXPECT_FALSE(away.over_limit);
+        EXPECT_EQ(away.values.size(), 1u);
+    }
+    // With ngspice's default reltol the same falling sweeps stop at once: no points.
+    EXPECT_FALSE(ac_points("lin", 201, 400e3, 51222).endless);
+    EXPECT_TRUE(ac_points("lin", 201, 400e3, 51222).values.empty());
     SweepPoints dc = dc_points(1e20, 1e20 + 1e5, 1);  // 1e20 + 1 == 1e20
     EXPECT_TRUE(dc.endless);
     EXPECT_EQ(dc.values.size(), 1u);
