@@ -10,6 +10,7 @@
 #include "scale/codemodels.hpp"
 #include "scale/hold_items.hpp"
 #include "scale/hold_plan.hpp"
+#include "scale/hold_scan.hpp"
 #include "scale/pass.hpp"
 #include "scale/terminals.hpp"
 
@@ -71,7 +72,9 @@ void ScalePass::visit_holding(const Card& c) {
         visit_scoped(c, r);
         return;
     }
-    if (r->copy.empty()) {
+    if (refuse_include_in_held(c, *r)) return;
+    if (r->copy.empty() || file_ != r->file) {
+        // A file included inside a .subckt with a copy is refused at its include card.
         with_render(Render::held, nullptr, r->part, [&] { visit(c); });
         return;
     }
@@ -88,6 +91,29 @@ void ScalePass::visit_holding(const Card& c) {
     if (c.end() != r->end) return;
     std::string_view text = c.file->text();
     target().add(text, r->copy_at, 0, r->eol + apply_edits(text, copy, r->begin, r->copy_at));
+}
+
+bool ScalePass::refuse_include_in_held(const Card& c, const HoldRegion& r) {
+    if (c.kind != CardKind::dot || c.fields.size() < 2) return false;
+    const IncludeRef* inc = deck_->include_at(file_, c.fields[1].begin);
+    if (!inc) return false;
+    std::string why;
+    const std::string& name = hold_->parts[r.part].name;
+    if (!r.copy.empty())
+        why = fmt::format(".subckt {} is used by held and by scaled parts, and its scaled copy "
+                          "cannot include the file this card reads, which stays as written "
+                          "for the held ones: hold every instance of {} or none",
+                          name, name);
+    else if (hold_->file_region[inc->target_file] == shared_include)
+        why = fmt::format("the file this card reads inside held .subckt {} is included "
+                          "elsewhere too, where it is scaled: one file cannot be both; hold "
+                          "every use of it or none",
+                          name);
+    if (why.empty()) return false;
+    card_ = &c;
+    card_marked_ = false;
+    unscalable(c.fields[1], why);
+    return true;
 }
 
 void ScalePass::visit_scoped(const Card& c, const HoldRegion* r) {

@@ -70,6 +70,7 @@ class Planner {
                 scaled[r] = !plan_.regions[r].held || !plan_.regions[r].copy.empty();
             plan_.boundaries = boundary_warnings(deck_, scan_, held_, scaled, f_.km);
         }
+        plan_.file_region = scan_.file_region;
         plan_.held_line_at = scan_.title_end;
         plan_.held_line_eol = scan_.title_eol;
         return std::move(plan_);
@@ -278,6 +279,8 @@ class Planner {
 }  // namespace
 
 const HoldRegion* HoldPlan::region_at(std::size_t file, std::uint32_t offset) const {
+    if (file < file_region.size() && file_region[file] >= 0)
+        return &regions[static_cast<std::size_t>(file_region[file])];
     // The last region that starts at or before the offset (regions are in file order).
     auto after =
         std::upper_bound(regions.begin(), regions.end(), std::make_pair(file, offset),

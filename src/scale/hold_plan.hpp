@@ -6,6 +6,9 @@
 // deck or in the rewritten copy of its include file) that only the scaled X lines point at;
 // nested .subckt uses follow. A global .model used by held and scaled instances gets a scaled
 // copy the same way when scaling changes its card (shared notes "scaling-rules.md" §5).
+// A file included inside a .subckt belongs to its body: held with it, and refused at its
+// include card when it cannot stay as written (the .subckt has a scaled copy, or the file is
+// included elsewhere too).
 #pragma once
 
 #include <cstddef>
@@ -51,8 +54,12 @@ struct HoldPlan {
     std::vector<Diagnostic> boundaries;  // warnings where held parts meet scaled ones
     std::uint32_t held_line_at = 0;      // the top file's title line end
     std::string held_line_eol = "\n";
+    // Per file: the region it is included inside (its cards belong to it), -1, or
+    // shared_include (scale/hold_scan.hpp): included inside a .subckt and elsewhere too.
+    std::vector<int> file_region;
 
-    // The region holding `offset` of `file`, or null at the top level.
+    // The region holding `offset` of `file` (every offset of a file included inside a
+    // .subckt), or null at the top level.
     const HoldRegion* region_at(std::size_t file, std::uint32_t offset) const;
 };
 

@@ -49,9 +49,19 @@ struct HoldScan {
     std::map<std::string, std::vector<ScannedDefinition>> subckts, models;  // by lower name
     std::uint32_t title_end = 0;  // where the held line goes: the title's line end
     std::string title_eol = "\n";
+    // Per file: the region its cards belong to because the file is included inside that
+    // .subckt (ngspice reads an include in place); -1 at the top level; `shared_include`
+    // when it is included both inside a .subckt and elsewhere (or inside two), and is then
+    // scanned as top level. An included file's .subckts are local to that region.
+    std::vector<int> file_region;
 };
 
+inline constexpr int shared_include = -2;
+
 HoldScan scan_for_holds(const Deck& deck);
+
+// Where `file` is included inside a .subckt (the first such include), for messages.
+const IncludeRef* include_inside_region(const Deck& deck, const HoldScan& scan, std::size_t file);
 
 // Warnings at held parts that meet scaled parts through a node that carries current (scale/
 // hold_boundary.cpp). `held[i]` tells whether elements[i] is held; `scaled_regions[r]`

@@ -16,8 +16,8 @@ namespace deckscale {
 // One note per .subckt defined at the top level of its file that holds D, Q, J, Z or M
 // devices (itself or through the .subckts it calls), is called from the top level or from a
 // .subckt without such devices, and is not in `held` (lower-case names kept as written). At
-// the .subckt's name, in file order. A file included inside a .subckt is not looked into
-// (scale/hold_scan reads each file on its own): its devices do not count for that .subckt.
+// the .subckt's name, in file order. A file included inside a .subckt is part of its body
+// (scale/hold_scan), unless it is also included elsewhere: its devices then do not count.
 std::vector<Diagnostic> part_model_notes(const Deck& deck, const std::set<std::string>& held);
 
 }  // namespace deckscale

@@ -188,6 +188,8 @@ private:
         probe,   // scaled into a scratch set, only to see whether anything changes
     };
     void visit_holding(const Card& card);
+    // An include card inside held region `r` whose file cannot stay as written: refused.
+    bool refuse_include_in_held(const Card& c, const HoldRegion& r);
     void visit_scoped(const Card& card, const HoldRegion* region);
     void visit_element_scoped(const Card& card, const HoldRegion* region);
     // Runs `f` with the current card rendered `how` (into `into` for copy and probe; refusals

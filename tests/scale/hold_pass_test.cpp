@@ -132,6 +132,55 @@ TEST(HoldPassTest, SubcktInAnIncludeIsCopiedInTheIncludesCopy) {
                               ".ends amp_scaled\n");
 }
 
+// A file included inside a .subckt is part of its body (ngspice reads an include in place):
+// holding the .subckt keeps the file as written; its cards are not scaled as top-level ones.
+TEST(HoldPassTest, AFileIncludedInsideAHeldSubcktStaysAsWritten) {
+    const std::string body = "Rb in mid 100\nD1 mid out dm\nCb out 0 10p\n.model dm d cjo=2p\n";
+    const std::string deck =
+        "t\n.subckt buf in out\n.include body.inc\n.ends buf\nR1 a b 1k\nX1 b c buf\n"
+        "C1 c 0 1n\n.end\n";
+    Held h = scale_holding(deck, 10, 100, {"subckt:buf"}, {{"body.inc", body}});
+    EXPECT_TRUE(h.result.unscalable.empty());
+    EXPECT_EQ(h.texts[1], body);
+    EXPECT_TRUE(h.result.edits[1].empty());
+    EXPECT_EQ(h.text(),
+              "t\n* deckscale held: km=10 kf=100 items=subckt:buf\n.subckt buf in out\n"
+              ".include body.inc\n.ends buf\nR1 a b 10k\nX1 b c buf\nC1 c 0 1p\n.end\n");
+    // Two levels down, and held through its X line: the same.
+    Held deeper = scale_holding(deck, 10, 100, {"X1"},
+                                {{"body.inc", ".include more.inc\n"}, {"more.inc", body}});
+    EXPECT_TRUE(deeper.result.unscalable.empty());
+    EXPECT_EQ(deeper.texts[2], body);
+    // Its elements are inside the .subckt, not top-level parts to hold by name.
+    EXPECT_THROW(scale_holding(deck, 10, 100, {"Rb"}, {{"body.inc", body}}), DeckError);
+    // Not held: scaled with the rest.
+    Held scaled = scale_holding(deck, 10, 100, {"R1"}, {{"body.inc", body}});
+    EXPECT_EQ(scaled.texts[1],
+              "Rb in mid 1000\nD1 mid out dm m=0.1\nCb out 0 10f\n.model dm d cjo=20f\n");
+}
+
+// What cannot be both held and scaled is refused at the include card: the body of a .subckt
+// used by held and scaled parts (its scaled copy would read the same file), and a file
+// included inside a held .subckt and at the top level too.
+TEST(HoldPassTest, AnIncludeThatCannotStayAsWrittenIsRefused) {
+    const std::map<std::string, std::string> files = {{"body.inc", "Rb in out 100\n"}};
+    Held both = scale_holding(
+        "t\n.subckt buf in out\n.include body.inc\n.ends buf\nX1 a b buf\nX2 b c buf\n.end\n",
+        10, 100, {"X1"}, files);
+    ASSERT_EQ(both.result.unscalable.size(), 1u);
+    EXPECT_EQ(both.result.unscalable[0].line, 3u);
+    EXPECT_NE(both.result.unscalable[0].message.find("hold every instance of buf or none"),
+              std::string::npos);
+    Held twice = scale_holding(
+        "t\n.subckt buf in out\n.include body.inc\n.ends buf\n.include body.inc\n"
+        "X1 a b buf\n.end\n",
+        10, 100, {"subckt:buf"}, files);
+    ASSERT_EQ(twice.result.unscalable.size(), 1u);
+    EXPECT_EQ(twice.result.unscalable[0].line, 3u);
+    EXPECT_NE(twice.result.unscalable[0].message.find("included elsewhere too"),
+              std::string::npos);
+}
+
 // A model shared by a held and a scaled transistor: the scaled one gets a copy with its
 // charges divided by Kf; with Kf = 1 the card does not change, so no copy is needed.
 TEST(HoldPassTest, SharedModelIsCopiedOnlyWhenScalingChangesIt) {

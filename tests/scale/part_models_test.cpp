@@ -10,12 +10,13 @@ namespace {
 
 // The notes of a scaled deck that name a .subckt as a possible part model.
 std::vector<std::string> part_notes(const std::string& deck, double km, double kf,
-                                    std::vector<std::string> hold = {}) {
+                                    std::vector<std::string> hold = {},
+                                    const std::map<std::string, std::string>& files = {}) {
     ScaleSettings s;
     s.factors = {km, kf};
     s.hold = std::move(hold);
     std::vector<std::string> out;
-    for (const auto& d : test::scale_with(deck, s).result.notes)
+    for (const auto& d : test::scale_with(deck, s, files).result.notes)
         if (d.message.find("holds semiconductor devices") != std::string::npos)
             out.push_back(d.message.substr(0, d.message.find(" and is scaled")) + " @" +
                           std::to_string(d.line));
@@ -90,6 +91,23 @@ TEST(PartModelsTest, CallsThatLoopEndAndLocalDefinitionsStayInside) {
                               "x1 a inner\n.ends\n.model dd d\nv1 a 0 1\nxo a outer\n.end\n";
     EXPECT_EQ(part_notes(local, 2, 1),
               std::vector<std::string>{"'outer' holds semiconductor devices (d1) @2"});
+}
+
+// A file included inside a .subckt is part of its body, as ngspice reads it: its devices
+// count for that .subckt, and a .subckt defined in it is local to it.
+TEST(PartModelsTest, AFileIncludedInsideASubcktCountsForIt) {
+    const std::string deck = "t\n.subckt amp i o\n.include amp_body.inc\n.ends amp\n"
+                             "v1 a 0 dc 0.7 ac 1\nxa a out amp\nrl out 0 1k\n.end\n";
+    const std::map<std::string, std::string> flat = {
+        {"amp_body.inc", "q1 o i 0 n1\nr1 o 0 1k\n.model n1 npn\n"}};
+    EXPECT_EQ(part_notes(deck, 10, 1, {}, flat),
+              std::vector<std::string>{"'amp' holds semiconductor devices (q1) @2"});
+    EXPECT_TRUE(part_notes(deck, 10, 1, {"subckt:amp"}, flat).empty());
+    const std::map<std::string, std::string> nested = {
+        {"amp_body.inc", ".include stage.inc\nx1 i o stage\n"},
+        {"stage.inc", ".subckt stage p q\nd1 p q dd\n.model dd d\n.ends\n"}};
+    EXPECT_EQ(part_notes(deck, 10, 1, {}, nested),
+              std::vector<std::string>{"'amp' holds semiconductor devices (d1) @2"});
 }
 
 }  // namespace
