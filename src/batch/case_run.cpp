@@ -12,6 +12,7 @@
 #include "verify/held_report.hpp"
 #include "verify/noise_compare.hpp"
 #include "verify/pair.hpp"
+#include "write/data_files.hpp"
 #include "write/plan.hpp"
 
 namespace deckscale {
@@ -45,6 +46,8 @@ std::string make_scaled(const SuiteCase& c, const FactorTarget& f, const FileSys
     }
     std::string out = folder + "/" + fs::path(c.deck).stem().string() + "-scaled.cir";
     OutputPlan plan = plan_output(scaled.deck, std::move(scaled.result.edits), out, true);
+    add_data_files(plan, data_file_outputs(scaled.deck, scaled.result.data_files, out, files,
+                                           settings.digits));
     OutputBatch batch;
     for (const auto& file : plan.files) {
         auto produce = [&](ByteSink& sink) { produce_output(scaled.deck, plan, file, sink); };

@@ -5,7 +5,6 @@
 #include <fmt/format.h>
 
 #include "base/output_file.hpp"
-#include "write/data_files.hpp"
 #include "cli/exit_codes.hpp"
 #include "cli/verify_command.hpp"
 #include "deck/load.hpp"
@@ -14,6 +13,7 @@
 #include "scale/expression.hpp"
 #include "scale/noise_effect.hpp"
 #include "scale/rescale.hpp"
+#include "write/data_files.hpp"
 #include "write/plan.hpp"
 
 namespace deckscale {
@@ -91,6 +91,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
         }
         OutputPlan plan = plan_output(deck, std::move(result.edits), output, o.flatten);
         plan.parallel = o.threads != 1;
+        add_data_files(plan, data_file_outputs(deck, result.data_files, output, disk, o.digits));
         // Every file is written whole before any is renamed into place: an error or an
         // interruption leaves all the old files.
         OutputBatch batch;
@@ -131,7 +132,7 @@ int run_scale(const ScaleOptions& o, std::ostream& out, std::ostream& err) {
                                result.change_count, factor_text(o.km), factor_text(o.kf));
             for (const auto& f : plan.files) err << " " << f.path;
             err << "\n";
-            err << render(data_files_left_behind(deck, o.deck, output, disk));
+            err << render(data_files_left_behind(deck, o.deck, output, disk, result.data_files));
         }
         if (o.km == 1 && o.kf == 1)
             err << "deckscale: note: Km = Kf = 1 (no --km or --kf given?): the deck is written "

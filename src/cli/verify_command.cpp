@@ -84,7 +84,7 @@ int run_verify(const VerifyOptions& o, std::ostream& out, std::ostream& err) {
     // original but not beside the scaled deck.
     auto left_behind = [&] {
         try {
-            err << render(data_files_left_behind(load_deck(o.original, disk), o.original,
+            err << render(data_files_left_behind(load_deck(o.scaled, disk), o.original,
                                                  o.scaled, disk));
         } catch (const DeckError&) {
         }

@@ -11,6 +11,7 @@
 #include "scale/cautions.hpp"
 #include "scale/change_report.hpp"
 #include "scale/rescale.hpp"
+#include "write/data_files.hpp"
 
 namespace deckscale::api {
 namespace {
@@ -52,6 +53,9 @@ Scaled outputs(Deck original, ScaleResult& result, const ScaleOptions& o) {
     if (s.refusals.empty() || o.leave_unscalable) {
         OutputPlan plan = plan_output(deck, std::move(result.edits), o.output, o.flatten);
         plan.parallel = o.threads != 1;
+        add_data_files(plan, data_file_outputs(deck, result.data_files, o.output,
+                                               OverlayFileSystem(original.impl().memory),
+                                               o.digits));
         s.files = output_texts(deck, plan);
         s.changes_json = change_list_json(deck, result, {o.km, o.kf}, plan);
     } else {
@@ -78,7 +82,9 @@ std::vector<OutputText> output_texts(const deckscale::Deck& deck, const OutputPl
         StringSink sink(text);
         produce_output(deck, plan, f, sink);
         sink.flush();
-        files.push_back({f.path, deck.files[f.source_file].source->path(), std::move(text)});
+        files.push_back({f.path,
+                         f.origin.empty() ? deck.files[f.source_file].source->path() : f.origin,
+                         std::move(text)});
     }
     return files;
 }

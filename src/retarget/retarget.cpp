@@ -12,6 +12,7 @@
 #include "retarget/quantity.hpp"
 #include "scale/rescale.hpp"
 #include "verify/factor_inference.hpp"
+#include "write/data_files.hpp"
 #include "write/plan.hpp"
 
 namespace deckscale {
@@ -120,6 +121,8 @@ RetargetResult retarget(const RetargetRequest& o, const FileSystem& files) {
         return r;
     }
     OutputPlan plan = plan_output(scaled.deck, std::move(scaled.result.edits), o.output, false);
+    add_data_files(plan, data_file_outputs(scaled.deck, scaled.result.data_files, o.output, files,
+                                           settings.digits));
     OutputBatch batch;
     for (const auto& f : plan.files) {
         auto produce = [&](ByteSink& sink) { produce_output(scaled.deck, plan, f, sink); };

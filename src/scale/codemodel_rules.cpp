@@ -326,9 +326,6 @@ constexpr CodeModelRefusal kRefusals[] = {
      "table2d reads its axes from its data file, which is not rewritten: inputs must be voltages"},
     {"table3d", "inx*iny*inz",
      "table3d reads its axes from its data file, which is not rewritten: inputs must be voltages"},
-    {"d_source", "Kf",
-     "d_source reads its times from its input file, which is not rewritten: scale the file's "
-     "time column by 1/Kf"},
     {"spice2poly", "Km",
      "spice2poly coefficients depend on the powers of each term: write the E/F/G/H POLY card "
      "instead, ngspice builds this model from it"},

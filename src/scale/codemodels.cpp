@@ -278,6 +278,16 @@ bool scale_code_model(ScalePass& p) {
     if (!t) return false;
     ModelCard m;
     if (!read_model_card(p, *t, m)) return true;
+    if (t->type == "d_source" && differs(p.factors().kf, 1)) {
+        // Its times are in its input file, with no time-scale parameter: a rewritten copy.
+        const GivenParam* file = m.given_of("input_file");
+        if (!file || file->elements.size() != 1)
+            p.unscalable(file && file->key ? *file->key : c.fields[1],
+                         "d_source reads its times from its input_file, which is rewritten "
+                         "for the scaled deck: name it on the card");
+        else
+            p.copy_data_file(file->elements.front(), 1 / p.factors().kf);
+    }
     const CodeModelUses::Model* uses = nullptr;
     if (const CodeModelUses* all = p.code_model_uses()) {
         auto it = all->by_model.find(to_lower(c.field_text(1)));

@@ -143,6 +143,9 @@ public:
     void insert_after(std::uint32_t offset, std::string text, std::string_view field,
                       double factor);
     // Replaces a name (of a model or .subckt) by the name of its scaled copy.
+    // A data file the card names by `value` is rewritten (its times x `time_factor`) into a
+    // copy beside the output, and `value` renamed to it (write/data_files.hpp).
+    void copy_data_file(const Token& value, double time_factor);
     void rename(const Token& t, const std::string& name, std::string_view field);
     // Records an item that cannot be scaled exactly.
     void unscalable(const Token& at, std::string why);

@@ -404,6 +404,16 @@ void ScalePass::rename(const Token& t, const std::string& name, std::string_view
     edit(t.begin, t.size(), name, field, "", 1);
 }
 
+void ScalePass::copy_data_file(const Token& value, double time_factor) {
+    if (render_ == Render::held || render_ == Render::probe) return;
+    std::string_view v = card_->file->view(value.begin, value.end);
+    char quote = v.size() >= 2 && (v.front() == '"' || v.front() == '\'') ? v.front() : '\0';
+    std::string path(quote ? v.substr(1, v.size() - 2) : v);
+    std::string copy = scaled_copy_name(path);
+    rename(value, quote ? quote + copy + quote : copy, "data file (times x 1/Kf)");
+    result_.data_files.push_back({file_, value.begin, value.size(), path, copy, time_factor});
+}
+
 EditSet& ScalePass::target() {
     bool aside = render_ == Render::copy || render_ == Render::probe;
     return aside ? *render_edits_ : result_.edits[file_];

@@ -10,6 +10,7 @@
 #include "scale/held_part.hpp"
 #include "scale/param_plan.hpp"
 #include "scale/units.hpp"
+#include "write/data_files.hpp"
 #include "write/edit.hpp"
 
 namespace deckscale {
@@ -53,6 +54,7 @@ struct ScaleResult {
     std::vector<HeldPart> held;           // parts kept as written, and why (ScaleSettings::hold)
     std::vector<ParamDecision> params;    // how each .param / params: parameter was scaled
     bool semiconductors_scaled = false;   // a D, Q, J, Z or M device was rewritten
+    std::vector<DataFileCopy> data_files;  // rewritten data files the output deck names
 };
 
 // Throws DeckError for bad input (malformed numbers and the like).

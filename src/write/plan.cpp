@@ -32,7 +32,7 @@ std::string quoted_like(std::string_view original, const std::string& path) {
 
 void produce_output(const Deck& deck, const OutputPlan& plan, const OutputFile& file,
                     ByteSink& sink) {
-    if (file.flattened) {
+    if (file.flattened || !file.origin.empty()) {
         sink.write(file.content);
         return;
     }
@@ -65,7 +65,7 @@ OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const st
     std::vector<EditSet>& edits = plan.edits;
     std::size_t n = deck.files.size();
     if (flatten) {
-        plan.files.push_back({output, 0, true, flatten_deck(deck, edits)});
+        plan.files.push_back({output, 0, true, flatten_deck(deck, edits), ""});
         return plan;
     }
     // A file is copied if it changed or if it includes a file that is copied.
@@ -90,7 +90,7 @@ OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const st
                         "written beside it) or --flatten"));
                 }
         }
-        plan.files.push_back({"", 0, false, {}});
+        plan.files.push_back({"", 0, false, {}, ""});
         return plan;
     }
     fs::path out_dir = fs::absolute(fs::path(output)).parent_path();
@@ -125,8 +125,8 @@ OutputPlan plan_output(const Deck& deck, std::vector<EditSet> edits_in, const st
         edits[inc.from_file].add(from.text(), Edit{inc.path_token.begin, inc.path_token.size(), text});
     }
     for (std::size_t i = 1; i < n; ++i)
-        if (copied[i]) plan.files.push_back({new_path[i], i, false, {}});
-    plan.files.push_back({output, 0, false, {}});
+        if (copied[i]) plan.files.push_back({new_path[i], i, false, {}, ""});
+    plan.files.push_back({output, 0, false, {}, ""});
     return plan;
 }
 

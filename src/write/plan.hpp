@@ -17,6 +17,8 @@ struct OutputFile {
     std::size_t source_file = 0;  // index into Deck::files
     bool flattened = false;       // then `content` holds the whole deck
     std::string content;
+    std::string origin;  // a data file's copy (write/data_files.hpp): what it was read from,
+                         // and `content` holds it
 };
 
 struct OutputPlan {

@@ -226,8 +226,8 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
         {__LINE__,
          "a1 d null r dr\n.model dr d_to_real\na2 r %i(o1) m\na3 r %v(o2) m\n.model m real_to_v\n",
          "a real net here drives real_to_v outputs of different quantities"},
-        {__LINE__, "a1 [a] m\n.model m d_source(input_file=\"d.txt\")\n",
-         "d_source reads its times"},
+        {__LINE__, "a1 [a] m\n.model m d_source(input_load=1p)\n",
+         "d_source reads its times from its input_file"},
         {__LINE__, "a1 [%vd(a 0)] %vd(o 0) m\n.model m spice2poly(coef=[0 1])\n",
          "spice2poly coefficients depend on the powers"},
         {__LINE__, "a1 x o m\n.model m lmeter\n", "lmeter returns gain*1e12 H"},
@@ -265,6 +265,33 @@ TEST(CodeModelsTest, CasesThatCannotBeScaledExactlyAreRefusedWithTheirReason) {
         for (const auto& d : s.result.unscalable) all += d.message + "\n";
         EXPECT_NE(all.find(r.reason), std::string::npos) << all;
     }
+}
+
+// d_source has no time-scale parameter (shared notes "codemodel-rules.md" §3: "write a new
+// file"): its input file is named as a rewritten copy, once per card, with times x 1/Kf; a
+// held model keeps its file, and Kf = 1 needs no copy.
+TEST(CodeModelsTest, APatternSourceReadsARewrittenCopyOfItsFile) {
+    const std::string deck = "t\na1 [a b] m\n.model m d_source(input_file=\"pat/seq.txt\" "
+                             "input_load=1p)\n.end\n";
+    auto s = test::scale_text(deck, 7, 1000);
+    EXPECT_TRUE(s.result.unscalable.empty());
+    EXPECT_NE(s.text().find("input_file=\"seq-scaled.txt\""), std::string::npos) << s.text();
+    ASSERT_EQ(s.result.data_files.size(), 1u);
+    const DataFileCopy& copy = s.result.data_files.front();
+    EXPECT_EQ(copy.path, "pat/seq.txt");
+    EXPECT_EQ(copy.copy, "seq-scaled.txt");
+    EXPECT_DOUBLE_EQ(copy.time_factor, 1e-3);
+    EXPECT_EQ(deck.substr(copy.offset, copy.size), "\"pat/seq.txt\"");
+    EXPECT_TRUE(test::scale_text(deck, 7, 1).result.data_files.empty());
+    // Unquoted, it stays unquoted.
+    auto bare = test::scale_text("t\na1 [a] m\n.model m d_source(input_file=d/x.txt)\n.end\n", 2, 3);
+    EXPECT_NE(bare.text().find("input_file=x-scaled.txt)"), std::string::npos) << bare.text();
+    ScaleSettings held;
+    held.factors = {7, 1000};
+    held.hold = {"model:m"};
+    auto h = test::scale_with(deck, held);
+    EXPECT_TRUE(h.result.data_files.empty());
+    EXPECT_NE(h.text().find("input_file=\"pat/seq.txt\""), std::string::npos) << h.text();
 }
 
 TEST(CodeModelsTest, ClampsAllowWhatStaysInside) {
