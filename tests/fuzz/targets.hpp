@@ -19,8 +19,10 @@
 #include "scale/factor.hpp"
 #include "scale/rescale.hpp"
 #include "verify/sim_cards.hpp"
+#include "write/data_files.hpp"
 #include "write/edit.hpp"
 #include "write/flatten.hpp"
+#include "write/time_column.hpp"
 
 namespace deckscale::fuzz {
 
@@ -51,6 +53,9 @@ inline void deck(const std::uint8_t* data, std::size_t size) {
         for (std::size_t i = 0; i < one.deck.files.size(); ++i)
             apply_edits(one.deck.files[i].source->text(), one.result.edits[i]);
         flatten_deck(one.deck, one.result.edits);
+        // d_source files the deck names (sub.inc is one the input can name): rewritten.
+        data_file_outputs(one.deck, one.result.data_files, "out/deck-scaled.cir", fs,
+                          settings.digits);
         // One pass while reading equals a pass over the finished deck.
         ScaleResult two = scale_deck(one.deck, settings);
         require(apply_edits(one.deck.top().text(), one.result.edits[0]) ==
@@ -93,6 +98,8 @@ inline void number(const std::uint8_t* data, std::size_t size) {
     }
     parse_factor(text);
     substitute_variables(text, ScaleFactors{7, 3});
+    std::string why;
+    scale_time_column(text, 1.0 / 3, 9, why);
 }
 
 }  // namespace deckscale::fuzz
