@@ -109,6 +109,11 @@ void scale_passive(ScalePass& p, char letter) {
                              fmt::format("'{}' couples '{}', which is not an inductor of this deck",
                                          c.field_text(0), p.text(*atoms[i].value)));
         }
+        if (atoms.size() > 3 && !atoms[2].key && p.is_inductor(to_lower(p.text(*atoms[2].value))))
+            p.fail(*atoms[2].value,
+                   fmt::format("an ngspice 39 K card couples two inductors, and '{}' is a third "
+                               "(a form other simulators read): write one K card per pair",
+                               p.text(*atoms[2].value)));
         if (atoms.size() > 2 && !atoms[2].key) p.scale_value(*atoms[2].value, Unit::none, "value");
         return;
     }

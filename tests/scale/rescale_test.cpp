@@ -244,6 +244,20 @@ TEST(ScalerTest, RefusalTextForACouplingOfANonInductor) {
               "        ^~\n");
 }
 
+// ngspice 39 stops at a K card with a third inductor (tried: "Error on line 7"); other
+// simulators read it as coupling all three. An error (bad input), naming the third.
+TEST(ScalerTest, AKCardWithThreeInductorsIsAnErrorAtTheThird) {
+    try {
+        test::scale_text("t\nL1 a 0 1u\nL2 b 0 1u\nL3 c 0 1u\nK1 L1 L2 L3 0.9\n.end\n", 10, 1);
+        ADD_FAILURE() << "no error";
+    } catch (const DeckError& e) {
+        EXPECT_EQ(e.diagnostic().line, 5u);
+        EXPECT_EQ(e.diagnostic().column, 10u);
+        EXPECT_NE(e.diagnostic().message.find("couples two inductors, and 'L3' is a third"),
+                  std::string::npos);
+    }
+}
+
 TEST(ScalerTest, LeaveUnscalableMarksEachCardInItsLineEndStyle) {
     std::string lf = "t\nR1 a 0 1k\nY1 a 0 b 0 tm\n.end\n";
     auto s = test::scale_text(lf, 10, 1, 7, true);
