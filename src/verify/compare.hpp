@@ -34,6 +34,9 @@ struct Tolerances {
     // The original deck has XSPICE code models of any kind: a transient failure then says how
     // to tell their time resolution from the rewrite's error.
     bool code_models = false;
+    // The original deck has lossless lines (T): a transient failure then says how to tell
+    // their breakpoint timing from the rewrite's error (verify/compare_tran.cpp).
+    bool delay_lines = false;
     // Branch currents (lower-case vector names, "vflux#branch") of voltage sources on a
     // magnetic loop: a loop's current is its flux, scaled by 1/(Km Kf) (scale/codemodels.hpp),
     // so the scaled run's is mapped back by Km Kf; `kf` is that Kf.

@@ -51,6 +51,16 @@ std::set<std::string> flux_currents(const Deck& deck) {
 
 namespace fs = std::filesystem;
 
+bool has_lossless_line(const Deck& deck) {
+    bool any = false;
+    for (std::size_t f = 0; f < deck.files.size() && !any; ++f)
+        deck.visit_file(f, [&](const Card& c) {
+            any = any || (c.kind == CardKind::element && !c.fields.empty() &&
+                          ascii_lower(c.field_text(0)[0]) == 't');
+        });
+    return any;
+}
+
 struct PairJob {
     std::string analysis;  // "ac", "op", "tran", "noise", "dc", "tf", "sp", "disto"
     SimJob original, scaled;
@@ -145,6 +155,7 @@ PairVerification verify_pair(const PairRequest& o, const FileSystem& files,
         report.tolerances.event_driven =
             std::any_of(original.symbols.models.begin(), original.symbols.models.end(),
                         [](const auto& m) { return event_driven_model(m.second); });
+        report.tolerances.delay_lines = has_lossless_line(original);
         report.tolerances.code_models =
             std::any_of(original.symbols.models.begin(), original.symbols.models.end(),
                         [](const auto& m) { return find_code_model(m.second) != nullptr; });

@@ -513,6 +513,22 @@ TEST(CompareTran, AFailureInADeckWithCodeModelsSaysHowToCheckTheStep) {
     EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
 }
 
+TEST(CompareTran, AFailureInADeckWithLosslessLinesSaysHowToCheckTheStep) {
+    SimPlot original = tran_plot(grid(5e-3, 500), 1e-3, 1, 1e-3);
+    SimPlot wrong = tran_plot(grid(5e-3, 500), 1.01e-3, 1, 1e-3);
+    auto noted = [](const Comparison& c) {
+        return std::any_of(c.notes.begin(), c.notes.end(), [](const std::string& n) {
+            return n.starts_with("the deck's lossless lines (T) set a breakpoint") &&
+                   n.find("(up to 1e-05 s here)") != std::string::npos;
+        });
+    };
+    Tolerances with;
+    with.delay_lines = true;
+    EXPECT_TRUE(noted(compare_tran(original, wrong, 1, 1, with)));
+    EXPECT_FALSE(noted(compare_tran(original, original, 1, 1, with)));
+    EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
+}
+
 TEST(CompareTran, NoTimeVector) {
     SimPlot original = tran_plot(grid(1, 10), 1, 1, 1);
     SimPlot scaled = original;
