@@ -189,8 +189,8 @@ SweepRewrite rewrite_dc(const std::vector<std::string_view>& fields, double fact
     double y0 = ngspice_read(s0), ys = ngspice_read(ss);
     std::size_t n0 = original.values.size();
     auto count = [&](const std::string& s) {
-        SweepPoints p = dc_points(y0, ngspice_read(s), ys);
-        return p.endless ? ~std::size_t{0} : p.values.size();
+        SweepPoints p = dc_points(y0, ngspice_read(s), ys, true);
+        return p.endless ? ~std::size_t{0} : p.count;
     };
     if (n0 > 0 && count(s1) != n0) {
         // dctrcurv.c:218: the last point v[n0-1] must pass the stop test and v[n0] fail it,

@@ -41,8 +41,8 @@ SweepPoints ac_points(std::string_view type, double points, double fstart, doubl
                       double reltol = 1e-3, bool count_only = false);
 SweepPoints noise_points(std::string_view type, double points, double fstart, double fstop,
                          double reltol = 1e-3, bool count_only = false);
-// One level of a .dc sweep.
-SweepPoints dc_points(double start, double stop, double step);
+// One level of a .dc sweep (`count_only`: counted, values left empty).
+SweepPoints dc_points(double start, double stop, double step, bool count_only = false);
 // Number of points `linearize` makes of a transient; 0 when it refuses the times.
 long linearize_points(double tstep, double tstop, double tstart);
 

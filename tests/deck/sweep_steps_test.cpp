@@ -165,6 +165,13 @@ TEST(SweepSteps, AStepThatDoesNotMoveThePointIsEndlessAtOnce) {
     EXPECT_FALSE(under.over_limit);
     EXPECT_FALSE(under.endless);
     EXPECT_EQ(under.values.size(), 4190000u);
+    EXPECT_GE(under.values.capacity(), 4190000u);
+    EXPECT_LE(under.values.capacity(), 4190002u);  // reserved at once, not grown by doubling
+    // Counted only: the same count, nothing stored.
+    SweepPoints counted = dc_points(0, 4.19e6 - 1, 1, true);
+    EXPECT_EQ(counted.count, 4190000u);
+    EXPECT_TRUE(counted.values.empty());
+    EXPECT_EQ(counted.last, under.values.back());
     // A sweep that moves away from its stop test's bound while the test passes (a falling
     // lin sweep with a negative reltol; a falling dec sweep with a huge one): endless at
     // once, nothing stepped (a slow input of the deck fuzz target, four million points per
