@@ -164,21 +164,21 @@ TEST(HoldPassTest, AFileIncludedInsideAHeldSubcktStaysAsWritten) {
 // included inside a held .subckt and at the top level too.
 TEST(HoldPassTest, AnIncludeThatCannotStayAsWrittenIsRefused) {
     const std::map<std::string, std::string> files = {{"body.inc", "Rb in out 100\n"}};
-    Held both = scale_holding(
-        "t\n.subckt buf in out\n.include body.inc\n.ends buf\nX1 a b buf\nX2 b c buf\n.end\n",
-        10, 100, {"X1"}, files);
-    ASSERT_EQ(both.result.unscalable.size(), 1u);
-    EXPECT_EQ(both.result.unscalable[0].line, 3u);
-    EXPECT_NE(both.result.unscalable[0].message.find("hold every instance of buf or none"),
-              std::string::npos);
-    Held twice = scale_holding(
-        "t\n.subckt buf in out\n.include body.inc\n.ends buf\n.include body.inc\n"
-        "X1 a b buf\n.end\n",
-        10, 100, {"subckt:buf"}, files);
-    ASSERT_EQ(twice.result.unscalable.size(), 1u);
-    EXPECT_EQ(twice.result.unscalable[0].line, 3u);
-    EXPECT_NE(twice.result.unscalable[0].message.find("included elsewhere too"),
-              std::string::npos);
+    struct Case {
+        std::string deck, hold, reason;
+    };
+    for (const Case& c :
+         {Case{"t\n.subckt buf in out\n.include body.inc\n.ends buf\nX1 a b buf\nX2 b c buf\n"
+               ".end\n",
+               "X1", "hold every instance of buf or none"},
+          Case{"t\n.subckt buf in out\n.include body.inc\n.ends buf\n.include body.inc\n"
+               "X1 a b buf\n.end\n",
+               "subckt:buf", "included elsewhere too"}}) {
+        Held h = scale_holding(c.deck, 10, 100, {c.hold}, files);
+        ASSERT_EQ(h.result.unscalable.size(), 1u) << c.hold;
+        EXPECT_EQ(h.result.unscalable[0].line, 3u);
+        EXPECT_NE(h.result.unscalable[0].message.find(c.reason), std::string::npos);
+    }
 }
 
 // A model shared by a held and a scaled transistor: the scaled one gets a copy with its

@@ -497,36 +497,31 @@ TEST(CompareTran, EventDrivenEdgesAStepApartAgreeWithANote) {
 // A transient failure in a deck with analog code models (an integrator that clips, say) says
 // how to tell the simulator's time resolution from the rewrite's error; without code models,
 // nothing is said.
-TEST(CompareTran, AFailureInADeckWithCodeModelsSaysHowToCheckTheStep) {
+// A transient failure in a deck whose time resolution is its own (code models at the time
+// points, lossless lines' breakpoints) says how to tell that from the rewrite's error.
+TEST(CompareTran, AFailureInADeckWithCodeModelsOrLinesSaysHowToCheckTheStep) {
     SimPlot original = tran_plot(grid(5e-3, 500), 1e-3, 1, 1e-3);
     SimPlot wrong = tran_plot(grid(5e-3, 500), 1.01e-3, 1, 1e-3);
-    auto noted = [](const Comparison& c) {
-        return std::any_of(c.notes.begin(), c.notes.end(), [](const std::string& n) {
-            return n.starts_with("the deck's XSPICE code models integrate, limit or switch") &&
-                   n.find("(steps up to 1e-05 s here)") != std::string::npos;
-        });
+    struct Case {
+        bool Tolerances::*flag;
+        std::string start, step;
     };
-    Tolerances with;
-    with.code_models = true;
-    EXPECT_TRUE(noted(compare_tran(original, wrong, 1, 1, with)));
-    EXPECT_FALSE(noted(compare_tran(original, original, 1, 1, with)));  // passes: no note
-    EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
-}
-
-TEST(CompareTran, AFailureInADeckWithLosslessLinesSaysHowToCheckTheStep) {
-    SimPlot original = tran_plot(grid(5e-3, 500), 1e-3, 1, 1e-3);
-    SimPlot wrong = tran_plot(grid(5e-3, 500), 1.01e-3, 1, 1e-3);
-    auto noted = [](const Comparison& c) {
-        return std::any_of(c.notes.begin(), c.notes.end(), [](const std::string& n) {
-            return n.starts_with("the deck's lossless lines (T) set a breakpoint") &&
-                   n.find("(up to 1e-05 s here)") != std::string::npos;
-        });
-    };
-    Tolerances with;
-    with.delay_lines = true;
-    EXPECT_TRUE(noted(compare_tran(original, wrong, 1, 1, with)));
-    EXPECT_FALSE(noted(compare_tran(original, original, 1, 1, with)));
-    EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
+    for (const Case& k :
+         {Case{&Tolerances::code_models, "the deck's XSPICE code models integrate, limit or switch",
+               "(steps up to 1e-05 s here)"},
+          Case{&Tolerances::delay_lines, "the deck's lossless lines (T) set a breakpoint",
+               "(up to 1e-05 s here)"}}) {
+        auto noted = [&](const Comparison& c) {
+            return std::any_of(c.notes.begin(), c.notes.end(), [&](const std::string& n) {
+                return n.starts_with(k.start) && n.find(k.step) != std::string::npos;
+            });
+        };
+        Tolerances with;
+        with.*k.flag = true;
+        EXPECT_TRUE(noted(compare_tran(original, wrong, 1, 1, with))) << k.start;
+        EXPECT_FALSE(noted(compare_tran(original, original, 1, 1, with)));  // passes: no note
+        EXPECT_FALSE(noted(compare_tran(original, wrong, 1, 1, Tolerances{})));
+    }
 }
 
 TEST(CompareTran, NoTimeVector) {
